@@ -1,0 +1,91 @@
+"""Small numpy helpers shared by counting, estimation and the model file."""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+
+import numpy as np
+
+
+def offsets_dtype(largest: int) -> np.dtype:
+    """Return the narrowest unsigned dtype (uint32 or uint64) that holds offsets up to ``largest``."""
+    return np.dtype(np.uint32) if largest < 2**32 else np.dtype(np.uint64)
+
+
+def pack_strings(strings: Sequence[str]) -> tuple[np.ndarray, np.ndarray]:
+    """Pack strings into one UTF-8 blob and an offsets array.
+
+    Returns:
+        ``(blob, offsets)``: uint8 array of the concatenated UTF-8 bytes, and an
+        offsets array of shape (len(strings) + 1,) with string i at
+        ``blob[offsets[i]:offsets[i + 1]]``.
+    """
+    encoded = [s.encode("utf-8") for s in strings]
+    lengths = np.fromiter((len(e) for e in encoded), dtype=np.int64, count=len(encoded))
+    offsets = np.zeros(len(encoded) + 1, dtype=np.int64)
+    np.cumsum(lengths, out=offsets[1:])
+    blob = np.frombuffer(b"".join(encoded), dtype=np.uint8).copy()
+    return blob, offsets.astype(offsets_dtype(int(offsets[-1])))
+
+
+def unpack_string(blob: np.ndarray, offsets: np.ndarray, index: int) -> str:
+    """Return string ``index`` of a blob made by :func:`pack_strings`."""
+    return blob[int(offsets[index]) : int(offsets[index + 1])].tobytes().decode("utf-8")
+
+
+def group_starts(*columns: np.ndarray) -> np.ndarray:
+    """Return the row indices where a new group of equal rows begins.
+
+    Args:
+        columns: equal-length arrays, already sorted lexicographically by them.
+
+    Returns:
+        int64 array of the first row of each run of identical rows.
+    """
+    length = len(columns[0])
+    if length == 0:
+        return np.zeros(0, dtype=np.int64)
+    change = np.zeros(length, dtype=bool)
+    change[0] = True
+    for column in columns:
+        change[1:] |= column[1:] != column[:-1]
+    return np.flatnonzero(change)
+
+
+def aggregate_rows(columns: Sequence[np.ndarray], counts: np.ndarray, base: int) -> tuple[list[np.ndarray], np.ndarray]:
+    """Sort rows of small integer ids and sum the counts of identical rows.
+
+    Rows are packed into one int64 key when ``base ** len(columns)`` fits in 63
+    bits, otherwise sorted with a lexicographic sort.
+
+    Args:
+        columns: int32 arrays of ids, each id in ``[0, base)``.
+        counts: int64 array of the rows' counts.
+        base: one more than the largest id.
+
+    Returns:
+        The unique rows (sorted lexicographically) as int32 columns, and their summed counts.
+    """
+    if len(counts) == 0:
+        return [np.zeros(0, dtype=np.int32) for _ in columns], np.zeros(0, dtype=np.int64)
+    bits = max(1, int(base - 1).bit_length())
+    if bits * len(columns) <= 63:
+        key = np.zeros(len(counts), dtype=np.int64)
+        for column in columns:
+            key <<= bits
+            key |= column.astype(np.int64)
+        order = np.argsort(key, kind="stable")
+        key = key[order]
+        starts = group_starts(key)
+        summed = np.add.reduceat(counts[order], starts) if len(starts) else counts[:0]
+        unique = key[starts]
+        mask = (1 << bits) - 1
+        result = []
+        for shift in range(len(columns) - 1, -1, -1):
+            result.append(((unique >> (shift * bits)) & mask).astype(np.int32))
+        return result, summed.astype(np.int64)
+    order = np.lexsort(tuple(reversed(columns)))
+    sorted_columns = [column[order] for column in columns]
+    starts = group_starts(*sorted_columns)
+    summed = np.add.reduceat(counts[order], starts)
+    return [column[starts] for column in sorted_columns], summed.astype(np.int64)

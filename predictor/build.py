@@ -1,0 +1,103 @@
+"""Building a model: count a corpus, choose a vocabulary, estimate, index."""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Iterable
+
+from .counting import CorpusCounts, ProgressCallback, count_corpus
+from .errors import OptionError
+from .estimate import ENCODINGS, METHODS, fit_levels, model_counts
+from .model import LanguageModel
+from .vocabulary import vocabulary_sections
+
+
+def check_build_options(*, vocab_size: int | None, min_count: int, method: str, add: float, encoding: str | None) -> None:
+    """Reject build options before any corpus is read.
+
+    Raises:
+        OptionError: an option is out of range or unknown.
+    """
+    if method not in METHODS:
+        raise OptionError(f"unknown method {method!r}; choose one of {', '.join(METHODS)}")
+    if vocab_size is not None and vocab_size < 1:
+        raise OptionError(f"--vocab-size must be at least 1, not {vocab_size}")
+    if min_count < 1:
+        raise OptionError(f"--min-count must be at least 1, not {min_count}")
+    if method == "additive" and not add > 0:
+        raise OptionError(f"--add must be a positive number, not {add}")
+    if encoding is not None and encoding not in ENCODINGS:
+        raise OptionError(f"unknown value encoding {encoding!r}; choose one of {', '.join(ENCODINGS)}")
+
+
+def build(
+    paths: Iterable[str | os.PathLike[str]],
+    *,
+    vocab_size: int | None = None,
+    min_count: int = 1,
+    method: str = "kneser-ney",
+    add: float = 0.1,
+    wrapped: bool = False,
+    replace_bad_bytes: bool = False,
+    reject_binary: bool = False,
+    encoding: str | None = None,
+    progress: ProgressCallback | None = None,
+) -> LanguageModel:
+    """Build a model from corpus files or folders.
+
+    Args:
+        paths: the corpus.
+        vocab_size: keep the N most frequent words (None: all).
+        min_count: drop words seen fewer times.
+        method: one of :data:`predictor.METHODS`.
+        add: k for the ``additive`` method.
+        wrapped: treat single line breaks as spaces (hard-wrapped prose).
+        replace_bad_bytes: replace invalid UTF-8 instead of failing.
+        reject_binary: fail on binary files inside folders instead of skipping them.
+        encoding: stored value encoding, ``log16`` (default) or ``float32``.
+        progress: called with (bytes done, bytes in all) while reading.
+
+    Raises:
+        OptionError, CorpusError, EncodingError, CapacityError.
+    """
+    check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+    counts = count_corpus(paths, wrapped=wrapped, replace_bad_bytes=replace_bad_bytes, reject_binary=reject_binary, progress=progress)
+    model = build_from_counts(counts, vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+    model.meta["wrapped"] = wrapped
+    return model
+
+
+def build_from_counts(
+    counts: CorpusCounts,
+    *,
+    vocab_size: int | None = None,
+    min_count: int = 1,
+    method: str = "kneser-ney",
+    add: float = 0.1,
+    encoding: str | None = None,
+) -> LanguageModel:
+    """Build a model from counts already taken (several vocabularies from one count).
+
+    Raises:
+        OptionError, CorpusError, CapacityError.
+    """
+    check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+    chosen = counts.select_vocabulary(vocab_size, min_count)
+    vocabulary_counts = model_counts(counts, chosen)
+    sections, meta = fit_levels(vocabulary_counts, method, add=add, encoding=encoding)
+    size = vocabulary_counts.vocab_size
+    sections.update(vocabulary_sections(vocabulary_counts.words, vocabulary_counts.display, sections["p1"][:size]))
+    meta.update(
+        {
+            "vocab_size": size,
+            "corpus_tokens": counts.corpus_tokens,
+            "corpus_sentences": counts.sentences,
+            "corpus_files": counts.files,
+            "skipped_files": counts.skipped_files,
+            "requested_vocab_size": vocab_size,
+            "min_count": min_count,
+            "add": add if method == "additive" else None,
+            "wrapped": False,
+        }
+    )
+    return LanguageModel(sections, meta)

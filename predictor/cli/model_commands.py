@@ -1,0 +1,200 @@
+"""Commands that build, query and describe a model: build, suggest, score, info, check."""
+
+from __future__ import annotations
+
+import argparse
+import time
+from pathlib import Path
+
+from ..build import build
+from ..estimate import ENCODINGS, METHODS
+from ..modelfile import verify
+from ..model import load
+from .output import (
+    add_json_option,
+    open_model,
+    positive_int,
+    print_json,
+    progress_bar,
+    read_text_file,
+    split_model_argument,
+)
+
+
+def register(commands: argparse._SubParsersAction) -> None:
+    """Add the model commands to the parser."""
+    p = commands.add_parser(
+        "build",
+        help="build a model from corpus files or folders",
+        description="Build a smoothed trigram model from text files (one sentence per line by default). "
+        "Example: foretype build corpus/*.txt -o chat.model --vocab-size 20000",
+    )
+    p.add_argument("corpus", nargs="+", help="text files or folders of them")
+    p.add_argument("-o", "--output", required=True, help="the model file to write (replaced only when the build succeeds)")
+    p.add_argument("--vocab-size", type=positive_int, default=None, metavar="N", help="keep the N most frequent words")
+    p.add_argument("--min-count", type=positive_int, default=1, metavar="C", help="drop words seen fewer than C times (default 1)")
+    p.add_argument("--method", choices=METHODS, default="kneser-ney", help="estimator (default kneser-ney)")
+    p.add_argument("--add", type=float, default=0.1, metavar="K", help="k for --method additive (default 0.1)")
+    p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces, blank lines end sentences")
+    p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
+    p.add_argument("--reject-binary", action="store_true", help="fail on binary files inside folders instead of skipping them")
+    p.add_argument("--values", choices=ENCODINGS, default=None, help="stored value encoding (default log16; float32 for mle)")
+    add_json_option(p)
+    p.set_defaults(handler=run_build)
+
+    p = commands.add_parser(
+        "suggest",
+        help="top-k next words or completions for the text before the cursor",
+        description="Suggest words for the text before the cursor. If it ends inside a word, that word is completed; "
+        "if it ends in a space, the next word is predicted. "
+        'Example: foretype suggest chat.model "see you at the sta"',
+    )
+    p.add_argument("args", nargs="+", metavar="[MODEL] TEXT", help="model file (default: the demo model) and the text before the cursor")
+    p.add_argument("-k", type=positive_int, default=5, help="how many suggestions (default 5)")
+    add_json_option(p)
+    p.set_defaults(handler=run_suggest)
+
+    p = commands.add_parser(
+        "score",
+        help="cross-entropy, perplexity and OOV rate of a text",
+        description="Score a text file: cross-entropy in bits per token (words plus one end symbol per sentence), "
+        "perplexity and out-of-vocabulary rate. Example: foretype score chat.model heldout.txt",
+    )
+    p.add_argument("args", nargs="+", metavar="[MODEL] TEXTFILE")
+    p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces")
+    add_json_option(p)
+    p.set_defaults(handler=run_score)
+
+    p = commands.add_parser("info", help="facts about a model file", description="Describe a model: method, vocabulary, n-grams stored, size.")
+    p.add_argument("args", nargs="*", metavar="[MODEL]")
+    add_json_option(p)
+    p.set_defaults(handler=run_info)
+
+    p = commands.add_parser("check", help="verify every checksum of a model file", description="Fully verify a model file: header, structure and every section's checksum.")
+    p.add_argument("model")
+    add_json_option(p)
+    p.set_defaults(handler=run_check)
+
+
+def run_build(args: argparse.Namespace) -> int:
+    """foretype build."""
+    started = time.perf_counter()
+    with progress_bar("reading corpus") as update:
+        model = build(
+            args.corpus,
+            vocab_size=args.vocab_size,
+            min_count=args.min_count,
+            method=args.method,
+            add=args.add,
+            wrapped=args.wrapped,
+            replace_bad_bytes=args.replace_bad_bytes,
+            reject_binary=args.reject_binary,
+            encoding=args.values,
+            progress=update,
+        )
+    size = model.save(args.output)
+    seconds = time.perf_counter() - started
+    info = load(args.output).info()
+    tokens = info["corpus_tokens"]
+    summary = {
+        "model": str(Path(args.output)),
+        "method": info["method"],
+        "vocab_size": info["vocab_size"],
+        "ngrams": info["ngrams"],
+        "file_bytes": size,
+        "corpus_tokens": tokens,
+        "corpus_files": model.meta["corpus_files"],
+        "skipped_files": model.meta["skipped_files"],
+        "seconds": round(seconds, 3),
+        "tokens_per_second": round(tokens / seconds) if seconds > 0 else None,
+    }
+    if args.json:
+        print_json(summary)
+    else:
+        n = info["ngrams"]
+        skipped = f", skipped {summary['skipped_files']} binary files" if summary["skipped_files"] else ""
+        print(
+            f"wrote {summary['model']}: {info['method']}, {info['vocab_size']:,} words, "
+            f"{n['1']:,}/{n['2']:,}/{n['3']:,} uni/bi/trigrams, {size / 1e6:.1f} MB; "
+            f"{tokens:,} tokens from {summary['corpus_files']} files{skipped} in {seconds:.1f} s"
+        )
+    return 0
+
+
+def run_suggest(args: argparse.Namespace) -> int:
+    """foretype suggest."""
+    model_path, (text,) = split_model_argument(args.args, 1, "suggest")
+    model = open_model(model_path)
+    context, prefix = model.parse_cursor_text(text)
+    found = model.suggest_text(text, k=args.k)
+    if args.json:
+        print_json({"context": context, "prefix": prefix, "suggestions": [{"word": s.word, "prob": s.prob, "order": s.order} for s in found]})
+        return 0
+    shown = " ".join(context) if context else "(sentence start)"
+    print(f"context: {shown}   prefix: {prefix!r}")
+    if not found:
+        print("no vocabulary word matches")
+    for rank, s in enumerate(found, 1):
+        print(f"{rank:>3}  {s.word:<24} {s.prob:>10.6f}  {s.order}-gram")
+    return 0
+
+
+def run_score(args: argparse.Namespace) -> int:
+    """foretype score."""
+    model_path, (text_path,) = split_model_argument(args.args, 1, "score")
+    model = open_model(model_path)
+    result = model.score(read_text_file(text_path), wrapped=args.wrapped)
+    payload = {
+        "sentences": result.sentences,
+        "tokens": result.tokens,
+        "oov": result.oov,
+        "oov_rate": result.oov_rate,
+        "cross_entropy_bits": result.cross_entropy_bits,
+        "perplexity": result.perplexity,
+    }
+    if args.json:
+        print_json({k: (None if isinstance(v, float) and v != v or v == float("inf") else v) for k, v in payload.items()})
+        return 0
+    print(
+        f"{result.sentences:,} sentences, {result.tokens:,} tokens (words + one end per sentence), "
+        f"OOV {result.oov:,} ({result.oov_rate:.2%})\n"
+        f"cross-entropy {result.cross_entropy_bits:.4f} bits/token, perplexity {result.perplexity:.2f}"
+    )
+    return 0
+
+
+def run_info(args: argparse.Namespace) -> int:
+    """foretype info."""
+    model_path, _ = split_model_argument(args.args, 0, "info")
+    model = open_model(model_path)
+    info = model.info()
+    info["model"] = str(model.path) if model.path else None
+    if args.json:
+        print_json(info)
+        return 0
+    n = info["ngrams"]
+    print(
+        f"{info['model']}\n"
+        f"  format version   {info['format_version']}\n"
+        f"  method           {info['method']}  (values {info['value_encoding']})\n"
+        f"  vocabulary       {info['vocab_size']:,} words (+ unknown, end of sentence)\n"
+        f"  n-grams stored   {n['1']:,} unigrams, {n['2']:,} bigrams, {n['3']:,} trigrams\n"
+        f"  possible         {info['possible_trigrams']:.3g} trigrams over this vocabulary\n"
+        f"  file             {info['file_bytes']:,} bytes, {info['bytes_per_ngram']:.2f} bytes per stored n-gram\n"
+        f"  corpus           {info['corpus_tokens']:,} tokens"
+    )
+    return 0
+
+
+def run_check(args: argparse.Namespace) -> int:
+    """foretype check."""
+    loaded = verify(args.model)
+    from ..integrity import check_structure
+
+    check_structure(loaded)
+    sections = len(loaded.sections)
+    if args.json:
+        print_json({"model": args.model, "ok": True, "sections": sections, "file_bytes": loaded.file_bytes})
+    else:
+        print(f"{args.model}: ok ({sections} sections, {loaded.file_bytes:,} bytes, every checksum matches)")
+    return 0

@@ -1,0 +1,116 @@
+"""Shared pieces of the command line: model arguments, JSON output, progress."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from collections.abc import Callable, Iterator
+from contextlib import contextmanager
+from pathlib import Path
+from typing import Any
+
+from ..errors import OptionError
+from ..model import LanguageModel, load
+from ..modelfile import MAGIC
+
+
+def add_json_option(parser: argparse.ArgumentParser) -> None:
+    """Add ``--json``: print one JSON object on stdout instead of text."""
+    parser.add_argument("--json", action="store_true", help="print one JSON object on stdout")
+
+
+def print_json(payload: dict[str, Any]) -> None:
+    """Print one JSON object on stdout."""
+    print(json.dumps(payload, ensure_ascii=False, allow_nan=False, default=_jsonable))
+
+
+def _jsonable(value: Any) -> Any:
+    if hasattr(value, "item"):
+        return value.item()
+    raise TypeError(f"not JSON serialisable: {type(value).__name__}")
+
+
+def is_model_file(path: str) -> bool:
+    """Tell whether a path names a file that starts like a model file."""
+    try:
+        with open(path, "rb") as handle:
+            return handle.read(len(MAGIC)) == MAGIC
+    except OSError:
+        return False
+
+
+def split_model_argument(values: list[str], rest: int, command: str) -> tuple[str | None, list[str]]:
+    """Split positional arguments into an optional model path and the ``rest`` that follow it.
+
+    With ``rest + 1`` values the first is the model; with ``rest`` values the
+    demo model is meant.
+
+    Raises:
+        OptionError: any other number of values.
+    """
+    if len(values) == rest + 1:
+        return values[0], values[1:]
+    if len(values) == rest:
+        return None, values
+    raise OptionError(f"{command} takes {'[MODEL] ' + ' '.join(['ARG'] * rest) if rest else '[MODEL]'}; got {len(values)} arguments")
+
+
+def open_model(path: str | None, *, quiet: bool = False) -> LanguageModel:
+    """Load a model file, or the demo model when no path is given (building it on first use)."""
+    if path is not None:
+        return load(path)
+    from ..demo import demo_model, demo_model_path
+
+    if demo_model_path().exists() or quiet:
+        return demo_model()
+    with progress_bar("building the demo model (first use only)") as update:
+        return demo_model(progress=update)
+
+
+@contextmanager
+def progress_bar(label: str) -> Iterator[Callable[[int, int], None]]:
+    """A progress bar on stderr (only when stderr is a terminal); yields an update(done, total)."""
+    if not sys.stderr.isatty():
+        yield lambda done, total: None
+        return
+    from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeRemainingColumn
+    from rich.console import Console
+
+    with Progress(
+        TextColumn("{task.description}"),
+        BarColumn(),
+        TaskProgressColumn(),
+        TimeRemainingColumn(),
+        console=Console(stderr=True),
+        transient=True,
+    ) as progress:
+        task = progress.add_task(label, total=None)
+
+        def update(done: int, total: int) -> None:
+            progress.update(task, completed=done, total=total or None)
+
+        yield update
+
+
+def positive_int(text: str) -> int:
+    """argparse type: an integer of at least 1."""
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number, got {text!r}") from None
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"must be at least 1, got {value}")
+    return value
+
+
+def read_text_file(path: str) -> str:
+    """Read a UTF-8 text file for scoring or simulation.
+
+    Raises:
+        CorpusError / EncodingError: missing, binary or invalid UTF-8.
+    """
+    from ..corpus import iter_chunks, resolve_corpus
+
+    found = resolve_corpus([path])
+    return "".join(chunk for file in found.files for chunk in iter_chunks(Path(file)))

@@ -1,0 +1,133 @@
+"""Reading corpus files: streaming, UTF-8 checking, and folders of files.
+
+Files are read in chunks of whole lines, so a corpus of any size streams with
+bounded memory.  A file that is not valid UTF-8 is reported with its name and
+line number unless bad bytes are to be replaced.
+"""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Iterable, Iterator
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from .errors import CorpusError, EncodingError
+
+CHUNK_BYTES = 1 << 22
+"""How many bytes one chunk holds before it is extended to the next line break (4 MiB)."""
+
+_SNIFF_BYTES = 8192
+
+
+@dataclass
+class CorpusFiles:
+    """The text files a list of corpus paths names, after folders are expanded.
+
+    Attributes:
+        files: the files to read, in order.
+        skipped: files inside folders that were passed over as binary.
+    """
+
+    files: list[Path] = field(default_factory=list)
+    skipped: list[Path] = field(default_factory=list)
+
+
+def looks_binary(path: Path) -> bool:
+    """Tell whether a file looks like binary data (a NUL byte in its first 8 KiB)."""
+    with path.open("rb") as handle:
+        return b"\x00" in handle.read(_SNIFF_BYTES)
+
+
+def resolve_corpus(paths: Iterable[str | os.PathLike[str]], *, reject_binary: bool = False) -> CorpusFiles:
+    """Expand corpus paths into the list of files to read.
+
+    A folder stands for every non-hidden file below it, in sorted order; binary
+    files found there are skipped and counted (or rejected with ``reject_binary``).
+    A binary file named directly is always an error.
+
+    Args:
+        paths: files or folders.
+        reject_binary: fail on a binary file inside a folder instead of skipping it.
+
+    Returns:
+        The files to read and the files skipped.
+
+    Raises:
+        CorpusError: a path is missing or unreadable, names a binary file, or no
+            text file remains.
+    """
+    result = CorpusFiles()
+    for raw in paths:
+        path = Path(raw)
+        if path.is_dir():
+            for found in sorted(p for p in path.rglob("*") if p.is_file()):
+                if any(part.startswith(".") for part in found.relative_to(path).parts):
+                    continue
+                if _readable_binary(found):
+                    if reject_binary:
+                        raise CorpusError(f"{found}: binary file inside a corpus folder")
+                    result.skipped.append(found)
+                else:
+                    result.files.append(found)
+        elif path.exists():
+            if _readable_binary(path):
+                raise CorpusError(f"{path}: binary file, not text")
+            result.files.append(path)
+        else:
+            raise CorpusError(f"{path}: no such file or folder")
+    if not result.files:
+        raise CorpusError("no text files to read" + (f" ({len(result.skipped)} binary files skipped)" if result.skipped else ""))
+    return result
+
+
+def _readable_binary(path: Path) -> bool:
+    try:
+        return looks_binary(path)
+    except OSError as error:
+        raise CorpusError(f"{path}: cannot read ({error.strerror or error})") from None
+
+
+def iter_chunks(path: Path, *, replace_bad_bytes: bool = False, chunk_bytes: int = CHUNK_BYTES) -> Iterator[str]:
+    """Yield a text file as decoded chunks of whole lines.
+
+    Args:
+        path: the file.
+        replace_bad_bytes: replace invalid UTF-8 with U+FFFD instead of failing.
+        chunk_bytes: the chunk size before extending to the next line break.
+
+    Raises:
+        EncodingError: the file is not valid UTF-8 (names the file and line).
+        CorpusError: the file cannot be read.
+    """
+    errors = "replace" if replace_bad_bytes else "strict"
+    line_number = 1
+    try:
+        handle = path.open("rb")
+    except OSError as error:
+        raise CorpusError(f"{path}: cannot read ({error.strerror or error})") from None
+    with handle:
+        first = True
+        while True:
+            try:
+                data = handle.read(chunk_bytes)
+                if data and not data.endswith(b"\n"):
+                    data += handle.readline()
+            except OSError as error:
+                raise CorpusError(f"{path}: cannot read ({error.strerror or error})") from None
+            if not data:
+                return
+            if first and data.startswith(b"\xef\xbb\xbf"):
+                data = data[3:]
+            first = False
+            try:
+                text = data.decode("utf-8", errors)
+            except UnicodeDecodeError as error:
+                line = line_number + data.count(b"\n", 0, error.start)
+                bad = data[error.start]
+                raise EncodingError(
+                    f"{path}:{line}: not valid UTF-8 (byte 0x{bad:02x}); "
+                    "pass --replace-bad-bytes to replace such bytes"
+                ) from None
+            line_number += data.count(b"\n")
+            yield text

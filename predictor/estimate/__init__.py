@@ -1,0 +1,112 @@
+"""Estimators: from the counts of one vocabulary to the level arrays of a model."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+
+from ..arrays import offsets_dtype
+from ..errors import OptionError
+from .encoding import ENCODINGS, FLOAT32, LOG16, decode, encode
+from .katz import estimate_katz
+from .kneser_ney import estimate_kneser_ney
+from .layout import Layout, ModelCounts, context_totals, model_counts
+from .linear import estimate_linear
+from .result import Estimate
+from .simple import estimate_additive, estimate_mle
+
+METHODS = ("kneser-ney", "linear", "katz", "additive", "mle")
+"""The estimator names ``--method`` accepts; the first is the default."""
+
+__all__ = ["METHODS", "ENCODINGS", "ModelCounts", "model_counts", "fit_levels", "Estimate"]
+
+
+def estimate(counts: ModelCounts, method: str, add: float = 0.1) -> Estimate:
+    """Run one estimator on a vocabulary's counts.
+
+    Raises:
+        OptionError: unknown method or a non-positive ``add``.
+    """
+    if method == "kneser-ney":
+        return estimate_kneser_ney(counts)
+    if method == "linear":
+        return estimate_linear(counts)
+    if method == "katz":
+        return estimate_katz(counts)
+    if method == "additive":
+        if not add > 0:
+            raise OptionError(f"--add must be a positive number, not {add}")
+        return estimate_additive(counts, add)
+    if method == "mle":
+        return estimate_mle(counts)
+    raise OptionError(f"unknown method {method!r}; choose one of {', '.join(METHODS)}")
+
+
+def fit_levels(counts: ModelCounts, method: str, *, add: float = 0.1, encoding: str | None = None) -> tuple[dict[str, np.ndarray], dict[str, Any]]:
+    """Estimate a model and lay its levels out as model-file sections.
+
+    Args:
+        counts: the vocabulary's counts.
+        method: one of :data:`METHODS`.
+        add: k for ``additive``.
+        encoding: value encoding (:data:`ENCODINGS`); default log16, float32 for ``mle``.
+
+    Returns:
+        ``(sections, meta)``: the ``p1``, ``l2.*`` and ``l3.*`` arrays, and what
+        the header records about the estimate.
+    """
+    result = estimate(counts, method, add)
+    if encoding is None:
+        encoding = FLOAT32 if method == "mle" else LOG16
+    if encoding not in ENCODINGS:
+        raise OptionError(f"unknown value encoding {encoding!r}; choose one of {', '.join(ENCODINGS)}")
+    layout = counts.layout
+    p1 = (result.p1 / result.p1.sum()).astype(np.float32)
+    a2 = encode(result.a2, encoding)
+    a3 = encode(result.a3, encoding)
+    g2 = _lower_weights(result, decode(a2), p1.astype(np.float64)[layout.bigram_w], layout.bigram_off, result.g2)
+    lower3 = _level2_of_rows(result.interpolated, decode(a2), g2, p1, layout, counts)
+    g3 = _lower_weights(result, decode(a3), lower3, layout.trigram_off, result.g3)
+    sections = {
+        "p1": p1,
+        "l2.off": layout.bigram_off.astype(offsets_dtype(layout.n2)),
+        "l2.word": layout.bigram_w.astype(np.int32),
+        "l2.value": a2,
+        "l2.gamma": g2.astype(np.float32),
+        "l3.off": layout.trigram_off.astype(offsets_dtype(len(counts.table))),
+        "l3.word": counts.table.w.astype(np.int32),
+        "l3.value": a3,
+        "l3.gamma": g3.astype(np.float32),
+    }
+    meta = {
+        "method": method,
+        "interpolated": result.interpolated,
+        "value_encoding": encoding,
+        "estimator": result.details,
+    }
+    return sections, meta
+
+
+def _level2_of_rows(interpolated: bool, a2: np.ndarray, g2: np.ndarray, p1: np.ndarray, layout: Layout, counts: ModelCounts) -> np.ndarray:
+    """P2(w | v) of every trigram row from the decoded level-2 values."""
+    table = counts.table
+    index = layout.bigram_index(table.v, table.w)
+    if interpolated:
+        return a2[index] + g2[table.v].astype(np.float64) * p1.astype(np.float64)[table.w]
+    return a2[index]
+
+
+def _lower_weights(result: Estimate, decoded: np.ndarray, lower_of_stored: np.ndarray, offsets: np.ndarray, planned: np.ndarray) -> np.ndarray:
+    """Recompute each context's lower-order weight so its distribution sums to 1 after encoding."""
+    if result.exact_zeros:
+        return np.zeros(len(offsets) - 1)
+    stored_mass = context_totals(decoded, offsets)
+    has_entries = np.diff(offsets) > 0
+    if result.interpolated:
+        weights = np.maximum(1.0 - stored_mass, 0.0)
+    else:
+        free = 1.0 - context_totals(lower_of_stored, offsets)
+        with np.errstate(invalid="ignore", divide="ignore"):
+            weights = np.where(free > 1e-12, np.maximum(1.0 - stored_mass, 0.0) / np.where(free > 1e-12, free, 1.0), 0.0)
+    return np.where(has_entries, weights, planned)

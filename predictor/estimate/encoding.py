@@ -1,0 +1,49 @@
+"""How stored probability values are encoded in a model file.
+
+``log16`` keeps each value as a 16-bit code of its base-2 logarithm in steps of
+1/2048 (relative error at most 2^(1/4096) - 1, about 0.017%), from 1 down to
+2^-32; smaller values are stored as 2^-32 and the code 65535 means exactly 0.
+``float32`` keeps each value as a 32-bit float.  After encoding, every
+lower-order weight is recomputed from the decoded values, so each stored
+distribution still sums to 1.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+LOG16 = "log16"
+FLOAT32 = "float32"
+ENCODINGS = (LOG16, FLOAT32)
+_STEPS_PER_OCTAVE = 2048
+_ZERO_CODE = 65535
+
+
+def encode(values: np.ndarray, encoding: str) -> np.ndarray:
+    """Encode float64 values in [0, 1] (uint16 codes for log16, float32 otherwise)."""
+    if encoding == FLOAT32:
+        return values.astype(np.float32)
+    with np.errstate(divide="ignore"):
+        scaled = -np.log2(np.maximum(values, 0.0)) * _STEPS_PER_OCTAVE
+    codes = np.clip(np.rint(scaled), 0, _ZERO_CODE - 1)
+    codes = np.where(values > 0, codes, _ZERO_CODE)
+    return codes.astype(np.uint16)
+
+
+_TABLE = np.exp2(-np.arange(65536, dtype=np.float64) / _STEPS_PER_OCTAVE)
+_TABLE[_ZERO_CODE] = 0.0
+
+
+def decode(stored: np.ndarray) -> np.ndarray:
+    """Decode stored values to float64 (the encoding follows from the dtype)."""
+    if stored.dtype == np.uint16:
+        return _TABLE[stored]
+    return stored.astype(np.float64)
+
+
+def decode_one(stored: np.ndarray, index: int) -> float:
+    """Decode one stored value to a Python float."""
+    value = stored[index]
+    if stored.dtype == np.uint16:
+        return float(_TABLE[value])
+    return float(value)

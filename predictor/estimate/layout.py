@@ -1,0 +1,138 @@
+"""Counts of one vocabulary, and the layout shared by every estimator.
+
+A model stores three levels.  Level 1 is a dense unigram distribution over the
+V + 2 outcomes (words, UNKNOWN, END).  Level 2 lists, for each context word v,
+the words seen after it (its *bigram entries*, sorted by id).  Level 3 lists,
+for each bigram entry (u, v), the words seen after that pair; the pair
+``(START, START)`` that opens every sentence has one extra slot at index n2.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..arrays import aggregate_rows
+from ..counting import RAW_END, RAW_START, CorpusCounts, TrigramTable
+
+
+@dataclass
+class ModelCounts:
+    """The trigram counts of a corpus over one vocabulary.
+
+    Attributes:
+        words: model forms of the vocabulary, sorted; position = word id.
+        display: display forms, parallel to ``words``.
+        table: trigrams over model ids (``V`` UNKNOWN, ``V + 1`` END, ``V + 2`` START).
+        heldout: the held-out sentences' trigrams over model ids.
+        corpus_tokens: word tokens in the corpus.
+        sentences: sentences in the corpus.
+    """
+
+    words: list[str]
+    display: list[str]
+    table: TrigramTable
+    heldout: TrigramTable
+    corpus_tokens: int
+    sentences: int
+    layout: Layout = field(init=False)
+
+    def __post_init__(self) -> None:
+        self.layout = Layout.of(self.table, len(self.words))
+
+    @property
+    def vocab_size(self) -> int:
+        """V: the number of suggestable words."""
+        return len(self.words)
+
+
+def model_counts(counts: CorpusCounts, vocabulary: list[int]) -> ModelCounts:
+    """Re-express corpus counts over a vocabulary chosen by :meth:`CorpusCounts.select_vocabulary`.
+
+    Args:
+        counts: the corpus counts.
+        vocabulary: raw type ids of the words to keep.
+
+    Returns:
+        The counts over model ids, every other word mapped to UNKNOWN.
+    """
+    chosen = sorted(vocabulary, key=counts.types.__getitem__)
+    size = len(chosen)
+    mapping = np.full(len(counts.types), size, dtype=np.int32)
+    mapping[np.array(chosen, dtype=np.int64)] = np.arange(size, dtype=np.int32)
+    mapping[RAW_START] = size + 2
+    mapping[RAW_END] = size + 1
+    base = size + 3
+    return ModelCounts(
+        words=[counts.types[t] for t in chosen],
+        display=[counts.display[t] for t in chosen],
+        table=counts.table.remap(mapping, base),
+        heldout=counts.heldout.remap(mapping, base),
+        corpus_tokens=counts.corpus_tokens,
+        sentences=counts.sentences,
+    )
+
+
+@dataclass
+class Layout:
+    """Where every bigram and trigram lives in the model arrays.
+
+    Attributes:
+        base: V + 3, one more than the largest id.
+        bigram_v, bigram_w: int32 arrays of shape (n2,): bigram entries sorted by (v, w).
+        bigram_n: int64 raw bigram counts, parallel.
+        bigram_off: int64 array of shape (base + 1,): entries of context v are
+            ``bigram_off[v]:bigram_off[v + 1]``.
+        trigram_ctx: int64 array of shape (n3,): the level-3 context slot of each
+            trigram row (its bigram entry, or n2 for START START).
+        trigram_off: int64 array of shape (n2 + 2,): rows of slot j are
+            ``trigram_off[j]:trigram_off[j + 1]``.
+    """
+
+    base: int
+    bigram_v: np.ndarray
+    bigram_w: np.ndarray
+    bigram_n: np.ndarray
+    bigram_off: np.ndarray
+    trigram_ctx: np.ndarray
+    trigram_off: np.ndarray
+
+    @property
+    def n2(self) -> int:
+        """Number of bigram entries."""
+        return len(self.bigram_w)
+
+    @staticmethod
+    def of(table: TrigramTable, vocab_size: int) -> Layout:
+        """Derive the layout of a trigram table over ``vocab_size`` words."""
+        base = vocab_size + 3
+        start = vocab_size + 2
+        (bv, bw), bn = aggregate_rows([table.v, table.w], table.n, base)
+        bigram_off = np.searchsorted(bv, np.arange(base + 1)).astype(np.int64)
+        bigram_key = bv.astype(np.int64) * base + bw
+        row_key = table.u.astype(np.int64) * base + table.v
+        ctx = np.searchsorted(bigram_key, row_key).astype(np.int64)
+        opening = (table.u == start) & (table.v == start)
+        ctx[opening] = len(bw)
+        trigram_off = np.searchsorted(ctx, np.arange(len(bw) + 2)).astype(np.int64)
+        return Layout(base, bv, bw, bn, bigram_off, ctx, trigram_off)
+
+    def bigram_index(self, v: np.ndarray, w: np.ndarray) -> np.ndarray:
+        """Return the bigram entry index of each (v, w) pair (all pairs must be entries)."""
+        key = self.bigram_v.astype(np.int64) * self.base + self.bigram_w
+        return np.searchsorted(key, v.astype(np.int64) * self.base + w)
+
+
+def context_totals(values: np.ndarray, offsets: np.ndarray) -> np.ndarray:
+    """Sum ``values`` over each group ``offsets[i]:offsets[i + 1]`` (empty groups give 0)."""
+    cumulative = np.concatenate(([0.0], np.cumsum(values, dtype=np.float64)))
+    return cumulative[offsets[1:]] - cumulative[offsets[:-1]]
+
+
+def context_count_of_counts(counts: np.ndarray, offsets: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Per group, how many entries have count 1, count 2 and count 3 or more."""
+    ones = context_totals((counts == 1).astype(np.float64), offsets)
+    twos = context_totals((counts == 2).astype(np.float64), offsets)
+    more = context_totals((counts >= 3).astype(np.float64), offsets)
+    return ones, twos, more

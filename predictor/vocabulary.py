@@ -1,0 +1,207 @@
+"""The vocabulary and its prefix index.
+
+Word ids are the ranks of the words' model forms in code-point order, so every
+prefix names one contiguous id range.  A marisa-trie holds every prefix of every
+word; for each trie key three arrays give the id range and where, in one long
+array, the words of that range are listed from most to least probable under the
+unigram distribution.  A completion query therefore costs one trie lookup and a
+slice, however many words share the prefix.
+
+Special symbols follow the words: ``UNKNOWN`` has id V, ``END`` id V + 1 and
+``START`` id V + 2 (context only).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass
+
+import marisa_trie
+import numpy as np
+
+from .arrays import offsets_dtype, pack_strings, unpack_string
+from .text import model_form
+
+START = "<s>"
+"""The sentence-start symbol: pads the context, never predicted."""
+
+END = "</s>"
+"""The end-of-sentence symbol: a predicted outcome, never suggested."""
+
+UNKNOWN = "<unk>"
+"""The symbol every out-of-vocabulary word maps to: predicted and scored, never suggested."""
+
+
+@dataclass(frozen=True)
+class PrefixRange:
+    """The words sharing a prefix.
+
+    Attributes:
+        lo: first word id with the prefix.
+        hi: one past the last word id with the prefix.
+        order_start: where the range's words, most probable first, start in the order list.
+    """
+
+    lo: int
+    hi: int
+    order_start: int
+
+
+class Vocabulary:
+    """The suggestable words of a model, their display forms and the prefix index."""
+
+    def __init__(self, sections: dict[str, np.ndarray]) -> None:
+        """Wrap the vocabulary sections of a model (built or memory-mapped).
+
+        Args:
+            sections: the ``vocab.*`` arrays described in :func:`vocabulary_sections`.
+        """
+        self._trie = marisa_trie.Trie()
+        self._trie.map(memoryview(sections["vocab.trie"]))
+        self._key_lo = sections["vocab.key_lo"]
+        self._key_hi = sections["vocab.key_hi"]
+        self._key_order = sections["vocab.key_order"]
+        self.order = sections["vocab.order"]
+        """int32 array: per prefix, the range's word ids by unigram probability (root first)."""
+        self._words_blob = sections["vocab.words_blob"]
+        self._words_off = sections["vocab.words_off"]
+        self._display_blob = sections["vocab.display_blob"]
+        self._display_off = sections["vocab.display_off"]
+        self.size = len(self._words_off) - 1
+        """How many suggestable words there are (V)."""
+        self._word_cache: dict[int, str] = {}
+        self._display_cache: dict[int, str] = {}
+
+    @property
+    def unknown_id(self) -> int:
+        """The id of :data:`UNKNOWN`."""
+        return self.size
+
+    @property
+    def end_id(self) -> int:
+        """The id of :data:`END`."""
+        return self.size + 1
+
+    @property
+    def start_id(self) -> int:
+        """The id of :data:`START`."""
+        return self.size + 2
+
+    def word(self, word_id: int) -> str:
+        """Return the model form of a word id (special ids give their symbols)."""
+        cached = self._word_cache.get(word_id)
+        if cached is None:
+            if word_id >= self.size:
+                cached = (UNKNOWN, END, START)[word_id - self.size]
+            else:
+                cached = unpack_string(self._words_blob, self._words_off, word_id)
+            self._word_cache[word_id] = cached
+        return cached
+
+    def display(self, word_id: int) -> str:
+        """Return the display form (most frequent written form) of a word id."""
+        cached = self._display_cache.get(word_id)
+        if cached is None:
+            if word_id >= self.size:
+                cached = self.word(word_id)
+            else:
+                cached = unpack_string(self._display_blob, self._display_off, word_id)
+            self._display_cache[word_id] = cached
+        return cached
+
+    def words(self) -> list[str]:
+        """Return every suggestable word's model form, in id order."""
+        return [self.word(i) for i in range(self.size)]
+
+    def id(self, word: str) -> int | None:
+        """Return the id of a word in model form, or None if it is not in the vocabulary."""
+        key = self._trie.get(word)
+        if key is None:
+            return None
+        lo = int(self._key_lo[key])
+        return lo if lo >= 0 else None
+
+    def id_or_unknown(self, word: str) -> int:
+        """Return the id of a written word or symbol; out-of-vocabulary words give UNKNOWN."""
+        if word == START or word == END:
+            return self.start_id
+        if word == UNKNOWN:
+            return self.unknown_id
+        found = self.id(model_form(word))
+        return self.unknown_id if found is None else found
+
+    def prefix_range(self, prefix: str) -> PrefixRange | None:
+        """Return the ids of the words starting with a model-form prefix, or None if none do."""
+        if not prefix:
+            return PrefixRange(0, self.size, 0)
+        key = self._trie.get(prefix)
+        if key is None:
+            return None
+        lo = int(self._key_lo[key])
+        return PrefixRange(lo if lo >= 0 else -lo - 1, int(self._key_hi[key]), int(self._key_order[key]))
+
+    def __len__(self) -> int:
+        return self.size
+
+    def __contains__(self, word: object) -> bool:
+        return isinstance(word, str) and self.id(word) is not None
+
+
+def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: np.ndarray) -> dict[str, np.ndarray]:
+    """Build the vocabulary arrays of a model.
+
+    Args:
+        words: model forms, sorted in code-point order (their positions are their ids).
+        display: display forms, parallel to ``words``.
+        unigram: float array of shape (len(words),): the unigram probabilities
+            that order each prefix's word list (ties by id ascending).
+
+    Returns:
+        The ``vocab.*`` sections: ``trie`` (marisa-trie bytes of every prefix),
+        ``key_lo`` (int32 per trie key: first id, or ``-(first id) - 1`` when the
+        key is not itself a word), ``key_hi`` (int32 per key), ``key_order``
+        (per key, start in ``order``), ``order`` (int32), and the string blobs.
+    """
+    size = len(words)
+    prefixes = sorted({word[:end] for word in words for end in range(1, len(word) + 1)})
+    trie = marisa_trie.Trie(prefixes)
+    keys = len(prefixes)
+    sorted_words = np.array(words, dtype=object)
+    prefix_array = np.array(prefixes, dtype=object)
+    lo = np.searchsorted(sorted_words, prefix_array, side="left")
+    hi = np.searchsorted(sorted_words, np.array([p + "\U0010ffff" for p in prefixes], dtype=object), side="left")
+    is_word = np.zeros(keys, dtype=bool)
+    in_range = lo < size
+    is_word[in_range] = sorted_words[lo[in_range]] == prefix_array[in_range]
+    # Rank of each word in the global unigram order (probability descending, id ascending).
+    global_order = np.lexsort((np.arange(size), -unigram)).astype(np.int32)
+    rank = np.empty(size, dtype=np.int64)
+    rank[global_order] = np.arange(size)
+    sizes = (hi - lo).astype(np.int64)
+    trie_ids = np.array([trie.key_id(p) for p in prefixes], dtype=np.int64)
+    # Lists for every prefix key, laid out in sorted-prefix order after the root list.
+    starts = size + np.concatenate(([0], np.cumsum(sizes)[:-1]))
+    owner = np.repeat(np.arange(keys), sizes)
+    member = np.arange(len(owner)) - np.repeat(np.cumsum(sizes) - sizes, sizes) + np.repeat(lo, sizes)
+    by_owner_rank = np.lexsort((rank[member], owner))
+    order = np.concatenate((global_order, member[by_owner_rank].astype(np.int32)))
+    total = int(order.shape[0])
+    key_lo = np.empty(keys, dtype=np.int32)
+    key_hi = np.empty(keys, dtype=np.int32)
+    key_order = np.empty(keys, dtype=offsets_dtype(total))
+    key_lo[trie_ids] = np.where(is_word, lo, -lo - 1)
+    key_hi[trie_ids] = hi
+    key_order[trie_ids] = starts
+    words_blob, words_off = pack_strings(words)
+    display_blob, display_off = pack_strings(display)
+    return {
+        "vocab.trie": np.frombuffer(trie.tobytes(), dtype=np.uint8),
+        "vocab.key_lo": key_lo,
+        "vocab.key_hi": key_hi,
+        "vocab.key_order": key_order,
+        "vocab.order": order,
+        "vocab.words_blob": words_blob,
+        "vocab.words_off": words_off,
+        "vocab.display_blob": display_blob,
+        "vocab.display_off": display_off,
+    }

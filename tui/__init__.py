@@ -1,0 +1,1 @@
+"""The typing pad: a Textual interface over the engine."""
