@@ -12,6 +12,11 @@ def offsets_dtype(largest: int) -> np.dtype:
     return np.dtype(np.uint32) if largest < 2**32 else np.dtype(np.uint64)
 
 
+def word_id_dtype(vocab_size: int) -> np.dtype:
+    """Return the dtype that stores word ids of a vocabulary: uint16 when V + 3 ids fit, else int32."""
+    return np.dtype(np.uint16) if vocab_size + 3 <= 2**16 else np.dtype(np.int32)
+
+
 def pack_strings(strings: Sequence[str]) -> tuple[np.ndarray, np.ndarray]:
     """Pack strings into one UTF-8 blob and an offsets array.
 
@@ -52,7 +57,7 @@ def group_starts(*columns: np.ndarray) -> np.ndarray:
     return np.flatnonzero(change)
 
 
-def aggregate_rows(columns: Sequence[np.ndarray], counts: np.ndarray, base: int) -> tuple[list[np.ndarray], np.ndarray]:
+def aggregate_rows(columns: Sequence[np.ndarray], counts: np.ndarray | None, base: int) -> tuple[list[np.ndarray], np.ndarray]:
     """Sort rows of small integer ids and sum the counts of identical rows.
 
     Rows are packed into one int64 key when ``base ** len(columns)`` fits in 63
@@ -60,12 +65,15 @@ def aggregate_rows(columns: Sequence[np.ndarray], counts: np.ndarray, base: int)
 
     Args:
         columns: int32 arrays of ids, each id in ``[0, base)``.
-        counts: int64 array of the rows' counts.
+        counts: int64 array of the rows' counts, or None when every row counts once.
         base: one more than the largest id.
 
     Returns:
         The unique rows (sorted lexicographically) as int32 columns, and their summed counts.
     """
+    counts_are_ones = counts is None
+    if counts is None:
+        counts = np.ones(len(columns[0]), dtype=np.int64)
     if len(counts) == 0:
         return [np.zeros(0, dtype=np.int32) for _ in columns], np.zeros(0, dtype=np.int64)
     bits = max(1, int(base - 1).bit_length())
@@ -74,10 +82,15 @@ def aggregate_rows(columns: Sequence[np.ndarray], counts: np.ndarray, base: int)
         for column in columns:
             key <<= bits
             key |= column.astype(np.int64)
-        order = np.argsort(key, kind="stable")
-        key = key[order]
-        starts = group_starts(key)
-        summed = np.add.reduceat(counts[order], starts) if len(starts) else counts[:0]
+        if counts_are_ones:
+            key.sort()
+            starts = group_starts(key)
+            summed = np.diff(np.append(starts, len(key)))
+        else:
+            order = np.argsort(key, kind="stable")
+            key = key[order]
+            starts = group_starts(key)
+            summed = np.add.reduceat(counts[order], starts) if len(starts) else counts[:0]
         unique = key[starts]
         mask = (1 << bits) - 1
         result = []

@@ -9,6 +9,7 @@ from .counting import CorpusCounts, ProgressCallback, count_corpus
 from .errors import OptionError
 from .estimate import ENCODINGS, METHODS, fit_levels, model_counts
 from .model import LanguageModel
+from .ranking import rank_sections
 from .vocabulary import vocabulary_sections
 
 
@@ -100,4 +101,5 @@ def build_from_counts(
             "wrapped": False,
         }
     )
+    sections.update(rank_sections(LanguageModel(sections, meta)))
     return LanguageModel(sections, meta)

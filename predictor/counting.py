@@ -226,16 +226,10 @@ class CorpusCounter:
 
     def _form_ids_of(self, found: list[str]) -> np.ndarray:
         lookup = self._form_ids
-        ids = list(map(lookup.get, found))
-        if None in ids:
-            for index, value in enumerate(ids):
-                if value is None:
-                    token = found[index]
-                    value = lookup.get(token)
-                    if value is None:
-                        value = self._new_form(token)
-                    ids[index] = value
-        return np.array(ids, dtype=np.int32)
+        # Set arithmetic finds the new forms in C; a per-token Python loop would cost more than the regex.
+        for token in set(found).difference(lookup):
+            self._new_form(token)
+        return np.fromiter(map(lookup.__getitem__, found), dtype=np.int32, count=len(found))
 
     def _new_form(self, token: str) -> int:
         form_id = len(self._forms)
@@ -288,12 +282,11 @@ class CorpusCounter:
         self.sentences += int(is_end.sum())
         u, v, w, sentence_of = u[valid], v[valid], w[valid], sentence_of[valid]
         base = len(self._types)
-        ones = np.ones(len(w), dtype=np.int64)
-        (cu, cv, cw), cn = aggregate_rows([u, v, w], ones, base)
+        (cu, cv, cw), cn = aggregate_rows([u, v, w], None, base)
         self._pending.append(TrigramTable(cu, cv, cw, cn))
         held = sentence_of % HELDOUT_EVERY == HELDOUT_EVERY - 1
         if held.any():
-            (hu, hv, hw), hn = aggregate_rows([u[held], v[held], w[held]], ones[: int(held.sum())], base)
+            (hu, hv, hw), hn = aggregate_rows([u[held], v[held], w[held]], None, base)
             self._heldout.append(TrigramTable(hu, hv, hw, hn))
         pending_rows = sum(len(t) for t in self._pending)
         if pending_rows > max(self.MERGE_ROWS, sum(len(t) for t in self._tables)):

@@ -17,18 +17,18 @@ _REQUIRED_META = ("method", "interpolated", "value_encoding", "vocab_size", "cor
 _SECTION_KINDS = {
     "p1": "f",
     "l2.off": "u",
-    "l2.word": "i",
+    "l2.word": "iu",
     "l2.value": "uf",
     "l2.gamma": "f",
     "l3.off": "u",
-    "l3.word": "i",
+    "l3.word": "iu",
     "l3.value": "uf",
     "l3.gamma": "f",
     "vocab.trie": "u",
     "vocab.key_lo": "i",
     "vocab.key_hi": "i",
     "vocab.key_order": "u",
-    "vocab.order": "i",
+    "vocab.order": "iu",
     "vocab.words_blob": "u",
     "vocab.words_off": "u",
     "vocab.display_blob": "u",
@@ -81,7 +81,9 @@ def check_structure(model: ModelFile) -> None:
     _ids(name, "vocab.order", s["vocab.order"], 0, size)
     _ids(name, "vocab.key_hi", s["vocab.key_hi"], 0, size + 1)
     _ids(name, "vocab.key_lo", s["vocab.key_lo"], -size - 1, size)
-    if len(s["vocab.key_order"]) and int(s["vocab.key_order"].max()) > len(s["vocab.order"]):
+    key_order = s["vocab.key_order"]
+    listed = key_order[key_order != np.iinfo(key_order.dtype).max] if len(key_order) else key_order
+    if len(listed) and int(listed.max()) > len(s["vocab.order"]):
         raise ModelFileError(f"{name}: corrupt (section vocab.key_order points past the order list)")
     p1 = s["p1"]
     if not np.all(np.isfinite(p1)) or p1.min(initial=0) < 0:

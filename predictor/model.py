@@ -23,19 +23,34 @@ import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import Any, NamedTuple
 
 import numpy as np
 
 from .errors import OptionError
-from .estimate.encoding import decode
+from .estimate.encoding import DECODE_TABLE, decode
 from .modelfile import FORMAT_VERSION, read_model_file, write_model_file
 from .text import iter_sentences, model_form, split_before_cursor
-from .vocabulary import END, START, UNKNOWN, Vocabulary
+from .ranking import RANKED_MIN, RankLists
+from .vocabulary import END, START, UNKNOWN, PrefixRange, Vocabulary
+
+_SCORE_ALL = RANKED_MIN
+"""A class with at most this many words in range is scored whole instead of walking its ranked list."""
+_TIE_GUARD = 8
+"""Extra words taken from a list ranked by P2, whose scaled scores may round to equal."""
+_NO_IDS = np.zeros(0, dtype=np.int64)
 
 
-@dataclass(frozen=True)
-class Suggestion:
+def _without(ids: np.ndarray, exclude: np.ndarray) -> np.ndarray:
+    """``ids`` without the members of the sorted array ``exclude``."""
+    if not len(exclude) or not len(ids):
+        return ids
+    at = exclude.searchsorted(ids.astype(exclude.dtype, copy=False))  # same dtype: no copy of exclude
+    np.minimum(at, len(exclude) - 1, out=at)
+    return ids[exclude[at] != ids]
+
+
+class Suggestion(NamedTuple):
     """One suggested word.
 
     Attributes:
@@ -74,8 +89,7 @@ class TextScore:
     perplexity: float
 
 
-@dataclass(frozen=True)
-class _Slots:
+class _Slots(NamedTuple):
     """Where the entries of one context live."""
 
     v: int
@@ -117,6 +131,8 @@ class LanguageModel:
         self._n2 = len(self._w2)
         self._size = self.vocab.size
         self._keys: tuple[np.ndarray, np.ndarray] | None = None
+        self._ranks = RankLists(sections)
+        self._table = DECODE_TABLE if self._a2.dtype == np.uint16 else None
 
     # ----------------------------------------------------------------- facts
     @property
@@ -177,7 +193,7 @@ class LanguageModel:
         else:
             ulo, uhi = int(off2[u]), int(off2[u + 1])
             if uhi > ulo:
-                pos = ulo + int(np.searchsorted(self._w2[ulo:uhi], v))
+                pos = ulo + int(self._w2[ulo:uhi].searchsorted(self._w2.dtype.type(v)))
                 if pos < uhi and self._w2[pos] == v:
                     slot = pos
         if slot >= 0:
@@ -189,45 +205,51 @@ class LanguageModel:
     def _gamma3(self, slots: _Slots) -> float:
         return float(self._g3[slots.slot]) if slots.has3 else 1.0
 
-    def _scores(self, ids: np.ndarray, slots: _Slots, gamma3: float, with_order: bool = False) -> tuple[np.ndarray, np.ndarray | None]:
-        """Probabilities of outcome ids after one context (the arithmetic every query shares)."""
+    def _scores(self, ids: np.ndarray, slots: _Slots, gamma3: float) -> tuple[np.ndarray, np.ndarray | None, np.ndarray | None]:
+        """Probabilities of outcome ids after one context (the arithmetic every query shares).
+
+        Returns:
+            ``(p3, a2, a3)``: float64 probabilities, and the stored bigram and
+            trigram values that went into them (None where the level is absent).
+        """
         p = self._p1[ids]
+        # Searching with the stored dtype keeps numpy from converting the stored slice.
+        ids = ids.astype(self._w2.dtype, copy=False)
         a2 = a3 = None
         if slots.hi2 > slots.lo2:
-            words = self._w2[slots.lo2 : slots.hi2]
-            pos = np.minimum(np.searchsorted(words, ids), len(words) - 1)
-            hit2 = words[pos] == ids
-            a2 = np.where(hit2, decode(self._a2[slots.lo2 + pos]), 0.0)
-            gamma2 = self._g2[slots.v]
-            lower = gamma2 * p
+            hit2, a2 = self._stored(self._w2[slots.lo2 : slots.hi2], self._a2[slots.lo2 : slots.hi2], ids)
+            lower = self._g2[slots.v] * p
             p2 = a2 + lower if self._interpolated else np.where(hit2, a2, lower)
         else:
             p2 = p
         if slots.has3:
-            words = self._w3[slots.lo3 : slots.hi3]
-            pos = np.minimum(np.searchsorted(words, ids), len(words) - 1)
-            hit3 = words[pos] == ids
-            a3 = np.where(hit3, decode(self._a3[slots.lo3 + pos]), 0.0)
+            hit3, a3 = self._stored(self._w3[slots.lo3 : slots.hi3], self._a3[slots.lo3 : slots.hi3], ids)
             lower = gamma3 * p2
             p3 = a3 + lower if self._interpolated else np.where(hit3, a3, lower)
         else:
             p3 = p2
-        if not with_order:
-            return p3, None
-        return p3, self._orders(p3, a2, a3, gamma3)
+        return p3, a2, a3
 
-    def _orders(self, p3: np.ndarray, a2: np.ndarray | None, a3: np.ndarray | None, gamma3: float) -> np.ndarray:
-        """Which order supplied most of each probability."""
-        from3 = a3 if a3 is not None else np.zeros_like(p3)
-        if a2 is None:
-            from2 = np.zeros_like(p3)
-        else:
-            from2 = gamma3 * a2 if a3 is not None else a2
-        if not self._interpolated:
-            return np.where(from3 > 0, 3, np.where(from2 > 0, 2, 1)).astype(np.int8)
-        from1 = p3 - from3 - from2
-        highest_first = np.stack((from3, from2, from1))
-        return (3 - np.argmax(highest_first, axis=0)).astype(np.int8)
+    def _stored(self, words: np.ndarray, codes: np.ndarray, ids: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """Which ids one context stores, and their decoded values (0 where not stored)."""
+        at = words.searchsorted(ids)
+        hit = words.take(at, mode="clip") == ids
+        raw = codes.take(at, mode="clip")
+        values = self._table.take(raw) if self._table is not None else raw.astype(np.float64)
+        return hit, np.where(hit, values, 0.0)
+
+    def _orders(self, probs: list[float], a2: list[float] | None, a3: list[float] | None, gamma3: float) -> list[int]:
+        """Which order (1, 2 or 3) supplied most of each probability (ties go to the higher order)."""
+        orders = []
+        for index, total in enumerate(probs):
+            from3 = a3[index] if a3 is not None else 0.0
+            from2 = 0.0 if a2 is None else (gamma3 * a2[index] if a3 is not None else a2[index])
+            if not self._interpolated:
+                orders.append(3 if from3 > 0 else 2 if from2 > 0 else 1)
+                continue
+            from1 = total - from3 - from2
+            orders.append(3 if from3 >= from2 and from3 >= from1 else 2 if from2 >= from1 else 1)
+        return orders
 
     # ---------------------------------------------------------------- queries
     def prob(self, word: str, context: Sequence[str] = ()) -> float:
@@ -254,7 +276,7 @@ class LanguageModel:
         slots = self._slots(u, v)
         if ids is None:
             ids = np.arange(self._size + 2)
-        scores, _ = self._scores(np.asarray(ids, dtype=np.int64), slots, self._gamma3(slots))
+        scores, _, _ = self._scores(np.asarray(ids, dtype=np.int64), slots, self._gamma3(slots))
         return scores
 
     def suggest(self, context: Sequence[str] = (), prefix: str = "", k: int = 5) -> list[Suggestion]:
@@ -279,57 +301,99 @@ class LanguageModel:
         """:meth:`suggest` with a context already mapped by :meth:`context_ids`."""
         if k < 1:
             raise OptionError(f"k must be at least 1, not {k}")
-        found = self.vocab.prefix_range(model_form(prefix))
+        found = self.vocab.prefix_range(model_form(prefix) if prefix else "")
         if found is None:
             return []
-        lo, hi = found.lo, found.hi
         slots = self._slots(u, v)
         gamma3 = self._gamma3(slots)
-        explicit = self._explicit_candidates(slots, lo, hi)
-        factor = (gamma3 if slots.has3 else 1.0) * (float(self._g2[v]) if slots.hi2 > slots.lo2 else 1.0)
-        rest = self._unigram_candidates(found.order_start, lo, hi, explicit, k, ordered=factor > 0)
-        candidates = np.concatenate((explicit, rest)) if len(explicit) else rest
-        scores, _ = self._scores(candidates, slots, gamma3)
+        candidates = self._candidates(slots, gamma3, found, k)
+        scores, a2, a3 = self._scores(candidates, slots, gamma3)
         top = np.lexsort((candidates, -scores))[:k]
-        chosen = candidates[top]
-        chosen_scores, orders = self._scores(chosen, slots, gamma3, with_order=True)
-        assert orders is not None
+        probs = scores[top].tolist()
+        orders = self._orders(probs, None if a2 is None else a2[top].tolist(), None if a3 is None else a3[top].tolist(), gamma3)
         display = self.vocab.display
-        return [Suggestion(display(int(i)), float(s), int(o), int(i)) for i, s, o in zip(chosen, chosen_scores, orders)]
+        return [Suggestion(display(i), p, o, i) for i, p, o in zip(candidates[top].tolist(), probs, orders)]
 
-    def _explicit_candidates(self, slots: _Slots, lo: int, hi: int) -> np.ndarray:
-        """Classes A and B: stored continuations of the context within [lo, hi), sorted."""
-        parts = []
-        for words in (self._w3[slots.lo3 : slots.hi3] if slots.has3 else None, self._w2[slots.lo2 : slots.hi2]):
-            if words is None or not len(words):
-                continue
-            start, stop = np.searchsorted(words, (lo, hi))
-            if stop > start:
-                parts.append(words[start:stop])
-        if not parts:
-            return np.zeros(0, dtype=np.int64)
-        if len(parts) == 1:
-            return parts[0].astype(np.int64)
-        return np.union1d(parts[0], parts[1]).astype(np.int64)
+    def _candidates(self, slots: _Slots, gamma3: float, found: PrefixRange, k: int) -> np.ndarray:
+        """Distinct candidate ids whose scores decide the top k (see the module docstring).
 
-    def _unigram_candidates(self, order_start: int, lo: int, hi: int, explicit: np.ndarray, k: int, *, ordered: bool) -> np.ndarray:
-        """Class C: the first k words of [lo, hi) not in ``explicit``, in unigram order.
-
-        When the class factor is 0 (maximum likelihood), every class-C word has
-        probability 0 and ties are broken by id, so the range is walked in id order.
+        Every word stored after (u, v) is also stored after v (each trigram's
+        tail is a stored bigram), so class A lies inside the range's bigram words.
         """
+        lo, hi = found.lo, found.hi
+        parts = []
+        in_b = _NO_IDS
+        if slots.hi2 > slots.lo2:
+            words = self._w2[slots.lo2 : slots.hi2]
+            bounds = np.array((lo, hi), dtype=words.dtype)
+            start, stop = words.searchsorted(bounds)
+            in_b = words[start:stop]
+            if len(in_b) <= _SCORE_ALL:
+                parts.append(in_b)
+            else:
+                in_a = _NO_IDS
+                if slots.has3:
+                    words = self._w3[slots.lo3 : slots.hi3]
+                    start, stop = words.searchsorted(bounds)
+                    in_a = words[start:stop]
+                    if len(in_a):
+                        parts.append(self._best_of(in_a, self._ranks.trigram_list(slots.slot), lo, hi, k, _NO_IDS))
+                # Ranked by P2 while the class score is gamma3 * P2: a few extra words
+                # guard against two scores rounding to equal.  With gamma3 = 0 every
+                # score is 0 and ties go by id, the order of in_b itself.
+                ranked = in_b if slots.has3 and gamma3 == 0 else self._ranks.bigram_list(slots.v)
+                parts.append(self._best_of(in_b, ranked, lo, hi, k + _TIE_GUARD, in_a))
+        factor = (gamma3 if slots.has3 else 1.0) * (float(self._g2[slots.v]) if slots.hi2 > slots.lo2 else 1.0)
+        parts.append(self._unigram_candidates(found, in_b, k, ordered=factor > 0))
+        joined = np.concatenate(parts) if len(parts) > 1 else parts[0]
+        return joined.astype(np.int64, copy=False)
+
+    def _best_of(self, in_range: np.ndarray, ranked: np.ndarray | None, lo: int, hi: int, k: int, exclude: np.ndarray) -> np.ndarray:
+        """The words of ``in_range`` a class contributes: all of them, or the best of a ranked list.
+
+        A ranked list holds the context's words in the class's own order, so its
+        first k words inside [lo, hi) and outside ``exclude`` are the class's top
+        k.  When the range is narrow the walk would be long: the range is then
+        returned whole.
+        """
+        if ranked is None:
+            return _without(in_range, exclude)
+        full = lo == 0 and hi == self._size
+        budget = 4 * len(in_range)
+        taken: list[np.ndarray] = []
+        have = 0
+        chunk = k + 8
+        position = 0
+        while position < len(ranked) and position < budget:
+            piece = ranked[position : position + chunk]
+            position += len(piece)
+            if not full:
+                piece = piece[(piece >= lo) & (piece < hi)]
+            piece = _without(piece, exclude)
+            if len(piece):
+                taken.append(piece)
+                have += len(piece)
+                if have >= k:
+                    return np.concatenate(taken) if len(taken) > 1 else taken[0]
+            chunk *= 4
+        if position >= len(ranked):
+            return np.concatenate(taken) if taken else _NO_IDS
+        return _without(in_range, exclude)
+
+    def _unigram_candidates(self, found: PrefixRange, exclude: np.ndarray, k: int, *, ordered: bool) -> np.ndarray:
+        """Class C: the first k words of the range not in ``exclude``, in unigram order.
+
+        When the class factor is 0 (maximum likelihood) every class-C word has
+        probability 0 and ties go by id, so the range is walked in id order.
+        """
+        lo, hi = found.lo, found.hi
         span = hi - lo
-        listing = self.vocab.order[order_start : order_start + span] if ordered else None
-        taken = 0
-        want = 2 * k + 8
+        listing = self.vocab.ranked_range(found) if ordered else None
+        want = k + 8
         while True:
             want = min(want, span)
-            chunk = (listing[:want] if listing is not None else np.arange(lo, lo + want)).astype(np.int64)
-            if len(explicit):
-                pos = np.minimum(np.searchsorted(explicit, chunk), len(explicit) - 1)
-                chunk = chunk[explicit[pos] != chunk]
-            taken = len(chunk)
-            if taken >= k or want == span:
+            chunk = _without(listing[:want] if listing is not None else np.arange(lo, lo + want), exclude)
+            if len(chunk) >= k or want == span:
                 return chunk[:k]
             want *= 4
 

@@ -31,9 +31,11 @@ _MARKS = (
     "\u06d6-\u06ed\u0900-\u0903\u093a-\u094f\u0951-\u0957\u0962\u0963"
     "\u1ab0-\u1aff\u1dc0-\u1dff\u20d0-\u20ff\ufe20-\ufe2f"
 )
-_WORD_CHAR = rf"(?:[^\W_]|[{_MARKS}])"
+# Underscores are turned into spaces before matching (see prepare), so \w means a
+# letter or digit here; one character class is several times faster than an alternation.
+_WORD_CHAR = rf"[\w{_MARKS}]"
 _JOINER = r"(?:['’\-]|(?<=\d)[.,:](?=\d))"
-WORD_PATTERN = rf"[^\W_]{_WORD_CHAR}*(?:{_JOINER}{_WORD_CHAR}+)*"
+WORD_PATTERN = rf"\w{_WORD_CHAR}*(?:{_JOINER}{_WORD_CHAR}+)*"
 """Regular expression source for one word."""
 
 SENTENCE_END_PATTERN = r"[.!?\u2026\u3002\uff01\uff1f]+"
@@ -48,9 +50,9 @@ WORD_RE = re.compile(WORD_PATTERN)
 TOKEN_RE = re.compile(rf"{WORD_PATTERN}|{SENTENCE_END_PATTERN}|\n")
 """Words, sentence-end punctuation runs and line breaks, in order of appearance."""
 
-_PARTIAL_WORD_RE = re.compile(rf"[^\W_](?:{_WORD_CHAR}|['’\-])*\Z")
+_PARTIAL_WORD_RE = re.compile(rf"\w(?:{_WORD_CHAR}|['’\-])*\Z")
 _BLANK_LINE_RE = re.compile(r"(?m)^[ \t\r\f\v]*\n")
-_OTHER_LINE_BREAKS = str.maketrans({"\u2028": "\n", "\u2029": "\n", "\x0b": "\n", "\x0c": "\n"})
+_OTHER_LINE_BREAKS = str.maketrans({"\u2028": "\n", "\u2029": "\n", "\x0b": "\n", "\x0c": "\n", "_": " "})
 
 
 def model_form(word: str) -> str:

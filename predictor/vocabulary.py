@@ -19,7 +19,7 @@ from dataclasses import dataclass
 import marisa_trie
 import numpy as np
 
-from .arrays import offsets_dtype, pack_strings, unpack_string
+from .arrays import offsets_dtype, pack_strings, unpack_string, word_id_dtype
 from .text import model_form
 
 START = "<s>"
@@ -32,6 +32,13 @@ UNKNOWN = "<unk>"
 """The symbol every out-of-vocabulary word maps to: predicted and scored, never suggested."""
 
 
+SHORT_RANGE = 12
+"""Prefixes shared by at most this many words keep no stored list; it is sorted when asked."""
+
+UNLISTED = -1
+"""``PrefixRange.order_start`` of a range without a stored list."""
+
+
 @dataclass(frozen=True)
 class PrefixRange:
     """The words sharing a prefix.
@@ -39,7 +46,8 @@ class PrefixRange:
     Attributes:
         lo: first word id with the prefix.
         hi: one past the last word id with the prefix.
-        order_start: where the range's words, most probable first, start in the order list.
+        order_start: where the range's words, most probable first, start in the
+            order list, or :data:`UNLISTED`.
     """
 
     lo: int
@@ -62,6 +70,7 @@ class Vocabulary:
         self._key_hi = sections["vocab.key_hi"]
         self._key_order = sections["vocab.key_order"]
         self.order = sections["vocab.order"]
+        self._unlisted = int(np.iinfo(sections["vocab.key_order"].dtype).max)
         """int32 array: per prefix, the range's word ids by unigram probability (root first)."""
         self._words_blob = sections["vocab.words_blob"]
         self._words_off = sections["vocab.words_off"]
@@ -71,6 +80,7 @@ class Vocabulary:
         """How many suggestable words there are (V)."""
         self._word_cache: dict[int, str] = {}
         self._display_cache: dict[int, str] = {}
+        self._unigram = sections["p1"]
 
     @property
     def unknown_id(self) -> int:
@@ -138,7 +148,20 @@ class Vocabulary:
         if key is None:
             return None
         lo = int(self._key_lo[key])
-        return PrefixRange(lo if lo >= 0 else -lo - 1, int(self._key_hi[key]), int(self._key_order[key]))
+        start = int(self._key_order[key])
+        return PrefixRange(lo if lo >= 0 else -lo - 1, int(self._key_hi[key]), UNLISTED if start == self._unlisted else start)
+
+    def ranked_range(self, found: PrefixRange) -> np.ndarray:
+        """The word ids of a prefix range, most probable (unigram) first, ties by id.
+
+        Returns:
+            int array of shape (hi - lo,).
+        """
+        span = found.hi - found.lo
+        if found.order_start != UNLISTED:
+            return self.order[found.order_start : found.order_start + span]
+        ids = np.arange(found.lo, found.hi)
+        return ids[np.lexsort((ids, -self._unigram[found.lo : found.hi]))]
 
     def __len__(self) -> int:
         return self.size
@@ -178,20 +201,25 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
     rank = np.empty(size, dtype=np.int64)
     rank[global_order] = np.arange(size)
     sizes = (hi - lo).astype(np.int64)
+    listed = sizes > SHORT_RANGE
+    listed_sizes = np.where(listed, sizes, 0)
     trie_ids = np.array([trie.key_id(p) for p in prefixes], dtype=np.int64)
-    # Lists for every prefix key, laid out in sorted-prefix order after the root list.
-    starts = size + np.concatenate(([0], np.cumsum(sizes)[:-1]))
-    owner = np.repeat(np.arange(keys), sizes)
-    member = np.arange(len(owner)) - np.repeat(np.cumsum(sizes) - sizes, sizes) + np.repeat(lo, sizes)
+    # Lists for the longer ranges, laid out in sorted-prefix order after the root list.
+    starts = size + np.concatenate(([0], np.cumsum(listed_sizes)[:-1]))
+    owner = np.repeat(np.arange(keys), listed_sizes)
+    member = np.arange(len(owner)) - np.repeat(np.cumsum(listed_sizes) - listed_sizes, listed_sizes) + np.repeat(lo, listed_sizes)
     by_owner_rank = np.lexsort((rank[member], owner))
-    order = np.concatenate((global_order, member[by_owner_rank].astype(np.int32)))
+    id_dtype = word_id_dtype(size)
+    order = np.concatenate((global_order, member[by_owner_rank])).astype(id_dtype)
     total = int(order.shape[0])
+    order_dtype = offsets_dtype(total + 1)
+    unlisted = np.iinfo(order_dtype).max
     key_lo = np.empty(keys, dtype=np.int32)
     key_hi = np.empty(keys, dtype=np.int32)
-    key_order = np.empty(keys, dtype=offsets_dtype(total))
+    key_order = np.empty(keys, dtype=order_dtype)
     key_lo[trie_ids] = np.where(is_word, lo, -lo - 1)
     key_hi[trie_ids] = hi
-    key_order[trie_ids] = starts
+    key_order[trie_ids] = np.where(listed, starts, unlisted)
     words_blob, words_off = pack_strings(words)
     display_blob, display_off = pack_strings(display)
     return {

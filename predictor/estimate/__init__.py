@@ -6,7 +6,7 @@ from typing import Any
 
 import numpy as np
 
-from ..arrays import offsets_dtype
+from ..arrays import offsets_dtype, word_id_dtype
 from ..errors import OptionError
 from .encoding import ENCODINGS, FLOAT32, LOG16, decode, encode
 from .katz import estimate_katz
@@ -65,17 +65,22 @@ def fit_levels(counts: ModelCounts, method: str, *, add: float = 0.1, encoding: 
     p1 = (result.p1 / result.p1.sum()).astype(np.float32)
     a2 = encode(result.a2, encoding)
     a3 = encode(result.a3, encoding)
-    g2 = _lower_weights(result, decode(a2), p1.astype(np.float64)[layout.bigram_w], layout.bigram_off, result.g2)
+    p1_stored = p1.astype(np.float64)
+    g2 = _lower_weights(result, decode(a2), p1_stored[layout.bigram_w], layout.bigram_off, result.g2, p1_stored.sum())
+    # Level 3 is fitted to the level-2 weights as the file stores them (float32).
+    g2 = g2.astype(np.float32).astype(np.float64)
     lower3 = _level2_of_rows(result.interpolated, decode(a2), g2, p1, layout, counts)
-    g3 = _lower_weights(result, decode(a3), lower3, layout.trigram_off, result.g3)
+    slot_v = np.concatenate((layout.bigram_w, [counts.vocab_size + 2]))
+    totals2 = _level2_totals(result.interpolated, decode(a2), g2, p1_stored, layout)
+    g3 = _lower_weights(result, decode(a3), lower3, layout.trigram_off, result.g3, totals2[slot_v])
     sections = {
         "p1": p1,
         "l2.off": layout.bigram_off.astype(offsets_dtype(layout.n2)),
-        "l2.word": layout.bigram_w.astype(np.int32),
+        "l2.word": layout.bigram_w.astype(word_id_dtype(counts.vocab_size)),
         "l2.value": a2,
         "l2.gamma": g2.astype(np.float32),
         "l3.off": layout.trigram_off.astype(offsets_dtype(len(counts.table))),
-        "l3.word": counts.table.w.astype(np.int32),
+        "l3.word": counts.table.w.astype(word_id_dtype(counts.vocab_size)),
         "l3.value": a3,
         "l3.gamma": g3.astype(np.float32),
     }
@@ -97,8 +102,30 @@ def _level2_of_rows(interpolated: bool, a2: np.ndarray, g2: np.ndarray, p1: np.n
     return a2[index]
 
 
-def _lower_weights(result: Estimate, decoded: np.ndarray, lower_of_stored: np.ndarray, offsets: np.ndarray, planned: np.ndarray) -> np.ndarray:
-    """Recompute each context's lower-order weight so its distribution sums to 1 after encoding."""
+def _level2_totals(interpolated: bool, a2: np.ndarray, g2: np.ndarray, p1: np.ndarray, layout: Layout) -> np.ndarray:
+    """Sum over all outcomes of P2(w | v) for each context word v, with the stored arithmetic.
+
+    Nearly 1; a back-off weight above it divides by the lower-order mass left
+    free, so the exact sum keeps that weight from magnifying rounding errors.
+    """
+    seen = context_totals(a2, layout.bigram_off)
+    total1 = p1.sum()
+    if interpolated:
+        totals = seen + g2 * total1
+    else:
+        totals = seen + g2 * (total1 - context_totals(p1[layout.bigram_w], layout.bigram_off))
+    return np.where(np.diff(layout.bigram_off) > 0, totals, total1)
+
+
+def _lower_weights(
+    result: Estimate, decoded: np.ndarray, lower_of_stored: np.ndarray, offsets: np.ndarray, planned: np.ndarray, lower_total: float | np.ndarray = 1.0
+) -> np.ndarray:
+    """Recompute each context's lower-order weight so its distribution sums to 1 after encoding.
+
+    Args:
+        lower_total: the lower-order distribution's actual sum (per context, or one
+            number), so a back-off weight is (1 - stored mass) / (mass the stored words leave).
+    """
     if result.exact_zeros:
         return np.zeros(len(offsets) - 1)
     stored_mass = context_totals(decoded, offsets)
@@ -106,7 +133,7 @@ def _lower_weights(result: Estimate, decoded: np.ndarray, lower_of_stored: np.nd
     if result.interpolated:
         weights = np.maximum(1.0 - stored_mass, 0.0)
     else:
-        free = 1.0 - context_totals(lower_of_stored, offsets)
+        free = lower_total - context_totals(lower_of_stored, offsets)
         with np.errstate(invalid="ignore", divide="ignore"):
             weights = np.where(free > 1e-12, np.maximum(1.0 - stored_mass, 0.0) / np.where(free > 1e-12, free, 1.0), 0.0)
     return np.where(has_entries, weights, planned)

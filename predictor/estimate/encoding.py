@@ -1,8 +1,14 @@
 """How stored probability values are encoded in a model file.
 
 ``log16`` keeps each value as a 16-bit code of its base-2 logarithm in steps of
-1/2048 (relative error at most 2^(1/4096) - 1, about 0.017%), from 1 down to
-2^-32; smaller values are stored as 2^-32 and the code 65535 means exactly 0.
+1/2048, from 1 down to 2^-32; smaller values are stored as 2^-32 and the code
+65535 means exactly 0.  Values are rounded *down* to the next step (relative
+error below 2^(1/2048) - 1, about 0.034%), never up: the decoded values of a
+context then never hold more mass than the exact ones, so the lower-order
+weight recomputed from them (``1 - stored mass``) is never smaller than the
+estimator's.  Rounding to the nearest step would halve the error but can
+round a value such as 0.99985 up to 1 and leave no mass at all for unseen
+words (probability 0, infinite perplexity).
 ``float32`` keeps each value as a 32-bit float.  After encoding, every
 lower-order weight is recomputed from the decoded values, so each stored
 distribution still sums to 1.
@@ -25,13 +31,16 @@ def encode(values: np.ndarray, encoding: str) -> np.ndarray:
         return values.astype(np.float32)
     with np.errstate(divide="ignore"):
         scaled = -np.log2(np.maximum(values, 0.0)) * _STEPS_PER_OCTAVE
-    codes = np.clip(np.rint(scaled), 0, _ZERO_CODE - 1)
+    codes = np.clip(np.ceil(scaled), 0, _ZERO_CODE - 1)
     codes = np.where(values > 0, codes, _ZERO_CODE)
     return codes.astype(np.uint16)
 
 
-_TABLE = np.exp2(-np.arange(65536, dtype=np.float64) / _STEPS_PER_OCTAVE)
-_TABLE[_ZERO_CODE] = 0.0
+DECODE_TABLE = np.exp2(-np.arange(65536, dtype=np.float64) / _STEPS_PER_OCTAVE)
+"""float64 value of every log16 code."""
+DECODE_TABLE[_ZERO_CODE] = 0.0
+DECODE_TABLE.flags.writeable = False
+_TABLE = DECODE_TABLE
 
 
 def decode(stored: np.ndarray) -> np.ndarray:

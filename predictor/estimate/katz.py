@@ -23,7 +23,8 @@ def good_turing_ratios(counts: np.ndarray, k: int = KATZ_K) -> np.ndarray:
 
     When the Good-Turing estimates are unusable (some n_r is zero, or a ratio
     falls outside (0, 1]), absolute discounting with D = n1 / (n1 + 2 n2)
-    stands in (Ney's estimate; our guard): d_r = 1 - D / r.
+    stands in (Ney's estimate; our guard): d_r = 1 - D / r, with D = 0.5 when
+    n1 or n2 is zero.
     """
     n = np.array([np.count_nonzero(counts == r) for r in range(k + 2)], dtype=np.float64)
     ratios = np.ones(k + 1)
@@ -35,7 +36,9 @@ def good_turing_ratios(counts: np.ndarray, k: int = KATZ_K) -> np.ndarray:
             ratios[r] = (r_star / r - common) / (1 - common) if common < 1 else 0.0
         usable = bool(np.all((ratios[1:] > 0) & (ratios[1:] <= 1)))
     if not usable:
-        d = n[1] / (n[1] + 2 * n[2]) if n[1] + n[2] > 0 else 0.5
+        # With no n-gram seen twice, Ney's D would be 1 and remove every singleton
+        # (at the unigram level, nothing would be left for them); 0.5 as in the KN guard.
+        d = n[1] / (n[1] + 2 * n[2]) if n[1] > 0 and n[2] > 0 else 0.5
         ratios = np.array([1.0] + [1 - d / r for r in range(1, k + 1)])
     return ratios
 
@@ -76,12 +79,23 @@ def backoff_weights(seen: np.ndarray, lower_of_seen: np.ndarray, offsets: np.nda
 
 
 def katz_unigram(counts: np.ndarray, ratios: np.ndarray) -> np.ndarray:
-    """Good-Turing discounted unigram; outcomes never seen share the freed mass equally."""
+    """Good-Turing discounted unigram; outcomes never seen share the freed mass equally.
+
+    If no mass was freed (no count of K or less), the seen outcomes give up the
+    share c / (c + 1) keeps (our guard), so an outcome never seen, such as
+    UNKNOWN in a corpus without rare words, still gets a positive probability.
+    """
     total = counts.sum()
     factor = np.where(counts <= KATZ_K, ratios[np.minimum(counts, KATZ_K)], 1.0)
     p = factor * counts / total
     unseen = counts == 0
     if unseen.any():
+        seen_mass = p.sum()
+        if seen_mass >= 1 - 1e-9:
+            # Nothing was discounted (every count above K): scale the seen words by
+            # c / (c + 1), c the number of seen outcomes, as backoff_weights does.
+            seen_types = np.count_nonzero(~unseen)
+            p = p * (seen_types / (seen_types + 1) / seen_mass)
         p[unseen] = (1 - p.sum()) / unseen.sum()
     else:
         p = counts / total

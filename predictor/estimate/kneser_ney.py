@@ -21,9 +21,11 @@ def modified_kn_discounts(counts: np.ndarray) -> tuple[float, float, float]:
 
     Chen & Goodman (1998): Y = n1 / (n1 + 2 n2), D1 = 1 - 2Y n2/n1,
     D2 = 2 - 3Y n3/n2, D3+ = 3 - 4Y n4/n3, where n_r is the number of n-grams
-    with count r.  Where some n_r is zero the formula is undefined; then a
-    discount falls back to the one below it (D1 to 0.5), and every discount is
-    kept within [0, r] so no count turns negative (our guard).
+    with count r.  Where some n_r is zero the formula is undefined, and where
+    it gives D2 or D3+ at or below 0 it is unusable; then a discount falls back
+    to the one below it (D1 to 0.5), and every discount is kept within [0, r]
+    so no count turns negative (our guard).  D1 = Y is always positive, so
+    every discount is.
 
     Args:
         counts: integer counts of the distinct n-grams of one order.
@@ -39,6 +41,13 @@ def modified_kn_discounts(counts: np.ndarray) -> tuple[float, float, float]:
     d1 = 1 - 2 * y * n2 / n1
     d2 = 2 - 3 * y * n3 / n2 if n3 else d1
     d3 = 3 - 4 * y * n4 / n3 if n3 else d2
+    # On small or odd count tables the formula can put D2 or D3+ at or below 0; a
+    # context whose continuations all have that count would then keep no mass for
+    # the lower order (probability 0 for every unseen word), so it falls back too.
+    if d2 <= 0:
+        d2 = d1
+    if d3 <= 0:
+        d3 = d2
     return float(np.clip(d1, 0, 1)), float(np.clip(d2, 0, 2)), float(np.clip(d3, 0, 3))
 
 

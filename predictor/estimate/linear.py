@@ -26,6 +26,10 @@ BUCKETS = 12
 EM_ITERATIONS = 50
 DEFAULT_WEIGHTS = (0.95, 0.7, 0.5)
 """(l1, l2, l3) when there is no held-out sentence to fit on (tiny corpora)."""
+MAX_WEIGHT = 1 - 1e-6
+"""EM drives a weight to exactly 1 when the held-out text holds nothing the higher
+order misses (a repetitive corpus); capping it keeps every outcome's probability
+positive (our guard)."""
 
 
 def count_bucket(counts: np.ndarray) -> np.ndarray:
@@ -113,7 +117,7 @@ def fit_weights(train: TrigramTable, heldout: TrigramTable, vocab_size: int) -> 
         if log_likelihood - previous < 1e-7 * abs(log_likelihood):
             break
         previous = log_likelihood
-    return l1, l2, l3, log_likelihood
+    return min(l1, MAX_WEIGHT), np.minimum(l2, MAX_WEIGHT), np.minimum(l3, MAX_WEIGHT), log_likelihood
 
 
 def _ratio(numerator: np.ndarray, denominator: np.ndarray, fallback: np.ndarray) -> np.ndarray:

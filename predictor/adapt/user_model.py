@@ -1,0 +1,670 @@
+"""The user model: unigram, bigram and trigram counts learned from a person's own text.
+
+Every learned token updates one count at each order (the word after its two
+predecessors, after its predecessor, and alone), with sentences padded as in
+the base model: two START symbols before the first word and an END after the
+last.  The counts give an interpolated Witten-Bell trigram model (Witten & Bell
+1991; as restated by Chen & Goodman 1998, TR-10-98)::
+
+    P_user(w | u v) = (1 - g(uv)) * c(uvw) / c(uv.) + g(uv) * P_user(w | v)
+    P_user(w | v)   = (1 - g(v))  * c(vw)  / c(v.)  + g(v)  * P_user(w)
+    P_user(w)       = c(w) / N
+    g(h) = T(h) / (T(h) + c(h.))      T(h) = distinct words seen after h
+
+A context never seen passes its whole weight to the order below (g = 1).
+
+**Decay.** With a half-life H (in learned tokens) every count is multiplied by
+2^(-1/H) per learned token, so old habits fade as in an exponentially decaying
+cache (Kuhn & De Mori 1990 use a window of recent words; exponential decay is
+the common smooth variant).  Counts are stored inflated by the running factor
+s = 2^(t/H): adding s instead of 1 at tick t and reading c / s later gives the
+decayed count, so an update stays O(1); when s grows past 2^200 every stored
+count is divided by s once.  Ratios such as c(uvw) / c(uv.) need no correction;
+only the evidence counts in g(h) and the share mu are divided by s.
+
+**Ids.** A user model is bound to a base vocabulary of V words: a word the
+base knows keeps its base id, END is V + 1, START V + 2, and every word the
+base lacks gets V + 3 + j in the order it was first typed.  The counts are
+stored by word (never by id), so a learned file survives a rebuilt base model.
+"""
+
+from __future__ import annotations
+
+import math
+import time
+from bisect import bisect_left, insort
+from collections.abc import Iterable, Iterator, Sequence
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from ..errors import OptionError
+from ..text import WORD_RE, model_form
+from ..vocabulary import END, START, UNKNOWN, Vocabulary
+from .settings import AdaptSettings
+
+_RESCALE_AT = 2.0**200
+"""When the inflation factor passes this, every stored count is divided by it."""
+
+
+class Followers:
+    """The words seen after one context, with their (inflated) counts."""
+
+    __slots__ = ("slot", "ids", "weights", "uses", "seen", "total", "_view")
+
+    def __init__(self) -> None:
+        """Start empty."""
+        self.slot: dict[int, int] = {}
+        self.ids: list[int] = []
+        self.weights: list[float] = []
+        self.uses: list[int] = []
+        self.seen: list[int] = []
+        self.total = 0.0
+        self._view: tuple[np.ndarray, np.ndarray] | None = None
+
+    def __len__(self) -> int:
+        return len(self.ids)
+
+    def add(self, word_id: int, amount: float, when: int, uses: int = 1) -> None:
+        """Count one more occurrence of a word after this context."""
+        at = self.slot.get(word_id)
+        if at is None:
+            self.slot[word_id] = len(self.ids)
+            self.ids.append(word_id)
+            self.weights.append(amount)
+            self.uses.append(uses)
+            self.seen.append(when)
+        else:
+            self.weights[at] += amount
+            self.uses[at] += uses
+            self.seen[at] = max(self.seen[at], when)
+        self.total += amount
+        self._view = None
+
+    def view(self) -> tuple[np.ndarray, np.ndarray]:
+        """The followers sorted by id, as (int64 ids, float64 inflated counts), both of shape (T,)."""
+        if self._view is None:
+            ids = np.array(self.ids, dtype=np.int64)
+            weights = np.array(self.weights, dtype=np.float64)
+            order = np.argsort(ids)
+            self._view = (ids[order], weights[order])
+        return self._view
+
+    def keep(self, mask: Sequence[bool]) -> None:
+        """Keep only the followers whose entry in ``mask`` is true."""
+        kept = [i for i, flag in enumerate(mask) if flag]
+        self.ids = [self.ids[i] for i in kept]
+        self.weights = [self.weights[i] for i in kept]
+        self.uses = [self.uses[i] for i in kept]
+        self.seen = [self.seen[i] for i in kept]
+        self.slot = {word_id: i for i, word_id in enumerate(self.ids)}
+        self.total = math.fsum(self.weights)
+        self._view = None
+
+    def scale(self, factor: float) -> None:
+        """Multiply every count by ``factor`` (used when the inflation factor is reset)."""
+        self.weights = [w * factor for w in self.weights]
+        self.total *= factor
+        self._view = None
+
+
+@dataclass(frozen=True)
+class UserContext:
+    """What the user model knows about one context (u, v), ready for vectorised scoring.
+
+    Attributes:
+        ids3: int64 array of shape (T3,): words seen after (u, v), sorted (empty if none).
+        weights3: float64 array of shape (T3,): their inflated counts.
+        total3: inflated count of the context (0 if unseen).
+        gamma3: the weight passed to the bigram order (1 if the context is unseen).
+        ids2, weights2, total2, gamma2: the same after v alone.
+        total1: inflated count of every learned token (N).
+    """
+
+    ids3: np.ndarray
+    weights3: np.ndarray
+    total3: float
+    gamma3: float
+    ids2: np.ndarray
+    weights2: np.ndarray
+    total2: float
+    gamma2: float
+    total1: float
+
+
+_EMPTY_IDS = np.zeros(0, dtype=np.int64)
+_EMPTY_WEIGHTS = np.zeros(0, dtype=np.float64)
+
+
+def _level(ids: np.ndarray, weights: np.ndarray, total: float, candidates: np.ndarray) -> np.ndarray:
+    """c(h w) / c(h .) for each candidate (0 where unseen after h)."""
+    if not len(ids):
+        return np.zeros(len(candidates), dtype=np.float64)
+    pos = np.searchsorted(ids, candidates)
+    np.minimum(pos, len(ids) - 1, out=pos)
+    freq = weights[pos] / total
+    freq[ids[pos] != candidates] = 0.0
+    return freq
+
+
+def interpolate(p1: np.ndarray, f2: np.ndarray | float, f3: np.ndarray | float, context: UserContext) -> np.ndarray:
+    """The Witten-Bell chain from the unigram up (the one arithmetic every user probability uses).
+
+    Args:
+        p1: float64 array: c(w) / N per candidate.
+        f2: c(v w) / c(v .) per candidate (or 0.0).
+        f3: c(u v w) / c(u v .) per candidate (or 0.0).
+        context: the context's gammas.
+
+    Returns:
+        float64 array of P_user per candidate.  For fixed gammas it never
+        decreases when p1, f2 or f3 grow, which the exact top-k bound relies on.
+    """
+    g2 = context.gamma2
+    p2 = (1.0 - g2) * f2 + g2 * p1
+    g3 = context.gamma3
+    return (1.0 - g3) * f3 + g3 * p2
+
+
+class UserModel:
+    """Counts learned from a person's text, bound to a base vocabulary (or none)."""
+
+    def __init__(self, vocab: Vocabulary | None = None, settings: AdaptSettings | None = None) -> None:
+        """Start an empty user model.
+
+        Args:
+            vocab: the base model's vocabulary (None: every word counts as new).
+            settings: learning settings (default :class:`AdaptSettings`).
+        """
+        self.vocab = vocab
+        self.settings = settings or AdaptSettings()
+        size = vocab.size if vocab is not None else 0
+        self.base_size = size
+        """V: how many words the base vocabulary has."""
+        self.unknown_id = size
+        self.end_id = size + 1
+        self.start_id = size + 2
+        self.first_learned_id = size + 3
+        """The id of the first word the base vocabulary lacks."""
+        self._forms: list[str] = []
+        self._learned: dict[str, int] = {}
+        self._votes: dict[int, dict[str, int]] = {}
+        capacity = size + 3 + 64
+        self._w1 = np.zeros(capacity, dtype=np.float64)
+        self._n1 = np.zeros(capacity, dtype=np.int64)
+        self._seen1 = np.zeros(capacity, dtype=np.int64)
+        self._total = 0.0
+        self._ctx2: dict[int, Followers] = {}
+        self._ctx3: dict[tuple[int, int], Followers] = {}
+        self.tick = 0
+        """Tokens learned so far (the decay clock)."""
+        self._scale = 1.0
+        self._seen_base = np.zeros(0, dtype=np.int64)
+        self._ready_forms: list[str] = []
+        self._ready_ids: list[int] = []
+        self.version = 0
+        """Grows with every change (learning, pruning, forgetting, settings)."""
+        self.words_version = 0
+        """Grows when the set of seen or suggestable words changes."""
+
+    # ------------------------------------------------------------------ ids
+    @property
+    def learned_count(self) -> int:
+        """How many words the base vocabulary lacks have been typed (with counts or not)."""
+        return len(self._forms)
+
+    def id_of(self, word: str) -> int | None:
+        """The id of a written word: its base id, its learned id, or None if neither knows it."""
+        if word in (START, END):
+            return self.start_id
+        if word == UNKNOWN:
+            return self.unknown_id
+        form = model_form(word)
+        if self.vocab is not None:
+            found = self.vocab.id(form)
+            if found is not None:
+                return found
+        return self._learned.get(form)
+
+    def _id_for(self, form: str) -> int:
+        if self.vocab is not None:
+            found = self.vocab.id(form)
+            if found is not None:
+                return found
+        found = self._learned.get(form)
+        if found is None:
+            found = self.first_learned_id + len(self._forms)
+            self._forms.append(form)
+            self._learned[form] = found
+            self._grow(found + 1)
+        return found
+
+    def _grow(self, needed: int) -> None:
+        if needed <= len(self._w1):
+            return
+        capacity = max(needed, 2 * len(self._w1))
+        for name in ("_w1", "_n1", "_seen1"):
+            old = getattr(self, name)
+            new = np.zeros(capacity, dtype=old.dtype)
+            new[: len(old)] = old
+            setattr(self, name, new)
+
+    def is_learned(self, word_id: int) -> bool:
+        """Tell whether an id belongs to a word the base vocabulary lacks."""
+        return word_id >= self.first_learned_id
+
+    def form(self, word_id: int) -> str:
+        """The model form of an id (base or learned; special ids give their symbols)."""
+        if word_id >= self.first_learned_id:
+            return self._forms[word_id - self.first_learned_id]
+        if word_id >= self.base_size:
+            return (UNKNOWN, END, START)[word_id - self.base_size]
+        assert self.vocab is not None
+        return self.vocab.word(word_id)
+
+    def display(self, word_id: int) -> str:
+        """How an id is shown: the base display form, or the learned word's most used written form."""
+        if word_id < self.first_learned_id:
+            return self.vocab.display(word_id) if self.vocab is not None and word_id < self.base_size else self.form(word_id)
+        votes = self._votes.get(word_id)
+        if not votes:
+            return self.form(word_id)
+        return max(votes.items(), key=lambda item: item[1])[0]
+
+    # ------------------------------------------------------------- learning
+    def learn(self, words: Sequence[str], *, after: Sequence[str] = (), end: bool = False, when: int | None = None) -> int:
+        """Count words the person accepted or typed.
+
+        Args:
+            words: written words, in order (each one word as the tokenizer
+                defines it); they continue the sentence after ``after``.
+            after: the preceding words of the same sentence, as written (only
+                the last two matter; empty at a sentence start).  Words the
+                model does not know yet count as UNKNOWN there.
+            end: the sentence ends after ``words`` (counts END).
+            when: Unix time in seconds to record as last seen (default now).
+
+        Returns:
+            How many tokens were counted (words, plus one if ``end``).
+
+        Raises:
+            OptionError: an entry of ``words`` is not a single word.
+        """
+        for word in words:
+            if not isinstance(word, str) or WORD_RE.fullmatch(word) is None:
+                raise OptionError(f"cannot learn {word!r}: not a single word")
+        stamp = int(time.time()) if when is None else int(when)
+        context = [self._context_id(w) for w in list(after)[-2:]]
+        while len(context) < 2:
+            context.insert(0, self.start_id)
+        u, v = context
+        if v == self.start_id:
+            u = self.start_id
+        sentence_start = v == self.start_id
+        for word in words:
+            form = model_form(word)
+            word_id = self._id_for(form)
+            if word_id >= self.first_learned_id:
+                votes = self._votes.setdefault(word_id, {})
+                # A capital at a sentence start says little about how the word is written elsewhere.
+                votes[word] = votes.get(word, 0) + (1 if sentence_start else 2)
+            self._count(u, v, word_id, stamp)
+            u, v = v, word_id
+            sentence_start = False
+        if end:
+            self._count(u, v, self.end_id, stamp)
+        return len(words) + (1 if end else 0)
+
+    def _context_id(self, word: str) -> int:
+        found = self.id_of(word)
+        return self.unknown_id if found is None else found
+
+    def _count(self, u: int, v: int, w: int, when: int) -> None:
+        self.tick += 1
+        if self.settings.half_life is not None:
+            self._scale *= 2.0 ** (1.0 / self.settings.half_life)
+        amount = self._scale
+        first_use = self._n1[w] == 0
+        self._w1[w] += amount
+        self._n1[w] += 1
+        self._seen1[w] = when
+        self._total += amount
+        followers = self._ctx2.get(v)
+        if followers is None:
+            followers = self._ctx2[v] = Followers()
+        followers.add(w, amount, when)
+        followers = self._ctx3.get((u, v))
+        if followers is None:
+            followers = self._ctx3[(u, v)] = Followers()
+        followers.add(w, amount, when)
+        self.version += 1
+        if w < self.base_size and first_use:
+            self._seen_base = np.insert(self._seen_base, np.searchsorted(self._seen_base, w), w)
+            self.words_version += 1
+        elif w >= self.first_learned_id and self._n1[w] == self.settings.min_uses:
+            self._mark_ready(w)
+        if self._scale > _RESCALE_AT:
+            self._rescale()
+
+    def _mark_ready(self, word_id: int) -> None:
+        form = self._forms[word_id - self.first_learned_id]
+        at = bisect_left(self._ready_forms, form)
+        if at < len(self._ready_forms) and self._ready_forms[at] == form:
+            return
+        self._ready_forms.insert(at, form)
+        self._ready_ids.insert(at, word_id)
+        self.words_version += 1
+
+    def _rescale(self) -> None:
+        factor = 1.0 / self._scale
+        self._w1 *= factor
+        self._total *= factor
+        for followers in self._ctx2.values():
+            followers.scale(factor)
+        for followers in self._ctx3.values():
+            followers.scale(factor)
+        self._scale = 1.0
+
+    # -------------------------------------------------------------- queries
+    @property
+    def tokens(self) -> float:
+        """The user's decayed token count n (the raw count when there is no decay)."""
+        return self._total / self._scale
+
+    @property
+    def raw_tokens(self) -> int:
+        """Every token counted and still held (words and sentence ends), without decay."""
+        return int(self._n1.sum())
+
+    def share(self) -> float:
+        """The user model's share mu of the combined probability now."""
+        return self.settings.share(self.tokens)
+
+    def context(self, u: int, v: int) -> UserContext:
+        """Gather the counts after (u, v) for scoring."""
+        scale = self._scale
+        three = self._ctx3.get((u, v)) if v != self.unknown_id else None
+        if three is not None and three.total > 0:
+            ids3, weights3 = three.view()
+            total3 = three.total
+            gamma3 = len(three) / (len(three) + total3 / scale)
+        else:
+            ids3, weights3, total3, gamma3 = _EMPTY_IDS, _EMPTY_WEIGHTS, 0.0, 1.0
+        two = self._ctx2.get(v)
+        if two is not None and two.total > 0:
+            ids2, weights2 = two.view()
+            total2 = two.total
+            gamma2 = len(two) / (len(two) + total2 / scale)
+        else:
+            ids2, weights2, total2, gamma2 = _EMPTY_IDS, _EMPTY_WEIGHTS, 0.0, 1.0
+        return UserContext(ids3, weights3, total3, gamma3, ids2, weights2, total2, gamma2, self._total)
+
+    def probabilities(self, ids: np.ndarray, context: UserContext) -> np.ndarray:
+        """P_user(w | u v) for outcome ids (words, END; 0 for UNKNOWN, START and unseen words).
+
+        Args:
+            ids: int64 array of shape (n,).
+            context: from :meth:`context`.
+
+        Returns:
+            float64 array of shape (n,).
+        """
+        ids = np.asarray(ids, dtype=np.int64)
+        if context.total1 <= 0:
+            return np.zeros(len(ids), dtype=np.float64)
+        inside = ids < len(self._w1)
+        p1 = np.zeros(len(ids), dtype=np.float64)
+        p1[inside] = self._w1[ids[inside]] / context.total1
+        f2 = _level(context.ids2, context.weights2, context.total2, ids)
+        f3 = _level(context.ids3, context.weights3, context.total3, ids)
+        return interpolate(p1, f2, f3, context)
+
+    def unigram_weights(self, ids: np.ndarray) -> np.ndarray:
+        """The inflated unigram counts of ids (float64 array of the same shape)."""
+        return self._w1[np.asarray(ids, dtype=np.int64)]
+
+    def uses(self, word_id: int) -> int:
+        """How many times a word was counted (raw, without decay)."""
+        return int(self._n1[word_id]) if word_id < len(self._n1) else 0
+
+    def seen_base_ids(self) -> np.ndarray:
+        """Base word ids counted at least once (int64, sorted); do not modify."""
+        return self._seen_base
+
+    def ready_learned(self, prefix: str = "") -> list[int]:
+        """Ids of new words used at least ``min_uses`` times whose model form starts with ``prefix``, by form."""
+        forms = self._ready_forms
+        lo = bisect_left(forms, prefix)
+        hi = bisect_left(forms, prefix + "\U0010ffff") if prefix else len(forms)
+        return self._ready_ids[lo:hi]
+
+    def ready_forms(self) -> list[str]:
+        """Model forms of every suggestable new word, sorted."""
+        return list(self._ready_forms)
+
+    def is_ready(self, word_id: int) -> bool:
+        """Tell whether a new word has been used often enough to be suggested."""
+        return word_id >= self.first_learned_id and self.uses(word_id) >= self.settings.min_uses
+
+    # ----------------------------------------------------------- management
+    def set_settings(self, settings: AdaptSettings) -> None:
+        """Change the settings (a new min_uses re-decides which new words are suggestable)."""
+        old = self.settings
+        self.settings = settings
+        if settings.half_life != old.half_life:
+            self._rescale()
+        if settings.min_uses != old.min_uses:
+            self._rebuild_ready()
+        self.version += 1
+
+    def _rebuild_ready(self) -> None:
+        pairs = sorted((form, self.first_learned_id + j) for j, form in enumerate(self._forms) if self._n1[self.first_learned_id + j] >= self.settings.min_uses)
+        self._ready_forms = [form for form, _ in pairs]
+        self._ready_ids = [word_id for _, word_id in pairs]
+        used = np.flatnonzero(self._n1[: self.base_size] > 0)
+        self._seen_base = used.astype(np.int64)
+        self.words_version += 1
+
+    def forget(self, word: str) -> bool:
+        """Remove every count that involves a word; returns False if nothing was counted.
+
+        The word can be learned again later (unless it is on the never-suggest list).
+        """
+        word_id = self.id_of(word)
+        if word_id is None or word_id in (self.start_id, self.unknown_id):
+            return False
+        touched = self._n1[word_id] > 0 if word_id < len(self._n1) else False
+        for key in [key for key in self._ctx3 if word_id in key]:
+            del self._ctx3[key]
+            touched = True
+        self._ctx2.pop(word_id, None)
+        for table in (self._ctx2, self._ctx3):
+            for key, followers in list(table.items()):
+                if word_id in followers.slot:
+                    followers.keep([i != word_id for i in followers.ids])
+                    touched = True
+                    if not len(followers):
+                        del table[key]
+        if word_id < len(self._w1):
+            self._total -= self._w1[word_id]
+            self._w1[word_id] = 0.0
+            self._n1[word_id] = 0
+            self._seen1[word_id] = 0
+        self._votes.pop(word_id, None)
+        self._total = max(self._total, 0.0)
+        self._rebuild_ready()
+        self.version += 1
+        return bool(touched)
+
+    def prune(self, *, below: float | None = None, seen_before: int | None = None) -> int:
+        """Drop counts smaller than ``below`` (after decay) or last seen before a Unix time.
+
+        Returns:
+            How many counts (of every order) were dropped.
+        """
+        if below is None and seen_before is None:
+            return 0
+        threshold = -1.0 if below is None else below * self._scale
+        cutoff = -1 if seen_before is None else seen_before
+        dropped = 0
+        for table in (self._ctx2, self._ctx3):
+            for key, followers in list(table.items()):
+                mask = [w >= threshold and s >= cutoff for w, s in zip(followers.weights, followers.seen)]
+                if not all(mask):
+                    dropped += len(mask) - sum(mask)
+                    followers.keep(mask)
+                    if not len(followers):
+                        del table[key]
+        used = self._n1 > 0
+        gone = used & ((self._w1 < threshold) | (self._seen1 < cutoff))
+        dropped += int(gone.sum())
+        self._w1[gone] = 0.0
+        self._n1[gone] = 0
+        self._seen1[gone] = 0
+        for word_id in np.flatnonzero(gone):
+            self._votes.pop(int(word_id), None)
+        self._total = math.fsum(self._w1)
+        if dropped:
+            self._rebuild_ready()
+            self.version += 1
+        return dropped
+
+    # ------------------------------------------------------------- listings
+    def word_rows(self) -> Iterator[tuple[int, str, float, int, int]]:
+        """Every counted outcome (words and END): (id, model form, decayed count, raw uses, last seen)."""
+        for word_id in np.flatnonzero(self._n1 > 0):
+            i = int(word_id)
+            yield i, self.form(i), float(self._w1[i] / self._scale), int(self._n1[i]), int(self._seen1[i])
+
+    def ngram_rows(self, order: int) -> Iterator[tuple[tuple[int, ...], float, int, int]]:
+        """Every bigram (order 2) or trigram (order 3): (ids, decayed count, raw uses, last seen)."""
+        if order not in (2, 3):
+            raise OptionError(f"order must be 2 or 3, not {order}")
+        table: dict[Any, Followers] = self._ctx2 if order == 2 else self._ctx3  # type: ignore[assignment]
+        scale = self._scale
+        for key, followers in table.items():
+            head = (key,) if order == 2 else key
+            for word_id, weight, uses, seen in zip(followers.ids, followers.weights, followers.uses, followers.seen):
+                yield (*head, word_id), weight / scale, uses, seen
+
+    def counts_summary(self) -> dict[str, int]:
+        """How many distinct unigrams, bigrams and trigrams are held."""
+        return {
+            "1": int(np.count_nonzero(self._n1)),
+            "2": sum(len(f) for f in self._ctx2.values()),
+            "3": sum(len(f) for f in self._ctx3.values()),
+        }
+
+    def display_votes(self) -> dict[str, dict[str, int]]:
+        """Written forms of new words and their votes, by model form."""
+        return {self.form(word_id): dict(votes) for word_id, votes in self._votes.items()}
+
+    # ------------------------------------------------------------- snapshot
+    def snapshot(self) -> dict[str, Any]:
+        """The whole state as plain data (words by model form, counts decayed to now).
+
+        Returns:
+            ``{"tick", "words", "votes", "unigrams", "bigrams", "trigrams"}``: ``words``
+            lists model forms (index 0 START, 1 END, 2 UNKNOWN); each n-gram table
+            maps column names to numpy arrays of equal length: word indices
+            (int32), ``count`` (float64, decayed), ``uses`` (int64) and ``seen`` (int64).
+        """
+        index: dict[int, int] = {self.start_id: 0, self.end_id: 1, self.unknown_id: 2}
+        words = [START, END, UNKNOWN]
+
+        def idx(word_id: int) -> int:
+            at = index.get(word_id)
+            if at is None:
+                at = index[word_id] = len(words)
+                words.append(self.form(word_id))
+            return at
+
+        scale = self._scale
+        used = np.flatnonzero(self._n1 > 0)
+        unigrams = {
+            "w": np.array([idx(int(i)) for i in used], dtype=np.int32),
+            "count": self._w1[used] / scale,
+            "uses": self._n1[used].astype(np.int64),
+            "seen": self._seen1[used].astype(np.int64),
+        }
+        tables = []
+        for order, table in ((2, self._ctx2), (3, self._ctx3)):
+            heads: list[list[int]] = [[] for _ in range(order - 1)]
+            tail: list[int] = []
+            counts: list[float] = []
+            uses: list[int] = []
+            seen: list[int] = []
+            for key, followers in table.items():
+                context = (key,) if order == 2 else key
+                context_idx = [idx(c) for c in context]  # type: ignore[union-attr]
+                for word_id, weight, n, s in zip(followers.ids, followers.weights, followers.uses, followers.seen):
+                    for column, value in zip(heads, context_idx):
+                        column.append(value)
+                    tail.append(idx(word_id))
+                    counts.append(weight / scale)
+                    uses.append(n)
+                    seen.append(s)
+            names = ["v", "w"] if order == 2 else ["u", "v", "w"]
+            columns = {name: np.array(col, dtype=np.int32) for name, col in zip(names, heads + [tail])}
+            columns.update(count=np.array(counts, dtype=np.float64), uses=np.array(uses, dtype=np.int64), seen=np.array(seen, dtype=np.int64))
+            tables.append(columns)
+        votes = {self.form(word_id): dict(v) for word_id, v in self._votes.items()}
+        return {"tick": self.tick, "words": words, "votes": votes, "unigrams": unigrams, "bigrams": tables[0], "trigrams": tables[1]}
+
+    def restore(self, state: dict[str, Any]) -> None:
+        """Replace the counts with a :meth:`snapshot` (words mapped through this model's vocabulary).
+
+        Raises:
+            ValueError: the state is inconsistent (index out of range, columns of unequal length).
+        """
+        words = list(state["words"])
+        if words[:3] != [START, END, UNKNOWN]:
+            raise ValueError("the word table does not start with the special symbols")
+        ids = [self.start_id, self.end_id, self.unknown_id] + [self._id_for(str(form)) for form in words[3:]]
+        lookup = np.array(ids, dtype=np.int64)
+        self._w1[:] = 0.0
+        self._n1[:] = 0
+        self._seen1[:] = 0
+        self._ctx2 = {}
+        self._ctx3 = {}
+        self._scale = 1.0
+        self.tick = int(state["tick"])
+        uni = state["unigrams"]
+        target = lookup[np.asarray(uni["w"], dtype=np.int64)]
+        if len({len(uni[c]) for c in ("w", "count", "uses", "seen")}) != 1:
+            raise ValueError("unigram columns differ in length")
+        np.add.at(self._w1, target, np.asarray(uni["count"], dtype=np.float64))
+        np.add.at(self._n1, target, np.asarray(uni["uses"], dtype=np.int64))
+        np.maximum.at(self._seen1, target, np.asarray(uni["seen"], dtype=np.int64))
+        self._total = math.fsum(self._w1)
+        for order, name, table in ((2, "bigrams", self._ctx2), (3, "trigrams", self._ctx3)):
+            columns = state[name]
+            heads = [lookup[np.asarray(columns[c], dtype=np.int64)] for c in (["v"] if order == 2 else ["u", "v"])]
+            tail = lookup[np.asarray(columns["w"], dtype=np.int64)]
+            counts = np.asarray(columns["count"], dtype=np.float64)
+            uses = np.asarray(columns["uses"], dtype=np.int64)
+            seen = np.asarray(columns["seen"], dtype=np.int64)
+            if not (len(tail) == len(counts) == len(uses) == len(seen) and all(len(h) == len(tail) for h in heads)):
+                raise ValueError(f"{name} columns differ in length")
+            keys: Iterable[Any] = heads[0].tolist() if order == 2 else zip(heads[0].tolist(), heads[1].tolist())
+            for key, w, c, n, s in zip(keys, tail.tolist(), counts.tolist(), uses.tolist(), seen.tolist()):
+                followers = table.get(key)
+                if followers is None:
+                    followers = table[key] = Followers()
+                followers.add(w, c, s, uses=n)
+        self._votes = {}
+        for form, votes in dict(state.get("votes", {})).items():
+            word_id = self._learned.get(model_form(str(form)))
+            if word_id is not None and isinstance(votes, dict):
+                self._votes[word_id] = {str(k): int(n) for k, n in votes.items()}
+        self._rebuild_ready()
+        self.version += 1
+
+
+def ids_in_order(found: list[int]) -> np.ndarray:
+    """A list of ids as a sorted int64 array."""
+    return np.array(sorted(found), dtype=np.int64)
+
+
+__all__ = ["UserModel", "UserContext", "Followers", "interpolate", "insort"]

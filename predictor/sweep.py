@@ -1,0 +1,365 @@
+"""The vocabulary sweep: one corpus count, a model per vocabulary size and method, measured side by side.
+
+For each (method, vocabulary size) the sweep builds the model from the shared
+counts, saves it in the output folder, loads it back and measures it:
+
+* ``vocab_size``, ``unigrams``, ``bigrams``, ``trigrams``: what the model holds;
+* ``file_bytes``: the saved file's size;
+* ``rss_bytes``: resident memory the model costs: the growth of this process's
+  resident set size (psutil) from just before loading the file to just after
+  the simulated typist ran on it, so it counts the mapped pages the queries
+  touched and the arrays copied at load; measured in one process, it is
+  approximate (a few MB of noise);
+* ``build_seconds`` (from counts to model), ``load_ms`` (opening the saved file);
+* ``perplexity`` and ``oov_rate`` of the test text;
+* ``ksr``, ``oracle_ksr``, ``baseline_ksr`` and suggestion latency
+  ``latency_p50_us`` / ``latency_p99_us`` from :func:`predictor.simulate.simulate`.
+
+Rows are written to ``sweep.csv``, ``sweep.json`` and the chart ``sweep.svg``
+as each one finishes (atomically), so an interrupted sweep keeps its rows.
+"""
+
+from __future__ import annotations
+
+import csv
+import gc
+import io
+import json
+import math
+import os
+import time
+from collections.abc import Callable, Sequence
+from dataclasses import asdict, dataclass, field
+from pathlib import Path
+from typing import Any
+
+from .build import build_from_counts, check_build_options
+from .chart import sweep_chart
+from .counting import count_corpus
+from .errors import OptionError
+from .estimate import METHODS
+from .model import load
+from .simulate import TypistSettings, read_passage, simulate
+from .simulate.writing import prepare_folder, write_text_atomic
+
+DEFAULT_VOCAB_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)
+"""The vocabulary sizes swept when none are given."""
+
+COLUMNS = (
+    "method",
+    "requested_vocab_size",
+    "vocab_size",
+    "unigrams",
+    "bigrams",
+    "trigrams",
+    "file_bytes",
+    "rss_bytes",
+    "build_seconds",
+    "load_ms",
+    "perplexity",
+    "oov_rate",
+    "ksr",
+    "oracle_ksr",
+    "baseline_ksr",
+    "latency_p50_us",
+    "latency_p99_us",
+)
+"""The columns of ``sweep.csv`` (and the keys of each row in ``sweep.json``)."""
+
+MEMORY_MEASURE = "RSS growth (psutil) from before loading the model file to after the simulated typist ran on it, in the sweep's own process"
+"""How ``rss_bytes`` is measured (written into sweep.json)."""
+
+SweepProgress = Callable[[str, int, int], None]
+"""Called with (stage label, done, total) while the sweep runs."""
+
+
+@dataclass(frozen=True)
+class SweepRow:
+    """The measurements of one model of the sweep (see the module docstring for each field)."""
+
+    method: str
+    requested_vocab_size: int
+    vocab_size: int
+    unigrams: int
+    bigrams: int
+    trigrams: int
+    file_bytes: int
+    rss_bytes: int
+    build_seconds: float
+    load_ms: float
+    perplexity: float | None
+    oov_rate: float
+    ksr: float
+    oracle_ksr: float
+    baseline_ksr: float
+    latency_p50_us: float | None
+    latency_p99_us: float | None
+
+    def to_json(self) -> dict[str, Any]:
+        """The row as a JSON object with the :data:`COLUMNS` as keys."""
+        return asdict(self)
+
+
+@dataclass
+class SweepResult:
+    """A sweep's rows and what they were measured on.
+
+    Attributes:
+        corpus: the corpus paths.
+        test: the test file.
+        corpus_tokens: word tokens counted.
+        counting_seconds: time to count the corpus once.
+        settings: the typist's settings.
+        rows: the finished rows, in order.
+        complete: every planned row finished.
+    """
+
+    corpus: list[str]
+    test: str
+    corpus_tokens: int = 0
+    counting_seconds: float = 0.0
+    settings: dict[str, Any] = field(default_factory=dict)
+    rows: list[SweepRow] = field(default_factory=list)
+    complete: bool = False
+
+    def to_json(self) -> dict[str, Any]:
+        """The sweep as the JSON object written to ``sweep.json``."""
+        return {
+            "corpus": self.corpus,
+            "test": self.test,
+            "corpus_tokens": self.corpus_tokens,
+            "counting_seconds": self.counting_seconds,
+            "settings": self.settings,
+            "memory_measure": MEMORY_MEASURE,
+            "complete": self.complete,
+            "rows": [row.to_json() for row in self.rows],
+        }
+
+
+def parse_vocab_sizes(text: str) -> list[int]:
+    """Parse ``--vocab-sizes``: positive whole numbers separated by commas.
+
+    Raises:
+        OptionError: an entry is not a positive whole number, or the list is empty.
+    """
+    sizes = []
+    for part in text.split(","):
+        part = part.strip().replace("_", "")
+        if not part:
+            continue
+        try:
+            value = int(part)
+        except ValueError:
+            raise OptionError(f"--vocab-sizes takes whole numbers separated by commas, not {part!r}") from None
+        if value < 1:
+            raise OptionError(f"--vocab-sizes entries must be at least 1, not {value}")
+        sizes.append(value)
+    if not sizes:
+        raise OptionError("--vocab-sizes is empty")
+    return sizes
+
+
+def parse_methods(text: str) -> list[str]:
+    """Parse ``--methods``: estimator names separated by commas.
+
+    Raises:
+        OptionError: an unknown method, or an empty list.
+    """
+    methods = [part.strip() for part in text.split(",") if part.strip()]
+    if not methods:
+        raise OptionError("--methods is empty")
+    for method in methods:
+        if method not in METHODS:
+            raise OptionError(f"unknown method {method!r}; choose one of {', '.join(METHODS)}")
+    return methods
+
+
+def _rss() -> int:
+    import psutil
+
+    return int(psutil.Process(os.getpid()).memory_info().rss)
+
+
+def _finite(value: float) -> float | None:
+    return value if math.isfinite(value) else None
+
+
+def measure_model(
+    counts: Any,
+    *,
+    method: str,
+    vocab_size: int,
+    test_text: str,
+    settings: TypistSettings,
+    folder: Path,
+    progress: Callable[[int, int], None] | None = None,
+) -> SweepRow:
+    """Build, save, load and measure one model of the sweep.
+
+    Args:
+        counts: the corpus counts (:class:`predictor.CorpusCounts`).
+        method: the estimator.
+        vocab_size: the requested vocabulary size.
+        test_text: the test text.
+        settings: the simulated typist's settings.
+        folder: where the model file is saved.
+        progress: simulation progress, (words done, words in all).
+
+    Returns:
+        The row.
+    """
+    gc.collect()
+    started = time.perf_counter()
+    built = build_from_counts(counts, vocab_size=vocab_size, method=method)
+    build_seconds = time.perf_counter() - started
+    path = folder / f"{method}-v{vocab_size}.model"
+    file_bytes = built.save(path)
+    ngrams = built.ngram_counts()
+    del built
+    gc.collect()
+    before = _rss()
+    started = time.perf_counter()
+    model = load(path)
+    load_ms = (time.perf_counter() - started) * 1000.0
+    report = simulate(model, test_text, settings, progress, keep_traces=False)
+    rss_bytes = max(0, _rss() - before)
+    score = model.score(test_text, wrapped=settings.wrapped)
+    return SweepRow(
+        method=method,
+        requested_vocab_size=vocab_size,
+        vocab_size=model.vocab_size,
+        unigrams=ngrams["1"],
+        bigrams=ngrams["2"],
+        trigrams=ngrams["3"],
+        file_bytes=file_bytes,
+        rss_bytes=rss_bytes,
+        build_seconds=build_seconds,
+        load_ms=load_ms,
+        perplexity=_finite(score.perplexity),
+        oov_rate=score.oov_rate,
+        ksr=report.ksr,
+        oracle_ksr=report.oracle_ksr,
+        baseline_ksr=report.baseline_ksr,
+        latency_p50_us=report.latency_us["p50"],
+        latency_p99_us=report.latency_us["p99"],
+    )
+
+
+def write_results(result: SweepResult, folder: Path) -> None:
+    """Write ``sweep.csv``, ``sweep.json`` and ``sweep.svg`` for the rows so far (each atomically).
+
+    Raises:
+        OutputError: a file cannot be written.
+    """
+    table = io.StringIO()
+    writer = csv.writer(table, lineterminator="\n")
+    writer.writerow(COLUMNS)
+    for row in result.rows:
+        values = row.to_json()
+        writer.writerow(["" if values[c] is None else values[c] for c in COLUMNS])
+    write_text_atomic(folder / "sweep.csv", table.getvalue())
+    write_text_atomic(folder / "sweep.json", json.dumps(result.to_json(), indent=2, allow_nan=False) + "\n")
+    write_text_atomic(folder / "sweep.svg", sweep_chart([r.to_json() for r in result.rows], k=result.settings.get("k")))
+
+
+def run_sweep(
+    corpus: Sequence[str | os.PathLike[str]],
+    test_text: str,
+    *,
+    out: str | os.PathLike[str],
+    vocab_sizes: Sequence[int] = DEFAULT_VOCAB_SIZES,
+    methods: Sequence[str] = ("kneser-ney",),
+    settings: TypistSettings = TypistSettings(),
+    test_name: str = "",
+    progress: SweepProgress | None = None,
+    on_row: Callable[[SweepRow], None] | None = None,
+) -> SweepResult:
+    """Count a corpus once, then build and measure a model per method and vocabulary size.
+
+    Args:
+        corpus: corpus files or folders.
+        test_text: the held-out text to simulate and score.
+        out: the output folder (created if needed).
+        vocab_sizes: vocabulary sizes to build.
+        methods: estimators to build with.
+        settings: the simulated typist's settings (``settings.wrapped`` also
+            applies to counting the corpus and scoring the test text).
+        test_name: the test file's name, for the results.
+        progress: called with (stage, done, total) throughout.
+        on_row: called with each row as it finishes (after the files are written).
+
+    Returns:
+        The result, with ``complete`` set once every row finished.
+
+    Raises:
+        OptionError: empty size or method list, unknown method.
+        CorpusError: the corpus or the test text holds no words.
+        OutputError: the output folder cannot be written.
+    """
+    if not vocab_sizes:
+        raise OptionError("no vocabulary sizes to sweep")
+    if not methods:
+        raise OptionError("no methods to sweep")
+    for method in methods:
+        check_build_options(vocab_size=None, min_count=1, method=method, add=0.1, encoding=None)
+    for size in vocab_sizes:
+        if size < 1:
+            raise OptionError(f"vocabulary sizes must be at least 1, not {size}")
+    read_passage(test_text, settings.text_mode, wrapped=settings.wrapped)  # reject a word-less test text before counting
+    folder = prepare_folder(out)
+    result = SweepResult([str(p) for p in corpus], test_name, settings=asdict(settings))
+    report = progress or (lambda stage, done, total: None)
+    started = time.perf_counter()
+    counts = count_corpus(corpus, wrapped=settings.wrapped, progress=lambda done, total: report("counting the corpus", done, total))
+    result.counting_seconds = time.perf_counter() - started
+    result.corpus_tokens = counts.corpus_tokens
+    write_results(result, folder)
+    plan = [(method, size) for method in methods for size in vocab_sizes]
+    for number, (method, size) in enumerate(plan, 1):
+        label = f"[{number}/{len(plan)}] {method}, {size:,} words"
+        report(label, 0, 0)
+        row = measure_model(
+            counts,
+            method=method,
+            vocab_size=size,
+            test_text=test_text,
+            settings=settings,
+            folder=folder,
+            progress=lambda done, total, label=label: report(label, done, total),
+        )
+        result.rows.append(row)
+        result.complete = number == len(plan)
+        write_results(result, folder)
+        if on_row is not None:
+            on_row(row)
+    return result
+
+
+def format_table(rows: Sequence[SweepRow]) -> str:
+    """The rows as an aligned text table."""
+    headers = ("method", "vocab", "n-grams", "file MB", "RSS MB", "build s", "load ms", "perplexity", "OOV", "KSR", "oracle", "baseline", "p50 µs", "p99 µs")
+    lines = []
+    for row in rows:
+        lines.append(
+            (
+                row.method,
+                f"{row.vocab_size:,}",
+                f"{row.unigrams + row.bigrams + row.trigrams:,}",
+                f"{row.file_bytes / 1e6:.1f}",
+                f"{row.rss_bytes / 1e6:.1f}",
+                f"{row.build_seconds:.2f}",
+                f"{row.load_ms:.1f}",
+                "inf" if row.perplexity is None else f"{row.perplexity:.1f}",
+                f"{100 * row.oov_rate:.2f}%",
+                f"{100 * row.ksr:.1f}%",
+                f"{100 * row.oracle_ksr:.1f}%",
+                f"{100 * row.baseline_ksr:.1f}%",
+                "n/a" if row.latency_p50_us is None else f"{row.latency_p50_us:,.0f}",
+                "n/a" if row.latency_p99_us is None else f"{row.latency_p99_us:,.0f}",
+            )
+        )
+    widths = [max(len(h), *(len(line[i]) for line in lines)) if lines else len(h) for i, h in enumerate(headers)]
+    out = ["  ".join(h.ljust(w) if i == 0 else h.rjust(w) for i, (h, w) in enumerate(zip(headers, widths)))]
+    for line in lines:
+        out.append("  ".join(v.ljust(w) if i == 0 else v.rjust(w) for i, (v, w) in enumerate(zip(line, widths))))
+    return "\n".join(out)
