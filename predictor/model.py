@@ -306,47 +306,57 @@ class LanguageModel:
             return []
         slots = self._slots(u, v)
         gamma3 = self._gamma3(slots)
-        candidates = self._candidates(slots, gamma3, found, k)
-        scores, a2, a3 = self._scores(candidates, slots, gamma3)
-        top = np.lexsort((candidates, -scores))[:k]
+        explicit, stored = self._explicit_candidates(slots, gamma3, found, k)
+        scores, a2, a3 = self._scores(explicit, slots, gamma3)
+        factor = (gamma3 if slots.has3 else 1.0) * (float(self._g2[slots.v]) if slots.hi2 > slots.lo2 else 1.0)
+        rest = self._unigram_candidates(found, stored, k, factor, scores)
+        if len(rest):
+            more, more_a2, more_a3 = self._scores(rest, slots, gamma3)
+            explicit = np.concatenate((explicit, rest))
+            scores = np.concatenate((scores, more))
+            a2 = None if a2 is None else np.concatenate((a2, more_a2))
+            a3 = None if a3 is None else np.concatenate((a3, more_a3))
+        top = np.lexsort((explicit, -scores))[:k]
         probs = scores[top].tolist()
         orders = self._orders(probs, None if a2 is None else a2[top].tolist(), None if a3 is None else a3[top].tolist(), gamma3)
         display = self.vocab.display
-        return [Suggestion(display(i), p, o, i) for i, p, o in zip(candidates[top].tolist(), probs, orders)]
+        return [Suggestion(display(i), p, o, i) for i, p, o in zip(explicit[top].tolist(), probs, orders)]
 
-    def _candidates(self, slots: _Slots, gamma3: float, found: PrefixRange, k: int) -> np.ndarray:
-        """Distinct candidate ids whose scores decide the top k (see the module docstring).
+    def _explicit_candidates(self, slots: _Slots, gamma3: float, found: PrefixRange, k: int) -> tuple[np.ndarray, np.ndarray]:
+        """Classes A and B: distinct candidate ids among the words stored after the context.
 
         Every word stored after (u, v) is also stored after v (each trigram's
         tail is a stored bigram), so class A lies inside the range's bigram words.
+
+        Returns:
+            ``(candidates, in_range)``: int64 candidate ids, and every word of the
+            range stored after v (sorted; class C excludes them).
         """
         lo, hi = found.lo, found.hi
+        if slots.hi2 <= slots.lo2:
+            return _NO_IDS, _NO_IDS
+        words = self._w2[slots.lo2 : slots.hi2]
+        bounds = np.array((lo, hi), dtype=words.dtype)
+        start, stop = words.searchsorted(bounds)
+        in_b = words[start:stop]
+        if len(in_b) <= _SCORE_ALL:
+            return in_b.astype(np.int64), in_b
         parts = []
-        in_b = _NO_IDS
-        if slots.hi2 > slots.lo2:
-            words = self._w2[slots.lo2 : slots.hi2]
-            bounds = np.array((lo, hi), dtype=words.dtype)
+        in_a = _NO_IDS
+        if slots.has3:
+            words = self._w3[slots.lo3 : slots.hi3]
             start, stop = words.searchsorted(bounds)
-            in_b = words[start:stop]
-            if len(in_b) <= _SCORE_ALL:
-                parts.append(in_b)
-            else:
-                in_a = _NO_IDS
-                if slots.has3:
-                    words = self._w3[slots.lo3 : slots.hi3]
-                    start, stop = words.searchsorted(bounds)
-                    in_a = words[start:stop]
-                    if len(in_a):
-                        parts.append(self._best_of(in_a, self._ranks.trigram_list(slots.slot), lo, hi, k, _NO_IDS))
-                # Ranked by P2 while the class score is gamma3 * P2: a few extra words
-                # guard against two scores rounding to equal.  With gamma3 = 0 every
-                # score is 0 and ties go by id, the order of in_b itself.
-                ranked = in_b if slots.has3 and gamma3 == 0 else self._ranks.bigram_list(slots.v)
-                parts.append(self._best_of(in_b, ranked, lo, hi, k + _TIE_GUARD, in_a))
-        factor = (gamma3 if slots.has3 else 1.0) * (float(self._g2[slots.v]) if slots.hi2 > slots.lo2 else 1.0)
-        parts.append(self._unigram_candidates(found, in_b, k, ordered=factor > 0))
+            in_a = words[start:stop]
+            if len(in_a):
+                parts.append(self._best_of(in_a, self._ranks.trigram_list(slots.slot), lo, hi, k, _NO_IDS))
+        if len(in_b) > len(in_a):  # otherwise B is A (A lies inside B): nothing left in class B
+            # Ranked by P2 while the class score is gamma3 * P2: a few extra words
+            # guard against two scores rounding to equal.  With gamma3 = 0 every
+            # score is 0 and ties go by id, the order of in_b itself.
+            ranked = in_b if slots.has3 and gamma3 == 0 else self._ranks.bigram_list(slots.v)
+            parts.append(self._best_of(in_b, ranked, lo, hi, k + _TIE_GUARD, in_a))
         joined = np.concatenate(parts) if len(parts) > 1 else parts[0]
-        return joined.astype(np.int64, copy=False)
+        return joined.astype(np.int64, copy=False), in_b
 
     def _best_of(self, in_range: np.ndarray, ranked: np.ndarray | None, lo: int, hi: int, k: int, exclude: np.ndarray) -> np.ndarray:
         """The words of ``in_range`` a class contributes: all of them, or the best of a ranked list.
@@ -380,21 +390,41 @@ class LanguageModel:
             return np.concatenate(taken) if taken else _NO_IDS
         return _without(in_range, exclude)
 
-    def _unigram_candidates(self, found: PrefixRange, exclude: np.ndarray, k: int, *, ordered: bool) -> np.ndarray:
+    def _unigram_candidates(self, found: PrefixRange, exclude: np.ndarray, k: int, factor: float, explicit_scores: np.ndarray) -> np.ndarray:
         """Class C: the first k words of the range not in ``exclude``, in unigram order.
 
-        When the class factor is 0 (maximum likelihood) every class-C word has
-        probability 0 and ties go by id, so the range is walked in id order.
+        Every class-C word scores ``factor * P1(w)``.  Once k explicit candidates
+        are scored, a class-C word can only enter the top k if its score reaches
+        the k-th best of them, so the unigram list is cut by binary search where
+        P1 falls below that score / factor (with a margin for rounding), and only
+        the words above the cut are walked.  When the factor is 0 (maximum
+        likelihood) every class-C word has probability 0 and ties go by id, so the
+        range is walked in id order.
         """
         lo, hi = found.lo, found.hi
         span = hi - lo
-        listing = self.vocab.ranked_range(found) if ordered else None
+        if factor <= 0:
+            listing = None
+        else:
+            listing = self.vocab.ranked_range(found)
+            if len(explicit_scores) >= k:
+                kth = float(np.partition(explicit_scores, len(explicit_scores) - k)[len(explicit_scores) - k])
+                cut = kth / factor * (1 - 1e-9)
+                p1 = self._p1
+                low, high = 0, span
+                while low < high:  # first position whose unigram probability is below the cut
+                    middle = (low + high) // 2
+                    if p1[listing[middle]] >= cut:
+                        low = middle + 1
+                    else:
+                        high = middle
+                return _without(listing[:low], exclude)[:k].astype(np.int64, copy=False)
         want = k + 8
         while True:
             want = min(want, span)
             chunk = _without(listing[:want] if listing is not None else np.arange(lo, lo + want), exclude)
             if len(chunk) >= k or want == span:
-                return chunk[:k]
+                return chunk[:k].astype(np.int64, copy=False)
             want *= 4
 
     def suggest_text(self, text: str, k: int = 5) -> list[Suggestion]:

@@ -21,7 +21,8 @@ def modified_kn_discounts(counts: np.ndarray) -> tuple[float, float, float]:
 
     Chen & Goodman (1998): Y = n1 / (n1 + 2 n2), D1 = 1 - 2Y n2/n1,
     D2 = 2 - 3Y n3/n2, D3+ = 3 - 4Y n4/n3, where n_r is the number of n-grams
-    with count r.  Where some n_r is zero the formula is undefined, and where
+    with count r.  Where some n_r is zero the formula is undefined or degenerate
+    (D3+ = 3 when n4 = 0 leaves counts of three nothing of their own), and where
     it gives D2 or D3+ at or below 0 it is unusable; then a discount falls back
     to the one below it (D1 to 0.5), and every discount is kept within [0, r]
     so no count turns negative (our guard).  D1 = Y is always positive, so
@@ -39,8 +40,10 @@ def modified_kn_discounts(counts: np.ndarray) -> tuple[float, float, float]:
         return d1, min(2 * d1, 2.0), min(3 * d1, 3.0)
     y = n1 / (n1 + 2 * n2)
     d1 = 1 - 2 * y * n2 / n1
+    # With n3 = 0 (or n4 = 0) the formula gives D2 = 2 (or D3+ = 3): counts of two
+    # (or three and more) would keep nothing of their own, so the discount below stands in.
     d2 = 2 - 3 * y * n3 / n2 if n3 else d1
-    d3 = 3 - 4 * y * n4 / n3 if n3 else d2
+    d3 = 3 - 4 * y * n4 / n3 if n3 and n4 else d2
     # On small or odd count tables the formula can put D2 or D3+ at or below 0; a
     # context whose continuations all have that count would then keep no mass for
     # the lower order (probability 0 for every unseen word), so it falls back too.
