@@ -4,20 +4,30 @@ from __future__ import annotations
 
 import argparse
 
-from .output import open_model
+from ..errors import OptionError
+from .output import open_model, positive_int
 
 
 def register(commands: argparse._SubParsersAction) -> None:
     """Add the run commands to the parser."""
-    p = commands.add_parser("pad", help="type with a model in the terminal (the default command)", description="Open the typing pad.")
+    p = commands.add_parser(
+        "pad",
+        help="type with a model in the terminal (the default command)",
+        description="Open the typing pad: type with a model, see its ranked suggestions for the "
+        "context and the letters typed, take them with Tab or alt+1..9, and watch the keystrokes saved. "
+        "F1 inside lists every key. Example: foretype pad chat.model -k 7",
+    )
     p.add_argument("model", nargs="?", help="model file (default: the demo model)")
+    p.add_argument("-k", type=positive_int, default=5, help="suggestions shown at each position, 1 to 9 (default 5)")
     p.set_defaults(handler=run_pad)
 
 
 def run_pad(args: argparse.Namespace) -> int:
     """foretype pad."""
+    if args.k > 9:
+        raise OptionError(f"-k must be 1 to 9 (one chord per rank, alt+1 to alt+9), not {args.k}")
     model = open_model(args.model)
     # The interface is imported only here, so every other command runs without Textual.
     from tui.launch import run_pad as launch
 
-    return launch(model)
+    return launch(model, k=args.k)

@@ -1,0 +1,46 @@
+"""The ``pad`` command's wiring, without starting the interface."""
+
+from __future__ import annotations
+
+import pytest
+
+
+@pytest.fixture
+def launched(monkeypatch: pytest.MonkeyPatch) -> list[tuple[object, int]]:
+    """Replace the interface's entry point; record what it was given."""
+    calls: list[tuple[object, int]] = []
+
+    def fake_run_pad(model: object, *, k: int = 5) -> int:
+        calls.append((model, k))
+        return 0
+
+    monkeypatch.setattr("tui.launch.run_pad", fake_run_pad)
+    return calls
+
+
+def test_pad_opens_the_named_model_with_the_chosen_number_of_suggestions(run_cli, launched, tiny_model_file) -> None:
+    result = run_cli("pad", tiny_model_file, "-k", "7")
+    assert result.code == 0
+    (model, k), = launched
+    assert model.path == tiny_model_file and k == 7
+
+
+def test_no_command_at_all_opens_the_pad_on_the_demo_model(run_cli, launched, monkeypatch: pytest.MonkeyPatch, tiny_model) -> None:
+    opened: list[object] = []
+    monkeypatch.setattr("predictor.cli.run_commands.open_model", lambda path: opened.append(path) or tiny_model)
+    assert run_cli().code == 0
+    assert opened == [None] and launched == [(tiny_model, 5)]
+
+
+def test_more_ranks_than_chords_is_one_clear_error(run_cli, launched) -> None:
+    result = run_cli("pad", "-k", "10")
+    assert result.code == 2
+    assert result.err.strip() == "foretype: -k must be 1 to 9 (one chord per rank, alt+1 to alt+9), not 10"
+    assert launched == []
+
+
+def test_a_missing_model_file_is_one_line_and_its_exit_code(run_cli, launched, tmp_path) -> None:
+    result = run_cli("pad", tmp_path / "absent.model")
+    assert result.code == 5
+    assert result.err.strip() == f"foretype: {tmp_path / 'absent.model'}: no such model file"
+    assert launched == []

@@ -1,0 +1,93 @@
+"""Snapshots of every screen at 80x24 and 120x40 (pytest-textual-snapshot).
+
+Kept deterministic: the tiny fixed model, a fake clock (every query reads
+1.5 µs), latencies from the simulator replaced by a constant, no cursor blink,
+and the fixture folder as the working folder.  After a deliberate change to the
+layout, read the report of a failing run, then refresh with
+``pytest tests/tui --snapshot-update``.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+
+from pilot_steps import finish, paste
+
+from tui.screens.model import ModelScreen
+from tui.screens.replay import ReplayScreen
+from tui.screens.sweep import SweepScreen
+
+SIZES = [pytest.param((80, 24), id="80x24"), pytest.param((120, 40), id="120x40")]
+"""The two terminal sizes every screen must read well at."""
+
+
+def constant_latency(micros: float) -> str:
+    """Stands in for simulator timings, which differ from run to run."""
+    return "(timed) µs"
+
+
+async def type_a_message(pilot) -> None:  # noqa: ANN001
+    """A message with a taken word, a moved highlight and an unknown word in the context."""
+    await pilot.pause()
+    await paste(pilot, "the ferry leaves at no")
+    await pilot.press("tab", "full_stop", "space")
+    await paste(pilot, "the zorblat ")
+    await pilot.press("down")
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_the_typing_screen(snap_compare, make_app, size) -> None:
+    assert snap_compare(make_app(), terminal_size=size, run_before=type_a_message)
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_the_help_screen(snap_compare, make_app, size) -> None:
+    assert snap_compare(make_app(), press=["f1"], terminal_size=size)
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_the_save_dialog(snap_compare, make_app, size) -> None:
+    async def run_before(pilot) -> None:  # noqa: ANN001
+        await type_a_message(pilot)
+        await pilot.press("f2")
+
+    assert snap_compare(make_app(), terminal_size=size, run_before=run_before)
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_the_question_before_quitting_unsaved_text(snap_compare, make_app, size) -> None:
+    async def run_before(pilot) -> None:  # noqa: ANN001
+        await type_a_message(pilot)
+        await pilot.press("ctrl+q")
+
+    assert snap_compare(make_app(), terminal_size=size, run_before=run_before)
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_the_replay_screen_after_a_replay(snap_compare, make_app, size) -> None:
+    async def run_before(pilot) -> None:  # noqa: ANN001
+        pilot.app.push_screen(ReplayScreen(Path("ferry-notes.txt")))
+        await finish(pilot, "replay")
+        await pilot.press("down", "down", "down", "down", "down", "down")
+
+    assert snap_compare(make_app(format_latency=constant_latency), terminal_size=size, run_before=run_before)
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_the_sweep_screen(snap_compare, make_app, size) -> None:
+    async def run_before(pilot) -> None:  # noqa: ANN001
+        pilot.app.push_screen(SweepScreen(Path("sweep.json")))
+        await finish(pilot, "sweep")
+
+    assert snap_compare(make_app(), terminal_size=size, run_before=run_before)
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_the_model_screen_with_a_file_that_is_not_there(snap_compare, make_app, size) -> None:
+    async def run_before(pilot) -> None:  # noqa: ANN001
+        pilot.app.push_screen(ModelScreen(Path("missing.model")))
+        await finish(pilot, "open-model")
+
+    assert snap_compare(make_app(), terminal_size=size, run_before=run_before)

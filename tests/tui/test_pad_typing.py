@@ -1,0 +1,185 @@
+"""Typing in the pad, driven through Textual's Pilot on the tiny maximum-likelihood model.
+
+Expected probabilities come from the hand counts in conftest.py (maximum
+likelihood, REFERENCES.md "Trigram model (standard definition)"); the tally
+follows KSR = 1 - keystrokes / characters (Trnka & McCoy 2008, REFERENCES.md
+"Keystroke savings").
+"""
+
+from __future__ import annotations
+
+from fractions import Fraction
+
+import pytest
+
+from pilot_steps import paste
+
+from tui.screens.pad import PadScreen
+from tui.widgets.compose_area import ComposeArea
+
+
+def pad_of(app) -> PadScreen:  # noqa: ANN001 - a PadApp
+    screen = app.screen
+    assert isinstance(screen, PadScreen)
+    return screen
+
+
+def listed(app) -> list[tuple[str, Fraction, int]]:  # noqa: ANN001
+    """The suggestion list on screen: (word, probability as a fraction, order)."""
+    offer = app.session.offer
+    return [(s.word, Fraction(s.prob).limit_denominator(100), s.order) for s in offer.suggestions]
+
+
+async def test_a_new_sentence_offers_capitalised_words_ranked_by_their_start_probability(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)):
+        # P(the | <s> <s>) = 4/5, P(tide | <s> <s>) = 1/5; every other word 0 (maximum likelihood).
+        assert listed(app)[:2] == [("The", Fraction(4, 5), 3), ("Tide", Fraction(1, 5), 3)]
+        assert [p for _, p, _ in listed(app)[2:]] == [0, 0, 0]
+        assert app.session.offer.sentence_start
+
+
+async def test_tab_after_two_letters_writes_the_capitalised_word_and_a_space_for_three_keystrokes(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("t", "h", "tab")
+        assert app.composed_text == "The "
+        tally = app.session.tally(len(app.composed_text))
+        # 2 letters + 1 acceptance = 3 keystrokes for 4 characters: KSR = 1 - 3/4.
+        assert (tally.characters, tally.keystrokes, tally.accepted) == (4, 3, 1)
+        assert tally.savings == pytest.approx(0.25)
+
+
+async def test_the_list_after_two_context_words_has_the_hand_counted_probabilities(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await paste(pilot, "the ferry ")
+        # c(the ferry leaves) = 2, c(the ferry is) = 1, c(the ferry .) = 3.
+        assert listed(app)[:2] == [("leaves", Fraction(2, 3), 3), ("is", Fraction(1, 3), 3)]
+        assert [w.text for w in app.session.offer.context] == ["the", "ferry"]
+        await pilot.press("l")
+        assert app.session.offer.prefix == "l"
+        assert listed(app) == [("leaves", Fraction(2, 3), 3), ("late", Fraction(0), 1)]
+
+
+async def test_tab_takes_the_top_word_and_counts_every_keystroke(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("t", "h", "tab", "f", "e", "tab")
+        assert app.composed_text == "The ferry "
+        tally = app.session.tally(len(app.composed_text))
+        # t h Tab f e Tab: 6 keystrokes for the 10 characters "The ferry ".
+        assert (tally.characters, tally.keystrokes, tally.accepted) == (10, 6, 2)
+        assert tally.savings == pytest.approx(1 - 6 / 10)
+
+
+async def test_down_arrow_moves_the_highlight_and_tab_takes_it_while_the_cursor_stays_in_the_message(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await paste(pilot, "the ferry ")
+        area = app.query_one(ComposeArea)
+        before = area.cursor_location
+        await pilot.press("down")
+        assert app.session.highlight == 1
+        assert area.cursor_location == before
+        assert app.focused is area
+        await pilot.press("down", "down", "down", "down", "down", "up")
+        assert app.session.highlight == 3  # the highlight stops at the last of five rows
+        assert app.focused is area
+        await pilot.press("up", "up", "tab")
+        assert app.composed_text == "the ferry is "
+        assert app.session.highlight == 0  # a new list starts at the top
+
+
+@pytest.mark.parametrize("chord", ["alt+2", "trade_mark_sign"])
+async def test_the_rank_chord_takes_that_rank_under_both_names_terminals_deliver(make_app, chord: str) -> None:
+    # tmux 3.3a sends M-2 as ESC 2, which Textual 8 names trade_mark_sign; kitty-protocol terminals send alt+2.
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await paste(pilot, "the ferry ")
+        await pilot.press(chord)
+        assert app.composed_text == "the ferry is "
+        assert app.session.keystrokes == 11
+        assert app.session.accepted == 1
+
+
+async def test_a_full_stop_right_after_an_accepted_word_replaces_its_space(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await paste(pilot, "the ferry leaves at no")
+        await pilot.press("tab")
+        assert app.composed_text == "the ferry leaves at noon "
+        await pilot.press("full_stop")
+        assert app.composed_text == "the ferry leaves at noon."
+        # After the sentence end the next list is a sentence start again.
+        await pilot.press("space")
+        assert app.session.offer.sentence_start
+        assert listed(app)[0][0] == "The"
+
+
+async def test_a_space_typed_after_an_accepted_word_is_kept(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("t", "tab", "space")
+        assert app.composed_text == "The  "
+
+
+async def test_an_unknown_context_word_is_marked_and_the_list_backs_off_to_unigrams(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await paste(pilot, "the zorblat ")
+        context = app.session.offer.context
+        assert [(w.text, w.known) for w in context] == [("the", True), ("zorblat", False)]
+        # Unseen context: c(w) / N with N = 32 (27 words and 5 sentence ends).
+        assert listed(app)[:2] == [("the", Fraction(5, 32), 1), ("ferry", Fraction(3, 32), 1)]
+        assert "unknown" in str(app.screen.query_one("#context").render())
+
+
+async def test_backspace_costs_a_keystroke_and_characters_follow_the_text(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("t", "x", "backspace", "backspace", "backspace")
+        assert app.composed_text == ""
+        # Two letters and two erasing Backspaces; the third Backspace erased nothing.
+        assert app.session.keystrokes == 4
+        assert app.session.tally(0).savings is None
+
+
+async def test_enter_writes_a_new_line_that_starts_a_new_sentence(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("t", "tab", "enter")
+        assert app.composed_text == "The\n"  # Enter replaced the automatic space
+        assert app.session.offer.sentence_start
+        assert app.session.keystrokes == 3
+
+
+async def test_a_rank_beyond_the_list_writes_nothing(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await paste(pilot, "the fe")
+        await pilot.press("alt+2")
+        assert app.composed_text == "the fe"  # only "ferry" starts with "fe"
+        assert app.session.accepted == 0
+
+
+async def test_the_last_query_latency_is_read_from_the_injected_clock(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.press("t")
+        assert app.session.last_latency_ns == 1500  # the fake clock steps 1.5 µs per reading
+        assert "1.5 µs" in str(app.screen.query_one("#tally").render())
+
+
+async def test_the_panel_shows_the_chord_beside_each_rank(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)):
+        rows = str(app.screen.query_one("#suggestions").render()).splitlines()[1:]
+        assert [row.split()[-1] for row in rows] == ["alt+1", "alt+2", "alt+3", "alt+4", "alt+5"]
+
+
+async def test_k_sets_the_number_of_ranks(make_app) -> None:
+    app = make_app(k=2)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await paste(pilot, "the ")
+        assert [w for w, _, _ in listed(app)] == ["ferry", "fare"]

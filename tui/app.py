@@ -1,0 +1,161 @@
+"""The typing pad application: one loaded model, one typing session, four screens.
+
+The caller loads the model and passes it in (tests pass a tiny in-memory one).
+Suggestions come from a *source* made from the model by ``make_source``; by
+default the model itself.  A learning source that mixes in what the person
+typed plugs in there (see :class:`tui.session.SuggestionSource`).
+"""
+
+from __future__ import annotations
+
+import time
+from collections.abc import Callable
+from pathlib import Path
+
+from textual.app import App
+from textual.binding import Binding
+
+from predictor.model import LanguageModel
+
+from .files import free_name
+from .formatting import LatencyFormatter, format_micros
+from .session import PadSession, SuggestionSource
+from .screens.confirm_quit import ConfirmQuitDialog, QuitChoice
+from .screens.help import HelpScreen
+from .screens.pad import PadScreen
+from .screens.save_dialog import SaveDialog
+
+SourceFactory = Callable[[LanguageModel], SuggestionSource]
+"""Makes the suggestion source for a model (the default returns the model)."""
+
+
+def model_as_source(model: LanguageModel) -> SuggestionSource:
+    """The default source: the model's own suggestions."""
+    return model
+
+
+class PadApp(App[None]):
+    """Type with a model, replay texts, read sweeps, open other models."""
+
+    CSS_PATH = "app.tcss"
+    TITLE = "foretype"
+    SUB_TITLE = "typing pad"
+    ENABLE_COMMAND_PALETTE = False
+    BINDINGS = [Binding("ctrl+q", "quit", "quit", priority=True, id="quit")]
+    """Ctrl+Q asks first when the message is unsaved (see :meth:`action_quit`)."""
+
+    def __init__(
+        self,
+        model: LanguageModel,
+        *,
+        k: int = 5,
+        make_source: SourceFactory = model_as_source,
+        clock: Callable[[], int] = time.perf_counter_ns,
+        format_latency: LatencyFormatter = format_micros,
+        cursor_blink: bool = True,
+        folder: Path | None = None,
+    ) -> None:
+        """Set up the pad.
+
+        Args:
+            model: the loaded model to type with.
+            k: suggestions shown at each position (1 to 9, one chord each).
+            make_source: builds the suggestion source for a model.
+            clock: nanosecond clock timing each suggestion query.
+            format_latency: writes a duration in microseconds (tests make it constant).
+            cursor_blink: let the cursor blink (snapshots turn it off).
+            folder: where file dialogs start and the message is saved (default: the working folder).
+        """
+        super().__init__()
+        self.model = model
+        self.make_source = make_source
+        self.session = PadSession(make_source(model), k=k, clock=clock)
+        self.format_latency = format_latency
+        self.cursor_blink = cursor_blink
+        self.folder = folder if folder is not None else Path.cwd()
+        self.saved_text = ""
+        """The composed text as last saved ("" before any save)."""
+
+    def get_default_screen(self) -> PadScreen:
+        """The typing screen is the one at the bottom of the stack."""
+        return PadScreen()
+
+    @property
+    def pad(self) -> PadScreen:
+        """The typing screen."""
+        screen = self.screen_stack[0]
+        assert isinstance(screen, PadScreen)
+        return screen
+
+    @property
+    def composed_text(self) -> str:
+        """The text in the composing area."""
+        return self.pad.compose_area.text
+
+    @property
+    def unsaved(self) -> bool:
+        """Whether the composing area holds text that has not been saved."""
+        text = self.composed_text
+        return bool(text.strip()) and text != self.saved_text
+
+    def use_model(self, model: LanguageModel) -> None:
+        """Switch to another loaded model; the text and tally stay."""
+        self.model = model
+        self.session.source = self.make_source(model)
+        self.pad.show_model()
+        self.pad.refresh_panels()
+
+    # --------------------------------------------------------------- actions
+    def action_help(self) -> None:
+        """F1: the help screen."""
+        if not isinstance(self.screen, HelpScreen):
+            self.push_screen(HelpScreen())
+
+    def action_save(self) -> None:
+        """F2: save the composed text to a new file."""
+        text = self.composed_text
+        if not text.strip():
+            self.notify("Nothing to save yet.", severity="warning")
+            return
+
+        def saved(path: Path | None) -> None:
+            if path is not None:
+                self.saved_text = text
+                self.notify(f"Saved {len(text):,} characters to {path}", title="saved")
+
+        self.push_screen(SaveDialog(text, free_name(self.folder, "message", ".txt")), saved)
+
+    def action_replay(self) -> None:
+        """F3: the replay screen."""
+        from .screens.replay import ReplayScreen
+
+        self.push_screen(ReplayScreen())
+
+    def action_sweep(self) -> None:
+        """F4: the sweep screen."""
+        from .screens.sweep import SweepScreen
+
+        self.push_screen(SweepScreen())
+
+    def action_open_model(self) -> None:
+        """F5: the model screen."""
+        from .screens.model import ModelScreen
+
+        self.push_screen(ModelScreen())
+
+    async def action_quit(self) -> None:
+        """Ctrl+Q: quit, asking first if the message is unsaved."""
+        if not self.unsaved:
+            self.exit()
+            return
+        if isinstance(self.screen, ConfirmQuitDialog):
+            self.screen.dismiss("quit")  # a second Ctrl+Q confirms
+            return
+
+        def chosen(choice: QuitChoice | None) -> None:
+            if choice == "quit":
+                self.exit()
+            elif choice == "save":
+                self.action_save()
+
+        self.push_screen(ConfirmQuitDialog(len(self.composed_text)), chosen)

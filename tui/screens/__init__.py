@@ -1,0 +1,1 @@
+"""The pad's screens: typing, replay, sweep, model, help and dialogs."""

@@ -1,0 +1,185 @@
+"""The sweep screen: a ``sweep.json`` as a chart and a table.
+
+The chart draws keystroke savings (left axis, percent) and p99 suggestion
+latency (right axis, microseconds) against vocabulary size, one pair of lines
+per method; the vocabulary axis is logarithmic when the sizes span a factor of
+four or more.  The table lists every row.
+"""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical
+from textual.screen import Screen
+from textual.widgets import DataTable, Footer, Header, Static
+from textual_plotext import PlotextPlot
+
+from predictor.errors import ForetypeError
+
+from ..files import SweepFile, read_sweep
+from ..formatting import count, file_size, signed_percent
+from ..widgets.file_picker import FilePicker
+
+if TYPE_CHECKING:
+    from ..app import PadApp
+
+COLUMNS = ("method", "vocabulary", "KSR", "oracle", "baseline", "p50 µs", "p99 µs", "perplexity", "OOV", "file", "memory")
+"""The table's columns."""
+
+
+def _number(value: Any, digits: int = 0) -> str:
+    if value is None or (isinstance(value, float) and not math.isfinite(value)):
+        return "n/a"
+    return f"{value:,.{digits}f}"
+
+
+def _share(value: Any) -> str:
+    return "n/a" if value is None else signed_percent(float(value))
+
+
+def _bytes(value: Any) -> str:
+    return "n/a" if value is None else file_size(int(value))
+
+
+def table_row(row: dict[str, Any]) -> tuple[str, ...]:
+    """One sweep row as table cells (missing values read "n/a")."""
+    return (
+        str(row.get("method", "")),
+        count(int(row["vocab_size"])),
+        _share(row.get("ksr")),
+        _share(row.get("oracle_ksr")),
+        _share(row.get("baseline_ksr")),
+        _number(row.get("latency_p50_us")),
+        _number(row.get("latency_p99_us")),
+        _number(row.get("perplexity"), 1),
+        _share(row.get("oov_rate")),
+        _bytes(row.get("file_bytes")),
+        _bytes(row.get("rss_bytes")),
+    )
+
+
+def draw_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
+    """Draw savings and p99 latency against vocabulary size.
+
+    Args:
+        plot: the chart widget (cleared first).
+        sweep: the rows to draw.
+    """
+    plt = plot.plt
+    plt.clear_figure()
+    sizes = [int(r["vocab_size"]) for r in sweep.rows]
+    logarithmic = min(sizes) > 0 and max(sizes) / min(sizes) >= 4
+    for method in sweep.methods:
+        rows = [r for r in sweep.rows if str(r.get("method", "")) == method]
+        x = [int(r["vocab_size"]) for r in rows]
+        ksr = [(i, 100 * float(r["ksr"])) for i, r in zip(x, rows) if r.get("ksr") is not None]
+        p99 = [(i, float(r["latency_p99_us"])) for i, r in zip(x, rows) if r.get("latency_p99_us") is not None]
+        if ksr:
+            plt.plot([a for a, _ in ksr], [b for _, b in ksr], marker="braille", label=f"{method} KSR %", yside="left")
+        if p99:
+            plt.plot([a for a, _ in p99], [b for _, b in p99], marker="dot", label=f"{method} p99 µs", yside="right")
+    if logarithmic:
+        plt.xscale("log")
+        ticks = sorted(set(sizes))
+        plt.xticks(ticks, [_size_label(t) for t in ticks])
+    plt.xlabel("vocabulary size (words)")
+    plt.title("keystroke savings (left, %) and p99 latency (right, µs)")
+    plot.refresh()
+
+
+def _size_label(size: int) -> str:
+    if size >= 1_000_000:
+        return f"{size / 1_000_000:g}M"
+    if size >= 1000:
+        return f"{size / 1000:g}k"
+    return str(size)
+
+
+class SweepScreen(Screen[None]):
+    """Choose a ``sweep.json``; see its chart and rows."""
+
+    BINDINGS = [
+        Binding("escape", "app.pop_screen", "back to the pad", id="back"),
+        Binding("ctrl+o", "choose", "other sweep", id="choose-sweep"),
+        Binding("f1", "app.help", "help", id="help"),
+    ]
+    """Keys of the sweep screen."""
+
+    app: PadApp
+
+    def __init__(self, path: Path | None = None) -> None:
+        """Args:
+        path: a sweep result to open at once (otherwise the person chooses one).
+        """
+        super().__init__()
+        self.start_path = path
+        self.sweep: SweepFile | None = None
+
+    def compose(self) -> ComposeResult:
+        """Build the screen."""
+        yield Header()
+        with Vertical(id="sweep-choose", classes="panel") as chooser:
+            chooser.border_title = "choose a sweep result"
+            yield Static("Open a sweep.json written by `foretype sweep`: type its path and press Enter, or pick it below.", classes="status-line")
+            yield Static("", id="sweep-status", classes="status-line")
+            yield FilePicker(self.app.folder, placeholder="path to sweep.json, then Enter", id="sweep-picker")
+        with Vertical(id="sweep-results"):
+            yield PlotextPlot(id="sweep-chart")
+            table: DataTable[str] = DataTable(id="sweep-table", cursor_type="row", zebra_stripes=True)
+            table.border_title = "rows"
+            yield table
+            yield Static("", id="sweep-note", classes="status-line")
+        yield Footer(compact=True)
+
+    def on_mount(self) -> None:
+        """Open the given sweep, or ask for one."""
+        self.sub_title = "sweep"
+        self.query_one(DataTable).add_columns(*COLUMNS)
+        if self.start_path is not None:
+            self.open_sweep(self.start_path)
+        else:
+            self.action_choose()
+
+    def action_choose(self) -> None:
+        """Ctrl+O: choose another sweep file."""
+        self.query_one("#sweep-choose").display = True
+        self.query_one("#sweep-results").display = False
+        self.query_one(FilePicker).focus_path()
+
+    def on_file_picker_picked(self, message: FilePicker.Picked) -> None:
+        """A file was chosen."""
+        self.open_sweep(message.path)
+
+    def open_sweep(self, path: Path) -> None:
+        """Read a sweep file (a few kilobytes: read at once) and show it, or say why not."""
+        status = self.query_one("#sweep-status", Static)
+        try:
+            sweep = read_sweep(path)
+        except ForetypeError as error:
+            status.update(f"Not opened: {error}")
+            status.set_class(True, "-error")
+            self.action_choose()
+            return
+        status.update("")
+        self.sweep = sweep
+        table = self.query_one(DataTable)
+        table.clear()
+        table.add_rows(table_row(r) for r in sweep.rows)
+        notes = [f"{path.name}: {len(sweep.rows)} rows"]
+        if sweep.test:
+            notes.append(f"test {Path(sweep.test).name}")
+        if sweep.k is not None:
+            notes.append(f"k={sweep.k}")
+        if not sweep.complete:
+            notes.append("interrupted: not every planned row finished")
+        notes.append("simulated estimates")
+        self.query_one("#sweep-note", Static).update(" · ".join(notes))
+        self.query_one("#sweep-choose").display = False
+        self.query_one("#sweep-results").display = True
+        draw_chart(self.query_one(PlotextPlot), sweep)
+        table.focus()

@@ -1,0 +1,1 @@
+"""The pad's widgets: the composing area and the panels around it."""

@@ -1,0 +1,203 @@
+"""The composing area: a text area that counts keystrokes and accepts suggestions.
+
+Every key the area knows is handled inside its own key handler, in the order
+the keys arrive.  Textual runs an ordinary binding only after the key has
+bubbled up to the app, by which time a fast typist's next letter may already
+have been inserted; handling Tab, Backspace and the rank chords here keeps
+"f", "e", Tab, "." in that order even when a terminal delivers them in one read.
+"""
+
+from __future__ import annotations
+
+from textual import events
+from textual.binding import Binding
+from textual.message import Message
+from textual.widgets import TextArea
+
+from predictor.simulate.editing import replaces_automatic_space
+
+from ..session import Acceptance, Offer, PadSession
+
+MAX_RANKS = 9
+"""Ranks that have a chord: alt+1 to alt+9."""
+
+ESCAPE_DIGIT_KEYS = ("inverted_exclamation_mark", "trade_mark_sign", "pound_sign", "cent_sign", "infinity", "section_sign", "pilcrow_sign", "bullet", "ª")
+"""What Textual 8 names alt+1 .. alt+9 when a terminal sends ESC and a digit.
+
+tmux, xterm and most Linux terminals send alt+digit as ESC followed by the
+digit; Textual reads those pairs as the characters a macOS keyboard types with
+Option+digit (¡ ™ £ ¢ ∞ § ¶ • ª) and names the keys after them.  Only
+terminals speaking the kitty keyboard protocol deliver the name "alt+1".  So
+each rank chord is bound under both names (checked with tmux 3.3a send-keys
+M-1 .. M-9), and those nine characters accept a rank instead of being typed.
+"""
+
+
+def rank_chord(rank: int) -> str:
+    """The chord shown beside a rank (1-based)."""
+    return f"alt+{rank}"
+
+
+class ComposeArea(TextArea, inherit_bindings=False):
+    """Where the person types; Tab and alt+digit accept suggestions from the session."""
+
+    BINDINGS = [
+        Binding("tab", "accept_highlighted", "take", id="accept-highlighted"),
+        Binding("up", "highlight(-1)", "up", show=False, id="highlight-up"),
+        Binding("down", "highlight(1)", "down", show=False, id="highlight-down"),
+        *(
+            Binding(
+                f"alt+{n},{ESCAPE_DIGIT_KEYS[n - 1]}",
+                f"accept_rank({n})",
+                "rank n",
+                show=n == 1,
+                key_display="alt+n",
+                id=f"accept-rank-{n}",
+            )
+            for n in range(1, MAX_RANKS + 1)
+        ),
+        Binding("backspace", "erase_left", "erase left", show=False),
+        Binding("delete", "erase_right", "erase right", show=False),
+        Binding("ctrl+w", "erase_word_left", "erase word", show=False),
+        Binding("left", "cursor_left", "left", show=False),
+        Binding("right", "cursor_right", "right", show=False),
+        Binding("ctrl+left", "cursor_word_left", "word left", show=False),
+        Binding("ctrl+right", "cursor_word_right", "word right", show=False),
+        Binding("home", "cursor_line_start", "line start", show=False),
+        Binding("end", "cursor_line_end", "line end", show=False),
+        Binding("pageup", "cursor_page_up", "page up", show=False),
+        Binding("pagedown", "cursor_page_down", "page down", show=False),
+    ]
+    """Typing keys; the footer shows Tab and the rank chords."""
+
+    class HighlightMoved(Message):
+        """The highlighted suggestion changed without the text changing."""
+
+    class Accepted(Message):
+        """A suggestion was written into the text."""
+
+        def __init__(self, acceptance: Acceptance) -> None:
+            """Args:
+            acceptance: what was written.
+            """
+            super().__init__()
+            self.acceptance = acceptance
+
+    def __init__(self, session: PadSession, *, id: str | None = None) -> None:  # noqa: A002 - Textual's name
+        """Create the area.
+
+        Args:
+            session: the typing session that supplies suggestions and keeps the tally.
+            id: the widget id.
+        """
+        super().__init__(id=id, soft_wrap=True, tab_behavior="focus", highlight_cursor_line=False)
+        self.session = session
+        self._auto_space: tuple[int, int] | None = None
+        self._key_actions = {key.strip(): b.action for b in self.BINDINGS if isinstance(b, Binding) for key in b.key.split(",")}
+
+    # ----------------------------------------------------------------- reading
+    @property
+    def line_before_cursor(self) -> str:
+        """The current line up to the cursor (a line break ends a sentence)."""
+        row, column = self.cursor_location
+        return self.document[row][:column]
+
+    def current_offer(self) -> Offer:
+        """The session's offer for the text at the cursor (queried if the text changed)."""
+        return self.session.offer_for(self.line_before_cursor)
+
+    # ------------------------------------------------------------------ keys
+    async def _on_key(self, event: events.Key) -> None:
+        action = self._key_actions.get(event.key)
+        if action is not None:
+            event.stop()
+            event.prevent_default()
+            await self.run_action(action)
+            return
+        if event.key == "enter" or event.is_printable:
+            event.stop()
+            event.prevent_default()
+            self.type_text("\n" if event.key == "enter" else event.character or "")
+
+    async def _on_paste(self, event: events.Paste) -> None:
+        # A paste is text the person did not type with the pad: count its characters as typed.
+        self.session.spend(len(event.text))
+        self._auto_space = None
+
+    def type_text(self, text: str) -> None:
+        """Write typed characters at the cursor, counting one keystroke per character.
+
+        A mark that attaches to the word before it (``. , ; : ! ? …``, closing
+        brackets and quotes, a line break), typed right after an accepted word,
+        replaces the space the acceptance wrote, as in the simulated typist's
+        editor (:func:`predictor.simulate.editing.replaces_automatic_space`).
+        """
+        if not text or self.read_only:
+            return
+        self.session.spend(len(text))
+        start, end = self.selection
+        row, column = self.cursor_location
+        if self._auto_space == (row, column) and self.selection.is_empty and replaces_automatic_space(text[0]) and column > 0 and self.document[row][column - 1] == " ":
+            start = (row, column - 1)
+        self._auto_space = None
+        result = self.replace(text, start, end, maintain_selection_offset=False)
+        self.move_cursor(result.end_location)
+
+    # --------------------------------------------------------------- actions
+    def action_accept_highlighted(self) -> None:
+        """Accept the highlighted suggestion (Tab)."""
+        self.current_offer()
+        self._accept(self.session.plan())
+
+    def action_accept_rank(self, rank: int) -> None:
+        """Accept the suggestion at a rank (alt+digit)."""
+        self.current_offer()
+        self._accept(self.session.plan(rank))
+
+    def action_highlight(self, step: int) -> None:
+        """Move the highlight up (-1) or down (+1); the cursor stays where it is."""
+        self.current_offer()
+        self.session.move_highlight(step)
+        self.post_message(self.HighlightMoved())
+
+    def _accept(self, acceptance: Acceptance | None) -> None:
+        if acceptance is None or self.read_only:
+            self.app.bell()
+            return
+        row, column = self.cursor_location
+        start = (row, column - acceptance.replace)
+        self.session.record_acceptance()
+        result = self.replace(acceptance.insert, start, self.cursor_location, maintain_selection_offset=False)
+        self.move_cursor(result.end_location)
+        self._auto_space = result.end_location
+        self.post_message(self.Accepted(acceptance))
+
+    def action_erase_left(self) -> None:
+        """Backspace: erase the selection or the character left of the cursor (one keystroke)."""
+        self._erase(self.action_delete_left)
+
+    def action_erase_right(self) -> None:
+        """Delete: erase the selection or the character right of the cursor (one keystroke)."""
+        self._erase(self.action_delete_right)
+
+    def action_erase_word_left(self) -> None:
+        """Erase back to the start of the word (one keystroke)."""
+        self._erase(self.action_delete_word_left)
+
+    def _erase(self, delete) -> None:  # type: ignore[no-untyped-def]
+        before = self.document.line_count, len(self.text)
+        delete()
+        self._auto_space = None
+        if (self.document.line_count, len(self.text)) != before:
+            self.session.spend()
+
+    def action_cursor_right(self, select: bool = False) -> None:
+        """Move right; the grey completion after the cursor is only a preview, never inserted."""
+        self.suggestion = ""
+        super().action_cursor_right(select)
+
+    def show_preview(self, text: str) -> None:
+        """Show the rest of the highlighted word in grey after the cursor (at the end of a line)."""
+        row, column = self.cursor_location
+        at_end = column == len(self.document[row])
+        self.suggestion = text if at_end and self.selection.is_empty else ""

@@ -1,0 +1,77 @@
+"""One line of facts about the loaded model: file, method, vocabulary, n-grams stored."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from rich.text import Text
+from textual.widget import Widget
+
+from ..formatting import count, file_size
+
+
+def model_label(path: Any) -> str:
+    """The model's file name, or a note that it was built in memory."""
+    return path.name if path is not None else "built in memory"
+
+
+class ModelFacts(Widget):
+    """Facts from ``model.info()``; more of them when the line is long enough."""
+
+    DEFAULT_CSS = """
+    ModelFacts { height: 1; text-wrap: nowrap; text-overflow: clip; }
+    """
+
+    def __init__(self, *, id: str | None = None) -> None:  # noqa: A002 - Textual's name
+        """Args:
+        id: the widget id.
+        """
+        super().__init__(id=id)
+        self._label = ""
+        self._info: dict[str, Any] = {}
+
+    def show(self, label: str, info: dict[str, Any]) -> None:
+        """Draw the facts of a model.
+
+        Args:
+            label: the model's file name (or how it was made).
+            info: the model's ``info()`` dictionary.
+        """
+        self._label = label
+        self._info = info
+        self.refresh()
+
+    def render(self) -> Text:
+        """The richest wording of the facts that fits on the line."""
+        info = self._info
+        if not info:
+            return Text()
+        wordings = [self._line(parts) for parts in self._wordings(info)]
+        return next((line for line in wordings if line.cell_len <= self.size.width), wordings[-1])
+
+    @staticmethod
+    def _line(parts: list[tuple[str, str]]) -> Text:
+        out = Text(no_wrap=True, overflow="ellipsis")
+        for index, (label, value) in enumerate(parts):
+            if index:
+                out.append("  ·  " if label else " · ", style="dim")
+            if label:
+                out.append(f"{label} ", style="dim")
+            out.append(value, style="bold")
+        return out
+
+    def _wordings(self, info: dict[str, Any]) -> list[list[tuple[str, str]]]:
+        ngrams = info["ngrams"]
+        total = count(sum(ngrams.values()))
+        by_order = " + ".join(count(v) for _, v in sorted(ngrams.items()))
+        words = f"{count(info['vocab_size'])} words"
+        full = [
+            ("model", self._label),
+            ("method", info["method"]),
+            ("vocabulary", words),
+            ("n-grams", f"{total} ({by_order} by order)"),
+            ("file", file_size(int(info["file_bytes"]))),
+        ]
+        middle = [("model", self._label), ("method", info["method"]), ("vocabulary", words), ("n-grams", total)]
+        short = [("", self._label), ("", info["method"]), ("", words), ("", f"{total} n-grams")]
+        return [full, middle, short]

@@ -1,0 +1,72 @@
+"""The ranked suggestions: rank, word, probability as a number and a bar, n-gram order, chord."""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.widget import Widget
+
+from ..formatting import bar, clip, percent
+from ..session import Offer
+from .compose_area import rank_chord
+
+ORDER_NAMES = {1: "unigram", 2: "bigram", 3: "trigram"}
+"""Long names of the n-gram orders, used when the panel is wide."""
+
+
+class SuggestionTable(Widget):
+    """Draws one offer; the highlighted row is what Tab accepts."""
+
+    DEFAULT_CSS = """
+    SuggestionTable { height: auto; text-wrap: nowrap; text-overflow: clip; }
+    """
+
+    def __init__(self, *, k: int, id: str | None = None) -> None:  # noqa: A002 - Textual's name
+        """Args:
+        k: how many rows to keep room for.
+        id: the widget id.
+        """
+        super().__init__(id=id)
+        self.k = k
+        self._offer: Offer | None = None
+        self._highlight = 0
+
+    def show(self, offer: Offer | None, highlight: int) -> None:
+        """Draw an offer with one row highlighted (0-based)."""
+        self._offer = offer
+        self._highlight = highlight
+        self.refresh()
+
+    def get_content_height(self, container, viewport, width: int) -> int:  # type: ignore[no-untyped-def]
+        """One heading row and k rows."""
+        return self.k + 1
+
+    def render(self) -> Text:
+        """The table as text, laid out for the widget's width."""
+        width = max(self.size.width, 30)
+        wide = width >= 56
+        suggestions = self._offer.suggestions if self._offer is not None else ()
+        word_width = min(18, max([8, *(len(s.word) for s in suggestions)]))
+        order_width = 7 if wide else 1
+        # mark, rank, word, probability, bar, order, chord, with one space between columns
+        fixed = 1 + 1 + 1 + word_width + 1 + 7 + 1 + 1 + order_width + 1 + 5
+        bar_width = max(3, width - fixed)
+        out = Text(no_wrap=True, overflow="crop")
+        head = f"  # {'word':<{word_width}} {'prob':>7} {'':<{bar_width}} {'order' if wide else 'n':<{order_width}} {'key':<5}"
+        out.append(head.rstrip() + "\n", style="bold")
+        for index in range(self.k):
+            if index < len(suggestions):
+                s = suggestions[index]
+                chosen = index == self._highlight
+                order = ORDER_NAMES.get(s.order, str(s.order)) if wide else str(s.order)
+                out.append("▸" if chosen else " ", style="bold")
+                out.append(f"{index + 1} ", style="bold" if chosen else "")
+                out.append(f"{clip(s.word, word_width):<{word_width}} ", style="reverse bold" if chosen else "bold")
+                out.append(f"{percent(s.prob):>7} ")
+                out.append(bar(s.prob, bar_width), style="green")
+                out.append(f" {order:<{order_width}} ", style="dim")
+                out.append(rank_chord(index + 1), style="bold cyan")
+            elif index == 0:
+                out.append("  no word in the vocabulary starts like this", style="dim italic")
+            if index < self.k - 1:
+                out.append("\n")
+        return out
