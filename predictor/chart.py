@@ -30,11 +30,10 @@ def _nice_step(span: float, ticks: int = 5) -> float:
 
 
 def _size_label(size: float) -> str:
-    if size >= 1_000_000:
-        return f"{size / 1_000_000:g}M"
-    if size >= 1000:
+    """Round sizes in k ("1.5k", "50k"); any other size in full ("12,404")."""
+    if size >= 1000 and size % 100 == 0:
         return f"{size / 1000:g}k"
-    return f"{size:g}"
+    return f"{size:,.0f}"
 
 
 def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: str = "Keystroke savings and p99 latency by vocabulary size") -> str:
@@ -114,7 +113,7 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
         parts.append(f'<line x1="{x:.1f}" y1="{TOP + plot_h}" x2="{x:.1f}" y2="{TOP + plot_h + 5}" stroke="#888888"/>')
         parts.append(f'<text x="{x:.1f}" y="{TOP + plot_h + 19}" text-anchor="middle">{_size_label(size)}</text>')
     axis_note = " (log scale)" if logarithmic else ""
-    parts.append(f'<text x="{LEFT + plot_w / 2}" y="{HEIGHT - 18}" text-anchor="middle">vocabulary size (words){axis_note}</text>')
+    parts.append(f'<text x="{LEFT + plot_w / 2}" y="{HEIGHT - 18}" text-anchor="middle">vocabulary size, words{axis_note}</text>')
     parts.append(
         f'<text x="18" y="{TOP + plot_h / 2}" text-anchor="middle" transform="rotate(-90 18 {TOP + plot_h / 2})">keystroke savings</text>'
     )
@@ -136,7 +135,8 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
             if not line:
                 continue
             path = " ".join(f"{x:.1f},{y:.1f}" for x, y in line)
-            parts.append(f'<polyline points="{path}" fill="none" stroke="{colour}" stroke-width="2"{dash}/>')
+            width = "1.5" if key == "latency_p99_us" else "2"
+            parts.append(f'<polyline points="{path}" fill="none" stroke="{colour}" stroke-width="{width}"{dash}/>')
             for x, y in line:
                 marker = f'<circle cx="{x:.1f}" cy="{y:.1f}" r="3" fill="{colour}"/>' if key == "ksr" else ""
                 if key == "latency_p99_us":

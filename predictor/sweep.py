@@ -5,11 +5,14 @@ counts, saves it in the output folder, loads it back and measures it:
 
 * ``vocab_size``, ``unigrams``, ``bigrams``, ``trigrams``: what the model holds;
 * ``file_bytes``: the saved file's size;
-* ``rss_bytes``: resident memory the model costs: the growth of this process's
-  resident set size (psutil) from just before loading the file to just after
-  the simulated typist ran on it, so it counts the mapped pages the queries
-  touched and the arrays copied at load; measured in one process, it is
-  approximate (a few MB of noise);
+* ``rss_bytes``: resident memory the model costs, measured with psutil: the
+  growth of the process's resident set size across loading the file (arrays
+  copied at load, pages the load checks touch) plus the pages of the mapped
+  file that the simulated typist's queries brought in afterwards (from the
+  file mapping's own resident size, so the simulation's own allocations are
+  not counted).  Where the platform does not report per-mapping sizes, the
+  plain RSS growth from before loading to after the simulation is used.
+  Measured in one process, it is approximate (about a megabyte of noise);
 * ``build_seconds`` (from counts to model), ``load_ms`` (opening the saved file);
 * ``perplexity`` and ``oov_rate`` of the test text;
 * ``ksr``, ``oracle_ksr``, ``baseline_ksr`` and suggestion latency
@@ -66,7 +69,10 @@ COLUMNS = (
 )
 """The columns of ``sweep.csv`` (and the keys of each row in ``sweep.json``)."""
 
-MEMORY_MEASURE = "RSS growth (psutil) from before loading the model file to after the simulated typist ran on it, in the sweep's own process"
+MEMORY_MEASURE = (
+    "psutil: RSS growth across loading the model file, plus the model file's mapped pages that became resident "
+    "while the simulated typist ran (plain RSS growth where per-mapping sizes are not available); same process, approximate"
+)
 """How ``rss_bytes`` is measured (written into sweep.json)."""
 
 SweepProgress = Callable[[str, int, int], None]
@@ -180,6 +186,18 @@ def _rss() -> int:
     return int(psutil.Process(os.getpid()).memory_info().rss)
 
 
+def _mapped_resident(path: Path) -> int | None:
+    """Resident bytes of this process's mappings of one file, or None where the platform cannot tell."""
+    import psutil
+
+    target = os.path.realpath(path)
+    try:
+        maps = psutil.Process(os.getpid()).memory_maps(grouped=True)
+    except (AttributeError, NotImplementedError, psutil.Error, OSError):
+        return None
+    return sum(int(m.rss) for m in maps if os.path.realpath(m.path or "") == target) if maps else None
+
+
 def _finite(value: float) -> float | None:
     return value if math.isfinite(value) else None
 
@@ -221,8 +239,14 @@ def measure_model(
     started = time.perf_counter()
     model = load(path)
     load_ms = (time.perf_counter() - started) * 1000.0
+    loaded = _rss()
+    mapped_at_load = _mapped_resident(path)
     report = simulate(model, test_text, settings, progress, keep_traces=False)
-    rss_bytes = max(0, _rss() - before)
+    mapped_after = _mapped_resident(path)
+    if mapped_at_load is None or mapped_after is None:
+        rss_bytes = max(0, _rss() - before)
+    else:
+        rss_bytes = max(0, loaded - before) + max(0, mapped_after - mapped_at_load)
     score = model.score(test_text, wrapped=settings.wrapped)
     return SweepRow(
         method=method,
@@ -337,12 +361,13 @@ def run_sweep(
 
 def format_table(rows: Sequence[SweepRow]) -> str:
     """The rows as an aligned text table."""
-    headers = ("method", "vocab", "n-grams", "file MB", "RSS MB", "build s", "load ms", "perplexity", "OOV", "KSR", "oracle", "baseline", "p50 µs", "p99 µs")
+    headers = ("method", "asked", "vocab", "n-grams", "file MB", "RSS MB", "build s", "load ms", "perplexity", "OOV", "KSR", "oracle", "baseline", "p50 µs", "p99 µs")
     lines = []
     for row in rows:
         lines.append(
             (
                 row.method,
+                f"{row.requested_vocab_size:,}",
                 f"{row.vocab_size:,}",
                 f"{row.unigrams + row.bigrams + row.trigrams:,}",
                 f"{row.file_bytes / 1e6:.1f}",

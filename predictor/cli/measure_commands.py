@@ -1,9 +1,202 @@
-"""Placeholder: commands added by a later change register here."""
+"""Commands that measure a model: savings (the simulated typist) and sweep (vocabulary size)."""
 
 from __future__ import annotations
 
 import argparse
+import sys
+from collections.abc import Callable
+from contextlib import AbstractContextManager
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+from ..errors import CorpusError
+from ..estimate import METHODS
+from ..simulate import TEXT_MODES, TypistSettings, format_report, simulate, write_trace
+from ..simulate.writing import check_writable_file
+from ..text import WORD_RE
+from .output import (
+    add_json_option,
+    open_model,
+    positive_int,
+    print_json,
+    progress_bar,
+    read_text_file,
+    split_model_argument,
+)
+
+if TYPE_CHECKING:
+    from ..sweep import SweepRow
+
+
+def _number(text: str) -> float:
+    """argparse type: a finite number (range checks happen in TypistSettings, with one clear line)."""
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a number, got {text!r}") from None
+    if value != value or value in (float("inf"), float("-inf")):
+        raise argparse.ArgumentTypeError(f"expected a finite number, got {text!r}")
+    return value
+
+
+def _whole(text: str) -> int:
+    """argparse type: a whole number (range checks happen in TypistSettings)."""
+    try:
+        return int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number, got {text!r}") from None
+
+
+def _add_typist_options(p: argparse.ArgumentParser) -> None:
+    p.add_argument("-k", type=positive_int, default=5, help="suggestions shown at each step (default 5)")
+    p.add_argument("--text-mode", choices=TEXT_MODES, default="full", help="full: the text as written (default); words: lower-cased words and single spaces")
+    p.add_argument("--select-cost", type=_number, default=1.0, metavar="KEYS", help="keystrokes one pick costs (default 1)")
+    p.add_argument("--no-autospace", dest="autospace", action="store_false", help="a pick does not write the space after the word")
+    p.add_argument("--min-prefix", type=_whole, default=0, metavar="N", help="letters typed before the typist looks at suggestions (default 0)")
+    p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces (as for a model built with --wrapped)")
+
+
+def _settings(args: argparse.Namespace) -> TypistSettings:
+    return TypistSettings(
+        k=args.k,
+        text_mode=args.text_mode,
+        select_cost=args.select_cost,
+        autospace=args.autospace,
+        min_prefix=args.min_prefix,
+        key_seconds=getattr(args, "key_seconds", 1.0),
+        scan_seconds=getattr(args, "scan_seconds", 0.5),
+        wrapped=args.wrapped,
+    )
 
 
 def register(commands: argparse._SubParsersAction) -> None:
-    """Add this module's commands to the parser (none yet)."""
+    """Add the measuring commands to the parser."""
+    p = commands.add_parser(
+        "savings",
+        help="simulate a typist on a text and report the keystrokes saved",
+        description="Simulate a typist who enters TESTFILE exactly, picking the model's suggestions whenever the intended "
+        "word is offered, and report keystroke savings beside the vocabulary's oracle and a frequency-list baseline, "
+        "suggestion latency and an estimated entry time. Simulated savings are estimates, not a clinical assessment "
+        "of anyone's needs. Example: foretype savings chat.model heldout.txt -k 5 --trace words.jsonl",
+    )
+    p.add_argument("args", nargs="+", metavar="[MODEL] TESTFILE", help="model file (default: the demo model) and the text to type")
+    _add_typist_options(p)
+    p.add_argument("--key-seconds", type=_number, default=1.0, metavar="S", help="seconds per keystroke in the time estimate (default 1.0)")
+    p.add_argument("--scan-seconds", type=_number, default=0.5, metavar="S", help="seconds to read a changed suggestion list (default 0.5)")
+    p.add_argument("--trace", metavar="FILE", help="write one JSON line per word: keystrokes, where it was picked, the lists shown")
+    add_json_option(p)
+    p.set_defaults(handler=run_savings)
+
+    p = commands.add_parser(
+        "sweep",
+        help="build and measure a model per vocabulary size: savings, latency, memory",
+        description="Count the corpus once, then for each vocabulary size and method build a model and measure its size, "
+        "memory, build and load time, perplexity, OOV rate, keystroke savings and suggestion latency on TESTFILE. "
+        "Writes DIR/sweep.csv, DIR/sweep.json and the chart DIR/sweep.svg as each row finishes, and the models as "
+        "DIR/METHOD-vSIZE.model. Example: foretype sweep corpus/ --test heldout.txt --vocab-sizes 1000,5000,20000 --out sweep/",
+    )
+    p.add_argument("corpus", nargs="+", help="text files or folders of them")
+    p.add_argument("--test", required=True, metavar="TESTFILE", help="the held-out text to type and score")
+    p.add_argument("--vocab-sizes", default="1000,2000,5000,10000,20000,50000", metavar="N,N,...", help="vocabulary sizes (default 1000,2000,5000,10000,20000,50000)")
+    p.add_argument("--methods", default="kneser-ney", metavar="M,M,...", help=f"estimators, comma-separated, from {', '.join(METHODS)} (default kneser-ney)")
+    p.add_argument("--out", required=True, metavar="DIR", help="folder for the results and models (created if needed)")
+    _add_typist_options(p)
+    add_json_option(p)
+    p.set_defaults(handler=run_sweep_command)
+
+
+def _read_test_text(path: str) -> str:
+    """Read the text to type, failing with the file's name when it holds no words."""
+    text = read_text_file(path)
+    if not WORD_RE.search(text):
+        raise CorpusError(f"{path}: holds no words to type")
+    return text
+
+
+def run_savings(args: argparse.Namespace) -> int:
+    """foretype savings."""
+    settings = _settings(args)
+    model_path, (text_path,) = split_model_argument(args.args, 1, "savings")
+    if args.trace:
+        check_writable_file(args.trace)
+    text = _read_test_text(text_path)
+    model = open_model(model_path)
+    with progress_bar("typing the test text") as update:
+        report = simulate(model, text, settings, update)
+    if args.trace:
+        write_trace(args.trace, report.trace)
+    if args.json:
+        print_json(report.to_json())
+    else:
+        print(format_report(report))
+        if args.trace:
+            print(f"trace: {args.trace} ({len(report.trace):,} lines)")
+    return 0
+
+
+class _Stages:
+    """A progress bar per stage of a long job, reusing :func:`progress_bar` (a new bar when the label changes)."""
+
+    def __init__(self) -> None:
+        self._label: str | None = None
+        self._bar: AbstractContextManager[Callable[[int, int], None]] | None = None
+        self._update: Callable[[int, int], None] | None = None
+
+    def __call__(self, label: str, done: int, total: int) -> None:
+        if label != self._label:
+            self.close()
+            self._bar = progress_bar(label)
+            self._update = self._bar.__enter__()
+            self._label = label
+        assert self._update is not None
+        self._update(done, total)
+
+    def close(self) -> None:
+        if self._bar is not None:
+            self._bar.__exit__(None, None, None)
+        self._bar = self._update = self._label = None
+
+
+def run_sweep_command(args: argparse.Namespace) -> int:
+    """foretype sweep."""
+    from ..sweep import format_table, parse_methods, parse_vocab_sizes, run_sweep
+
+    settings = _settings(args)
+    sizes = parse_vocab_sizes(args.vocab_sizes)
+    methods = parse_methods(args.methods)
+    text = _read_test_text(args.test)
+    stages = _Stages()
+
+    def finished(row: SweepRow) -> None:
+        stages.close()
+        print(
+            f"{row.method}, {row.vocab_size:,} words: KSR {100 * row.ksr:.1f}% (oracle {100 * row.oracle_ksr:.1f}%), "
+            f"p99 {row.latency_p99_us or 0:,.0f} µs, {row.file_bytes / 1e6:.1f} MB",
+            file=sys.stderr,
+        )
+
+    try:
+        result = run_sweep(
+            args.corpus,
+            text,
+            out=args.out,
+            vocab_sizes=sizes,
+            methods=methods,
+            settings=settings,
+            test_name=str(args.test),
+            progress=stages,
+            on_row=finished,
+        )
+    finally:
+        stages.close()
+    if args.json:
+        print_json(result.to_json())
+        return 0
+    print(f"corpus: {result.corpus_tokens:,} tokens, counted once in {result.counting_seconds:.1f} s; test: {args.test}; k={settings.k}, {settings.text_mode} mode")
+    print(format_table(result.rows))
+    out = Path(args.out)
+    print(f"wrote {out / 'sweep.csv'}, {out / 'sweep.json'}, {out / 'sweep.svg'}")
+    print("RSS = resident memory the model costs: RSS growth across loading it plus the mapped file pages its queries touched (psutil; approximate).")
+    print("Simulated savings are estimates for comparing models, not a clinical assessment of anyone's needs.")
+    return 0
+

