@@ -96,7 +96,7 @@ def fit_levels(counts: ModelCounts, method: str, *, add: float = 0.1, encoding: 
 def _level2_of_rows(interpolated: bool, a2: np.ndarray, g2: np.ndarray, p1: np.ndarray, layout: Layout, counts: ModelCounts) -> np.ndarray:
     """P2(w | v) of every trigram row from the decoded level-2 values."""
     table = counts.table
-    index = layout.bigram_index(table.v, table.w)
+    index = layout.trigram_bigram
     if interpolated:
         return a2[index] + g2[table.v].astype(np.float64) * p1.astype(np.float64)[table.w]
     return a2[index]

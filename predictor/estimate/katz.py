@@ -115,7 +115,7 @@ def estimate_katz(counts: ModelCounts) -> Estimate:
     a2, g2 = backoff_weights(seen2, p1[layout.bigram_w], layout.bigram_off)
     r3 = good_turing_ratios(table.n)
     seen3 = _discount(table.n, layout.trigram_off, r3)
-    lower = a2[layout.bigram_index(table.v, table.w)]
+    lower = a2[layout.trigram_bigram]
     a3, g3 = backoff_weights(seen3, lower, layout.trigram_off)
     return Estimate(
         interpolated=False,

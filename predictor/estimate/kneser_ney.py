@@ -79,7 +79,7 @@ def estimate_kneser_ney(counts: ModelCounts) -> Estimate:
     d3 = modified_kn_discounts(table.n)
     a3, g3 = _discounted(table.n, layout.trigram_off, d3)
     # Level 2: continuation counts (distinct u before v w), raw counts after START.
-    continuation2 = np.bincount(layout.bigram_index(table.v, table.w), minlength=layout.n2).astype(np.int64)
+    continuation2 = np.bincount(layout.trigram_bigram, minlength=layout.n2).astype(np.int64)
     adjusted2 = np.where(layout.bigram_v == start, layout.bigram_n, continuation2)
     d2 = modified_kn_discounts(adjusted2)
     a2, g2 = _discounted(adjusted2, layout.bigram_off, d2)

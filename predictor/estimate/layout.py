@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..arrays import aggregate_rows
+from ..arrays import group_starts
 from ..counting import RAW_END, RAW_START, CorpusCounts, TrigramTable
 
 
@@ -88,6 +88,8 @@ class Layout:
             trigram row (its bigram entry, or n2 for START START).
         trigram_off: int64 array of shape (n2 + 2,): rows of slot j are
             ``trigram_off[j]:trigram_off[j + 1]``.
+        trigram_bigram: int64 array of shape (n3,): the bigram entry of each
+            trigram row's tail (v, w).
     """
 
     base: int
@@ -97,6 +99,7 @@ class Layout:
     bigram_off: np.ndarray
     trigram_ctx: np.ndarray
     trigram_off: np.ndarray
+    trigram_bigram: np.ndarray
 
     @property
     def n2(self) -> int:
@@ -108,7 +111,21 @@ class Layout:
         """Derive the layout of a trigram table over ``vocab_size`` words."""
         base = vocab_size + 3
         start = vocab_size + 2
-        (bv, bw), bn = aggregate_rows([table.v, table.w], table.n, base)
+        # Bigram entries are the distinct (v, w) tails of the trigram rows; keep which
+        # entry each row's tail is, so estimators need no search for it.
+        tail = table.v.astype(np.int64) * base + table.w
+        order = np.argsort(tail, kind="stable")
+        sorted_tail = tail[order]
+        starts = group_starts(sorted_tail)
+        trigram_bigram = np.empty(len(tail), dtype=np.int64)
+        if len(tail):
+            group = np.zeros(len(tail), dtype=np.int64)
+            group[starts[1:]] = 1
+            trigram_bigram[order] = np.cumsum(group)
+        bn = np.add.reduceat(table.n[order], starts) if len(starts) else np.zeros(0, dtype=np.int64)
+        unique_tail = sorted_tail[starts]
+        bv = (unique_tail // base).astype(np.int32)
+        bw = (unique_tail % base).astype(np.int32)
         bigram_off = np.searchsorted(bv, np.arange(base + 1)).astype(np.int64)
         bigram_key = bv.astype(np.int64) * base + bw
         row_key = table.u.astype(np.int64) * base + table.v
@@ -116,7 +133,7 @@ class Layout:
         opening = (table.u == start) & (table.v == start)
         ctx[opening] = len(bw)
         trigram_off = np.searchsorted(ctx, np.arange(len(bw) + 2)).astype(np.int64)
-        return Layout(base, bv, bw, bn, bigram_off, ctx, trigram_off)
+        return Layout(base, bv, bw, bn, bigram_off, ctx, trigram_off, trigram_bigram)
 
     def bigram_index(self, v: np.ndarray, w: np.ndarray) -> np.ndarray:
         """Return the bigram entry index of each (v, w) pair (all pairs must be entries)."""
