@@ -349,22 +349,47 @@ class LanguageModel:
             in_a = words[start:stop]
             if len(in_a):
                 parts.append(self._best_of(in_a, self._ranks.trigram_list(slots.slot), lo, hi, k, _NO_IDS))
-        if len(in_b) > len(in_a):  # otherwise B is A (A lies inside B): nothing left in class B
+        # A class-B word can only enter the top k if it scores at least the k-th best of A.
+        floor = -1.0
+        if parts and len(parts[0]) >= k:
+            a_scores = self._scores(parts[0].astype(np.int64, copy=False), slots, gamma3)[0]
+            floor = float(np.partition(a_scores, len(a_scores) - k)[len(a_scores) - k])
+        left = len(in_b) - len(in_a)  # the size of class B, since A lies inside B
+        if 0 < left <= 4 * (k + _TIE_GUARD):
+            # Few words of B are not in A: take them all rather than walk past A in the list.
+            keep = np.ones(len(in_b), dtype=bool)
+            keep[in_b.searchsorted(in_a)] = False
+            parts.append(in_b[keep])
+        elif left > 0:
             # Ranked by P2 while the class score is gamma3 * P2: a few extra words
             # guard against two scores rounding to equal.  With gamma3 = 0 every
             # score is 0 and ties go by id, the order of in_b itself.
             ranked = in_b if slots.has3 and gamma3 == 0 else self._ranks.bigram_list(slots.v)
-            parts.append(self._best_of(in_b, ranked, lo, hi, k + _TIE_GUARD, in_a))
+            parts.append(self._best_of(in_b, ranked, lo, hi, k + _TIE_GUARD, in_a, floor=floor, slots=slots, gamma3=gamma3))
         joined = np.concatenate(parts) if len(parts) > 1 else parts[0]
         return joined.astype(np.int64, copy=False), in_b
 
-    def _best_of(self, in_range: np.ndarray, ranked: np.ndarray | None, lo: int, hi: int, k: int, exclude: np.ndarray) -> np.ndarray:
+    def _best_of(
+        self,
+        in_range: np.ndarray,
+        ranked: np.ndarray | None,
+        lo: int,
+        hi: int,
+        k: int,
+        exclude: np.ndarray,
+        *,
+        floor: float = -1.0,
+        slots: _Slots | None = None,
+        gamma3: float = 1.0,
+    ) -> np.ndarray:
         """The words of ``in_range`` a class contributes: all of them, or the best of a ranked list.
 
         A ranked list holds the context's words in the class's own order, so its
         first k words inside [lo, hi) and outside ``exclude`` are the class's top
         k.  When the range is narrow the walk would be long: the range is then
-        returned whole.
+        returned whole.  With a ``floor`` (and the context's ``slots``), the walk
+        also stops once the next listed word scores below it: scores only fall
+        along the list, so no later word can reach the floor either.
         """
         if ranked is None:
             return _without(in_range, exclude)
@@ -375,6 +400,10 @@ class LanguageModel:
         chunk = k + 8
         position = 0
         while position < len(ranked) and position < budget:
+            if position and slots is not None and floor >= 0:
+                upper = self._scores(ranked[position : position + 1].astype(np.int64), slots, gamma3)[0][0]
+                if upper < floor:
+                    return np.concatenate(taken) if taken else _NO_IDS
             piece = ranked[position : position + chunk]
             position += len(piece)
             if not full:
@@ -403,9 +432,8 @@ class LanguageModel:
         """
         lo, hi = found.lo, found.hi
         span = hi - lo
-        if factor <= 0:
-            listing = None
-        else:
+        listing = None
+        if factor > 0:
             listing = self.vocab.ranked_range(found)
             if len(explicit_scores) >= k:
                 kth = float(np.partition(explicit_scores, len(explicit_scores) - k)[len(explicit_scores) - k])
@@ -418,14 +446,24 @@ class LanguageModel:
                         low = middle + 1
                     else:
                         high = middle
-                return _without(listing[:low], exclude)[:k].astype(np.int64, copy=False)
-        want = k + 8
-        while True:
-            want = min(want, span)
-            chunk = _without(listing[:want] if listing is not None else np.arange(lo, lo + want), exclude)
-            if len(chunk) >= k or want == span:
-                return chunk[:k].astype(np.int64, copy=False)
-            want *= 4
+                span = low
+        taken: list[np.ndarray] = []
+        have = 0
+        done = 0
+        step = k + 8
+        while done < span and have < k:
+            stop = min(done + step, span)
+            chunk = listing[done:stop] if listing is not None else np.arange(lo + done, lo + stop)
+            chunk = _without(chunk, exclude)
+            if len(chunk):
+                taken.append(chunk)
+                have += len(chunk)
+            done = stop
+            step *= 4
+        if not taken:
+            return _NO_IDS
+        joined = np.concatenate(taken) if len(taken) > 1 else taken[0]
+        return joined[:k].astype(np.int64, copy=False)
 
     def suggest_text(self, text: str, k: int = 5) -> list[Suggestion]:
         """Suggestions for the text before a cursor.
