@@ -132,6 +132,7 @@ class LanguageModel:
         self._size = self.vocab.size
         self._keys: tuple[np.ndarray, np.ndarray] | None = None
         self._ranks = RankLists(sections)
+        self._root_values: np.ndarray | None = None
         self._table = DECODE_TABLE if self._a2.dtype == np.uint16 else None
 
     # ----------------------------------------------------------------- facts
@@ -185,22 +186,29 @@ class LanguageModel:
         return u, v
 
     def _slots(self, u: int, v: int) -> _Slots:
-        off2 = self._off2
-        lo2, hi2 = int(off2[v]), int(off2[v + 1])
+        item2 = self._off2.item
+        lo2, hi2 = item2(v), item2(v + 1)
         slot = -1
         if v == self.vocab.start_id:
             slot = self._n2
         else:
-            ulo, uhi = int(off2[u]), int(off2[u + 1])
+            ulo, uhi = item2(u), item2(u + 1)
             if uhi > ulo:
-                pos = ulo + int(self._w2[ulo:uhi].searchsorted(self._w2.dtype.type(v)))
-                if pos < uhi and self._w2[pos] == v:
+                words = self._w2
+                pos = ulo + int(words[ulo:uhi].searchsorted(words.dtype.type(v)))
+                if pos < uhi and words.item(pos) == v:
                     slot = pos
         if slot >= 0:
-            lo3, hi3 = int(self._off3[slot]), int(self._off3[slot + 1])
+            lo3, hi3 = self._off3.item(slot), self._off3.item(slot + 1)
             if hi3 > lo3:
                 return _Slots(v, lo2, hi2, slot, lo3, hi3, True)
         return _Slots(v, lo2, hi2, -1, 0, 0, False)
+
+    def _root_unigram(self) -> np.ndarray:
+        """Negated unigram probabilities of the whole vocabulary in its ranked order (ascending)."""
+        if self._root_values is None:
+            self._root_values = -self._p1[self.vocab.ranked_range(PrefixRange(0, self._size, 0))]
+        return self._root_values
 
     def _gamma3(self, slots: _Slots) -> float:
         return float(self._g3[slots.slot]) if slots.has3 else 1.0
@@ -229,6 +237,17 @@ class LanguageModel:
         else:
             p3 = p2
         return p3, a2, a3
+
+    def _unstored_scores(self, ids: np.ndarray, slots: _Slots, gamma3: float) -> np.ndarray:
+        """:meth:`_scores` of ids stored at neither level of the context (class C).
+
+        The same operations :meth:`_scores` performs for such ids, without the
+        lookups: adding a stored value of 0.0 leaves a float unchanged.
+        """
+        p = self._p1[ids]
+        if slots.hi2 > slots.lo2:
+            p = self._g2[slots.v] * p
+        return gamma3 * p if slots.has3 else p
 
     def _stored(self, words: np.ndarray, codes: np.ndarray, ids: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Which ids one context stores, and their decoded values (0 where not stored)."""
@@ -311,11 +330,12 @@ class LanguageModel:
         factor = (gamma3 if slots.has3 else 1.0) * (float(self._g2[slots.v]) if slots.hi2 > slots.lo2 else 1.0)
         rest = self._unigram_candidates(found, stored, k, factor, scores)
         if len(rest):
-            more, more_a2, more_a3 = self._scores(rest, slots, gamma3)
+            more = self._unstored_scores(rest, slots, gamma3)
             explicit = np.concatenate((explicit, rest))
             scores = np.concatenate((scores, more))
-            a2 = None if a2 is None else np.concatenate((a2, more_a2))
-            a3 = None if a3 is None else np.concatenate((a3, more_a3))
+            nothing = np.zeros(len(rest))
+            a2 = None if a2 is None else np.concatenate((a2, nothing))
+            a3 = None if a3 is None else np.concatenate((a3, nothing))
         top = np.lexsort((explicit, -scores))[:k]
         probs = scores[top].tolist()
         orders = self._orders(probs, None if a2 is None else a2[top].tolist(), None if a3 is None else a3[top].tolist(), gamma3)
@@ -438,15 +458,20 @@ class LanguageModel:
             if len(explicit_scores) >= k:
                 kth = float(np.partition(explicit_scores, len(explicit_scores) - k)[len(explicit_scores) - k])
                 cut = kth / factor * (1 - 1e-9)
-                p1 = self._p1
-                low, high = 0, span
-                while low < high:  # first position whose unigram probability is below the cut
-                    middle = (low + high) // 2
-                    if p1[listing[middle]] >= cut:
-                        low = middle + 1
-                    else:
-                        high = middle
-                span = low
+                if span == self._size:
+                    # The whole vocabulary: its unigram values, negated, are sorted ascending.
+                    span = int(self._root_unigram().searchsorted(-cut, side="right"))
+                else:
+                    probability = self._p1.item
+                    position = listing.item
+                    low, high = 0, span
+                    while low < high:  # first position whose unigram probability is below the cut
+                        middle = (low + high) // 2
+                        if probability(position(middle)) >= cut:
+                            low = middle + 1
+                        else:
+                            high = middle
+                    span = low
         taken: list[np.ndarray] = []
         have = 0
         done = 0

@@ -81,6 +81,7 @@ class Vocabulary:
         self._word_cache: dict[int, str] = {}
         self._display_cache: dict[int, str] = {}
         self._unigram = sections["p1"]
+        self._root = PrefixRange(0, self.size, 0)
 
     @property
     def unknown_id(self) -> int:
@@ -143,13 +144,13 @@ class Vocabulary:
     def prefix_range(self, prefix: str) -> PrefixRange | None:
         """Return the ids of the words starting with a model-form prefix, or None if none do."""
         if not prefix:
-            return PrefixRange(0, self.size, 0)
+            return self._root
         key = self._trie.get(prefix)
         if key is None:
             return None
-        lo = int(self._key_lo[key])
-        start = int(self._key_order[key])
-        return PrefixRange(lo if lo >= 0 else -lo - 1, int(self._key_hi[key]), UNLISTED if start == self._unlisted else start)
+        lo = self._key_lo.item(key)
+        start = self._key_order.item(key)
+        return PrefixRange(lo if lo >= 0 else -lo - 1, self._key_hi.item(key), UNLISTED if start == self._unlisted else start)
 
     def ranked_range(self, found: PrefixRange) -> np.ndarray:
         """The word ids of a prefix range, most probable (unigram) first, ties by id.
