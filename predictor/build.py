@@ -3,11 +3,12 @@
 from __future__ import annotations
 
 import os
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
 
-from .counting import CorpusCounts, ProgressCallback, count_corpus
-from .errors import OptionError
+from .counting import MAX_VOCABULARY, CorpusCounts, ProgressCallback, count_corpus
+from .errors import CapacityError, OptionError
 from .estimate import ENCODINGS, METHODS, fit_levels, model_counts
+from .memory import MemoryBudget
 from .model import LanguageModel
 from .ranking import rank_sections
 from .vocabulary import vocabulary_sections
@@ -18,11 +19,14 @@ def check_build_options(*, vocab_size: int | None, min_count: int, method: str, 
 
     Raises:
         OptionError: an option is out of range or unknown.
+        CapacityError: the vocabulary asked for exceeds what the format supports.
     """
     if method not in METHODS:
         raise OptionError(f"unknown method {method!r}; choose one of {', '.join(METHODS)}")
     if vocab_size is not None and vocab_size < 1:
         raise OptionError(f"--vocab-size must be at least 1, not {vocab_size}")
+    if vocab_size is not None and vocab_size > MAX_VOCABULARY:
+        raise CapacityError(f"--vocab-size {vocab_size:,} exceeds the model format's limit of {MAX_VOCABULARY:,} words")
     if min_count < 1:
         raise OptionError(f"--min-count must be at least 1, not {min_count}")
     if method == "additive" and not add > 0:
@@ -43,6 +47,9 @@ def build(
     reject_binary: bool = False,
     encoding: str | None = None,
     progress: ProgressCallback | None = None,
+    max_memory: int | None = None,
+    spill_dir: str | os.PathLike[str] | None = None,
+    on_counted: Callable[[CorpusCounts], None] | None = None,
 ) -> LanguageModel:
     """Build a model from corpus files or folders.
 
@@ -57,13 +64,32 @@ def build(
         reject_binary: fail on binary files inside folders instead of skipping them.
         encoding: stored value encoding, ``log16`` (default) or ``float32``.
         progress: called with (bytes done, bytes in all) while reading.
+        max_memory: ceiling on the build's peak resident memory in bytes (None: half
+            of the memory available; see :mod:`predictor.memory`).
+        spill_dir: where counts that outgrow memory go (None: the system's temporary folder).
+        on_counted: called with the counts once the corpus is read (for build summaries).
 
     Raises:
-        OptionError, CorpusError, EncodingError, CapacityError.
+        OptionError, CorpusError, EncodingError, CapacityError, OutputError.
     """
     check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
-    counts = count_corpus(paths, wrapped=wrapped, replace_bad_bytes=replace_bad_bytes, reject_binary=reject_binary, progress=progress)
-    model = build_from_counts(counts, vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+    budget = MemoryBudget.of(max_memory)
+    counts = count_corpus(
+        paths,
+        wrapped=wrapped,
+        replace_bad_bytes=replace_bad_bytes,
+        reject_binary=reject_binary,
+        progress=progress,
+        budget=budget,
+        spill_dir=spill_dir,
+        min_count=min_count if vocab_size is None else None,
+    )
+    if on_counted is not None:
+        on_counted(counts)
+    try:
+        model = build_from_counts(counts, vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+    finally:
+        counts.close()
     model.meta["wrapped"] = wrapped
     return model
 
@@ -85,6 +111,7 @@ def build_from_counts(
     check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
     chosen = counts.select_vocabulary(vocab_size, min_count)
     vocabulary_counts = model_counts(counts, chosen)
+    counts.require_estimate(len(vocabulary_counts.table), vocabulary_counts.vocab_size)
     sections, meta = fit_levels(vocabulary_counts, method, add=add, encoding=encoding)
     size = vocabulary_counts.vocab_size
     sections.update(vocabulary_sections(vocabulary_counts.words, vocabulary_counts.display, sections["p1"][:size]))
@@ -95,6 +122,7 @@ def build_from_counts(
             "corpus_sentences": counts.sentences,
             "corpus_files": counts.files,
             "skipped_files": counts.skipped_files,
+            "unlisted_tokens": counts.unlisted_tokens,
             "requested_vocab_size": vocab_size,
             "min_count": min_count,
             "add": add if method == "additive" else None,

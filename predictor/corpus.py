@@ -1,8 +1,10 @@
 """Reading corpus files: streaming, UTF-8 checking, and folders of files.
 
 Files are read in chunks of whole lines, so a corpus of any size streams with
-bounded memory.  A file that is not valid UTF-8 is reported with its name and
-line number unless bad bytes are to be replaced.
+bounded memory; only a line longer than a chunk plus :data:`LINE_EXTENSION_BYTES`
+(a file with no line breaks, say) is cut, before a word where it can be.  A file
+that is not valid UTF-8 is reported with its name and line number unless bad
+bytes are to be replaced.
 """
 
 from __future__ import annotations
@@ -17,7 +19,11 @@ from .errors import CorpusError, EncodingError
 CHUNK_BYTES = 1 << 22
 """How many bytes one chunk holds before it is extended to the next line break (4 MiB)."""
 
+LINE_EXTENSION_BYTES = 1 << 20
+"""How far past a chunk (at least) a line is read to its end before it is cut (1 MiB)."""
+
 _SNIFF_BYTES = 8192
+_WIDE_TEXT_MARKS = {b"\xff\xfe": "UTF-16", b"\xfe\xff": "UTF-16", b"\xff\xfe\x00\x00": "UTF-32", b"\x00\x00\xfe\xff": "UTF-32"}
 
 
 @dataclass
@@ -37,6 +43,20 @@ def looks_binary(path: Path) -> bool:
     """Tell whether a file looks like binary data (a NUL byte in its first 8 KiB)."""
     with path.open("rb") as handle:
         return b"\x00" in handle.read(_SNIFF_BYTES)
+
+
+def _not_text_reason(path: Path) -> str:
+    """Why a file named directly is refused: binary data, or text in a wide encoding."""
+    try:
+        with path.open("rb") as handle:
+            head = handle.read(4)
+    except OSError:
+        head = b""
+    for mark in sorted(_WIDE_TEXT_MARKS, key=len, reverse=True):
+        if head.startswith(mark):
+            name = _WIDE_TEXT_MARKS[mark]
+            return f"{name} text, and foretype reads UTF-8 (convert it first, e.g. iconv -f {name} -t UTF-8)"
+    return "binary file, not text"
 
 
 def resolve_corpus(paths: Iterable[str | os.PathLike[str]], *, reject_binary: bool = False) -> CorpusFiles:
@@ -71,8 +91,10 @@ def resolve_corpus(paths: Iterable[str | os.PathLike[str]], *, reject_binary: bo
                 else:
                     result.files.append(found)
         elif path.exists():
+            if not path.is_file():
+                raise CorpusError(f"{path}: not a regular file (a pipe or device)")
             if _readable_binary(path):
-                raise CorpusError(f"{path}: binary file, not text")
+                raise CorpusError(f"{path}: {_not_text_reason(path)}")
             result.files.append(path)
         else:
             raise CorpusError(f"{path}: no such file or folder")
@@ -91,6 +113,11 @@ def _readable_binary(path: Path) -> bool:
 def iter_chunks(path: Path, *, replace_bad_bytes: bool = False, chunk_bytes: int = CHUNK_BYTES) -> Iterator[str]:
     """Yield a text file as decoded chunks of whole lines.
 
+    A chunk is extended to the end of its last line, by at most
+    ``max(chunk_bytes, LINE_EXTENSION_BYTES)``; a longer line is cut before its
+    last word that fits (or, without a space, at a character boundary) and
+    continues in the next chunk.
+
     Args:
         path: the file.
         replace_bad_bytes: replace invalid UTF-8 with U+FFFD instead of failing.
@@ -101,6 +128,7 @@ def iter_chunks(path: Path, *, replace_bad_bytes: bool = False, chunk_bytes: int
         CorpusError: the file cannot be read.
     """
     errors = "replace" if replace_bad_bytes else "strict"
+    extension = max(chunk_bytes, LINE_EXTENSION_BYTES)
     line_number = 1
     try:
         handle = path.open("rb")
@@ -108,11 +136,17 @@ def iter_chunks(path: Path, *, replace_bad_bytes: bool = False, chunk_bytes: int
         raise CorpusError(f"{path}: cannot read ({error.strerror or error})") from None
     with handle:
         first = True
+        left_over = b""
         while True:
             try:
-                data = handle.read(chunk_bytes)
+                data = left_over + handle.read(max(1, chunk_bytes - len(left_over)))
+                left_over = b""
                 if data and not data.endswith(b"\n"):
-                    data += handle.readline()
+                    tail = handle.readline(extension)
+                    data += tail
+                    if len(tail) == extension and not tail.endswith(b"\n"):
+                        cut = _cut_long_line(data)
+                        data, left_over = data[:cut], data[cut:]
             except OSError as error:
                 raise CorpusError(f"{path}: cannot read ({error.strerror or error})") from None
             if not data:
@@ -131,3 +165,16 @@ def iter_chunks(path: Path, *, replace_bad_bytes: bool = False, chunk_bytes: int
                 ) from None
             line_number += data.count(b"\n")
             yield text
+
+
+def _cut_long_line(data: bytes) -> int:
+    """Where to cut a chunk that ends inside a very long line: before its last word, else at a character start."""
+    space = max(data.rfind(b" "), data.rfind(b"\t"))
+    while 0 <= space < len(data) - 1 and data[space + 1] in b" \t":
+        space += 1
+    if space > 0 and space < len(data) - 1:
+        return space + 1
+    cut = len(data) - 1
+    while cut > 0 and data[cut] & 0xC0 == 0x80:  # a UTF-8 continuation byte
+        cut -= 1
+    return cut if cut > 0 else len(data)

@@ -9,19 +9,38 @@ table serves every estimator and every vocabulary size.
 
 Every 20th sentence is also counted in a separate held-out table, which the
 linear-interpolation estimator fits its weights on.
+
+Memory stays within a :class:`~predictor.memory.MemoryBudget`:
+
+* A trigram is one int64 key of three 21-bit raw type ids.  Tables live in
+  memory up to the budget's row limit, then go to disk as sorted runs that are
+  merged at the end (:mod:`predictor.spill`); the result is a
+  :class:`SpilledTrigrams` that streams from disk.
+* The word dictionaries (written forms and model forms) grow until they hold
+  the budget's share or :data:`MAX_RAW_TYPES` types.  A word first seen after
+  that is counted as the single type :data:`UNLISTED`, which never enters a
+  vocabulary.  In natural text new words keep appearing but ever more rarely
+  (Heaps' law: distinct words grow like N^0.4 to N^0.6 in the token count N),
+  so the words first seen after millions of others are almost all rare; the
+  number of tokens so counted is reported (``unlisted_tokens``).
 """
 
 from __future__ import annotations
 
 import os
-from collections.abc import Callable, Iterable
-from dataclasses import dataclass
+import sys
+from collections.abc import Callable, Iterable, Iterator
+from dataclasses import dataclass, field
+from itertools import repeat
 
 import numpy as np
 
 from .arrays import aggregate_rows
-from .corpus import iter_chunks, resolve_corpus
-from .errors import CapacityError, CorpusError, OptionError
+from .corpus import CHUNK_BYTES, iter_chunks, resolve_corpus
+from .errors import CapacityError, CorpusError, OptionError, OutputError
+from .memory import MemoryBudget
+from .scratch import SpillFolder
+from .spill import KeyCounter, Run, merge_tables, sum_duplicates
 from .text import is_sentence_end, model_form, tokens
 
 RAW_START = 0
@@ -29,14 +48,47 @@ RAW_START = 0
 RAW_END = 1
 """Raw type id of the end-of-sentence symbol."""
 
+UNLISTED = "<unlisted>"
+"""The model form standing for every word first seen after the dictionaries were full."""
+
 HELDOUT_EVERY = 20
 """Every HELDOUT_EVERY-th sentence (the last of each run) also goes to the held-out table."""
 
 MAX_VOCABULARY = 2_000_000
 """The largest vocabulary the model format supports (ids of V + 3 symbols fit 21 bits)."""
 
+ID_BITS = 21
+"""Bits per raw type id in a packed trigram key (three ids fill 63 bits)."""
+
+MAX_RAW_TYPES = 1 << ID_BITS
+"""The most raw types a count distinguishes (2,097,152, including the symbols)."""
+
+FORM_ENTRY_BYTES = 150
+"""Dictionary bytes per written form besides its string: dict slot, id object, list slot, count arrays."""
+
+TYPE_ENTRY_BYTES = 120
+"""Dictionary bytes per model form besides its string."""
+
 ProgressCallback = Callable[[int, int], None]
 """Called with (bytes done, bytes in all) while a corpus is read."""
+
+_MASK = (1 << ID_BITS) - 1
+
+
+def pack_trigrams(u: np.ndarray, v: np.ndarray, w: np.ndarray) -> np.ndarray:
+    """Pack id columns (each below :data:`MAX_RAW_TYPES`) into int64 keys ordered as (u, v, w)."""
+    key = u.astype(np.int64) << (2 * ID_BITS)
+    key |= v.astype(np.int64) << ID_BITS
+    key |= w.astype(np.int64)
+    return key
+
+
+def unpack_trigrams(keys: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Split keys made by :func:`pack_trigrams` into int32 columns (u, v, w)."""
+    u = (keys >> (2 * ID_BITS)).astype(np.int32)
+    v = ((keys >> ID_BITS) & _MASK).astype(np.int32)
+    w = (keys & _MASK).astype(np.int32)
+    return u, v, w
 
 
 @dataclass
@@ -61,6 +113,12 @@ class TrigramTable:
         """Return a table with no rows."""
         z = np.zeros(0, dtype=np.int32)
         return TrigramTable(z, z, z, np.zeros(0, dtype=np.int64))
+
+    @staticmethod
+    def of_keys(keys: np.ndarray, counts: np.ndarray) -> TrigramTable:
+        """Unpack a table of sorted :func:`pack_trigrams` keys."""
+        u, v, w = unpack_trigrams(keys)
+        return TrigramTable(u, v, w, counts)
 
     @staticmethod
     def merge(tables: Iterable[TrigramTable], base: int) -> TrigramTable:
@@ -100,31 +158,93 @@ def _pack(table: TrigramTable, bits: int) -> np.ndarray:
     return (table.u.astype(np.int64) << (2 * bits)) | (table.v.astype(np.int64) << bits) | table.w.astype(np.int64)
 
 
+class SpilledTrigrams:
+    """A trigram table too large for memory: one sorted run on disk (see :mod:`predictor.spill`).
+
+    It offers what estimation needs of a corpus table: its length and
+    :meth:`remap`, which streams the run and keeps only the (much smaller)
+    table over a chosen vocabulary in memory.
+    """
+
+    def __init__(self, run: Run, folder: SpillFolder, budget: MemoryBudget, dictionary_bytes: int) -> None:
+        """Wrap a merged run.
+
+        Args:
+            run: the run, keys made by :func:`pack_trigrams`.
+            folder: the spill folder holding it (kept alive as long as this table).
+            budget: the build's memory budget.
+            dictionary_bytes: what the counting dictionaries still hold.
+        """
+        self.run = run
+        self._folder = folder
+        self._budget = budget
+        self._dictionary_bytes = dictionary_bytes
+
+    def __len__(self) -> int:
+        return self.run.rows
+
+    def close(self) -> None:
+        """Delete the run and its spill folder."""
+        self.run.delete()
+        self._folder.close()
+
+    def blocks(self) -> Iterator[tuple[np.ndarray, np.ndarray]]:
+        """Yield the table as (sorted keys, counts) blocks."""
+        return self.run.blocks(max(1 << 12, self._budget.table_rows // 8))
+
+    def remap(self, mapping: np.ndarray, base: int) -> TrigramTable:
+        """Map every id through ``mapping`` and merge rows that become equal.
+
+        Raises:
+            CapacityError: the table over the new ids would be too large to estimate
+                within the memory budget (raised as soon as that is certain).
+        """
+        keys = counts = np.zeros(0, dtype=np.int64)
+        words = max(0, base - 3)
+        for block_keys, block_counts in self.blocks():
+            u, v, w = unpack_trigrams(block_keys)
+            mapped = pack_trigrams(mapping[u], mapping[v], mapping[w])
+            del u, v, w
+            keys, counts = merge_tables(keys, counts, *sum_duplicates(mapped, block_counts))
+            self._budget.require_estimate(len(keys), words, self._dictionary_bytes)
+        return TrigramTable.of_keys(keys, counts)
+
+
 @dataclass
 class CorpusCounts:
     """Everything counted from a corpus: raw types, their display forms and trigram tables.
 
     Attributes:
-        types: model forms by raw type id (ids 0 and 1 are the start and end symbols).
+        types: model forms by raw type id (ids 0 and 1 are the start and end
+            symbols; :data:`UNLISTED`, if present, stands for words first seen
+            after the dictionaries were full).
         display: display form of each raw type.
         type_counts: int64 occurrences of each raw type as a predicted token.
-        table: all trigrams over raw type ids.
+        table: all trigrams over raw type ids (in memory, or on disk for large corpora).
         heldout: the trigrams of the held-out sentences (a subset of ``table``).
         corpus_tokens: word tokens read.
         sentences: sentences counted.
         files: files read.
         skipped_files: binary files skipped inside corpus folders.
+        unlisted_tokens: tokens counted as :data:`UNLISTED`.
+        spilled_rows: table rows written to disk while counting (0: all in memory).
+        dictionary_bytes: what the word dictionaries held at the end.
+        budget: the memory budget the count kept to.
     """
 
     types: list[str]
     display: list[str]
     type_counts: np.ndarray
-    table: TrigramTable
-    heldout: TrigramTable
+    table: TrigramTable | SpilledTrigrams
+    heldout: TrigramTable | SpilledTrigrams
     corpus_tokens: int
     sentences: int
     files: int
     skipped_files: int
+    unlisted_tokens: int = 0
+    spilled_rows: int = 0
+    dictionary_bytes: int = 0
+    budget: MemoryBudget | None = field(default=None, repr=False)
 
     def select_vocabulary(self, vocab_size: int | None = None, min_count: int = 1) -> list[int]:
         """Choose the vocabulary: the most frequent raw types, ties by model form.
@@ -147,6 +267,8 @@ class CorpusCounts:
         counts = self.type_counts
         candidates = np.flatnonzero(counts >= min_count)
         candidates = candidates[candidates >= 2]
+        if UNLISTED in self.types:
+            candidates = candidates[candidates != self.types.index(UNLISTED)]
         if len(candidates) == 0:
             raise CorpusError(f"no word occurs at least {min_count} times")
         string_rank = _string_ranks(self.types)
@@ -161,6 +283,21 @@ class CorpusCounts:
             )
         return [int(t) for t in chosen]
 
+    def require_estimate(self, trigrams: int, words: int) -> None:
+        """Refuse to estimate a model that would not fit in the count's memory budget.
+
+        Raises:
+            CapacityError: see :meth:`predictor.memory.MemoryBudget.require_estimate`.
+        """
+        if self.budget is not None:
+            self.budget.require_estimate(trigrams, words, self.dictionary_bytes)
+
+    def close(self) -> None:
+        """Delete any counts spilled to disk (the tables must not be used afterwards)."""
+        for table in (self.table, self.heldout):
+            if isinstance(table, SpilledTrigrams):
+                table.close()
+
 
 def _string_ranks(strings: list[str]) -> np.ndarray:
     order = sorted(range(len(strings)), key=strings.__getitem__)
@@ -169,88 +306,172 @@ def _string_ranks(strings: list[str]) -> np.ndarray:
     return rank
 
 
+def _add_counts(target: np.ndarray, ids: np.ndarray) -> None:
+    """``target[i] += (ids == i).sum()`` for every i, in time linear in ``len(ids)``."""
+    if not len(ids):
+        return
+    if len(target) <= 8 * len(ids):
+        target += np.bincount(ids, minlength=len(target))[: len(target)]
+    else:
+        found, times = np.unique(ids, return_counts=True)
+        target[found] += times
+
+
 class CorpusCounter:
-    """Counts trigrams of raw types over text fed to it chunk by chunk."""
+    """Counts trigrams of raw types over text fed to it chunk by chunk, within a memory budget."""
 
     MERGE_ROWS = 2_000_000
+    """At most this many new rows wait before they are merged into the table."""
 
-    def __init__(self, *, wrapped: bool = False) -> None:
+    def __init__(
+        self,
+        *,
+        wrapped: bool = False,
+        budget: MemoryBudget | None = None,
+        spill_dir: str | os.PathLike[str] | None = None,
+        max_types: int = MAX_RAW_TYPES,
+    ) -> None:
         """Start an empty count.
 
         Args:
             wrapped: treat single line breaks as spaces (see :mod:`predictor.text`).
+            budget: the memory budget (None: the default share of the machine).
+            spill_dir: where tables that outgrow memory go (None: the system's
+                temporary folder); a ``.foretype-spill-*`` folder is made there.
+            max_types: distinguish at most this many raw types (for tests; at
+                most :data:`MAX_RAW_TYPES`).
         """
         self.wrapped = wrapped
+        self.budget = budget if budget is not None else MemoryBudget.of(None)
+        self._spill_dir = spill_dir
+        self._folder: SpillFolder | None = None
+        self._max_types = min(max_types, MAX_RAW_TYPES)
+        self._dictionary_limit = self.budget.dictionary_bytes
+        self.dictionary_bytes = 0
+        self._full = False
         self._form_ids: dict[str, int] = {}
         self._forms: list[str] = []
         self._form_type = np.zeros(1024, dtype=np.int32)
         self._type_ids: dict[str, int] = {"<s>": RAW_START, "</s>": RAW_END}
         self._types: list[str] = ["<s>", "</s>"]
+        self._unlisted = -1
+        self._type_counts = np.zeros(1024, dtype=np.int64)
         self._noninitial = np.zeros(1024, dtype=np.int64)
         self._initial = np.zeros(1024, dtype=np.int64)
-        self._carry = np.zeros(0, dtype=np.int32)
-        self._tables: list[TrigramTable] = []
-        self._pending: list[TrigramTable] = []
-        self._heldout: list[TrigramTable] = []
+        self._carry_forms = np.zeros(0, dtype=np.int32)
+        self._carry_types = np.zeros(0, dtype=np.int32)
+        rows = self.budget.table_rows
+        merge = min(self.MERGE_ROWS, rows // 4)
+        self._table = KeyCounter(rows - rows // 8, self._spill_folder, merge)
+        self._heldout = KeyCounter(rows // 8, self._spill_folder, max(1, merge // 8))
+        self._new_form("\n")
         self.corpus_tokens = 0
         self.sentences = 0
         self.files = 0
         self.skipped_files = 0
+        self.unlisted_tokens = 0
+
+    def _spill_folder(self) -> SpillFolder:
+        if self._folder is None:
+            try:
+                self._folder = SpillFolder(self._spill_dir)
+            except OSError as error:
+                where = self._spill_dir or "the temporary folder"
+                raise OutputError(f"{where}: cannot create a folder for counts that outgrow memory ({error.strerror or error})") from None
+        return self._folder
 
     def add_text(self, text: str) -> None:
-        """Count a chunk of whole lines (an unfinished last sentence carries over)."""
+        """Count a chunk of text (an unfinished last sentence carries over to the next chunk)."""
         found = tokens(text, wrapped=self.wrapped)
         if not found:
             return
-        fids = np.concatenate((self._carry, self._form_ids_of(found)))
-        form_type = self._form_type
-        tids = form_type[fids]
+        fids, tids = self._ids_of(found)
+        del found
+        fids = np.concatenate((self._carry_forms, fids))
+        tids = np.concatenate((self._carry_types, tids))
         ends = np.flatnonzero(tids == RAW_END)
         if len(ends) == 0:
-            self._carry = fids
+            self._carry_forms, self._carry_types = fids, tids
             return
         cut = int(ends[-1]) + 1
-        self._carry = fids[cut:]
+        self._carry_forms, self._carry_types = fids[cut:], tids[cut:]
         self._count_sentences(fids[:cut], tids[:cut])
 
     def end_document(self) -> None:
         """Close the sentence in progress at the end of a file."""
         self.files += 1
-        if len(self._carry):
-            fids = np.concatenate((self._carry, np.array([self._boundary_form()], dtype=np.int32)))
-            self._carry = np.zeros(0, dtype=np.int32)
-            self._count_sentences(fids, self._form_type[fids])
+        if len(self._carry_types):
+            fids = np.append(self._carry_forms, np.int32(self._form_ids["\n"]))
+            tids = np.append(self._carry_types, np.int32(RAW_END))
+            self._carry_forms = self._carry_types = np.zeros(0, dtype=np.int32)
+            self._count_sentences(fids, tids)
 
-    def _boundary_form(self) -> int:
-        return int(self._form_ids_of(["\n"])[0])
-
-    def _form_ids_of(self, found: list[str]) -> np.ndarray:
+    def _ids_of(self, found: list[str]) -> tuple[np.ndarray, np.ndarray]:
+        """Form ids (-1 outside the dictionary) and raw type ids of tokens."""
         lookup = self._form_ids
-        # Set arithmetic finds the new forms in C; a per-token Python loop would cost more than the regex.
-        for token in set(found).difference(lookup):
-            self._new_form(token)
-        return np.fromiter(map(lookup.__getitem__, found), dtype=np.int32, count=len(found))
+        # A list first: numpy converts a list of ints far faster than it drains an iterator.
+        fids = np.array(list(map(lookup.get, found, repeat(-1))), dtype=np.int32)
+        missing = np.flatnonzero(fids < 0)
+        if len(missing) and not self._full:
+            for token in dict.fromkeys([found[i] for i in missing.tolist()]):
+                self._new_form(token)
+            fids[missing] = list(map(lookup.get, [found[i] for i in missing.tolist()], repeat(-1)))
+            missing = missing[fids[missing] < 0]
+        tids = self._form_type[np.maximum(fids, 0)]
+        if len(missing):
+            tids[missing] = [self._type_outside(found[i]) for i in missing.tolist()]
+        return fids, tids
 
-    def _new_form(self, token: str) -> int:
-        form_id = len(self._forms)
-        self._form_ids[token] = form_id
-        self._forms.append(token)
-        if form_id >= len(self._form_type):
-            grow = len(self._form_type)
-            self._form_type = np.concatenate((self._form_type, np.zeros(grow, dtype=np.int32)))
-            self._noninitial = np.concatenate((self._noninitial, np.zeros(grow, dtype=np.int64)))
-            self._initial = np.concatenate((self._initial, np.zeros(grow, dtype=np.int64)))
+    def _type_outside(self, token: str) -> int:
+        """The raw type of a token whose written form the full dictionary could not take."""
+        if is_sentence_end(token):
+            return RAW_END
+        found = self._type_ids.get(model_form(token))
+        if found is not None:
+            return found
+        self.unlisted_tokens += 1
+        return self._unlisted
+
+    def _new_form(self, token: str) -> None:
+        """Add a written form (and its model form if new), unless the dictionaries are full."""
+        cost = sys.getsizeof(token) + FORM_ENTRY_BYTES
+        form = None
         if is_sentence_end(token):
             type_id = RAW_END
         else:
             form = model_form(token)
-            type_id = self._type_ids.get(form)
-            if type_id is None:
-                type_id = len(self._types)
-                self._type_ids[form] = type_id
-                self._types.append(form)
+            type_id = self._type_ids.get(form, -1)
+            if type_id < 0:
+                cost += sys.getsizeof(form) + TYPE_ENTRY_BYTES
+        # One type id stays free for UNLISTED.
+        if self.dictionary_bytes + cost > self._dictionary_limit or (type_id < 0 and len(self._types) + 1 >= self._max_types):
+            self._become_full()
+            return
+        if type_id < 0:
+            assert form is not None
+            type_id = self._new_type(form)
+        form_id = len(self._forms)
+        self._form_ids[token] = form_id
+        self._forms.append(token)
+        if form_id >= len(self._form_type):
+            self._form_type = _grown(self._form_type)
+            self._noninitial = _grown(self._noninitial)
+            self._initial = _grown(self._initial)
         self._form_type[form_id] = type_id
-        return form_id
+        self.dictionary_bytes += cost
+
+    def _new_type(self, form: str) -> int:
+        type_id = len(self._types)
+        self._type_ids[form] = type_id
+        self._types.append(form)
+        if type_id >= len(self._type_counts):
+            self._type_counts = _grown(self._type_counts)
+        return type_id
+
+    def _become_full(self) -> None:
+        if not self._full:
+            self._full = True
+            self._unlisted = self._new_type(UNLISTED)
 
     def _count_sentences(self, fids: np.ndarray, tids: np.ndarray) -> None:
         """Count complete sentences: the arrays end with a sentence-end token."""
@@ -266,33 +487,46 @@ class CorpusCounter:
         after_end[0] = True
         after_end[1:] = is_end[:-1]
         is_word = ~is_end
-        initial = is_word & after_end
-        size = len(self._forms)
-        self._noninitial[:size] += np.bincount(fids[is_word & ~after_end], minlength=size)
-        self._initial[:size] += np.bincount(fids[initial], minlength=size)
+        listed = fids >= 0
+        _add_counts(self._noninitial, fids[is_word & ~after_end & listed])
+        _add_counts(self._initial, fids[is_word & after_end & listed])
         self.corpus_tokens += int(is_word.sum())
         # Pad: "<s> <s>" first, and every end becomes "</s> <s> <s>".
         widths = np.where(is_end, 3, 1)
         slot = 2 + np.cumsum(widths) - widths
         padded = np.full(2 + int(widths.sum()), RAW_START, dtype=np.int32)
         padded[slot] = tids
+        del slot, widths, fids
         u, v, w = padded[:-2], padded[1:-1], padded[2:]
         valid = w != RAW_START
         sentence_of = np.cumsum(padded == RAW_END)[2:] - (w == RAW_END) + self.sentences
         self.sentences += int(is_end.sum())
         u, v, w, sentence_of = u[valid], v[valid], w[valid], sentence_of[valid]
-        base = len(self._types)
-        (cu, cv, cw), cn = aggregate_rows([u, v, w], None, base)
-        self._pending.append(TrigramTable(cu, cv, cw, cn))
+        _add_counts(self._type_counts, w)
+        keys = pack_trigrams(u, v, w)
+        del u, v, w, padded
         held = sentence_of % HELDOUT_EVERY == HELDOUT_EVERY - 1
         if held.any():
-            (hu, hv, hw), hn = aggregate_rows([u[held], v[held], w[held]], None, base)
-            self._heldout.append(TrigramTable(hu, hv, hw, hn))
-        pending_rows = sum(len(t) for t in self._pending)
-        if pending_rows > max(self.MERGE_ROWS, sum(len(t) for t in self._tables)):
-            self._tables = [TrigramTable.merge(self._tables + self._pending, base)]
-            self._pending = []
-            self._heldout = [TrigramTable.merge(self._heldout, base)]
+            self._heldout.add(*sum_duplicates(keys[held]))
+        self._table.add(*sum_duplicates(keys))
+
+    def check_vocabulary_limit(self, min_count: int) -> None:
+        """Fail early when more words than the format supports already reach ``min_count``.
+
+        Counts only grow, so once too many words have ``min_count`` occurrences no
+        choice of ``min_count`` alone can make the vocabulary fit.
+
+        Raises:
+            CapacityError: more than :data:`MAX_VOCABULARY` words reach ``min_count``.
+        """
+        reaching = int(np.count_nonzero(self._type_counts[2 : len(self._types)] >= min_count))
+        if self._unlisted >= 0 and self._type_counts[self._unlisted] >= min_count:
+            reaching -= 1
+        if reaching > MAX_VOCABULARY:
+            raise CapacityError(
+                f"more than {MAX_VOCABULARY:,} distinct words occur at least {min_count} times, "
+                f"the format's vocabulary limit; pass --vocab-size (at most {MAX_VOCABULARY:,}) or a higher --min-count"
+            )
 
     def finish(self) -> CorpusCounts:
         """Close the count and return it.
@@ -300,26 +534,39 @@ class CorpusCounter:
         Raises:
             CorpusError: no word was read.
         """
-        if len(self._carry):
+        if len(self._carry_types):
             self.end_document()
             self.files -= 1
         if self.corpus_tokens == 0:
             raise CorpusError("the corpus holds no words")
-        base = len(self._types)
-        table = TrigramTable.merge(self._tables + self._pending, base)
-        heldout = TrigramTable.merge(self._heldout, base)
-        type_counts = np.bincount(table.w, weights=table.n, minlength=base).astype(np.int64)
+        display = self._display_forms()
+        # The written forms are only needed for display forms: free them before estimation.
+        self._form_ids = {}
+        self._forms = []
+        table = self._close_table(self._table)
+        heldout = self._close_table(self._heldout)
         return CorpusCounts(
             types=list(self._types),
-            display=self._display_forms(),
-            type_counts=type_counts,
+            display=display,
+            type_counts=self._type_counts[: len(self._types)].copy(),
             table=table,
             heldout=heldout,
             corpus_tokens=self.corpus_tokens,
             sentences=self.sentences,
             files=self.files,
             skipped_files=self.skipped_files,
+            unlisted_tokens=self.unlisted_tokens,
+            spilled_rows=self._table.spilled_rows + self._heldout.spilled_rows,
+            dictionary_bytes=self.dictionary_bytes,
+            budget=self.budget,
         )
+
+    def _close_table(self, counter: KeyCounter) -> TrigramTable | SpilledTrigrams:
+        result = counter.finish()
+        if isinstance(result, Run):
+            assert self._folder is not None
+            return SpilledTrigrams(result, self._folder, self.budget, self.dictionary_bytes)
+        return TrigramTable.of_keys(*result)
 
     def _display_forms(self) -> list[str]:
         """Pick each type's most frequent written form, not counting sentence starts.
@@ -349,6 +596,10 @@ class CorpusCounter:
         return display
 
 
+def _grown(array: np.ndarray) -> np.ndarray:
+    return np.concatenate((array, np.zeros(len(array), dtype=array.dtype)))
+
+
 def count_corpus(
     paths: Iterable[str | os.PathLike[str]],
     *,
@@ -356,6 +607,9 @@ def count_corpus(
     replace_bad_bytes: bool = False,
     reject_binary: bool = False,
     progress: ProgressCallback | None = None,
+    budget: MemoryBudget | None = None,
+    spill_dir: str | os.PathLike[str] | None = None,
+    min_count: int | None = None,
 ) -> CorpusCounts:
     """Read and count corpus files or folders.
 
@@ -365,6 +619,10 @@ def count_corpus(
         replace_bad_bytes: replace invalid UTF-8 instead of failing.
         reject_binary: fail on binary files inside folders instead of skipping them.
         progress: called with (bytes done, bytes in all) after each chunk.
+        budget: the memory budget (None: the default share of the machine).
+        spill_dir: where counts that outgrow memory go (None: the system's temporary folder).
+        min_count: when the whole vocabulary above this count will be kept, fail as
+            soon as it exceeds the format's limit instead of after reading everything.
 
     Returns:
         The counts.
@@ -372,20 +630,57 @@ def count_corpus(
     Raises:
         CorpusError: missing, unreadable or non-text input, or no words at all.
         EncodingError: invalid UTF-8 (names the file and line).
+        CapacityError: with ``min_count``, too many words for the format.
+        OutputError: counts that outgrow memory cannot be written to ``spill_dir``.
     """
+    if spill_dir is not None and not (os.path.isdir(spill_dir) and os.access(spill_dir, os.W_OK | os.X_OK)):
+        raise OutputError(f"{spill_dir}: not a writable folder for counts that outgrow memory")
     found = resolve_corpus(paths, reject_binary=reject_binary)
-    counter = CorpusCounter(wrapped=wrapped)
+    counter = CorpusCounter(wrapped=wrapped, budget=budget, spill_dir=spill_dir)
     counter.skipped_files = len(found.skipped)
     total = sum(_size(path) for path in found.files)
+    piece = counter.budget.chunk_bytes
+    # Read chunks of the budget's size, never more than the default.
+    reading = {"chunk_bytes": piece} if piece < CHUNK_BYTES else {}
     done = 0
     for path in found.files:
-        for chunk in iter_chunks(path, replace_bad_bytes=replace_bad_bytes):
-            counter.add_text(chunk)
+        for chunk in iter_chunks(path, replace_bad_bytes=replace_bad_bytes, **reading):
+            for part in split_text(chunk, piece):
+                counter.add_text(part)
+            if min_count is not None:
+                counter.check_vocabulary_limit(min_count)
             done += len(chunk)  # characters, close enough to bytes for a progress bar
             if progress:
                 progress(min(done, total), total)
         counter.end_document()
     return counter.finish()
+
+
+def split_text(text: str, size: int) -> Iterator[str]:
+    """Cut text into pieces of about ``size`` characters, at line breaks where possible.
+
+    A line longer than ``size`` is cut before a word (after a space), or, in a
+    run of ``size`` characters without a space, anywhere; counting carries a
+    sentence across pieces, so only such a run itself can be split.
+    """
+    if len(text) <= size + size // 4:
+        if text:
+            yield text
+        return
+    start = 0
+    while len(text) - start > size:
+        stop = start + size
+        cut = text.rfind("\n", start, stop) + 1
+        if cut <= start:
+            cut = text.rfind(" ", start, stop) + 1
+            while start < cut < stop and text[cut] == " ":
+                cut += 1  # keep runs of spaces together, so the next piece starts with a word
+            if cut <= start or cut >= stop:
+                cut = stop
+        yield text[start:cut]
+        start = cut
+    if start < len(text):
+        yield text[start:]
 
 
 def _size(path: os.PathLike[str]) -> int:

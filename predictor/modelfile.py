@@ -10,45 +10,62 @@ Layout (all integers little-endian)::
     offset 24  H bytes   header: UTF-8 JSON {"meta": {...}, "sections": [...]}
     then       sections, each starting at a multiple of 64 bytes
 
-Each section entry records ``name``, ``dtype`` (one of a fixed list), ``shape``,
-``offset``, ``nbytes`` and ``crc32``.  Nothing in the file is executed: the
-header is plain JSON and the sections are raw arrays viewed with
-``numpy.frombuffer`` over a read-only ``mmap``, so load time does not grow with
-the model.  Every load checks the header checksum and that each section lies
-inside the file with the size its dtype and shape imply; :func:`verify`
-additionally checks every section's checksum.
+The first 24 bytes keep this layout in every format version, so any engine can
+tell a newer file from a damaged one.  Each section entry records ``name``,
+``dtype`` (one of a fixed list), ``shape``, ``offset``, ``nbytes`` and
+``crc32``.  Nothing in the file is executed: the header is plain JSON and the
+sections are raw arrays viewed with ``numpy.frombuffer`` over a read-only
+``mmap``.
 
-Files are written to a temporary file beside the target, flushed to disk and
-renamed over it, so a failed or interrupted write never leaves a half-written
-model or destroys the previous one.
+Every load checks, before any array is used: the file is a regular file; the
+magic and version; the header's length and checksum; that the header is the
+expected JSON; that each section entry is well formed, has the size its dtype
+and shape imply, starts after the header on a 64-byte boundary and lies inside
+the file without overlapping another; and every section's CRC-32.  zlib's CRC-32
+runs at several GB/s (bench/bench_memory.py prints the figure), a few
+milliseconds for a 50 MB model, so no load ever works on bytes that differ from
+what was written.
+
+Files are written to a locked temporary file beside the target (named with
+:data:`~predictor.scratch.TEMP_PREFIX`), flushed to disk and renamed over it, so
+a failed or killed write never leaves a half-written model or destroys the
+previous one; the next write into the same folder removes what a killed one
+left behind.
 """
 
 from __future__ import annotations
 
 import json
+import math
 import mmap
 import os
+import stat
 import struct
 import tempfile
 import zlib
 from collections.abc import Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 import numpy as np
 
 from .errors import ModelFileError, ModelVersionError, OutputError
+from .scratch import TEMP_PREFIX, lock_exclusively, remove_stale
 
 MAGIC = b"FTMODEL\x00"
 FORMAT_VERSION = 1
 """The model-file format version this engine writes and reads."""
 
+MAX_HEADER_BYTES = 1 << 24
+"""A header longer than this (16 MiB) is taken as corrupt; real ones hold a few KiB."""
+
 _PREAMBLE = struct.Struct("<8sIIII")
 _ALIGN = 64
 _DTYPES = {"uint8", "uint16", "int32", "uint32", "int64", "uint64", "float32", "float64"}
-TEMP_PREFIX = ".foretype-"
-"""Temporary files being written start with this name."""
+_ENTRY_KEYS = {"name", "dtype", "shape", "offset", "nbytes", "crc32"}
+
+__all__ = ["MAGIC", "FORMAT_VERSION", "TEMP_PREFIX", "ModelFile", "check_target", "write_model_file", "read_model_file", "verify", "crc32"]
 
 
 @dataclass
@@ -60,23 +77,28 @@ class ModelFile:
         sections: the arrays, read-only views of the mapped file.
         path: where it was loaded from.
         file_bytes: the file's size.
+        checksums: the CRC-32 the header records for each section.
     """
 
     meta: dict[str, Any]
     sections: dict[str, np.ndarray]
     path: Path | None
     file_bytes: int
+    checksums: dict[str, int] = field(default_factory=dict)
 
 
-def _crc(data: bytes | memoryview | np.ndarray) -> int:
+def crc32(data: bytes | memoryview | np.ndarray) -> int:
+    """The CRC-32 (zlib's) of an array's or buffer's bytes."""
     return zlib.crc32(memoryview(data).cast("B")) & 0xFFFFFFFF
+
 
 
 def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sections: Mapping[str, np.ndarray]) -> int:
     """Write a model file atomically.
 
     Args:
-        path: the target; replaced only once the new file is complete.
+        path: the target; replaced only once the new file is complete.  An
+            existing file that is not a model file is never replaced.
         meta: JSON-serialisable header fields.
         sections: named arrays (C-contiguous after conversion).
 
@@ -84,15 +106,17 @@ def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sect
         The size of the file written.
 
     Raises:
-        OutputError: the file cannot be written (the previous file, if any, stays).
+        OutputError: the file cannot be written, or the target is something
+            other than a model file (the previous file, if any, stays).
     """
     target = Path(path)
+    _refuse_to_replace_other_files(target)
     arrays = {name: np.ascontiguousarray(array) for name, array in sections.items()}
     entries = []
     for name, array in arrays.items():
         if array.dtype.name not in _DTYPES:
             raise ValueError(f"section {name} has unsupported dtype {array.dtype}")
-        entries.append({"name": name, "dtype": array.dtype.name, "shape": list(array.shape), "nbytes": int(array.nbytes), "crc32": _crc(array)})
+        entries.append({"name": name, "dtype": array.dtype.name, "shape": list(array.shape), "nbytes": int(array.nbytes), "crc32": crc32(array)})
     # Offsets depend on the header length and the header holds the offsets:
     # reserve room, and pad the JSON with spaces up to it.
     reserved = 0
@@ -106,13 +130,18 @@ def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sect
             header = header.ljust(_align(_PREAMBLE.size + reserved) - _PREAMBLE.size)
             break
         reserved = len(header) + 64
-    preamble = _PREAMBLE.pack(MAGIC, FORMAT_VERSION, len(header), _crc(header), 0)
+    preamble = _PREAMBLE.pack(MAGIC, FORMAT_VERSION, len(header), crc32(header), 0)
     directory = target.parent if str(target.parent) else Path(".")
+    remove_stale(directory)
     try:
         handle, temp_name = tempfile.mkstemp(prefix=TEMP_PREFIX, suffix=".tmp", dir=directory)
     except OSError as error:
         raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
     try:
+        # The lock tells a cleaner in another process that this file is alive;
+        # the rename happens before the file is closed so it is never unlocked.
+        lock_exclusively(handle)
+        os.fchmod(handle, _file_mode(target))
         with os.fdopen(handle, "wb") as out:
             out.write(preamble)
             out.write(header)
@@ -125,7 +154,7 @@ def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sect
             out.flush()
             os.fsync(out.fileno())
             size = out.tell()
-        os.replace(temp_name, target)
+            os.replace(temp_name, target)
     except OSError as error:
         _remove_quietly(temp_name)
         raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
@@ -134,6 +163,61 @@ def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sect
         raise
     _sync_directory(directory)
     return size
+
+
+def check_target(path: str | os.PathLike[str]) -> None:
+    """Check, before any work, that a model can be written to ``path``.
+
+    Raises:
+        OutputError: the folder is missing or not writable, or the target is a
+            folder or a file other than a model file.
+    """
+    target = Path(path)
+    _refuse_to_replace_other_files(target)
+    directory = target.parent if str(target.parent) else Path(".")
+    if not directory.is_dir():
+        raise OutputError(f"{target}: cannot write (folder {directory} does not exist)")
+    if not os.access(directory, os.W_OK | os.X_OK):
+        raise OutputError(f"{target}: cannot write (folder {directory} is not writable)")
+
+
+def _refuse_to_replace_other_files(target: Path) -> None:
+    try:
+        info = target.stat()
+    except FileNotFoundError:
+        return
+    except OSError as error:
+        raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
+    if stat.S_ISDIR(info.st_mode):
+        raise OutputError(f"{target}: is a folder; give a file name for the model")
+    if not stat.S_ISREG(info.st_mode):
+        raise OutputError(f"{target}: is not a regular file; not replacing it")
+    if info.st_size == 0:
+        return
+    try:
+        with target.open("rb") as handle:
+            start = handle.read(len(MAGIC))
+    except OSError as error:
+        raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
+    if start != MAGIC:
+        raise OutputError(f"{target}: exists and is not a foretype model; not replacing it (choose another name or delete it)")
+
+
+def _file_mode(target: Path) -> int:
+    """The permissions a new model gets: the old file's, else read-write under the umask (mkstemp's 0600 is too strict)."""
+    try:
+        return stat.S_IMODE(target.stat().st_mode)
+    except OSError:
+        pass
+    umask = 0o022
+    try:
+        with open("/proc/self/status", encoding="ascii") as status:
+            for line in status:
+                if line.startswith("Umask:"):
+                    umask = int(line.split()[1], 8)
+    except (OSError, ValueError):
+        pass
+    return 0o666 & ~umask
 
 
 def _align(position: int) -> int:
@@ -160,36 +244,40 @@ def _sync_directory(directory: Path) -> None:
         os.close(fd)
 
 
-def read_model_file(path: str | os.PathLike[str]) -> ModelFile:
-    """Memory-map a model file and view its sections.
+def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> ModelFile:
+    """Memory-map a model file, check its structure and view its sections.
+
+    Args:
+        path: the model file.
+        checksums: check every section's CRC-32 (the default; only tests and
+            tools that inspect damaged files turn it off).
+
+    Returns:
+        The header and read-only array views of the mapped file.
 
     Raises:
-        ModelFileError: missing, unreadable, not a model file, or structurally corrupt.
-        ModelVersionError: written by a newer (or unknown) format version.
+        ModelFileError: missing, unreadable, not a model file, truncated, or corrupt
+            (the message names the file and what is wrong).
+        ModelVersionError: written in a format version this engine does not read.
     """
     source = Path(path)
-    if source.is_dir():
-        raise ModelFileError(f"{source}: is a folder, not a model file")
-    try:
-        with source.open("rb") as handle:
-            size = os.fstat(handle.fileno()).st_size
-            if size < _PREAMBLE.size:
-                raise ModelFileError(f"{source}: not a foretype model (file too short: {size} bytes)")
-            mapped = mmap.mmap(handle.fileno(), 0, access=mmap.ACCESS_READ)
-    except FileNotFoundError:
-        raise ModelFileError(f"{source}: no such model file") from None
-    except OSError as error:
-        raise ModelFileError(f"{source}: cannot read ({error.strerror or error})") from None
+    mapped, size = _map(source)
     magic, version, header_length, header_crc, _ = _PREAMBLE.unpack_from(mapped, 0)
     if magic != MAGIC:
-        raise ModelFileError(f"{source}: not a foretype model (wrong magic bytes)")
+        raise ModelFileError(f"{source}: not a foretype model ({_what_it_looks_like(mapped)})")
     if version != FORMAT_VERSION:
-        newer = "newer" if version > FORMAT_VERSION else "older"
-        raise ModelVersionError(f"{source}: model format version {version} is {newer} than this engine's {FORMAT_VERSION}; rebuild the model")
+        if version > FORMAT_VERSION:
+            raise ModelVersionError(
+                f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} "
+                "(or a damaged file); upgrade foretype or rebuild the model"
+            )
+        raise ModelVersionError(f"{source}: model format version {version}, which this engine does not read; rebuild the model")
+    if header_length == 0 or header_length > MAX_HEADER_BYTES:
+        raise ModelFileError(f"{source}: corrupt header (implausible length {header_length})")
     if _PREAMBLE.size + header_length > size:
         raise ModelFileError(f"{source}: truncated (header runs past the end of the file)")
     header = mapped[_PREAMBLE.size : _PREAMBLE.size + header_length]
-    if _crc(header) != header_crc:
+    if crc32(header) != header_crc:
         raise ModelFileError(f"{source}: corrupt header (checksum mismatch)")
     try:
         parsed = json.loads(header.decode("utf-8"))
@@ -197,56 +285,125 @@ def read_model_file(path: str | os.PathLike[str]) -> ModelFile:
         entries = parsed["sections"]
         if not isinstance(meta, dict) or not isinstance(entries, list):
             raise TypeError
-    except (ValueError, KeyError, TypeError, UnicodeDecodeError):
+    except (ValueError, KeyError, TypeError, UnicodeDecodeError, RecursionError):
         raise ModelFileError(f"{source}: corrupt header (not the expected JSON)") from None
+    layout = [_section_entry(source, entry) for entry in entries]
+    _check_layout(source, layout, _PREAMBLE.size + header_length, size)
     sections: dict[str, np.ndarray] = {}
-    for entry in entries:
-        name, array = _view_section(source, mapped, entry, size)
+    recorded: dict[str, int] = {}
+    for name, dtype, shape, offset, nbytes, crc in layout:
+        count = nbytes // dtype.itemsize
+        array = np.frombuffer(mapped, dtype=dtype, count=count, offset=offset).reshape(shape)
+        if checksums and crc32(array) != crc:
+            raise ModelFileError(f"{source}: corrupt (section {name} checksum mismatch)")
         sections[name] = array
-    return ModelFile(meta=meta, sections=sections, path=source, file_bytes=size)
+        recorded[name] = crc
+    return ModelFile(meta=meta, sections=sections, path=source, file_bytes=size, checksums=recorded)
 
 
-def _view_section(source: Path, mapped: mmap.mmap, entry: Any, size: int) -> tuple[str, np.ndarray]:
+def _map(source: Path) -> tuple[mmap.mmap, int]:
+    """Open and map a model file; refuse folders, pipes and devices before reading."""
     try:
-        name = str(entry["name"])
-        dtype_name = entry["dtype"]
-        shape = tuple(int(d) for d in entry["shape"])
-        offset = int(entry["offset"])
-        nbytes = int(entry["nbytes"])
-        int(entry["crc32"])
-    except (KeyError, TypeError, ValueError):
-        raise ModelFileError(f"{source}: corrupt header (bad section entry)") from None
-    if dtype_name not in _DTYPES:
+        # O_NONBLOCK: opening a pipe must not wait for a writer; it is refused below.
+        fd = os.open(source, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+    except FileNotFoundError:
+        raise ModelFileError(f"{source}: no such model file") from None
+    except IsADirectoryError:
+        raise ModelFileError(f"{source}: is a folder, not a model file") from None
+    except OSError as error:
+        raise ModelFileError(f"{source}: cannot read ({error.strerror or error})") from None
+    try:
+        info = os.fstat(fd)
+        if stat.S_ISDIR(info.st_mode):
+            raise ModelFileError(f"{source}: is a folder, not a model file")
+        if not stat.S_ISREG(info.st_mode):
+            raise ModelFileError(f"{source}: not a regular file (a pipe or device), not a model file")
+        size = info.st_size
+        if size == 0:
+            raise ModelFileError(f"{source}: empty file, not a foretype model")
+        if size < _PREAMBLE.size:
+            raise ModelFileError(f"{source}: not a foretype model (file too short: {size} bytes)")
+        try:
+            mapped = mmap.mmap(fd, 0, access=mmap.ACCESS_READ)
+        except (OSError, ValueError) as error:
+            raise ModelFileError(f"{source}: cannot map ({getattr(error, 'strerror', None) or error})") from None
+    finally:
+        os.close(fd)
+    # The mapping's own length: the file may have changed size since fstat.
+    if len(mapped) < _PREAMBLE.size:
+        raise ModelFileError(f"{source}: not a foretype model (file too short: {len(mapped)} bytes)")
+    return mapped, len(mapped)
+
+
+def _what_it_looks_like(mapped: mmap.mmap) -> str:
+    start = mapped[:256]
+    if start[:4] == b"PK\x03\x04":
+        return "it is a zip archive"
+    if start[:2] == b"\x1f\x8b":
+        return "it is gzip-compressed"
+    if start[:6] == b"\x93NUMPY":
+        return "it is a numpy array file"
+    try:
+        text = start.decode("utf-8")
+    except UnicodeDecodeError:
+        try:
+            text = start[:-3].decode("utf-8")
+        except UnicodeDecodeError:
+            return "wrong magic bytes"
+    if text and all(c.isprintable() or c in "\t\r\n" for c in text):
+        return "it looks like a text file; make a model with 'foretype build'"
+    return "wrong magic bytes"
+
+
+_Entry = tuple[str, np.dtype, tuple[int, ...], int, int, int]
+
+
+def _section_entry(source: Path, entry: Any) -> _Entry:
+    """Validate one header entry: exact keys and types, size matching dtype and shape."""
+
+    def whole(value: Any) -> bool:
+        return isinstance(value, int) and not isinstance(value, bool) and value >= 0
+
+    if not isinstance(entry, dict) or set(entry) != _ENTRY_KEYS:
+        raise ModelFileError(f"{source}: corrupt header (bad section entry)")
+    name, dtype_name, shape = entry["name"], entry["dtype"], entry["shape"]
+    offset, nbytes, crc = entry["offset"], entry["nbytes"], entry["crc32"]
+    if not isinstance(name, str) or not name:
+        raise ModelFileError(f"{source}: corrupt header (bad section name)")
+    if not isinstance(dtype_name, str) or dtype_name not in _DTYPES:
         raise ModelFileError(f"{source}: corrupt header (section {name} has unknown type {dtype_name!r})")
+    if not isinstance(shape, list) or len(shape) > 8 or not all(whole(d) for d in shape):
+        raise ModelFileError(f"{source}: corrupt header (section {name} has a bad shape)")
+    if not (whole(offset) and whole(nbytes) and whole(crc) and crc <= 0xFFFFFFFF):
+        raise ModelFileError(f"{source}: corrupt header (section {name} has a bad offset, size or checksum)")
     dtype = np.dtype(dtype_name)
-    count = int(np.prod(shape, dtype=np.int64)) if shape else 1
-    if any(d < 0 for d in shape) or count * dtype.itemsize != nbytes:
+    # Python integers: a lying shape cannot overflow into a plausible size.
+    if math.prod(shape) * dtype.itemsize != nbytes:
         raise ModelFileError(f"{source}: corrupt header (section {name} size does not match its shape)")
-    if offset % _ALIGN or offset < _PREAMBLE.size or offset + nbytes > size:
-        raise ModelFileError(f"{source}: truncated or corrupt (section {name} lies outside the file)")
-    array = np.frombuffer(mapped, dtype=dtype, count=count, offset=offset).reshape(shape)
-    return name, array
+    return name, dtype, tuple(shape), offset, nbytes, crc
+
+
+def _check_layout(source: Path, layout: list[_Entry], header_end: int, size: int) -> None:
+    """Sections must be uniquely named, aligned, after the header, inside the file and disjoint."""
+    names = [entry[0] for entry in layout]
+    if len(set(names)) != len(names):
+        raise ModelFileError(f"{source}: corrupt header (a section name repeats)")
+    end_of_previous = header_end
+    for name, _, _, offset, nbytes, _ in sorted(layout, key=lambda e: e[3]):
+        if offset % _ALIGN or offset < end_of_previous:
+            raise ModelFileError(f"{source}: corrupt header (section {name} overlaps the header or another section)")
+        if offset + nbytes > size:
+            raise ModelFileError(f"{source}: truncated or corrupt (section {name} runs past the end of the file)")
+        end_of_previous = offset + nbytes
 
 
 def verify(path: str | os.PathLike[str]) -> ModelFile:
-    """Read a model file and check every section's checksum.
+    """Read a model file and check the header and every section's checksum.
+
+    Loading already does this; the model-level checks of
+    :func:`predictor.integrity.verify_model` go further.
 
     Raises:
-        ModelFileError: as :func:`read_model_file`, or a section's checksum fails.
+        ModelFileError: as :func:`read_model_file`.
     """
-    loaded = read_model_file(path)
-    mapped = loaded.sections
-    header_entries = _entries(loaded)
-    for entry in header_entries:
-        array = mapped[entry["name"]]
-        if _crc(array) != int(entry["crc32"]):
-            raise ModelFileError(f"{loaded.path}: corrupt (section {entry['name']} checksum mismatch)")
-    return loaded
-
-
-def _entries(loaded: ModelFile) -> list[dict[str, Any]]:
-    assert loaded.path is not None
-    with loaded.path.open("rb") as handle:
-        preamble = handle.read(_PREAMBLE.size)
-        _, _, header_length, _, _ = _PREAMBLE.unpack(preamble)
-        return list(json.loads(handle.read(header_length).decode("utf-8"))["sections"])
+    return read_model_file(path, checksums=True)

@@ -126,7 +126,7 @@ class Vocabulary:
 
     def id(self, word: str) -> int | None:
         """Return the id of a word in model form, or None if it is not in the vocabulary."""
-        key = self._trie.get(word)
+        key = self._trie_key(word)
         if key is None:
             return None
         lo = int(self._key_lo[key])
@@ -141,11 +141,17 @@ class Vocabulary:
         found = self.id(model_form(word))
         return self.unknown_id if found is None else found
 
+    def _trie_key(self, text: str) -> int | None:
+        try:
+            return self._trie.get(text)
+        except UnicodeEncodeError:  # a lone surrogate cannot be a vocabulary word or prefix
+            return None
+
     def prefix_range(self, prefix: str) -> PrefixRange | None:
         """Return the ids of the words starting with a model-form prefix, or None if none do."""
         if not prefix:
             return self._root
-        key = self._trie.get(prefix)
+        key = self._trie_key(prefix)
         if key is None:
             return None
         lo = self._key_lo.item(key)

@@ -7,9 +7,13 @@ import time
 from pathlib import Path
 
 from ..build import build
+from ..counting import CorpusCounts
+from ..errors import OptionError
 from ..estimate import ENCODINGS, METHODS
-from ..modelfile import verify
+from ..integrity import verify_model
+from ..memory import parse_size, peak_resident_bytes
 from ..model import load
+from ..modelfile import check_target
 from .output import (
     add_json_option,
     open_model,
@@ -39,6 +43,14 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
     p.add_argument("--reject-binary", action="store_true", help="fail on binary files inside folders instead of skipping them")
     p.add_argument("--values", choices=ENCODINGS, default=None, help="stored value encoding (default log16; float32 for mle)")
+    p.add_argument(
+        "--max-memory",
+        type=_memory_size,
+        default=None,
+        metavar="SIZE",
+        help="ceiling on the build's memory, e.g. 2G or 512M (default: half of the memory available); counts that outgrow it go to disk",
+    )
+    p.add_argument("--spill-dir", default=None, metavar="DIR", help="where counts that outgrow memory go (default: the output's folder)")
     add_json_option(p)
     p.set_defaults(handler=run_build)
 
@@ -76,9 +88,24 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.set_defaults(handler=run_check)
 
 
+def _memory_size(text: str) -> int:
+    """argparse type: a memory size such as 512M or 2G."""
+    try:
+        return parse_size(text)
+    except OptionError as error:
+        raise argparse.ArgumentTypeError(str(error).removeprefix("--max-memory: ")) from None
+
+
 def run_build(args: argparse.Namespace) -> int:
     """foretype build."""
     started = time.perf_counter()
+    check_target(args.output)  # fail before reading a corpus, not after
+    spill_dir = args.spill_dir if args.spill_dir is not None else (str(Path(args.output).parent) or ".")
+    counted: dict[str, int] = {}
+
+    def note_counts(counts: CorpusCounts) -> None:
+        counted["spilled_rows"] = counts.spilled_rows
+
     with progress_bar("reading corpus") as update:
         model = build(
             args.corpus,
@@ -91,6 +118,9 @@ def run_build(args: argparse.Namespace) -> int:
             reject_binary=args.reject_binary,
             encoding=args.values,
             progress=update,
+            max_memory=args.max_memory,
+            spill_dir=spill_dir,
+            on_counted=note_counts,
         )
     size = model.save(args.output)
     seconds = time.perf_counter() - started
@@ -105,6 +135,9 @@ def run_build(args: argparse.Namespace) -> int:
         "corpus_tokens": tokens,
         "corpus_files": model.meta["corpus_files"],
         "skipped_files": model.meta["skipped_files"],
+        "unlisted_tokens": model.meta.get("unlisted_tokens", 0),
+        "spilled_rows": counted.get("spilled_rows", 0),
+        "peak_memory_bytes": peak_resident_bytes(),
         "seconds": round(seconds, 3),
         "tokens_per_second": round(tokens / seconds) if seconds > 0 else None,
     }
@@ -113,6 +146,8 @@ def run_build(args: argparse.Namespace) -> int:
     else:
         n = info["ngrams"]
         skipped = f", skipped {summary['skipped_files']} binary files" if summary["skipped_files"] else ""
+        if summary["unlisted_tokens"]:
+            skipped += f", {summary['unlisted_tokens']:,} tokens of words first seen after the word table filled counted as unknown"
         print(
             f"wrote {summary['model']}: {info['method']}, {info['vocab_size']:,} words, "
             f"{n['1']:,}/{n['2']:,}/{n['3']:,} uni/bi/trigrams, {size / 1e6:.1f} MB; "
@@ -188,13 +223,14 @@ def run_info(args: argparse.Namespace) -> int:
 
 def run_check(args: argparse.Namespace) -> int:
     """foretype check."""
-    loaded = verify(args.model)
-    from ..integrity import check_structure
-
-    check_structure(loaded)
+    loaded = verify_model(args.model)
     sections = len(loaded.sections)
     if args.json:
         print_json({"model": args.model, "ok": True, "sections": sections, "file_bytes": loaded.file_bytes})
     else:
-        print(f"{args.model}: ok ({sections} sections, {loaded.file_bytes:,} bytes, every checksum matches)")
+        print(
+            f"{args.model}: ok ({sections} sections, {loaded.file_bytes:,} bytes): every checksum matches, "
+            "the arrays are consistent and sorted, the prefix index agrees with the words, "
+            "and sampled distributions sum to 1"
+        )
     return 0
