@@ -29,7 +29,8 @@ from .errors import (
 )
 from .estimate import METHODS
 from .model import LanguageModel, Suggestion, TextScore, load
-from .modelfile import FORMAT_VERSION, verify
+from .integrity import verify_model as verify
+from .modelfile import FORMAT_VERSION
 from .vocabulary import END, START, UNKNOWN
 
 __all__ = [

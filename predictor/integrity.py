@@ -70,7 +70,7 @@ _TRIE_MAGIC = b"We love Marisa."
 """The first bytes of every marisa-trie image."""
 
 SUM_TOLERANCE = 2e-3
-"""How far from 1 a sampled distribution may sum (16-bit value codes round each value by up to 0.017%)."""
+"""How far from 1 a sampled distribution may sum (16-bit value codes round each value down by up to 0.034%)."""
 
 
 def check_structure(model: ModelFile) -> None:
