@@ -95,6 +95,17 @@ class NeverList:
         patterns = sorted(self._patterns)
         self._regex = re.compile("|".join(f"(?:{fnmatch.translate(p)})" for p in patterns)) if patterns else None
 
+    def replace(self, entries: Iterable[str]) -> None:
+        """Make the list hold exactly ``entries`` (validated first; nothing changes if one is bad).
+
+        Raises:
+            OptionError: an entry is empty or holds whitespace.
+        """
+        fresh = [normalise_entry(e) for e in entries]
+        self._words = {e for e in fresh if not is_pattern(e)}
+        self._patterns = {e for e in fresh if is_pattern(e)}
+        self._changed()
+
     def blocks(self, word: str) -> bool:
         """Tell whether a word (as written or in model form) may never be suggested."""
         form = model_form(word)

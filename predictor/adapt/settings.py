@@ -18,18 +18,22 @@ class AdaptSettings:
             learned and every suggestion is the base model's.
         min_uses: a word the base vocabulary lacks is suggested once it has
             been typed this many times (one use is often a typo).
-        weight_max: the largest share the user model can take (mu_max below).
-        weight_half: the user token count at which the share reaches half of
-            ``weight_max`` (beta below).
+        prior_tokens: beta, the evidence (in learned tokens) at which the user
+            model's share reaches half of its estimated worth; the same number
+            of tokens weighs the prior of the worth estimate.
+        prior_worth: the worth assumed before any evidence (the EM prior).
         half_life: decay of old counts, in learned tokens: a count halves after
             this many further tokens (None: no decay).
 
-    The combined probability (README "Learning from your own text")::
+    The combined probability (README "Learning from your own text" and
+    :mod:`predictor.adapt.combined`)::
 
         P(w | u v) = (1 - mu) * P_base(w | u' v') + mu * P_user(w | u v)
-        mu = weight_max * n / (n + weight_half),   n = the user's (decayed) token count
+        mu = worth_b * n_b / (n_b + beta)
+        worth_b = (R_b + prior_worth * beta) / (n_b + beta)
 
-    where u' v' is the context with learned-only words read as UNKNOWN.
+    for the context's evidence bucket b; n_b counts the tokens learned in
+    bucket b and R_b sums their responsibilities (one EM step per token).
 
     Raises:
         OptionError: a value is out of range.
@@ -37,8 +41,8 @@ class AdaptSettings:
 
     learning: bool = True
     min_uses: int = 2
-    weight_max: float = 0.85
-    weight_half: float = 200.0
+    prior_tokens: float = 100.0
+    prior_worth: float = 0.5
     half_life: float | None = None
 
     def __post_init__(self) -> None:
@@ -46,18 +50,12 @@ class AdaptSettings:
             raise OptionError(f"learning must be on or off, not {self.learning!r}")
         if not isinstance(self.min_uses, int) or isinstance(self.min_uses, bool) or self.min_uses < 1:
             raise OptionError(f"min uses must be a whole number of at least 1, not {self.min_uses!r}")
-        if not (isinstance(self.weight_max, (int, float)) and 0.0 <= self.weight_max < 1.0):
-            raise OptionError(f"the largest user share must be at least 0 and below 1, not {self.weight_max!r}")
-        if not (isinstance(self.weight_half, (int, float)) and math.isfinite(self.weight_half) and self.weight_half > 0):
-            raise OptionError(f"the half-share token count must be a positive number, not {self.weight_half!r}")
+        if not (isinstance(self.prior_tokens, (int, float)) and math.isfinite(self.prior_tokens) and self.prior_tokens > 0):
+            raise OptionError(f"the prior token count must be a positive number, not {self.prior_tokens!r}")
+        if not (isinstance(self.prior_worth, (int, float)) and 0.0 < self.prior_worth < 1.0):
+            raise OptionError(f"the prior worth must lie strictly between 0 and 1, not {self.prior_worth!r}")
         if self.half_life is not None and not (isinstance(self.half_life, (int, float)) and math.isfinite(self.half_life) and self.half_life > 0):
             raise OptionError(f"the half-life must be a positive number of tokens, not {self.half_life!r}")
-
-    def share(self, tokens: float) -> float:
-        """The user model's share mu after ``tokens`` (decayed) learned tokens."""
-        if not self.learning or tokens <= 0:
-            return 0.0
-        return self.weight_max * tokens / (tokens + self.weight_half)
 
     def to_json(self) -> dict[str, Any]:
         """The settings as a JSON object."""

@@ -22,6 +22,17 @@ decayed count, so an update stays O(1); when s grows past 2^200 every stored
 count is divided by s once.  Ratios such as c(uvw) / c(uv.) need no correction;
 only the evidence counts in g(h) and the share mu are divided by s.
 
+**Share.** How much the combined model trusts these counts is learned from
+the person's text too (see :class:`~predictor.adapt.settings.AdaptSettings`):
+before each token is counted, the share of its probability the user model
+would have supplied at the current worth estimate (the EM responsibility of
+Jelinek & Mercer's interpolation-weight estimation) is added to R_b, and the
+token to n_b, for the context's evidence bucket b (2: the user has written the
+two-word context before, 1: only the last word, 0: neither).  The
+responsibilities are passed in by the caller (the combined model computes them
+from both models) and stored with each change, so replaying a learned file
+needs no base model.
+
 **Ids.** A user model is bound to a base vocabulary of V words: a word the
 base knows keeps its base id, END is V + 1, START V + 2, and every word the
 base lacks gets V + 3 + j in the order it was first typed.  The counts are
@@ -32,8 +43,8 @@ from __future__ import annotations
 
 import math
 import time
-from bisect import bisect_left, insort
-from collections.abc import Iterable, Iterator, Sequence
+from bisect import bisect_left
+from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
 from typing import Any
 
@@ -120,6 +131,8 @@ class UserContext:
         gamma3: the weight passed to the bigram order (1 if the context is unseen).
         ids2, weights2, total2, gamma2: the same after v alone.
         total1: inflated count of every learned token (N).
+        bucket: the evidence bucket: 2 if (u, v) was seen, 1 if only v was, else 0.
+        three, two: the follower tables themselves (None if unseen), for single lookups.
     """
 
     ids3: np.ndarray
@@ -131,6 +144,9 @@ class UserContext:
     total2: float
     gamma2: float
     total1: float
+    bucket: int
+    three: Followers | None
+    two: Followers | None
 
 
 _EMPTY_IDS = np.zeros(0, dtype=np.int64)
@@ -194,7 +210,14 @@ class UserModel:
         self._w1 = np.zeros(capacity, dtype=np.float64)
         self._n1 = np.zeros(capacity, dtype=np.int64)
         self._seen1 = np.zeros(capacity, dtype=np.int64)
+        # Counted words by count, most counted first: ids, minus their counts (ascending), and each id's place.
+        self._rank = np.zeros(64, dtype=np.int64)
+        self._rank_neg = np.zeros(64, dtype=np.float64)
+        self._rank_pos = np.full(capacity, -1, dtype=np.int64)
+        self._rank_len = 0
         self._total = 0.0
+        self._credit = np.zeros(3, dtype=np.float64)
+        self._evidence = np.zeros(3, dtype=np.float64)
         self._ctx2: dict[int, Followers] = {}
         self._ctx3: dict[tuple[int, int], Followers] = {}
         self.tick = 0
@@ -205,8 +228,13 @@ class UserModel:
         self._ready_ids: list[int] = []
         self.version = 0
         """Grows with every change (learning, pruning, forgetting, settings)."""
-        self.words_version = 0
-        """Grows when the set of seen or suggestable words changes."""
+        self.seen_version = 0
+        """Grows when a base word is counted for the first time (or counts are dropped)."""
+        self.ready_version = 0
+        """Grows when the set of suggestable new words changes."""
+        self.ready_epoch = 0
+        """Grows when that set is rebuilt as a whole (not just added to)."""
+        self._ready_log: list[int] = []
 
     # ------------------------------------------------------------------ ids
     @property
@@ -244,9 +272,9 @@ class UserModel:
         if needed <= len(self._w1):
             return
         capacity = max(needed, 2 * len(self._w1))
-        for name in ("_w1", "_n1", "_seen1"):
+        for name in ("_w1", "_n1", "_seen1", "_rank_pos"):
             old = getattr(self, name)
-            new = np.zeros(capacity, dtype=old.dtype)
+            new = np.zeros(capacity, dtype=old.dtype) if name != "_rank_pos" else np.full(capacity, -1, dtype=old.dtype)
             new[: len(old)] = old
             setattr(self, name, new)
 
@@ -273,7 +301,15 @@ class UserModel:
         return max(votes.items(), key=lambda item: item[1])[0]
 
     # ------------------------------------------------------------- learning
-    def learn(self, words: Sequence[str], *, after: Sequence[str] = (), end: bool = False, when: int | None = None) -> int:
+    def learn(
+        self,
+        words: Sequence[str],
+        *,
+        after: Sequence[str] = (),
+        end: bool = False,
+        when: int | None = None,
+        credit: Sequence[float] | Callable[[int, int, int], float] | None = None,
+    ) -> list[float]:
         """Count words the person accepted or typed.
 
         Args:
@@ -284,16 +320,34 @@ class UserModel:
                 model does not know yet count as UNKNOWN there.
             end: the sentence ends after ``words`` (counts END).
             when: Unix time in seconds to record as last seen (default now).
+            credit: the responsibility of the user model for each token (words,
+                then END), either as numbers in [0, 1] or as a function of
+                (u, v, w) ids called just before that token is counted; None
+                leaves the share estimate untouched.
 
         Returns:
-            How many tokens were counted (words, plus one if ``end``).
+            The responsibilities used, one per token counted (empty when ``credit`` is None).
 
         Raises:
-            OptionError: an entry of ``words`` is not a single word.
+            OptionError: an entry of ``words`` is not a single word, or the
+                credits do not match the tokens.
         """
         for word in words:
             if not isinstance(word, str) or WORD_RE.fullmatch(word) is None:
                 raise OptionError(f"cannot learn {word!r}: not a single word")
+        tokens = len(words) + (1 if end else 0)
+        given = None if credit is None or callable(credit) else [float(r) for r in credit]
+        if given is not None and (len(given) != tokens or not all(0.0 <= r <= 1.0 for r in given)):
+            raise OptionError(f"expected {tokens} responsibilities between 0 and 1, got {given}")
+        used: list[float] = []
+
+        def credit_for(u: int, v: int, w: int) -> float | None:
+            if credit is None:
+                return None
+            r = given[len(used)] if given is not None else float(credit(u, v, w))  # type: ignore[operator]
+            used.append(r)
+            return r
+
         stamp = int(time.time()) if when is None else int(when)
         context = [self._context_id(w) for w in list(after)[-2:]]
         while len(context) < 2:
@@ -309,27 +363,35 @@ class UserModel:
                 votes = self._votes.setdefault(word_id, {})
                 # A capital at a sentence start says little about how the word is written elsewhere.
                 votes[word] = votes.get(word, 0) + (1 if sentence_start else 2)
-            self._count(u, v, word_id, stamp)
+            self._count(u, v, word_id, stamp, credit_for(u, v, word_id))
             u, v = v, word_id
             sentence_start = False
         if end:
-            self._count(u, v, self.end_id, stamp)
-        return len(words) + (1 if end else 0)
+            self._count(u, v, self.end_id, stamp, credit_for(u, v, self.end_id))
+        return used
 
     def _context_id(self, word: str) -> int:
         found = self.id_of(word)
         return self.unknown_id if found is None else found
 
-    def _count(self, u: int, v: int, w: int, when: int) -> None:
+    def _count(self, u: int, v: int, w: int, when: int, credit: float | None) -> None:
+        if credit is not None:
+            # The bucket before this token is counted: the one its prediction used.
+            bucket = self.bucket(u, v)
         self.tick += 1
         if self.settings.half_life is not None:
             self._scale *= 2.0 ** (1.0 / self.settings.half_life)
         amount = self._scale
+        if credit is not None:
+            self._evidence[bucket] += amount
+            self._credit[bucket] += amount * credit
         first_use = self._n1[w] == 0
         self._w1[w] += amount
         self._n1[w] += 1
         self._seen1[w] = when
         self._total += amount
+        if w != self.end_id:
+            self._promote(w)
         followers = self._ctx2.get(v)
         if followers is None:
             followers = self._ctx2[v] = Followers()
@@ -341,11 +403,51 @@ class UserModel:
         self.version += 1
         if w < self.base_size and first_use:
             self._seen_base = np.insert(self._seen_base, np.searchsorted(self._seen_base, w), w)
-            self.words_version += 1
+            self.seen_version += 1
         elif w >= self.first_learned_id and self._n1[w] == self.settings.min_uses:
             self._mark_ready(w)
         if self._scale > _RESCALE_AT:
             self._rescale()
+
+    def _promote(self, word_id: int) -> None:
+        """Move a word whose count grew to its place in the by-count list (O(places moved))."""
+        pos = int(self._rank_pos[word_id])
+        if pos < 0:
+            if self._rank_len == len(self._rank):
+                self._rank = np.concatenate((self._rank, np.zeros(len(self._rank), dtype=np.int64)))
+                self._rank_neg = np.concatenate((self._rank_neg, np.zeros(len(self._rank_neg))))
+            pos = self._rank_len
+            self._rank_len += 1
+        neg = -self._w1[word_id]
+        place = int(self._rank_neg[:pos].searchsorted(neg, side="right"))
+        if place < pos:
+            self._rank[place + 1 : pos + 1] = self._rank[place:pos].copy()
+            self._rank_neg[place + 1 : pos + 1] = self._rank_neg[place:pos].copy()
+            self._rank_pos[self._rank[place + 1 : pos + 1]] += 1
+        self._rank[place] = word_id
+        self._rank_neg[place] = neg
+        self._rank_pos[word_id] = place
+
+    def _rebuild_rank(self) -> None:
+        counted = np.flatnonzero(self._n1 > 0)
+        counted = counted[(counted < self.base_size) | (counted >= self.first_learned_id)]
+        order = counted[np.argsort(-self._w1[counted], kind="stable")]
+        size = max(64, len(order))
+        self._rank = np.zeros(size, dtype=np.int64)
+        self._rank_neg = np.zeros(size, dtype=np.float64)
+        self._rank[: len(order)] = order
+        self._rank_neg[: len(order)] = -self._w1[order]
+        self._rank_pos = np.full(len(self._w1), -1, dtype=np.int64)
+        self._rank_pos[order] = np.arange(len(order))
+        self._rank_len = len(order)
+
+    def ranked(self) -> tuple[np.ndarray, np.ndarray]:
+        """Every counted word by inflated count, most counted first.
+
+        Returns:
+            ``(ids, minus_counts)``: int64 and float64 views of shape (n,); do not modify.
+        """
+        return self._rank[: self._rank_len], self._rank_neg[: self._rank_len]
 
     def _mark_ready(self, word_id: int) -> None:
         form = self._forms[word_id - self.first_learned_id]
@@ -354,12 +456,16 @@ class UserModel:
             return
         self._ready_forms.insert(at, form)
         self._ready_ids.insert(at, word_id)
-        self.words_version += 1
+        self._ready_log.append(word_id)
+        self.ready_version += 1
 
     def _rescale(self) -> None:
         factor = 1.0 / self._scale
         self._w1 *= factor
+        self._rank_neg *= factor
         self._total *= factor
+        self._credit *= factor
+        self._evidence *= factor
         for followers in self._ctx2.values():
             followers.scale(factor)
         for followers in self._ctx3.values():
@@ -377,9 +483,41 @@ class UserModel:
         """Every token counted and still held (words and sentence ends), without decay."""
         return int(self._n1.sum())
 
-    def share(self) -> float:
-        """The user model's share mu of the combined probability now."""
-        return self.settings.share(self.tokens)
+    def bucket(self, u: int, v: int) -> int:
+        """The evidence bucket of a context: 2 if (u, v) was seen, 1 if only v was, else 0."""
+        if v != self.unknown_id:
+            three = self._ctx3.get((u, v))
+            if three is not None and three.total > 0:
+                return 2
+        two = self._ctx2.get(v)
+        return 1 if two is not None and two.total > 0 else 0
+
+    def worth(self, bucket: int) -> float:
+        """The estimated worth of the user model in a bucket: (R_b + prior_worth * beta) / (n_b + beta)."""
+        beta = self.settings.prior_tokens
+        return (self._credit[bucket] / self._scale + self.settings.prior_worth * beta) / (self._evidence[bucket] / self._scale + beta)
+
+    def evidence(self, bucket: int) -> float:
+        """n_b: the (decayed) tokens learned in a bucket."""
+        return float(self._evidence[bucket] / self._scale)
+
+    def share(self, context: UserContext) -> float:
+        """mu for a context: worth_b * n_b / (n_b + beta); 0 while learning is off or nothing is counted."""
+        if not self.settings.learning or self._total <= 0:
+            return 0.0
+        bucket = context.bucket
+        n = self._evidence[bucket] / self._scale
+        beta = self.settings.prior_tokens
+        return float(self.worth(bucket) * (n / (n + beta)))
+
+    def shares(self) -> dict[str, float]:
+        """mu, worth and evidence per bucket (for reports)."""
+        out: dict[str, float] = {}
+        for bucket, name in enumerate(("neither", "last_word", "both_words")):
+            n = self.evidence(bucket)
+            beta = self.settings.prior_tokens
+            out[name] = float(self.worth(bucket) * n / (n + beta)) if self.settings.learning and n > 0 else 0.0
+        return out
 
     def context(self, u: int, v: int) -> UserContext:
         """Gather the counts after (u, v) for scoring."""
@@ -387,6 +525,9 @@ class UserModel:
         three = self._ctx3.get((u, v)) if v != self.unknown_id else None
         if three is not None and three.total > 0:
             ids3, weights3 = three.view()
+        else:
+            three = None
+        if three is not None:
             total3 = three.total
             gamma3 = len(three) / (len(three) + total3 / scale)
         else:
@@ -394,11 +535,35 @@ class UserModel:
         two = self._ctx2.get(v)
         if two is not None and two.total > 0:
             ids2, weights2 = two.view()
+        else:
+            two = None
+        if two is not None:
             total2 = two.total
             gamma2 = len(two) / (len(two) + total2 / scale)
         else:
             ids2, weights2, total2, gamma2 = _EMPTY_IDS, _EMPTY_WEIGHTS, 0.0, 1.0
-        return UserContext(ids3, weights3, total3, gamma3, ids2, weights2, total2, gamma2, self._total)
+        bucket = 2 if total3 > 0 else 1 if total2 > 0 else 0
+        return UserContext(ids3, weights3, total3, gamma3, ids2, weights2, total2, gamma2, self._total, bucket, three, two)
+
+    def components(self, ids: np.ndarray, context: UserContext) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """The three relative frequencies of outcome ids after a context.
+
+        Args:
+            ids: int64 array of shape (n,).
+            context: from :meth:`context`.
+
+        Returns:
+            float64 arrays of shape (n,): c(w) / N, c(v w) / c(v .), c(u v w) / c(u v .)
+            (0 where unseen).
+        """
+        ids = np.asarray(ids, dtype=np.int64)
+        p1 = np.zeros(len(ids), dtype=np.float64)
+        if context.total1 > 0:
+            inside = ids < len(self._w1)
+            p1[inside] = self._w1[ids[inside]] / context.total1
+        f2 = _level(context.ids2, context.weights2, context.total2, ids)
+        f3 = _level(context.ids3, context.weights3, context.total3, ids)
+        return p1, f2, f3
 
     def probabilities(self, ids: np.ndarray, context: UserContext) -> np.ndarray:
         """P_user(w | u v) for outcome ids (words, END; 0 for UNKNOWN, START and unseen words).
@@ -410,15 +575,26 @@ class UserModel:
         Returns:
             float64 array of shape (n,).
         """
-        ids = np.asarray(ids, dtype=np.int64)
-        if context.total1 <= 0:
-            return np.zeros(len(ids), dtype=np.float64)
-        inside = ids < len(self._w1)
-        p1 = np.zeros(len(ids), dtype=np.float64)
-        p1[inside] = self._w1[ids[inside]] / context.total1
-        f2 = _level(context.ids2, context.weights2, context.total2, ids)
-        f3 = _level(context.ids3, context.weights3, context.total3, ids)
+        p1, f2, f3 = self.components(ids, context)
         return interpolate(p1, f2, f3, context)
+
+    def order_of(self, word_id: int, context: UserContext) -> int:
+        """Which order of the user model supplied most of a word's user probability (3, 2 or 1)."""
+        f = [0.0, 0.0]
+        for i, table in enumerate((context.three, context.two)):
+            if table is not None:
+                at = table.slot.get(word_id)
+                if at is not None:
+                    f[i] = table.weights[at] / table.total
+        p1 = float(self._w1[word_id]) / context.total1 if context.total1 > 0 and word_id < len(self._w1) else 0.0
+        share3 = (1.0 - context.gamma3) * f[0]
+        share2 = context.gamma3 * (1.0 - context.gamma2) * f[1]
+        share1 = context.gamma3 * context.gamma2 * p1
+        return 3 if share3 >= share2 and share3 >= share1 else 2 if share2 >= share1 else 1
+
+    def unigram_table(self) -> np.ndarray:
+        """The inflated unigram counts indexed by id (float64 view; do not modify)."""
+        return self._w1
 
     def unigram_weights(self, ids: np.ndarray) -> np.ndarray:
         """The inflated unigram counts of ids (float64 array of the same shape)."""
@@ -427,6 +603,15 @@ class UserModel:
     def uses(self, word_id: int) -> int:
         """How many times a word was counted (raw, without decay)."""
         return int(self._n1[word_id]) if word_id < len(self._n1) else 0
+
+    def holds(self, word: str) -> bool:
+        """Tell whether any count involves a written word (as a word or as context)."""
+        word_id = self.id_of(word)
+        if word_id is None or word_id in (self.start_id, self.unknown_id):
+            return False
+        if self.uses(word_id) > 0 or word_id in self._ctx2:
+            return True
+        return any(word_id in followers.slot for followers in self._ctx2.values())
 
     def seen_base_ids(self) -> np.ndarray:
         """Base word ids counted at least once (int64, sorted); do not modify."""
@@ -438,6 +623,10 @@ class UserModel:
         lo = bisect_left(forms, prefix)
         hi = bisect_left(forms, prefix + "\U0010ffff") if prefix else len(forms)
         return self._ready_ids[lo:hi]
+
+    def ready_since(self, count: int) -> list[int]:
+        """New words that became suggestable after the first ``count`` of this epoch, in order."""
+        return self._ready_log[count:]
 
     def ready_forms(self) -> list[str]:
         """Model forms of every suggestable new word, sorted."""
@@ -464,7 +653,11 @@ class UserModel:
         self._ready_ids = [word_id for _, word_id in pairs]
         used = np.flatnonzero(self._n1[: self.base_size] > 0)
         self._seen_base = used.astype(np.int64)
-        self.words_version += 1
+        self._rebuild_rank()
+        self._ready_log = []
+        self.seen_version += 1
+        self.ready_version += 1
+        self.ready_epoch += 1
 
     def forget(self, word: str) -> bool:
         """Remove every count that involves a word; returns False if nothing was counted.
@@ -532,9 +725,11 @@ class UserModel:
 
     # ------------------------------------------------------------- listings
     def word_rows(self) -> Iterator[tuple[int, str, float, int, int]]:
-        """Every counted outcome (words and END): (id, model form, decayed count, raw uses, last seen)."""
+        """Every counted word (symbols excluded): (id, model form, decayed count, raw uses, last seen)."""
         for word_id in np.flatnonzero(self._n1 > 0):
             i = int(word_id)
+            if self.base_size <= i < self.first_learned_id:
+                continue
             yield i, self.form(i), float(self._w1[i] / self._scale), int(self._n1[i]), int(self._seen1[i])
 
     def ngram_rows(self, order: int) -> Iterator[tuple[tuple[int, ...], float, int, int]]:
@@ -561,11 +756,44 @@ class UserModel:
         return {self.form(word_id): dict(votes) for word_id, votes in self._votes.items()}
 
     # ------------------------------------------------------------- snapshot
+    @staticmethod
+    def _restore_table(table: dict[Any, Followers], order: int, heads: list[np.ndarray], tail: np.ndarray, counts: np.ndarray, uses: np.ndarray, seen: np.ndarray) -> None:
+        """Fill a follower table from columns, one context group at a time (cells of a group as list slices)."""
+        if not len(tail):
+            return
+        if order == 2:
+            group_key = heads[0]
+        else:
+            group_key = heads[0] * (int(max(heads[0].max(), heads[1].max())) + 1) + heads[1]
+        by_group = np.lexsort((tail, group_key))
+        group_key, tail, counts, uses, seen = group_key[by_group], tail[by_group], counts[by_group], uses[by_group], seen[by_group]
+        heads = [h[by_group] for h in heads]
+        repeated = bool(((group_key[1:] == group_key[:-1]) & (tail[1:] == tail[:-1])).any())
+        starts = np.flatnonzero(np.concatenate(([True], group_key[1:] != group_key[:-1])))
+        ends = np.append(starts[1:], len(tail))
+        tails, weights, use_list, seen_list = tail.tolist(), counts.tolist(), uses.tolist(), seen.tolist()
+        first = [h[starts].tolist() for h in heads]
+        for index, (start, end) in enumerate(zip(starts.tolist(), ends.tolist())):
+            key = first[0][index] if order == 2 else (first[0][index], first[1][index])
+            followers = Followers()
+            if repeated:  # a damaged or merged table: add cell by cell, summing repeats
+                for w, c, n, t in zip(tails[start:end], weights[start:end], use_list[start:end], seen_list[start:end]):
+                    followers.add(w, c, t, uses=n)
+            else:
+                followers.ids = tails[start:end]
+                followers.weights = weights[start:end]
+                followers.uses = use_list[start:end]
+                followers.seen = seen_list[start:end]
+                followers.slot = {w: i for i, w in enumerate(followers.ids)}
+                followers.total = math.fsum(followers.weights)
+            table[key] = followers
+
     def snapshot(self) -> dict[str, Any]:
         """The whole state as plain data (words by model form, counts decayed to now).
 
         Returns:
-            ``{"tick", "words", "votes", "unigrams", "bigrams", "trigrams"}``: ``words``
+            ``{"tick", "words", "votes", "credit", "evidence", "unigrams", "bigrams", "trigrams"}``:
+            ``credit`` and ``evidence`` are R_b and n_b per bucket; ``words``
             lists model forms (index 0 START, 1 END, 2 UNKNOWN); each n-gram table
             maps column names to numpy arrays of equal length: word indices
             (int32), ``count`` (float64, decayed), ``uses`` (int64) and ``seen`` (int64).
@@ -610,7 +838,16 @@ class UserModel:
             columns.update(count=np.array(counts, dtype=np.float64), uses=np.array(uses, dtype=np.int64), seen=np.array(seen, dtype=np.int64))
             tables.append(columns)
         votes = {self.form(word_id): dict(v) for word_id, v in self._votes.items()}
-        return {"tick": self.tick, "words": words, "votes": votes, "unigrams": unigrams, "bigrams": tables[0], "trigrams": tables[1]}
+        return {
+            "tick": self.tick,
+            "words": words,
+            "votes": votes,
+            "credit": (self._credit / scale).tolist(),
+            "evidence": (self._evidence / scale).tolist(),
+            "unigrams": unigrams,
+            "bigrams": tables[0],
+            "trigrams": tables[1],
+        }
 
     def restore(self, state: dict[str, Any]) -> None:
         """Replace the counts with a :meth:`snapshot` (words mapped through this model's vocabulary).
@@ -630,6 +867,12 @@ class UserModel:
         self._ctx3 = {}
         self._scale = 1.0
         self.tick = int(state["tick"])
+        credit = [float(x) for x in state.get("credit", [0.0, 0.0, 0.0])]
+        evidence = [float(x) for x in state.get("evidence", [0.0, 0.0, 0.0])]
+        if len(credit) != 3 or len(evidence) != 3 or not all(0.0 <= r <= n + 1e-9 for r, n in zip(credit, evidence)):
+            raise ValueError("bad share statistics")
+        self._credit = np.array(credit, dtype=np.float64)
+        self._evidence = np.array(evidence, dtype=np.float64)
         uni = state["unigrams"]
         target = lookup[np.asarray(uni["w"], dtype=np.int64)]
         if len({len(uni[c]) for c in ("w", "count", "uses", "seen")}) != 1:
@@ -647,12 +890,7 @@ class UserModel:
             seen = np.asarray(columns["seen"], dtype=np.int64)
             if not (len(tail) == len(counts) == len(uses) == len(seen) and all(len(h) == len(tail) for h in heads)):
                 raise ValueError(f"{name} columns differ in length")
-            keys: Iterable[Any] = heads[0].tolist() if order == 2 else zip(heads[0].tolist(), heads[1].tolist())
-            for key, w, c, n, s in zip(keys, tail.tolist(), counts.tolist(), uses.tolist(), seen.tolist()):
-                followers = table.get(key)
-                if followers is None:
-                    followers = table[key] = Followers()
-                followers.add(w, c, s, uses=n)
+            self._restore_table(table, order, heads, tail, counts, uses, seen)
         self._votes = {}
         for form, votes in dict(state.get("votes", {})).items():
             word_id = self._learned.get(model_form(str(form)))
@@ -662,9 +900,4 @@ class UserModel:
         self.version += 1
 
 
-def ids_in_order(found: list[int]) -> np.ndarray:
-    """A list of ids as a sorted int64 array."""
-    return np.array(sorted(found), dtype=np.int64)
-
-
-__all__ = ["UserModel", "UserContext", "Followers", "interpolate", "insort"]
+__all__ = ["UserModel", "UserContext", "Followers", "interpolate"]

@@ -14,6 +14,7 @@ from ..estimate import METHODS
 from ..simulate import TEXT_MODES, TypistSettings, format_report, simulate, write_trace
 from ..simulate.writing import check_writable_file
 from ..text import WORD_RE
+from .learn_commands import add_adapt_options, check_adapt_options, run_adaptive_savings
 from .output import (
     add_json_option,
     open_model,
@@ -84,6 +85,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--key-seconds", type=_number, default=1.0, metavar="S", help="seconds per keystroke in the time estimate (default 1.0)")
     p.add_argument("--scan-seconds", type=_number, default=0.5, metavar="S", help="seconds to read a changed suggestion list (default 0.5)")
     p.add_argument("--trace", metavar="FILE", help="write one JSON line per word: keystrokes, where it was picked, the lists shown")
+    add_adapt_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_savings)
 
@@ -116,11 +118,14 @@ def _read_test_text(path: str) -> str:
 def run_savings(args: argparse.Namespace) -> int:
     """foretype savings."""
     settings = _settings(args)
+    check_adapt_options(args)
     model_path, (text_path,) = split_model_argument(args.args, 1, "savings")
     if args.trace:
         check_writable_file(args.trace)
     text = _read_test_text(text_path)
     model = open_model(model_path)
+    if args.adapt:
+        return run_adaptive_savings(args, model, text, settings)
     with progress_bar("typing the test text") as update:
         report = simulate(model, text, settings, update)
     if args.trace:

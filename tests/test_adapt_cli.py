@@ -1,0 +1,105 @@
+"""foretype learned and foretype savings --adapt, driven as a user would."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import pytest
+
+import predictor
+from predictor.adapt.store import load_learned
+
+TEXT = "Gorbalt checked the Quillmere nets.\nGorbalt mended the Quillmere nets at dawn.\nThe tide was high at Vessock.\n"
+
+
+@pytest.fixture
+def model_path(tmp_path: Path) -> Path:
+    corpus = tmp_path / "corpus.txt"
+    corpus.write_text("the tide is high\nthe ferry sails at dawn\nthe nets are dry\ncheck the nets at dawn\n", encoding="utf-8")
+    path = tmp_path / "chat.model"
+    predictor.build([corpus]).save(path)
+    return path
+
+
+def test_showing_an_empty_learned_file_says_nothing_is_learned_and_that_it_stays_local(run_cli, model_path):
+    result = run_cli("learned", model_path)
+    assert result.code == 0
+    assert f"learned file: {model_path}.learned (none yet: nothing learned)" in result.out
+    assert "stays on this machine" in result.out and "never sends it anywhere" in result.out
+
+
+def test_learning_a_file_then_listing_never_suggesting_forgetting_and_exporting(run_cli, model_path, write_file, tmp_path):
+    notes = write_file(TEXT, "notes.txt")
+    result = run_cli("learned", model_path, "--learn", notes, "--never-suggest", "vessock", "--never-suggest", "q*", "--forget", "dawn")
+    assert result.code == 0, result.err
+    assert "learned 21 tokens (3 sentences)" in result.out  # 5 + 7 + 6 words and 3 sentence ends
+    assert "never suggest: added q*, vessock" in result.out
+    assert "forgot 'dawn'" in result.out
+    assert "new words    Gorbalt (2), Quillmere (2)" in result.out
+    export = tmp_path / "all.json"
+    result = run_cli("learned", model_path, "--export", export, "--json")
+    payload = json.loads(result.out)
+    assert payload["never_suggest"] == ["q*", "vessock"] and payload["suggestable_new_words"] == 2
+    exported = json.loads(export.read_text(encoding="utf-8"))
+    assert "dawn" not in {w["word"] for w in exported["words"]} and "gorbalt" in {w["word"] for w in exported["words"]}
+    model = load_learned(Path(f"{model_path}.learned"), predictor.load(model_path))
+    assert [s.word for s in model.suggest((), "q", 5)] == []  # Quillmere is learned but never shown
+
+
+def test_learning_off_is_kept_in_the_file_and_wipe_removes_it(run_cli, model_path, write_file):
+    notes = write_file(TEXT, "notes.txt")
+    assert run_cli("learned", model_path, "--learn", notes).code == 0
+    result = run_cli("learned", model_path, "--learning", "off", "--min-uses", "3", "--half-life", "2000")
+    assert "settings: learning off, min uses 3, half life 2000 tokens" in result.out
+    assert "learning     off; new words suggested after 3 use(s); decay half-life 2000 tokens" in result.out
+    refused = run_cli("learned", model_path, "--learn", notes)
+    assert refused.code == 2 and refused.err.strip() == "foretype: learning is off for this model; switch it on with --learning on to learn from a file"
+    learned_file = Path(f"{model_path}.learned")
+    result = run_cli("learned", model_path, "--wipe")
+    assert result.code == 0 and f"removed {learned_file}" in result.out and not learned_file.exists()
+
+
+@pytest.mark.parametrize(
+    ("args", "code", "message"),
+    [
+        (["--wipe", "--forget", "x"], 2, "foretype: --wipe deletes the learned file; give it alone"),
+        (["--never-suggest", "two words"], 2, "foretype: a never-suggest entry is one word or pattern, without spaces: 'two words'"),
+        (["--prune-below", "0"], 2, "foretype: argument --prune-below: expected a positive number, got '0' (see 'foretype learned --help')"),
+    ],
+)
+def test_bad_requests_fail_with_one_line_and_a_distinct_code(run_cli, model_path, args, code, message):
+    result = run_cli("learned", model_path, *args)
+    assert result.code == code and result.err.strip() == message and result.out == ""
+
+
+def test_a_file_that_is_not_a_learned_file_is_refused(run_cli, model_path, write_file):
+    other = write_file("hello\n", "other.txt")
+    result = run_cli("learned", model_path, "--user", other)
+    assert result.code == 5 and result.err.strip() == f"foretype: {other}: not a foretype learned file"
+
+
+def test_savings_with_adaptation_reports_both_figures_and_leaves_a_given_user_file_alone(run_cli, model_path, write_file, tmp_path):
+    text = write_file(TEXT * 6, "test.txt")
+    start = tmp_path / "start.learned"
+    assert run_cli("learned", model_path, "--user", start, "--learn", write_file(TEXT, "seed.txt")).code == 0
+    before = start.read_bytes()
+    after = tmp_path / "after.learned"
+    result = run_cli("savings", model_path, text, "--adapt", "--user", start, "--save-user", after, "--block", "20", "--json")
+    assert result.code == 0, result.err
+    payload = json.loads(result.out)
+    adaptation = payload["adaptation"]
+    assert adaptation["ksr_adapted"] == payload["ksr"] > adaptation["ksr_base"]
+    assert adaptation["gain"] == pytest.approx(payload["ksr"] - adaptation["ksr_base"])
+    assert sum(p["last_word"] - p["first_word"] + 1 for p in adaptation["curve"]) == payload["words"]
+    assert start.read_bytes() == before
+    assert load_learned(after, predictor.load(model_path)).user.raw_tokens > load_learned(start, predictor.load(model_path)).user.raw_tokens
+    text_result = run_cli("savings", model_path, text, "--adapt", "--block", "40")
+    assert "KSR per block of 40 words (█ with learning, ░ without; full bar = 100%):" in text_result.out
+    assert "stays on this machine" in text_result.out
+
+
+def test_user_files_need_adapt(run_cli, model_path, write_file):
+    text = write_file(TEXT, "test.txt")
+    result = run_cli("savings", model_path, text, "--user", "x.learned")
+    assert result.code == 2 and result.err.strip() == "foretype: --user, --save-user and --block go with --adapt"
