@@ -142,9 +142,13 @@ class Vocabulary:
         return self.unknown_id if found is None else found
 
     def _trie_key(self, text: str) -> int | None:
+        # No word holds a NUL (marisa-trie would stop reading the key there) or a
+        # lone surrogate (which cannot be encoded at all).
+        if "\x00" in text:
+            return None
         try:
             return self._trie.get(text)
-        except UnicodeEncodeError:  # a lone surrogate cannot be a vocabulary word or prefix
+        except UnicodeEncodeError:
             return None
 
     def prefix_range(self, prefix: str) -> PrefixRange | None:
