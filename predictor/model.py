@@ -213,8 +213,16 @@ class LanguageModel:
     def _gamma3(self, slots: _Slots) -> float:
         return float(self._g3[slots.slot]) if slots.has3 else 1.0
 
-    def _scores(self, ids: np.ndarray, slots: _Slots, gamma3: float) -> tuple[np.ndarray, np.ndarray | None, np.ndarray | None]:
+    def _scores(self, ids: np.ndarray, slots: _Slots, gamma3: float, bigram_run: int = -1) -> tuple[np.ndarray, np.ndarray | None, np.ndarray | None]:
         """Probabilities of outcome ids after one context (the arithmetic every query shares).
+
+        Args:
+            ids: outcome ids.
+            slots: the context.
+            gamma3: the context's level-3 weight.
+            bigram_run: when ``ids`` are exactly the context's bigram words from
+                this position on (a contiguous run), their values are read
+                directly instead of searched for; the result is the same.
 
         Returns:
             ``(p3, a2, a3)``: float64 probabilities, and the stored bigram and
@@ -225,9 +233,18 @@ class LanguageModel:
         ids = ids.astype(self._w2.dtype, copy=False)
         a2 = a3 = None
         if slots.hi2 > slots.lo2:
-            hit2, a2 = self._stored(self._w2[slots.lo2 : slots.hi2], self._a2[slots.lo2 : slots.hi2], ids)
+            if bigram_run >= 0:
+                start = slots.lo2 + bigram_run
+                codes = self._a2[start : start + len(ids)]
+                a2 = self._table.take(codes) if self._table is not None else codes.astype(np.float64)
+                hit2 = None
+            else:
+                hit2, a2 = self._stored(self._w2[slots.lo2 : slots.hi2], self._a2[slots.lo2 : slots.hi2], ids)
             lower = self._g2[slots.v] * p
-            p2 = a2 + lower if self._interpolated else np.where(hit2, a2, lower)
+            if self._interpolated:
+                p2 = a2 + lower
+            else:
+                p2 = a2 if hit2 is None else np.where(hit2, a2, lower)  # a run is all stored words
         else:
             p2 = p
         if slots.has3:
@@ -325,8 +342,8 @@ class LanguageModel:
             return []
         slots = self._slots(u, v)
         gamma3 = self._gamma3(slots)
-        explicit, stored = self._explicit_candidates(slots, gamma3, found, k)
-        scores, a2, a3 = self._scores(explicit, slots, gamma3)
+        explicit, stored, run = self._explicit_candidates(slots, gamma3, found, k)
+        scores, a2, a3 = self._scores(explicit, slots, gamma3, run)
         factor = (gamma3 if slots.has3 else 1.0) * (float(self._g2[slots.v]) if slots.hi2 > slots.lo2 else 1.0)
         rest = self._unigram_candidates(found, stored, k, factor, scores)
         if len(rest):
@@ -342,25 +359,27 @@ class LanguageModel:
         display = self.vocab.display
         return [Suggestion(display(i), p, o, i) for i, p, o in zip(explicit[top].tolist(), probs, orders)]
 
-    def _explicit_candidates(self, slots: _Slots, gamma3: float, found: PrefixRange, k: int) -> tuple[np.ndarray, np.ndarray]:
+    def _explicit_candidates(self, slots: _Slots, gamma3: float, found: PrefixRange, k: int) -> tuple[np.ndarray, np.ndarray, int]:
         """Classes A and B: distinct candidate ids among the words stored after the context.
 
         Every word stored after (u, v) is also stored after v (each trigram's
         tail is a stored bigram), so class A lies inside the range's bigram words.
 
         Returns:
-            ``(candidates, in_range)``: int64 candidate ids, and every word of the
-            range stored after v (sorted; class C excludes them).
+            ``(candidates, in_range, run)``: int64 candidate ids; every word of
+            the range stored after v (sorted; class C excludes them); and, when
+            the candidates are exactly those words, where they start among the
+            context's bigram words (else -1).
         """
         lo, hi = found.lo, found.hi
         if slots.hi2 <= slots.lo2:
-            return _NO_IDS, _NO_IDS
+            return _NO_IDS, _NO_IDS, -1
         words = self._w2[slots.lo2 : slots.hi2]
         bounds = np.array((lo, hi), dtype=words.dtype)
         start, stop = words.searchsorted(bounds)
         in_b = words[start:stop]
         if len(in_b) <= _SCORE_ALL:
-            return in_b.astype(np.int64), in_b
+            return in_b.astype(np.int64), in_b, int(start)
         parts = []
         in_a = _NO_IDS
         if slots.has3:
@@ -387,7 +406,7 @@ class LanguageModel:
             ranked = in_b if slots.has3 and gamma3 == 0 else self._ranks.bigram_list(slots.v)
             parts.append(self._best_of(in_b, ranked, lo, hi, k + _TIE_GUARD, in_a, floor=floor, slots=slots, gamma3=gamma3))
         joined = np.concatenate(parts) if len(parts) > 1 else parts[0]
-        return joined.astype(np.int64, copy=False), in_b
+        return joined.astype(np.int64, copy=False), in_b, -1
 
     def _best_of(
         self,
