@@ -26,21 +26,24 @@ the never-suggest list.
 
 1. List A is the base model's own exact top-a of R's base words (its
    ``suggest_ids``: by P_base descending, ties by id, that is by word); a starts
-   at k + 1.  Each word of A is scored exactly.
+   at k + 4 (a few words past the k-th keep the bound below tight).  Each word
+   of A is scored exactly.
 2. Every other word of R has P_base <= p_a, the P_base of A's last word (0 once
    A holds all of R's base words: only new words are left, with P_base = 0),
-   so its probability is at most m * p_a + mu * P_user(w), and P_user(w) is
-   known without the base model: for class X, the words the user model saw
-   after (u, v) or after v, it is computed once per context; for every other
-   counted word it is g3 * (g2 * c(w) / N), the Witten-Bell chain with nothing
-   above the unigram, which grows with the count c(w).
-3. X is read by P_user descending and the other counted words by count
-   descending; each word's bound falls along its list.  A word is read while
-   its bound reaches L, the k-th largest of the exact scores of A and the
-   floors mu * P_user of the words read (each a lower bound of that word's
-   score, so L never exceeds the final k-th score); the words read then get
-   their P_base in one call and are scored exactly.  The first word below L
-   ends its list: every later one is below L as well.
+   so its probability is at most m * p_a + mu * P_user(w) and at least
+   mu * P_user(w), and P_user(w) is known without the base model: for class X,
+   the words the user model saw after (u, v) or after v, it is computed once
+   per context; for every other counted word it is g3 * (g2 * c(w) / N), the
+   Witten-Bell chain with nothing above the unigram, which grows with c(w).
+3. L is the k-th largest of A's exact scores, the floors mu * P_user of class
+   X's words in R and the floors of the k most counted other words of R (the
+   k largest floors of that class, since its floor grows with the count).
+   Each value belongs to a different word and is at most that word's score,
+   so L never exceeds the final k-th score.  Every word outside A whose bound
+   reaches L (X's part of R is one slice of the prepared context; the other
+   counted words are read by count, down to the count where the bound falls
+   below L) gets its P_base in one call and is scored exactly; any other word
+   is bounded below L, so strictly below the k-th score.
 4. The words left never counted by the user model and outside A score
    m * P_base <= m * p_a.  If the k-th best score exceeds that bound, the top k
    is final.  If it equals it, it is final when the k-th word sorts no later
@@ -63,7 +66,8 @@ every suggestion is the base model's own.
 
 from __future__ import annotations
 
-from bisect import bisect_left, insort
+import math
+from bisect import bisect_left
 from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import NamedTuple
@@ -80,13 +84,14 @@ from .user_model import UserContext, UserModel
 
 _SCORE_ALL = 96
 """A prefix with at most this many counted words has them listed directly; with more, the global by-count list is read."""
-_GUARD = 1
+_GUARD = 4
 """List A is first read to k + this many words: its k-th word already bounds every unread one,
 and one more makes the bound strict in the usual case."""
 _KEY_SHIFT = 21
 """Sort keys: a base id i is (i << 21) | (2**21 - 1); the j-th new word sorting just before base word i is (i << 21) | j."""
 _BASE_KEY_LOW = (1 << _KEY_SHIFT) - 1
 _NO_IDS = np.zeros(0, dtype=np.int64)
+_NO_PROBS = np.zeros(0, dtype=np.float64)
 
 
 class AdaptedSuggestion(NamedTuple):
@@ -116,8 +121,9 @@ class _Context:
     """What one context needs for every prefix typed after it (cached between queries).
 
     Class X, the suggestable words seen after (u, v) or after v, has its user
-    probabilities computed once per context; their base probabilities are
-    fetched per query, only for the words that could make the top k.
+    probabilities computed once per context, in sort-key order so that a
+    prefix's part of it is one slice; their base probabilities are fetched per
+    query, only for the words that could make the top k.
     """
 
     mu: float
@@ -125,16 +131,18 @@ class _Context:
     base_words: list[str]
     ub: int
     vb: int
-    x_ids: np.ndarray
-    """int64 ids of class X, by user probability descending."""
     x_keys: np.ndarray
-    """int64 sort keys of x_ids."""
+    """int64 sort keys of class X, ascending."""
+    x_ids: np.ndarray
+    """int64 ids of class X, in the order of x_keys."""
     x_user: np.ndarray
     """float64 user probabilities of x_ids."""
     x_members: np.ndarray
-    """x_ids sorted by id, for lookups."""
-    x_members_user: np.ndarray
-    """float64 user probabilities of x_members."""
+    """int64 ids of class X sorted by id, for membership tests."""
+    x_where: dict[int, int]
+    """Position of each class-X id in x_ids."""
+    x_user_list: list[float]
+    """x_user as Python floats."""
 
 
 class LearnedWord(NamedTuple):
@@ -330,21 +338,24 @@ class AdaptedModel:
         base_words = [vocab.word(ub), vocab.word(vb)]
         uctx = user.context(u, v)
         mu = user.share(uctx)
-        x_ids = _NO_IDS
+        members = keys = x_ids = _NO_IDS
+        x_user = _NO_PROBS
         if mu > 0.0:
-            x_ids = self._suggestable(_sorted_union(uctx.ids3, uctx.ids2))
+            members, members_user = user.followers(uctx)
+            # Sort keys of -1 mark blocked words and new words not used often enough; symbols are dropped too.
+            keys = self._keys_any(members)
+            keep = (keys >= 0) & ((members < user.base_size) | (members >= user.first_learned_id))
+            if not keep.all():
+                members, members_user, keys = members[keep], members_user[keep], keys[keep]
+            if len(members) and members[-1] >= user.first_learned_id:
+                by_key = np.argsort(keys)
+                keys, x_ids, x_user = keys[by_key], members[by_key], members_user[by_key]
+            else:
+                x_ids, x_user = members, members_user  # base ids alone: id order is key order
         else:
             uctx = None
-        if len(x_ids):
-            members = np.sort(x_ids)
-            members_user = user.probabilities(members, uctx)  # type: ignore[arg-type]
-            by_user = np.argsort(-members_user, kind="stable")
-            x_ids, x_user = members[by_user], members_user[by_user]
-            keys = self._keys(x_ids)
-        else:
-            members = keys = _NO_IDS
-            members_user = x_user = np.zeros(0)
-        self._context = _Context(mu, uctx, base_words, ub, vb, x_ids, keys, x_user, members, members_user)
+        x_list = x_ids.tolist()
+        self._context = _Context(mu, uctx, base_words, ub, vb, keys, x_ids, x_user, members, dict(zip(x_list, range(len(x_list)))), x_user.tolist())
         self._context_key = key
         return self._context
 
@@ -450,7 +461,8 @@ class AdaptedModel:
 
         Candidates are (-probability, sort key, id, P_base, P_user) tuples; the
         arithmetic on them is the arithmetic of :meth:`distribution`, one
-        IEEE double operation at a time in the same order.
+        IEEE double operation at a time in the same order (numpy's elementwise
+        operations round as Python's do).
         """
         user = self.user
         form = model_form(prefix)
@@ -463,12 +475,12 @@ class AdaptedModel:
         m = 1.0 - mu
         uctx = prepared.user
         blocked = self._blocked_set
-        counted = self._counted_in_range(span, form) if uctx is not None else None
         if uctx is not None and uctx.total1 > 0:
             g3, g2, total1 = uctx.gamma3, uctx.gamma2, uctx.total1
         else:
             g3 = g2 = total1 = 0.0
         weights = user.unigram_table()
+        x_where, x_user = prepared.x_where, prepared.x_user_list
         a_depth = k + _GUARD
         while True:
             # List A: the base model's own exact ranking of the range's base words.
@@ -476,31 +488,26 @@ class AdaptedModel:
             a_done = len(listed) < a_depth
             a_last = listed[-1][1] if listed and not a_done else 0.0
             a_set = {s[3] for s in listed}
-            in_x = self._x_user_of(prepared, [s[3] for s in listed])
             rows = []
-            for s, x_user in zip(listed, in_x):
+            for s in listed:
                 i = s[3]
                 if i in blocked:
                     continue
                 pb = s[1]
-                if x_user is not None:
-                    pu = x_user
+                at = x_where.get(i)
+                if at is not None:
+                    pu = x_user[at]
                 else:
                     pu = g3 * (g2 * (weights[i] / total1)) if total1 and weights[i] else 0.0
                 rows.append((-(m * pb + mu * pu), (i << _KEY_SHIFT) | _BASE_KEY_LOW, i, pb, pu))
-            # Lists X (by user probability) and B (by count): words outside A whose bound
-            # reaches the k-th score read so far get their base probability, all in one call.
             if uctx is not None:
-                floors = sorted((-r[0] for r in rows), reverse=True)
-                take: list[tuple[int, float]] = []
-                self._walk_followers(take, floors, prepared, klo, khi, a_set, a_last, k)
-                if total1:
-                    self._walk_counted(take, floors, prepared, counted, klo, khi, a_set, a_last, k)
-                if take:
-                    ids = np.array([i for i, _ in take], dtype=np.int64)
-                    base_p = self._base_probs(ids, prepared.base_words).tolist()
-                    keys = self._keys(ids).tolist()
-                    rows.extend((-(m * pb + mu * pu), key, i, pb, pu) for (i, pu), key, pb in zip(take, keys, base_p))
+                # Classes X and counted: every word whose bound reaches the k-th lower bound gets
+                # its base probability, all in one call.
+                ids, user_p = self._reaching(rows, prepared, span, form, klo, khi, a_set, a_last, k)
+                if len(ids):
+                    base_p = self._base_probs(ids, prepared.base_words)
+                    scores = (-(m * base_p + mu * user_p)).tolist()
+                    rows.extend(zip(scores, self._keys(ids).tolist(), ids.tolist(), base_p.tolist(), user_p.tolist()))
             elif user.settings.learning and self._needs_zero_words(rows, k):
                 # mu is 0 here (no evidence yet in this bucket): new words score exactly 0 and
                 # matter only when the k-th score is 0 too (ties go by word) or words are few.
@@ -548,113 +555,151 @@ class AdaptedModel:
         hi = bisect_left(forms, form + "\U0010ffff") if form else len(forms)
         return [(i, self._learned_keys[i]) for i in self._ready_ids[lo:hi]]
 
-    def _x_user_of(self, prepared: _Context, ids: list[int]) -> list[float | None]:
-        """The user probability of each id that is in class X (None for the others)."""
-        members = prepared.x_members
-        if not len(members) or not ids:
-            return [None] * len(ids)
-        wanted = np.array(ids, dtype=np.int64)
-        pos = members.searchsorted(wanted)
-        np.minimum(pos, len(members) - 1, out=pos)
-        hit = (members[pos] == wanted).tolist()
-        values = prepared.x_members_user[pos].tolist()
-        return [value if found else None for value, found in zip(values, hit)]
-
-    @staticmethod
-    def _reaches(floors: list[float], k: int, upper: float) -> bool:
-        """Tell whether a word bounded by ``upper`` could still be among the k best (floors: lower bounds, descending)."""
-        return len(floors) < k or upper >= floors[k - 1]
-
-    @staticmethod
-    def _add_floor(floors: list[float], value: float) -> None:
-        insort(floors, value, key=lambda x: -x)
-
-    def _walk_followers(self, take: list[tuple[int, float]], floors: list[float], prepared: _Context, klo: int, khi: int, a_set: set[int], a_last: float, k: int) -> None:
-        """List X: class-X words of the range outside A, by user probability, while their bound reaches the k-th score.
-
-        Such a word scores (1 - mu) * P_base + mu * P_user with P_base at most
-        ``a_last``; its user probability is known, so the bound falls along the
-        list and the walk stops at the first word below the k-th score.
-        """
-        if not len(prepared.x_ids):
-            return
-        mu = prepared.mu
-        m = 1.0 - mu
-        keys = prepared.x_keys
-        inside = (keys >= klo) & (keys <= khi)
-        for i, pu in zip(prepared.x_ids[inside].tolist(), prepared.x_user[inside].tolist()):
-            if i in a_set:
-                continue
-            if not self._reaches(floors, k, m * a_last + mu * pu):
-                return
-            take.append((i, pu))
-            self._add_floor(floors, m * 0.0 + mu * pu)
-
-    def _walk_counted(
+    def _reaching(
         self,
-        take: list[tuple[int, float]],
-        floors: list[float],
+        rows: list[tuple],
         prepared: _Context,
-        counted: list[int] | None,
+        span,  # noqa: ANN001 - PrefixRange | None
+        form: str,
         klo: int,
         khi: int,
         a_set: set[int],
         a_last: float,
         k: int,
-    ) -> None:
-        """List B: counted words outside X and A, by count, while their bound reaches the k-th score.
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """The words of the range outside A that could be among the k best, and their user probabilities.
 
-        Such a word scores (1 - mu) * P_base + mu * f(c) with P_base at most
-        ``a_last`` (0 once A holds the whole range), so its bound falls with c
-        and the walk stops at the first word below the k-th score.  The k-th
-        score is taken over lower bounds: exact scores, and mu * P_user for
-        words taken and not yet scored.  ``counted`` is the range's own list
-        when it is short, else the global by-count list is read and filtered
-        by sort key.
+        Such a word scores (1 - mu) * P_base + mu * P_user with P_base at most
+        ``a_last``, so it is bounded by ``(1 - mu) * a_last + mu * P_user`` and
+        floored by ``mu * P_user``.  The threshold L is the k-th largest of A's
+        exact scores, the floors of class X in the range and the floors of the
+        k most counted other words of the range: each belongs to a different
+        word, so L never exceeds the final k-th score, and a word bounded below
+        L cannot enter the top k.  Class X is one slice of the prepared context;
+        the counted words are read by count, where the bound only falls.
+
+        Returns:
+            ``(ids, user_probabilities)``: int64 and float64 arrays of the words whose bound reaches L.
+        """
+        mu = prepared.mu
+        edge = (1.0 - mu) * a_last
+        lower = [-r[0] for r in rows]
+        x_lo, x_hi = prepared.x_keys.searchsorted(np.array((klo, khi + 1), dtype=np.int64)).tolist()
+        x_ids, x_pu = prepared.x_ids[x_lo:x_hi], prepared.x_user[x_lo:x_hi]
+        if x_hi > x_lo:
+            x_where = prepared.x_where
+            inside = [at - x_lo for at in map(x_where.get, a_set) if at is not None and x_lo <= at < x_hi]
+            if inside:
+                keep = np.ones(x_hi - x_lo, dtype=bool)
+                keep[inside] = False
+                x_ids, x_pu = x_ids[keep], x_pu[keep]
+            floors = mu * x_pu
+            lower.extend((np.partition(floors, len(floors) - k)[len(floors) - k :] if len(floors) > k else floors).tolist())
+        threshold = _kth(lower, k)
+        c_ids, c_pu = self._counted_reaching(prepared, span, form, klo, khi, a_set, edge, lower, threshold, k)
+        if len(x_ids):
+            threshold = _kth(lower, k)
+            reach = edge + mu * x_pu >= threshold
+            if not reach.all():
+                x_ids, x_pu = x_ids[reach], x_pu[reach]
+        if not len(c_ids):
+            return x_ids, x_pu
+        if not len(x_ids):
+            return c_ids, c_pu
+        return np.concatenate((x_ids, c_ids)), np.concatenate((x_pu, c_pu))
+
+    def _counted_reaching(
+        self,
+        prepared: _Context,
+        span,  # noqa: ANN001 - PrefixRange | None
+        form: str,
+        klo: int,
+        khi: int,
+        a_set: set[int],
+        edge: float,
+        lower: list[float],
+        threshold: float,
+        k: int,
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """Counted words of the range outside X and A whose bound reaches L (their floors join ``lower``).
+
+        Outside X a counted word's user probability is g3 * (g2 * c(w) / N),
+        which falls with the count, so the k most counted eligible words carry
+        the class's k largest floors, and reading by count stops at the first
+        word whose bound is below L.
         """
         uctx = prepared.user
         assert uctx is not None
         mu = prepared.mu
-        m = 1.0 - mu
         g3, g2, total1 = uctx.gamma3, uctx.gamma2, uctx.total1
         weights = self.user.unigram_table()
-        members = prepared.x_members
-        if counted is not None:
-            pool = [i for i in counted if i not in a_set]
-            if len(members) and pool:
-                pool = np.array(pool, dtype=np.int64)[~_member(members, np.array(pool, dtype=np.int64))].tolist()
-            for i in pool:
-                pu = g3 * (g2 * (weights[i] / total1))
-                if not self._reaches(floors, k, m * a_last + mu * pu):
-                    return
-                take.append((i, pu))
-                self._add_floor(floors, m * 0.0 + mu * pu)
-            return
         ranked, minus = self.user.ranked()
-        if len(ranked) and len(floors) >= k:
-            most = g3 * (g2 * (-float(minus[0]) / total1))
-            if not self._reaches(floors, k, m * a_last + mu * most):
-                return  # the most counted word bounds them all
+        if not len(ranked):
+            return _NO_IDS, _NO_PROBS
+        if len(lower) >= k and edge + mu * (g3 * (g2 * (-float(minus[0]) / total1))) < threshold:
+            return _NO_IDS, _NO_PROBS  # the most counted word of all bounds every other
+        a_ids = np.array(sorted(a_set), dtype=np.int64) if a_set else _NO_IDS
+        members = prepared.x_members
+        if len(lower) >= k:
+            # L is already known: the words whose bound reaches it are the most counted ones, found by
+            # bisecting the count list at a slightly lower count, then checked exactly.  The margins cover
+            # the rounding of the bound's sum (absolute, a few ulps of L) and of the inverted product.
+            scale = mu * g3 * g2
+            gap = threshold - edge - 4.0 * math.ulp(threshold)
+            if gap > 0.0 and scale > 0.0:
+                least = gap / scale * total1 * (1.0 - 1e-9)
+                stop = int(minus.searchsorted(-least, side="right"))
+                if stop <= _SCORE_ALL:
+                    ids = ranked[:stop]
+                    pu = g3 * (g2 * (weights[ids] / total1))
+                    keys = self._keys_any(ids)
+                    eligible = (keys >= klo) & (keys <= khi) & (edge + mu * pu >= threshold)
+                    if len(members):
+                        eligible &= ~_member(members, ids)
+                    if len(a_ids):
+                        eligible &= ~_member(a_ids, ids)
+                    return ids[eligible], pu[eligible]
+        counted = self._counted_in_range(span, form)
+        found_ids: list[np.ndarray] = []
+        found_pu: list[np.ndarray] = []
+        have = 0
         position = 0
         chunk = 4 * k + 16
-        while position < len(ranked):
-            ids = ranked[position : position + chunk]
+        source = ranked if counted is None else counted
+        while position < len(source):
+            ids = source[position : position + chunk]
             position += len(ids)
             chunk *= 4
-            keys = self._keys_any(ids)
-            ids = ids[(keys >= klo) & (keys <= khi)]
-            if len(members) and len(ids):
-                ids = ids[~_member(members, ids)]
-            for i in ids.tolist():
-                if i in a_set:
-                    continue
-                pu = g3 * (g2 * (weights[i] / total1))
-                if not self._reaches(floors, k, m * a_last + mu * pu):
-                    return
-                take.append((i, pu))
-                self._add_floor(floors, m * 0.0 + mu * pu)
+            pu = g3 * (g2 * (weights[ids] / total1))
+            last_bound = edge + mu * float(pu[-1])
+            if counted is None:
+                keys = self._keys_any(ids)
+                eligible = (keys >= klo) & (keys <= khi)
+            else:
+                eligible = np.ones(len(ids), dtype=bool)
+            if len(members):
+                eligible &= ~_member(members, ids)
+            if len(a_ids):
+                eligible &= ~_member(a_ids, ids)
+            ids, pu = ids[eligible], pu[eligible]
+            if have < k and len(ids):
+                # The first k eligible words carry the k largest floors of the class.
+                lower.extend((mu * pu[: k - have]).tolist())
+                threshold = _kth(lower, k)
+            have += len(ids)
+            reach = edge + mu * pu >= threshold
+            if len(ids):
+                found_ids.append(ids[reach])
+                found_pu.append(pu[reach])
+            if last_bound < threshold:
+                break
+        if not found_ids:
+            return _NO_IDS, _NO_PROBS
+        if len(found_ids) == 1:
+            return found_ids[0], found_pu[0]
+        return np.concatenate(found_ids), np.concatenate(found_pu)
 
-    def _counted_in_range(self, span, form: str) -> list[int] | None:  # noqa: ANN001 - PrefixRange | None
+    def _counted_in_range(self, span, form: str) -> np.ndarray | None:  # noqa: ANN001 - PrefixRange | None
         """The range's counted, suggestable words, most counted first, or None when there are many.
 
         With many, the walk reads the global by-count list instead.
@@ -672,7 +717,7 @@ class AdaptedModel:
         ids = seen[start:stop]
         if hi > lo:
             ids = np.concatenate((ids, np.array(self._ready_ids[lo:hi], dtype=np.int64)))
-        return ids[np.argsort(-self.user.unigram_weights(ids), kind="stable")].tolist()
+        return ids[np.argsort(-self.user.unigram_weights(ids), kind="stable")]
 
     def _base_orders(self, prepared: _Context, prefix: str, wanted: set[int], depth: int) -> dict[int, int]:
         """The base model's order for some words of the prefix range, reading its ranking deeper."""
@@ -858,6 +903,13 @@ def _member(sorted_ids: np.ndarray, ids: np.ndarray) -> np.ndarray:
     pos = sorted_ids.searchsorted(ids)
     np.minimum(pos, len(sorted_ids) - 1, out=pos)
     return sorted_ids[pos] == ids
+
+
+def _kth(values: list[float], k: int) -> float:
+    """The k-th largest value (minus infinity when there are fewer than k)."""
+    if len(values) < k:
+        return -math.inf
+    return sorted(values, reverse=True)[k - 1]
 
 
 def _no_merge(m: float, value: float) -> bool:

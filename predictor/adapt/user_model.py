@@ -91,7 +91,17 @@ class Followers:
             self.uses[at] += uses
             self.seen[at] = max(self.seen[at], when)
         self.total += amount
-        self._view = None
+        if self._view is not None:
+            # Keep the sorted view (a context is usually queried again right after it is learned);
+            # new arrays, since a prepared context may still hold the old ones.
+            ids, weights = self._view
+            pos = int(ids.searchsorted(word_id))
+            if at is None:
+                self._view = (np.insert(ids, pos, word_id), np.insert(weights, pos, amount))
+            else:
+                weights = weights.copy()
+                weights[pos] += amount
+                self._view = (ids, weights)
 
     def view(self) -> tuple[np.ndarray, np.ndarray]:
         """The followers sorted by id, as (int64 ids, float64 inflated counts), both of shape (T,)."""
@@ -577,6 +587,38 @@ class UserModel:
         """
         p1, f2, f3 = self.components(ids, context)
         return interpolate(p1, f2, f3, context)
+
+    def followers(self, context: UserContext) -> tuple[np.ndarray, np.ndarray]:
+        """Every outcome seen after (u, v) or after v, with its P_user (what :meth:`probabilities` gives).
+
+        Each counted trigram also counts its bigram, so the words after (u, v)
+        are normally among those after v, and their probabilities are computed
+        over that one sorted list; a table where they are not (a damaged or
+        merged file) takes the general path.
+
+        Args:
+            context: from :meth:`context`.
+
+        Returns:
+            ``(ids, probs)``: int64 ids sorted ascending and their float64 P_user, both of shape (n,).
+        """
+        ids2, ids3 = context.ids2, context.ids3
+        if not len(ids2) or context.total1 <= 0:
+            ids = np.union1d(ids2, ids3)
+            return ids, (self.probabilities(ids, context) if len(ids) else _EMPTY_WEIGHTS)
+        pos = None
+        if len(ids3):
+            pos = ids2.searchsorted(ids3)
+            if not (ids2.take(pos, mode="clip") == ids3).all():
+                ids = np.union1d(ids2, ids3)
+                return ids, self.probabilities(ids, context)
+        # The operations of interpolate(): where f3 = 0, (1 - g3) * 0.0 + g3 * p2 is g3 * p2 exactly.
+        g2, g3 = context.gamma2, context.gamma3
+        p2 = (1.0 - g2) * (context.weights2 / context.total2) + g2 * (self._w1[ids2] / context.total1)
+        p3 = g3 * p2
+        if pos is not None:
+            p3[pos] = (1.0 - g3) * (context.weights3 / context.total3) + p3[pos]
+        return ids2, p3
 
     def order_of(self, word_id: int, context: UserContext) -> int:
         """Which order of the user model supplied most of a word's user probability (3, 2 or 1)."""
