@@ -389,10 +389,7 @@ class LanguageModel:
             if len(in_a):
                 parts.append(self._best_of(in_a, self._ranks.trigram_list(slots.slot), lo, hi, k, _NO_IDS))
         # A class-B word can only enter the top k if it scores at least the k-th best of A.
-        floor = -1.0
-        if parts and len(parts[0]) >= k:
-            a_scores = self._scores(parts[0].astype(np.int64, copy=False), slots, gamma3)[0]
-            floor = float(np.partition(a_scores, len(a_scores) - k)[len(a_scores) - k])
+        rivals = parts[0] if parts and len(parts[0]) >= k else None
         left = len(in_b) - len(in_a)  # the size of class B, since A lies inside B
         if 0 < left <= 4 * (k + _TIE_GUARD):
             # Few words of B are not in A: take them all rather than walk past A in the list.
@@ -404,7 +401,7 @@ class LanguageModel:
             # guard against two scores rounding to equal.  With gamma3 = 0 every
             # score is 0 and ties go by id, the order of in_b itself.
             ranked = in_b if slots.has3 and gamma3 == 0 else self._ranks.bigram_list(slots.v)
-            parts.append(self._best_of(in_b, ranked, lo, hi, k + _TIE_GUARD, in_a, floor=floor, slots=slots, gamma3=gamma3))
+            parts.append(self._best_of(in_b, ranked, lo, hi, k + _TIE_GUARD, in_a, rivals=rivals, top_k=k, slots=slots, gamma3=gamma3))
         joined = np.concatenate(parts) if len(parts) > 1 else parts[0]
         return joined.astype(np.int64, copy=False), in_b, -1
 
@@ -417,7 +414,8 @@ class LanguageModel:
         k: int,
         exclude: np.ndarray,
         *,
-        floor: float = -1.0,
+        rivals: np.ndarray | None = None,
+        top_k: int = 0,
         slots: _Slots | None = None,
         gamma3: float = 1.0,
     ) -> np.ndarray:
@@ -426,9 +424,11 @@ class LanguageModel:
         A ranked list holds the context's words in the class's own order, so its
         first k words inside [lo, hi) and outside ``exclude`` are the class's top
         k.  When the range is narrow the walk would be long: the range is then
-        returned whole.  With a ``floor`` (and the context's ``slots``), the walk
-        also stops once the next listed word scores below it: scores only fall
-        along the list, so no later word can reach the floor either.
+        returned whole.  With ``rivals`` (at least ``top_k`` candidates of another
+        class) and the context's ``slots``, a walk that goes past its first chunk
+        also stops once the next listed word scores below the ``top_k``-th best
+        rival: scores only fall along the list, so no later word could enter the
+        top ``top_k``.
         """
         if ranked is None:
             return _without(in_range, exclude)
@@ -438,8 +438,12 @@ class LanguageModel:
         have = 0
         chunk = k + 8
         position = 0
+        floor = None
         while position < len(ranked) and position < budget:
-            if position and slots is not None and floor >= 0:
+            if position and slots is not None and rivals is not None:
+                if floor is None:  # computed only when the walk goes on, which is rare
+                    scores = self._scores(rivals.astype(np.int64, copy=False), slots, gamma3)[0]
+                    floor = float(np.partition(scores, len(scores) - top_k)[len(scores) - top_k]) if 0 < top_k <= len(scores) else -1.0
                 upper = self._scores(ranked[position : position + 1].astype(np.int64), slots, gamma3)[0][0]
                 if upper < floor:
                     return np.concatenate(taken) if taken else _NO_IDS
