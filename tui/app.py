@@ -2,8 +2,10 @@
 
 The caller loads the model and passes it in (tests pass a tiny in-memory one).
 Suggestions come from a *source* made from the model by ``make_source``; by
-default the model itself.  A learning source that mixes in what the person
-typed plugs in there (see :class:`tui.session.SuggestionSource`).
+default the model itself.  The learning source of :mod:`tui.learning` (the
+model combined with its learned file; ``foretype pad`` uses it) plugs in
+there: with it the pad learns each word the person finishes, F6 switches
+learning on and off, and F7 opens the learned words.
 """
 
 from __future__ import annotations
@@ -15,10 +17,12 @@ from pathlib import Path
 from textual.app import App
 from textual.binding import Binding
 
+from predictor.errors import ForetypeError
 from predictor.model import LanguageModel
 
-from .files import free_name
+from .files import free_name, shown_path
 from .formatting import LatencyFormatter, format_micros
+from .learning import Finished, LearningSource, why_unavailable
 from .session import PadSession, SuggestionSource
 from .screens.confirm_quit import ConfirmQuitDialog, QuitChoice
 from .screens.help import HelpScreen
@@ -54,6 +58,7 @@ class PadApp(App[None]):
         format_latency: LatencyFormatter = format_micros,
         cursor_blink: bool = True,
         folder: Path | None = None,
+        format_when: Callable[[int], str] | None = None,
     ) -> None:
         """Set up the pad.
 
@@ -65,6 +70,8 @@ class PadApp(App[None]):
             format_latency: writes a duration in microseconds (tests make it constant).
             cursor_blink: let the cursor blink (snapshots turn it off).
             folder: where file dialogs start and the message is saved (default: the working folder).
+            format_when: writes a Unix time for the learned-words screen (default: local date and time;
+                tests make it constant).
         """
         super().__init__()
         self.model = model
@@ -73,6 +80,7 @@ class PadApp(App[None]):
         self.format_latency = format_latency
         self.cursor_blink = cursor_blink
         self.folder = folder if folder is not None else Path.cwd()
+        self.format_when = format_when if format_when is not None else local_time
         self.saved_text = ""
         """The composed text as last saved ("" before any save)."""
 
@@ -98,12 +106,51 @@ class PadApp(App[None]):
         text = self.composed_text
         return bool(text.strip()) and text != self.saved_text
 
+    @property
+    def learning(self) -> LearningSource | None:
+        """The learning source in use (None when the suggestions come from a plain model)."""
+        source = self.session.source
+        return source if isinstance(source, LearningSource) else None
+
     def use_model(self, model: LanguageModel) -> None:
-        """Switch to another loaded model; the text and tally stay."""
+        """Switch to another loaded model; the text and tally stay (the old learned file is released first)."""
+        old = self.learning
+        if old is not None:
+            old.close()
         self.model = model
         self.session.source = self.make_source(model)
         self.pad.show_model()
+        self.pad.show_learning()
         self.pad.refresh_panels()
+
+    def learn(self, finished: Finished) -> None:
+        """Learn a finished word or sentence end (while learning is on), then refresh the suggestions."""
+        source = self.learning
+        if source is None:
+            return
+        try:
+            learned = source.take(finished)
+        except ForetypeError as error:
+            self.notify(f"Not learned: {error}", severity="error")
+            return
+        if learned:
+            self.learning_changed()
+
+    def learning_changed(self) -> None:
+        """Redraw what depends on the learned words: the pad's suggestions and indicator, an open learned-words screen."""
+        from .screens.learned import LearnedWordsScreen
+
+        self.session.forget_offer()
+        self.pad.show_learning()
+        self.pad.refresh_panels()
+        if isinstance(self.screen, LearnedWordsScreen):
+            self.screen.show_words()
+
+    def on_unmount(self) -> None:
+        """Release the learned file when the pad closes."""
+        source = self.learning
+        if source is not None:
+            source.close()
 
     # --------------------------------------------------------------- actions
     def action_help(self) -> None:
@@ -143,6 +190,30 @@ class PadApp(App[None]):
 
         self.push_screen(ModelScreen())
 
+    def action_toggle_learning(self) -> None:
+        """F6: switch learning from what is typed on or off (kept in the learned file)."""
+        source = self.learning
+        if source is None or not source.available:
+            self.notify(f"Learning is not available: {why_unavailable(source)}.", severity="warning")
+            return
+        try:
+            source.set_learning(not source.learning)
+        except ForetypeError as error:
+            self.notify(f"Learning not switched: {error}", severity="error")
+            return
+        if source.learning:
+            self.notify(f"Learning on: the words you finish are kept in {shown_path(source.path)}, on this machine only.", title="learning")
+        else:
+            self.notify("Learning off: nothing you type is learned; suggestions are the model's own.", title="learning")
+        self.learning_changed()
+
+    def action_learned_words(self) -> None:
+        """F7: the learned words screen."""
+        from .screens.learned import LearnedWordsScreen
+
+        if not isinstance(self.screen, LearnedWordsScreen):
+            self.push_screen(LearnedWordsScreen())
+
     async def action_quit(self) -> None:
         """Ctrl+Q: quit, asking first if the message is unsaved."""
         if not self.unsaved:
@@ -159,3 +230,8 @@ class PadApp(App[None]):
                 self.action_save()
 
         self.push_screen(ConfirmQuitDialog(len(self.composed_text)), chosen)
+
+
+def local_time(when: int) -> str:
+    """A Unix time as local date and time, to the minute."""
+    return time.strftime("%Y-%m-%d %H:%M", time.localtime(when))

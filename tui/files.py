@@ -123,3 +123,14 @@ def read_sweep(path: str | Path) -> SweepFile:
     settings = meta.get("settings") if isinstance(meta.get("settings"), dict) else {}
     k = settings.get("k")
     return SweepFile(rows, bool(meta.get("complete", True)), str(meta.get("test", "")), k if isinstance(k, int) else None)
+
+
+def shown_path(path: Path | None) -> str:
+    """A path as the pad shows it: relative to the working folder when it lies inside, else absolute."""
+    if path is None:
+        return "no file"
+    absolute = path.resolve()
+    try:
+        return str(absolute.relative_to(Path.cwd().resolve()))
+    except ValueError:
+        return str(absolute)

@@ -242,13 +242,17 @@ class PadSession:
         elapsed = self._clock() - started
         sentence_start = not words
         if sentence_start:
-            found = [Suggestion(capitalise(s.word), s.prob, s.order, s.id) for s in found]
+            found = [s._replace(word=capitalise(s.word)) for s in found]  # keeps a learning source's marks
         vocab = source.vocab
         context = tuple(ContextWord(w, vocab.id(model_form(w)) is not None) for w in words)
         self._offer = Offer(text_before, context, prefix, sentence_start, tuple(found), elapsed)
         self.last_latency_ns = elapsed
         self.highlight = 0
         return self._offer
+
+    def forget_offer(self) -> None:
+        """Drop the cached offer: the source learned something, so the next query asks again."""
+        self._offer = None
 
     def move_highlight(self, step: int) -> None:
         """Move the highlight by ``step`` ranks, staying within the list."""

@@ -15,11 +15,16 @@ def register(commands: argparse._SubParsersAction) -> None:
         help="type with a model in the terminal (the default command)",
         description="Open the typing pad: type with a model, see its ranked suggestions for the "
         "context and the letters typed, take them with Tab or alt+1..9, and watch the keystrokes saved. "
-        "F1 inside lists every key. Example: foretype pad chat.model -k 7",
+        "F1 inside lists every key. The pad learns the words you finish into MODEL.learned beside the model "
+        "(on this machine only; F6 switches learning on and off, F7 lists what was learned). "
+        "Example: foretype pad chat.model -k 7",
     )
     p.add_argument("model", nargs="?", help="model file (default: the demo model)")
     p.add_argument("-k", type=positive_int, default=5, help="suggestions shown at each position, 1 to 9 (default 5)")
-    p.set_defaults(handler=run_pad)
+    learn = p.add_mutually_exclusive_group()
+    learn.add_argument("--learn", dest="learning", action="store_const", const=True, help="switch learning on before the pad opens (kept in MODEL.learned, like F6)")
+    learn.add_argument("--no-learn", dest="learning", action="store_const", const=False, help="switch learning off before the pad opens (kept in MODEL.learned, like F6)")
+    p.set_defaults(handler=run_pad, learning=None)
 
 
 def run_pad(args: argparse.Namespace) -> int:
@@ -30,4 +35,4 @@ def run_pad(args: argparse.Namespace) -> int:
     # The interface is imported only here, so every other command runs without Textual.
     from tui.launch import run_pad as launch
 
-    return launch(model, k=args.k)
+    return launch(model, k=args.k, learning=getattr(args, "learning", None))

@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import asyncio
 import inspect
+import shutil
 from collections.abc import Callable, Iterator
 from pathlib import Path
 
@@ -82,6 +83,14 @@ def tiny_model_file(tiny_model: LanguageModel, tmp_path_factory: pytest.TempPath
     path = tmp_path_factory.mktemp("models") / "tiny.model"
     tiny_model.save(path)
     return path
+
+
+@pytest.fixture
+def model_copy(tiny_model_file: Path, tmp_path: Path) -> LanguageModel:
+    """The tiny model copied into this test's tmp folder and loaded: its learned file goes beside the copy."""
+    copy = tmp_path / "tiny.model"
+    shutil.copy(tiny_model_file, copy)
+    return predictor.load(copy)
 
 
 @pytest.fixture

@@ -5,6 +5,9 @@ from __future__ import annotations
 from textual import events
 from textual.pilot import Pilot
 
+from predictor.adapt import LearnedFile
+from predictor.model import LanguageModel
+
 
 async def paste(pilot: Pilot, text: str) -> None:
     """Paste text into what has the focus (a terminal's bracketed paste: one keystroke per character)."""
@@ -25,3 +28,11 @@ async def finish(pilot: Pilot, group: str) -> None:
         await app.workers.wait_for_complete(running)
     await pilot.pause()
     await pilot.pause()
+
+
+def learn_beforehand(model: LanguageModel, sentences: list[list[str]], never: list[str] | None = None) -> None:
+    """Fill the learned file beside a model through the engine, before a pad opens it."""
+    with LearnedFile.for_model(model) as learned:
+        learned.learn_sentences(sentences)
+        if never:
+            learned.add_never(never)

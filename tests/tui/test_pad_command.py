@@ -7,12 +7,15 @@ import pytest
 
 @pytest.fixture
 def launched(monkeypatch: pytest.MonkeyPatch) -> list[tuple[object, int]]:
-    """Replace the interface's entry point; record what it was given."""
+    """Replace the interface's entry point; record the model and k it was given (and the learning choice)."""
     calls: list[tuple[object, int]] = []
 
-    def fake_run_pad(model: object, *, k: int = 5) -> int:
+    def fake_run_pad(model: object, *, k: int = 5, learning: bool | None = None) -> int:
         calls.append((model, k))
+        learning_choices.append(learning)
         return 0
+
+    learning_choices.clear()
 
     monkeypatch.setattr("tui.launch.run_pad", fake_run_pad)
     return calls
@@ -23,6 +26,22 @@ def test_pad_opens_the_named_model_with_the_chosen_number_of_suggestions(run_cli
     assert result.code == 0
     (model, k), = launched
     assert model.path == tiny_model_file and k == 7
+
+
+learning_choices: list[bool | None] = []
+"""The learning choice of each launch recorded by ``launched``."""
+
+
+@pytest.mark.parametrize(("options", "choice"), [((), None), (("--learn",), True), (("--no-learn",), False)])
+def test_learn_and_no_learn_reach_the_pad_and_neither_keeps_the_learned_files_setting(run_cli, launched, tiny_model_file, options, choice) -> None:
+    assert run_cli("pad", tiny_model_file, *options).code == 0
+    assert learning_choices == [choice]
+
+
+def test_learn_and_no_learn_together_are_refused(run_cli, launched, tiny_model_file) -> None:
+    result = run_cli("pad", tiny_model_file, "--learn", "--no-learn")
+    assert result.code == 2 and "not allowed with argument" in result.err
+    assert launched == []
 
 
 def test_no_command_at_all_opens_the_pad_on_the_demo_model(run_cli, launched, monkeypatch: pytest.MonkeyPatch, tiny_model) -> None:

@@ -2,7 +2,9 @@
 
 Kept deterministic: the tiny fixed model, a fake clock (every query reads
 1.5 µs), latencies from the simulator replaced by a constant, no cursor blink,
-and the fixture folder as the working folder.  After a deliberate change to the
+and the fixture folder as the working folder (for the learned words, the
+test's tmp folder, holding a copy of the model, and a constant for every time
+a word was last typed).  After a deliberate change to the
 layout, read the report of a failing run, then refresh with
 ``pytest tests/tui --snapshot-update``.
 """
@@ -13,8 +15,9 @@ from pathlib import Path
 
 import pytest
 
-from pilot_steps import finish, paste
+from pilot_steps import finish, learn_beforehand, paste
 
+from tui.learning import learning_sources
 from tui.screens.model import ModelScreen
 from tui.screens.replay import ReplayScreen
 from tui.screens.sweep import SweepScreen
@@ -91,3 +94,27 @@ def test_the_model_screen_with_a_file_that_is_not_there(snap_compare, make_app, 
         await finish(pilot, "open-model")
 
     assert snap_compare(make_app(), terminal_size=size, run_before=run_before)
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_the_learned_words_screen(snap_compare, make_app, model_copy, tmp_path, monkeypatch, size) -> None:
+    monkeypatch.chdir(tmp_path)  # the learned file's path is shown relative to the working folder
+    learn_beforehand(model_copy, [["the", "Zorblat", "leaves"], ["the", "Zorblat", "is", "late"], ["the", "Quillon"]], never=["dam*", "is"])
+    app = make_app(model=model_copy, make_source=learning_sources(), format_when=lambda when: "(when)")
+
+    async def run_before(pilot) -> None:  # noqa: ANN001
+        await pilot.press("f7", "down")
+
+    assert snap_compare(app, terminal_size=size, run_before=run_before)
+
+
+@pytest.mark.parametrize("size", SIZES)
+def test_the_typing_screen_while_learning_marks_learned_and_new_words(snap_compare, make_app, model_copy, size) -> None:
+    learn_beforehand(model_copy, [["the", "Zorblat", "leaves"], ["the", "Zorblat", "is", "late"], ["the", "tide"]])
+    app = make_app(model=model_copy, make_source=learning_sources())
+
+    async def run_before(pilot) -> None:  # noqa: ANN001
+        await pilot.pause()
+        await paste(pilot, "the ")
+
+    assert snap_compare(app, terminal_size=size, run_before=run_before)

@@ -3,7 +3,8 @@
 Layout: below 110 columns the composing area spans the top and the panels sit
 in a band underneath (suggestions beside the tally); from 110 columns the
 composing area takes the left and the panels stack in a column on the right,
-where the list of accepted words fills whatever height is left.
+where the list of accepted words fills whatever height is left.  The message
+area's bottom border says whether the pad is learning from what is typed.
 """
 
 from __future__ import annotations
@@ -26,6 +27,7 @@ from ..widgets.tally_panel import TallyPanel
 
 if TYPE_CHECKING:
     from ..app import PadApp
+    from ..learning import LearningSource
 
 WIDE_FROM = 110
 """Terminal width (columns) from which the panels move to a column on the right."""
@@ -43,6 +45,8 @@ class PadScreen(Screen[None]):
         Binding("f3", "app.replay", "replay", id="replay"),
         Binding("f4", "app.sweep", "sweep", id="sweep"),
         Binding("f5", "app.open_model", "model", id="open-model"),
+        Binding("f6", "app.toggle_learning", "learn", id="toggle-learning"),
+        Binding("f7", "app.learned_words", "words", id="learned-words"),
     ]
     """Screen keys (the composing area adds Tab and the rank chords; the app adds Ctrl+Q)."""
 
@@ -74,6 +78,7 @@ class PadScreen(Screen[None]):
         """Focus the composing area and draw the first offer."""
         self.query_one(ComposeArea).focus()
         self.show_model()
+        self.show_learning()
         self.refresh_panels()
 
     @property
@@ -86,6 +91,10 @@ class PadScreen(Screen[None]):
         model = self.app.model
         self.query_one(ModelFacts).show(model_label(model.path), model.info())
         self.sub_title = f"typing pad · {model_label(model.path)}"
+
+    def show_learning(self) -> None:
+        """Redraw the learning indicator on the message area's bottom border."""
+        self.compose_area.border_subtitle = learning_indicator(self.app.learning)
 
     def refresh_panels(self) -> None:
         """Redraw the context, suggestions, tally and preview for the text at the cursor."""
@@ -107,8 +116,21 @@ class PadScreen(Screen[None]):
     def _text_or_highlight_changed(self) -> None:
         self.refresh_panels()
 
+    @on(ComposeArea.WordFinished)
+    def _word_finished(self, message: ComposeArea.WordFinished) -> None:
+        self.app.learn(message.finished)
+
     @on(ComposeArea.Accepted)
     def _accepted(self, message: ComposeArea.Accepted) -> None:
         acceptance = message.acceptance
         self.query_one(AcceptLog).add(AcceptedWord(acceptance.word, acceptance.rank, acceptance.typed, acceptance.saved))
         self.refresh_panels()
+
+
+def learning_indicator(source: LearningSource | None) -> str:
+    """The learning state as the message area's border shows it (Textual markup)."""
+    if source is None or not source.available:
+        return "[dim]○ learning unavailable · f6 says why[/]"
+    if source.learning:
+        return "[b $success]● learning on[/] · kept on this machine only · f6 stop · f7 learned words"
+    return "[b $warning]○ learning off[/] · f6 start · f7 learned words"

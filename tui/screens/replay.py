@@ -26,6 +26,7 @@ from predictor.errors import ForetypeError
 from predictor.simulate import SavingsReport, TypistSettings, WordTrace, simulate
 
 from ..formatting import LatencyFormatter, count, signed_percent
+from ..learning import LearningSource
 from ..widgets.file_picker import FilePicker
 from ..widgets.word_table import WordTable
 
@@ -205,6 +206,8 @@ class ReplayScreen(Screen[None]):
         app = self.app
         model = app.model
         source = app.session.source
+        if isinstance(source, LearningSource):
+            source = source.for_other_thread()  # the learned file's objects stay with the interface's thread
         settings = TypistSettings(k=app.session.k)
 
         def progress(done: int, total: int) -> None:

@@ -16,6 +16,7 @@ from textual.widgets import TextArea
 
 from predictor.simulate.editing import replaces_automatic_space
 
+from ..learning import Finished, finished_by_taking, finished_by_typing
 from ..session import Acceptance, Offer, PadSession
 
 MAX_RANKS = 9
@@ -50,7 +51,7 @@ class ComposeArea(TextArea, inherit_bindings=False):
                 f"alt+{n},{ESCAPE_DIGIT_KEYS[n - 1]}",
                 f"accept_rank({n})",
                 "rank n",
-                show=n == 1,
+                show=False,
                 key_display="alt+n",
                 id=f"accept-rank-{n}",
             )
@@ -68,7 +69,7 @@ class ComposeArea(TextArea, inherit_bindings=False):
         Binding("pageup", "cursor_page_up", "page up", show=False),
         Binding("pagedown", "cursor_page_down", "page down", show=False),
     ]
-    """Typing keys; the footer shows Tab and the rank chords."""
+    """Typing keys; the footer shows Tab (the suggestion table shows each rank's chord beside it)."""
 
     class HighlightMoved(Message):
         """The highlighted suggestion changed without the text changing."""
@@ -82,6 +83,16 @@ class ComposeArea(TextArea, inherit_bindings=False):
             """
             super().__init__()
             self.acceptance = acceptance
+
+    class WordFinished(Message):
+        """A typed key or a taken suggestion finished a word or a sentence (the pad may learn it)."""
+
+        def __init__(self, finished: Finished) -> None:
+            """Args:
+            finished: what was finished.
+            """
+            super().__init__()
+            self.finished = finished
 
     def __init__(self, session: PadSession, *, id: str | None = None) -> None:  # noqa: A002 - Textual's name
         """Create the area.
@@ -140,8 +151,12 @@ class ComposeArea(TextArea, inherit_bindings=False):
         if self._auto_space == (row, column) and self.selection.is_empty and replaces_automatic_space(text[0]) and column > 0 and self.document[row][column - 1] == " ":
             start = (row, column - 1)
         self._auto_space = None
+        first = min(start, end)
+        finished = finished_by_typing(self.document[first[0]][: first[1]], text, first[0])
         result = self.replace(text, start, end, maintain_selection_offset=False)
         self.move_cursor(result.end_location)
+        if finished is not None:
+            self.post_message(self.WordFinished(finished))
 
     # --------------------------------------------------------------- actions
     def action_accept_highlighted(self) -> None:
@@ -166,11 +181,14 @@ class ComposeArea(TextArea, inherit_bindings=False):
             return
         row, column = self.cursor_location
         start = (row, column - acceptance.replace)
+        line_before = self.document[row][: start[1]]
         self.session.record_acceptance()
         result = self.replace(acceptance.insert, start, self.cursor_location, maintain_selection_offset=False)
         self.move_cursor(result.end_location)
         self._auto_space = result.end_location
         self.post_message(self.Accepted(acceptance))
+        end_row, end_column = result.end_location
+        self.post_message(self.WordFinished(finished_by_taking(line_before, acceptance.word, (end_row, end_column - 1))))
 
     def action_erase_left(self) -> None:
         """Backspace: erase the selection or the character left of the cursor (one keystroke)."""

@@ -1,4 +1,4 @@
-"""The ranked suggestions: rank, word, probability as a number and a bar, n-gram order, chord."""
+"""The ranked suggestions: rank, word, learned mark, probability as a number and a bar, n-gram order, chord."""
 
 from __future__ import annotations
 
@@ -11,6 +11,20 @@ from .compose_area import rank_chord
 
 ORDER_NAMES = {1: "unigram", 2: "bigram", 3: "trigram"}
 """Long names of the n-gram orders, used when the panel is wide."""
+
+LEARNED_MARK = "•"
+"""Beside a word whose probability came mostly from what the person's typing taught."""
+NEW_WORD_MARK = "+"
+"""Beside a learned word the model's vocabulary lacks (it exists only because it was typed)."""
+
+
+def learned_mark(suggestion: object) -> str:
+    """The mark for a suggestion: NEW_WORD_MARK, LEARNED_MARK or a space (a plain model's suggestions have none)."""
+    if getattr(suggestion, "new_word", False):
+        return NEW_WORD_MARK
+    if getattr(suggestion, "learned", False):
+        return LEARNED_MARK
+    return " "
 
 
 class SuggestionTable(Widget):
@@ -47,11 +61,11 @@ class SuggestionTable(Widget):
         suggestions = self._offer.suggestions if self._offer is not None else ()
         word_width = min(18, max([8, *(len(s.word) for s in suggestions)]))
         order_width = 7 if wide else 1
-        # mark, rank, word, probability, bar, order, chord, with one space between columns
-        fixed = 1 + 1 + 1 + word_width + 1 + 7 + 1 + 1 + order_width + 1 + 5
+        # highlight, rank, word, learned mark, probability, bar, order, chord, with one space between columns
+        fixed = 1 + 1 + 1 + word_width + 1 + 1 + 1 + 7 + 1 + 1 + order_width + 1 + 5
         bar_width = max(3, width - fixed)
         out = Text(no_wrap=True, overflow="crop")
-        head = f"  # {'word':<{word_width}} {'prob':>7} {'':<{bar_width}} {'order' if wide else 'n':<{order_width}} {'key':<5}"
+        head = f"  # {'word':<{word_width}}   {'prob':>7} {'':<{bar_width}} {'order' if wide else 'n':<{order_width}} {'key':<5}"
         out.append(head.rstrip() + "\n", style="bold")
         for index in range(self.k):
             if index < len(suggestions):
@@ -61,6 +75,7 @@ class SuggestionTable(Widget):
                 out.append("▸" if chosen else " ", style="bold")
                 out.append(f"{index + 1} ", style="bold" if chosen else "")
                 out.append(f"{clip(s.word, word_width):<{word_width}} ", style="reverse bold" if chosen else "bold")
+                out.append(f"{learned_mark(s)} ", style="bold magenta")
                 out.append(f"{percent(s.prob):>7} ")
                 out.append(bar(s.prob, bar_width), style="green")
                 out.append(f" {order:<{order_width}} ", style="dim")
