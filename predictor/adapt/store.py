@@ -42,20 +42,21 @@ import base64
 import glob
 import json
 import os
-import tempfile
 import time
 import zlib
 from collections.abc import Callable, Iterator, Sequence
 from contextlib import contextmanager
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
+from typing import Any, BinaryIO
 
 import numpy as np
 
 from ..errors import ModelFileError, OptionError, OutputError
 from ..model import LanguageModel
-from ..modelfile import _remove_quietly, _sync_directory
+from ..atomic import remove_quietly as _remove_quietly
+from ..atomic import replace_atomically
+from ..atomic import sync_directory as _sync_directory
 from ..text import WORD_RE
 from .combined import AdaptedModel
 from .never_list import normalise_entry
@@ -618,26 +619,13 @@ def save_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> int:
 
 def _write_state(model: AdaptedModel, target: Path) -> int:
     """Write the magic line and one state record to a temporary file, flush it, and rename it over ``target``."""
-    directory = target.parent if str(target.parent) else Path(".")
-    try:
-        handle, temp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=directory)
-    except OSError as error:
-        raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
-    try:
-        with os.fdopen(handle, "wb") as out:
-            out.write(MAGIC_LINE)
-            out.write(_line(_state_record(model)))
-            out.flush()
-            os.fsync(out.fileno())
-            size = out.tell()
-        os.replace(temp_name, target)
-    except BaseException as error:
-        _remove_quietly(temp_name)
-        if isinstance(error, OSError):
-            raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
-        raise
-    _sync_directory(directory)
-    return size
+    record = _line(_state_record(model))
+
+    def write(out: BinaryIO) -> None:
+        out.write(MAGIC_LINE)
+        out.write(record)
+
+    return replace_atomically(target, write)
 
 
 def export_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> dict[str, int]:

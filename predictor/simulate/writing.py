@@ -6,6 +6,7 @@ import os
 import tempfile
 from pathlib import Path
 
+from ..atomic import replace_atomically
 from ..errors import OutputError
 
 
@@ -19,24 +20,8 @@ def write_text_atomic(path: str | Path, text: str) -> None:
     Raises:
         OutputError: the file cannot be written.
     """
-    target = Path(path)
-    directory = target.parent if str(target.parent) else Path(".")
-    try:
-        handle, temp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=directory)
-    except OSError as error:
-        raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8", newline="") as out:
-            out.write(text)
-        os.replace(temp_name, target)
-    except BaseException as error:
-        try:
-            os.unlink(temp_name)
-        except OSError:
-            pass
-        if isinstance(error, OSError):
-            raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
-        raise
+    data = text.encode("utf-8")
+    replace_atomically(path, lambda out: out.write(data))
 
 
 def check_writable_file(path: str | Path) -> None:
