@@ -444,8 +444,7 @@ class LanguageModel:
                 if floor is None:  # computed only when the walk goes on, which is rare
                     scores = self._scores(rivals.astype(np.int64, copy=False), slots, gamma3)[0]
                     floor = float(np.partition(scores, len(scores) - top_k)[len(scores) - top_k]) if 0 < top_k <= len(scores) else -1.0
-                upper = self._scores(ranked[position : position + 1].astype(np.int64), slots, gamma3)[0][0]
-                if upper < floor:
+                if self._class_b_score(ranked.item(position), slots, gamma3) < floor:
                     return np.concatenate(taken) if taken else _NO_IDS
             piece = ranked[position : position + chunk]
             position += len(piece)
@@ -461,6 +460,17 @@ class LanguageModel:
         if position >= len(ranked):
             return np.concatenate(taken) if taken else _NO_IDS
         return _without(in_range, exclude)
+
+    def _class_b_score(self, word: int, slots: _Slots, gamma3: float) -> float:
+        """gamma3 * P2(word | v) for a word stored after v: the score it has if not stored after (u, v).
+
+        The same float64 operations :meth:`_scores` performs, on Python floats.
+        """
+        words = self._w2[slots.lo2 : slots.hi2]
+        code = self._a2.item(slots.lo2 + int(words.searchsorted(words.dtype.type(word))))
+        value = self._table.item(code) if self._table is not None else float(np.float64(np.float32(code)))
+        p2 = value + self._g2.item(slots.v) * self._p1.item(word) if self._interpolated else value
+        return (gamma3 * p2) if slots.has3 else p2
 
     def _unigram_candidates(self, found: PrefixRange, exclude: np.ndarray, k: int, factor: float, explicit_scores: np.ndarray) -> np.ndarray:
         """Class C: the first k words of the range not in ``exclude``, in unigram order.
