@@ -27,11 +27,15 @@ Memory stays within a :class:`~predictor.memory.MemoryBudget`:
 
 from __future__ import annotations
 
+import multiprocessing
 import os
 import sys
+from collections import deque
 from collections.abc import Callable, Iterable, Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from itertools import repeat
+from typing import Any
 
 import numpy as np
 
@@ -387,6 +391,25 @@ class CorpusCounter:
             return
         fids, tids = self._ids_of(found)
         del found
+        self._add_ids(fids, tids)
+
+    def add_tokenized(self, distinct: list[str], positions: np.ndarray) -> None:
+        """Count a chunk tokenised elsewhere: its distinct tokens in order of first
+        appearance, and each token's index into them (what :func:`tokenise_part` returns).
+
+        The result is the same as :meth:`add_text` on the chunk's text.
+        """
+        if not len(positions):
+            return
+        unlisted_before = self.unlisted_tokens
+        fids, tids = self._ids_of(distinct)
+        fids, tids = fids[positions], tids[positions]
+        if self.unlisted_tokens != unlisted_before:
+            # _ids_of counted unlisted distinct tokens; the count is of occurrences.
+            self.unlisted_tokens = unlisted_before + int(np.count_nonzero(tids == self._unlisted))
+        self._add_ids(fids, tids)
+
+    def _add_ids(self, fids: np.ndarray, tids: np.ndarray) -> None:
         fids = np.concatenate((self._carry_forms, fids))
         tids = np.concatenate((self._carry_types, tids))
         ends = np.flatnonzero(tids == RAW_END)
@@ -409,7 +432,13 @@ class CorpusCounter:
     def _ids_of(self, found: list[str]) -> tuple[np.ndarray, np.ndarray]:
         """Form ids (-1 outside the dictionary) and raw type ids of tokens."""
         lookup = self._form_ids
-        # A list first: numpy converts a list of ints far faster than it drains an iterator.
+        if not self._full:
+            # New forms in order of first appearance; dict.fromkeys dedupes in C.
+            self._new_forms([t for t in dict.fromkeys(found) if t not in lookup])
+            if not self._full:
+                # A list first: numpy converts a list of ints far faster than it drains an iterator.
+                fids = np.array(list(map(lookup.__getitem__, found)), dtype=np.int32)
+                return fids, self._form_type[fids]
         fids = np.array(list(map(lookup.get, found, repeat(-1))), dtype=np.int32)
         missing = np.flatnonzero(fids < 0)
         if len(missing) and not self._full:
@@ -431,6 +460,36 @@ class CorpusCounter:
             return found
         self.unlisted_tokens += 1
         return self._unlisted
+
+    def _new_forms(self, tokens: list[str]) -> None:
+        """Add written forms in order, each as :meth:`_new_form` would, in bulk while all fit.
+
+        Near a dictionary limit the forms are added one at a time, so the
+        dictionaries fill exactly as far as they would word by word.
+        """
+        if not tokens:
+            return
+        forms = [model_form(t) for t in tokens]
+        types = self._type_ids
+        new_types = dict.fromkeys(f for t, f in zip(tokens, forms) if not is_sentence_end(t) and f not in types)
+        cost = sum(map(sys.getsizeof, tokens)) + FORM_ENTRY_BYTES * len(tokens)
+        cost += sum(map(sys.getsizeof, new_types)) + TYPE_ENTRY_BYTES * len(new_types)
+        if self.dictionary_bytes + cost > self._dictionary_limit or len(self._types) + len(new_types) + 1 >= self._max_types:
+            for token in tokens:
+                self._new_form(token)
+            return
+        for form in new_types:
+            self._new_type(form)
+        first = len(self._forms)
+        stop = first + len(tokens)
+        while stop > len(self._form_type):
+            self._form_type = _grown(self._form_type)
+            self._noninitial = _grown(self._noninitial)
+            self._initial = _grown(self._initial)
+        self._form_type[first:stop] = [RAW_END if is_sentence_end(t) else types[f] for t, f in zip(tokens, forms)]
+        self._form_ids.update(zip(tokens, range(first, stop)))
+        self._forms.extend(tokens)
+        self.dictionary_bytes += cost
 
     def _new_form(self, token: str) -> None:
         """Add a written form (and its model form if new), unless the dictionaries are full."""
@@ -643,17 +702,73 @@ def count_corpus(
     # Read chunks of the budget's size, never more than the default.
     reading = {"chunk_bytes": piece} if piece < CHUNK_BYTES else {}
     done = 0
-    for path in found.files:
-        for chunk in iter_chunks(path, replace_bad_bytes=replace_bad_bytes, **reading):
-            for part in split_text(chunk, piece):
-                counter.add_text(part)
+    with _tokenisers(total, counter.budget) as pool:
+        pending: deque[Any] = deque()
+
+        def drain(keep: int) -> None:
+            while len(pending) > keep:
+                distinct, positions = pending.popleft().get()
+                counter.add_tokenized(distinct, positions)
+
+        for path in found.files:
+            for chunk in iter_chunks(path, replace_bad_bytes=replace_bad_bytes, **reading):
+                for part in split_text(chunk, piece):
+                    if pool is None:
+                        counter.add_text(part)
+                    else:
+                        pending.append(pool.apply_async(tokenise_part, (part, wrapped)))
+                        drain(TOKENISERS_AHEAD)
+                if min_count is not None and pool is None:
+                    counter.check_vocabulary_limit(min_count)
+                done += len(chunk)  # characters, close enough to bytes for a progress bar
+                if progress:
+                    progress(min(done, total), total)
+            drain(0)
             if min_count is not None:
                 counter.check_vocabulary_limit(min_count)
-            done += len(chunk)  # characters, close enough to bytes for a progress bar
-            if progress:
-                progress(min(done, total), total)
-        counter.end_document()
+            counter.end_document()
     return counter.finish()
+
+
+PARALLEL_MIN_BYTES = 16 << 20
+"""Corpora at least this large are tokenised by worker processes (when the machine has two cores or more)."""
+
+PARALLEL_MIN_BUDGET = 1 << 30
+"""Workers hold chunks of text outside the build's own memory: used only with a budget this large."""
+
+TOKENISERS_AHEAD = 4
+"""Chunks handed to the workers before the first result is awaited."""
+
+
+def tokenise_part(text: str, wrapped: bool) -> tuple[list[str], np.ndarray]:
+    """Tokenise a chunk for :meth:`CorpusCounter.add_tokenized` (runs in a worker process).
+
+    Returns:
+        The distinct tokens in order of first appearance, and an int32 array of
+        shape (tokens,) giving each token's index into them.
+    """
+    found = tokens(text, wrapped=wrapped)
+    distinct = list(dict.fromkeys(found))
+    index = {token: i for i, token in enumerate(distinct)}
+    return distinct, np.array(list(map(index.__getitem__, found)), dtype=np.int32)
+
+
+@contextmanager
+def _tokenisers(total_bytes: int, budget: MemoryBudget) -> Iterator[Any]:
+    """A pool of tokenising worker processes, or None where one would not pay."""
+    cores = os.cpu_count() or 1
+    usable = cores > 1 and total_bytes >= PARALLEL_MIN_BYTES and budget.limit >= PARALLEL_MIN_BUDGET
+    if not usable or "fork" not in multiprocessing.get_all_start_methods():
+        yield None
+        return
+    # Regular expressions and dictionary lookups cost about 0.7 us a token in
+    # Python; two workers tokenise while this process counts.
+    pool = multiprocessing.get_context("fork").Pool(min(cores, 2))
+    try:
+        yield pool
+    finally:
+        pool.terminate()
+        pool.join()
 
 
 def split_text(text: str, size: int) -> Iterator[str]:

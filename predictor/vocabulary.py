@@ -13,6 +13,7 @@ Special symbols follow the words: ``UNKNOWN`` has id V, ``END`` id V + 1 and
 
 from __future__ import annotations
 
+from bisect import bisect_left
 from collections.abc import Sequence
 from dataclasses import dataclass
 
@@ -200,13 +201,11 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
     prefixes = sorted({word[:end] for word in words for end in range(1, len(word) + 1)})
     trie = marisa_trie.Trie(prefixes)
     keys = len(prefixes)
-    sorted_words = np.array(words, dtype=object)
-    prefix_array = np.array(prefixes, dtype=object)
-    lo = np.searchsorted(sorted_words, prefix_array, side="left")
-    hi = np.searchsorted(sorted_words, np.array([p + "\U0010ffff" for p in prefixes], dtype=object), side="left")
-    is_word = np.zeros(keys, dtype=bool)
-    in_range = lo < size
-    is_word[in_range] = sorted_words[lo[in_range]] == prefix_array[in_range]
+    word_list = list(words)
+    # bisect on a list of str is about twice as fast as numpy's search over an object array.
+    lo = np.array([bisect_left(word_list, p) for p in prefixes], dtype=np.int64)
+    hi = np.array([bisect_left(word_list, p + "\U0010ffff") for p in prefixes], dtype=np.int64)
+    is_word = np.array([i < size and word_list[i] == p for i, p in zip(lo.tolist(), prefixes)], dtype=bool)
     # Rank of each word in the global unigram order (probability descending, id ascending).
     global_order = np.lexsort((np.arange(size), -unigram)).astype(np.int32)
     rank = np.empty(size, dtype=np.int64)

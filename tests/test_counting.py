@@ -151,3 +151,27 @@ def test_words_outside_the_vocabulary_are_counted_as_the_unknown_token(verses, c
             word = predictor.UNKNOWN if w == "<unk>" else (predictor.END if w == "</s>" else w)
             context = tuple(predictor.UNKNOWN if x == "<unk>" else x for x in (u, v) if x != "<s>")
             assert model.prob(word, context) == pytest.approx(expected, rel=1e-6)
+
+
+def test_counting_with_tokenising_workers_gives_exactly_the_sequential_counts(tmp_path, monkeypatch):
+    # Exact equality with the single-process count is the reference (a property of the design).
+    import predictor.counting as counting
+
+    lines = []
+    for i in range(4000):
+        lines.append(f"Crossing {i % 97} leaves at 7:{i % 60:02d}, don't be late! Word{i % 1313} and café-{i % 7}.")
+    corpus = tmp_path / "corpus.txt"
+    corpus.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    sequential = counting.count_corpus([corpus])
+    monkeypatch.setattr(counting, "PARALLEL_MIN_BYTES", 0)
+    monkeypatch.setattr(counting, "PARALLEL_MIN_BUDGET", 0)
+    monkeypatch.setattr(counting, "CHUNK_BYTES", 1 << 14)
+    parallel = counting.count_corpus([corpus], budget=None)
+    assert parallel.types == sequential.types
+    assert parallel.display == sequential.display
+    assert np.array_equal(parallel.type_counts, sequential.type_counts)
+    assert (parallel.corpus_tokens, parallel.sentences) == (sequential.corpus_tokens, sequential.sentences)
+    for name in ("table", "heldout"):
+        ours, theirs = getattr(parallel, name), getattr(sequential, name)
+        for column in "uvwn":
+            assert np.array_equal(getattr(ours, column), getattr(theirs, column))

@@ -42,7 +42,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces, blank lines end sentences")
     p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
     p.add_argument("--reject-binary", action="store_true", help="fail on binary files inside folders instead of skipping them")
-    p.add_argument("--values", choices=ENCODINGS, default=None, help="stored value encoding (default log16; float32 for mle)")
+    p.add_argument("--values", choices=ENCODINGS, default=None, help="stored value encoding (default log16; float32 for katz and mle)")
     p.add_argument(
         "--max-memory",
         type=_memory_size,

@@ -50,7 +50,7 @@ def fit_levels(counts: ModelCounts, method: str, *, add: float = 0.1, encoding: 
         counts: the vocabulary's counts.
         method: one of :data:`METHODS`.
         add: k for ``additive``.
-        encoding: value encoding (:data:`ENCODINGS`); default log16, float32 for ``mle``.
+        encoding: value encoding (:data:`ENCODINGS`); default log16, float32 for ``mle`` and ``katz``.
 
     Returns:
         ``(sections, meta)``: the ``p1``, ``l2.*`` and ``l3.*`` arrays, and what
@@ -58,7 +58,9 @@ def fit_levels(counts: ModelCounts, method: str, *, add: float = 0.1, encoding: 
     """
     result = estimate(counts, method, add)
     if encoding is None:
-        encoding = FLOAT32 if method == "mle" else LOG16
+        # Back-off weights cannot absorb rounding where a context's seen words cover every
+        # outcome, so the back-off estimators keep exact float32 values by default.
+        encoding = FLOAT32 if method in ("mle", "katz") else LOG16
     if encoding not in ENCODINGS:
         raise OptionError(f"unknown value encoding {encoding!r}; choose one of {', '.join(ENCODINGS)}")
     layout = counts.layout
