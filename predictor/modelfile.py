@@ -50,6 +50,8 @@ from typing import Any
 
 import numpy as np
 
+from .atomic import remove_quietly as _remove_quietly
+from .atomic import sync_directory as _sync_directory
 from .errors import ModelFileError, ModelVersionError, OutputError
 from .scratch import TEMP_PREFIX, lock_exclusively, remove_stale
 
@@ -224,24 +226,6 @@ def _align(position: int) -> int:
     return (position + _ALIGN - 1) // _ALIGN * _ALIGN
 
 
-def _remove_quietly(name: str) -> None:
-    try:
-        os.unlink(name)
-    except OSError:
-        pass
-
-
-def _sync_directory(directory: Path) -> None:
-    try:
-        fd = os.open(directory, os.O_RDONLY)
-    except OSError:
-        return
-    try:
-        os.fsync(fd)
-    except OSError:
-        pass
-    finally:
-        os.close(fd)
 
 
 def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> ModelFile:
