@@ -733,8 +733,9 @@ def count_corpus(
 PARALLEL_MIN_BYTES = 16 << 20
 """Corpora at least this large are tokenised by worker processes (when the machine has two cores or more)."""
 
-PARALLEL_MIN_BUDGET = 1 << 30
-"""Workers hold chunks of text outside the build's own memory: used only with a budget this large."""
+PARALLEL_MIN_BUDGET = 4 << 30
+"""Workers hold a chunk of text and its tokens each (about 100 MB) outside the build's own
+memory, so they are used only with a budget this large; below it the build tokenises itself."""
 
 TOKENISERS_AHEAD = 4
 """Chunks handed to the workers before the first result is awaited."""
