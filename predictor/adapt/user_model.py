@@ -529,29 +529,18 @@ class UserModel:
             out[name] = float(self.worth(bucket) * n / (n + beta)) if self.settings.learning and n > 0 else 0.0
         return out
 
+    def _level(self, table: Followers | None) -> tuple[Followers | None, np.ndarray, np.ndarray, float, float]:
+        """(table or None, ids, weights, total, lower-order weight) of one context's followers."""
+        if table is None or table.total <= 0:
+            return None, _EMPTY_IDS, _EMPTY_WEIGHTS, 0.0, 1.0
+        ids, weights = table.view()
+        total = table.total
+        return table, ids, weights, total, len(table) / (len(table) + total / self._scale)
+
     def context(self, u: int, v: int) -> UserContext:
         """Gather the counts after (u, v) for scoring."""
-        scale = self._scale
-        three = self._ctx3.get((u, v)) if v != self.unknown_id else None
-        if three is not None and three.total > 0:
-            ids3, weights3 = three.view()
-        else:
-            three = None
-        if three is not None:
-            total3 = three.total
-            gamma3 = len(three) / (len(three) + total3 / scale)
-        else:
-            ids3, weights3, total3, gamma3 = _EMPTY_IDS, _EMPTY_WEIGHTS, 0.0, 1.0
-        two = self._ctx2.get(v)
-        if two is not None and two.total > 0:
-            ids2, weights2 = two.view()
-        else:
-            two = None
-        if two is not None:
-            total2 = two.total
-            gamma2 = len(two) / (len(two) + total2 / scale)
-        else:
-            ids2, weights2, total2, gamma2 = _EMPTY_IDS, _EMPTY_WEIGHTS, 0.0, 1.0
+        three, ids3, weights3, total3, gamma3 = self._level(self._ctx3.get((u, v)) if v != self.unknown_id else None)
+        two, ids2, weights2, total2, gamma2 = self._level(self._ctx2.get(v))
         bucket = 2 if total3 > 0 else 1 if total2 > 0 else 0
         return UserContext(ids3, weights3, total3, gamma3, ids2, weights2, total2, gamma2, self._total, bucket, three, two)
 
