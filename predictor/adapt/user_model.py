@@ -529,7 +529,7 @@ class UserModel:
             out[name] = float(self.worth(bucket) * n / (n + beta)) if self.settings.learning and n > 0 else 0.0
         return out
 
-    def _level(self, table: Followers | None) -> tuple[Followers | None, np.ndarray, np.ndarray, float, float]:
+    def _followers_of(self, table: Followers | None) -> tuple[Followers | None, np.ndarray, np.ndarray, float, float]:
         """(table or None, ids, weights, total, lower-order weight) of one context's followers."""
         if table is None or table.total <= 0:
             return None, _EMPTY_IDS, _EMPTY_WEIGHTS, 0.0, 1.0
@@ -539,8 +539,8 @@ class UserModel:
 
     def context(self, u: int, v: int) -> UserContext:
         """Gather the counts after (u, v) for scoring."""
-        three, ids3, weights3, total3, gamma3 = self._level(self._ctx3.get((u, v)) if v != self.unknown_id else None)
-        two, ids2, weights2, total2, gamma2 = self._level(self._ctx2.get(v))
+        three, ids3, weights3, total3, gamma3 = self._followers_of(self._ctx3.get((u, v)) if v != self.unknown_id else None)
+        two, ids2, weights2, total2, gamma2 = self._followers_of(self._ctx2.get(v))
         bucket = 2 if total3 > 0 else 1 if total2 > 0 else 0
         return UserContext(ids3, weights3, total3, gamma3, ids2, weights2, total2, gamma2, self._total, bucket, three, two)
 
