@@ -134,6 +134,7 @@ class LanguageModel:
         self._ranks = RankLists(sections)
         self._root_values: np.ndarray | None = None
         self._table = DECODE_TABLE if self._a2.dtype == np.uint16 else None
+        self._last_context: tuple[int, int, _Slots, float] = (-1, -1, _Slots(-1, 0, 0, -1, 0, 0, False), 1.0)
 
     # ----------------------------------------------------------------- facts
     @property
@@ -203,6 +204,16 @@ class LanguageModel:
             if hi3 > lo3:
                 return _Slots(v, lo2, hi2, slot, lo3, hi3, True)
         return _Slots(v, lo2, hi2, -1, 0, 0, False)
+
+    def _context(self, u: int, v: int) -> tuple[_Slots, float]:
+        """The slots and level-3 weight of a context; the last one is kept, since queries come in runs per context."""
+        last = self._last_context  # one read: other threads may replace it meanwhile
+        if last[0] == u and last[1] == v:
+            return last[2], last[3]
+        slots = self._slots(u, v)
+        gamma3 = self._gamma3(slots)
+        self._last_context = (u, v, slots, gamma3)
+        return slots, gamma3
 
     def _root_unigram(self) -> np.ndarray:
         """Negated unigram probabilities of the whole vocabulary in its ranked order (ascending)."""
@@ -309,10 +320,10 @@ class LanguageModel:
             the default ids, word ids then UNKNOWN (V) then END (V + 1).
         """
         u, v = self.context_ids(context)
-        slots = self._slots(u, v)
+        slots, gamma3 = self._context(u, v)
         if ids is None:
             ids = np.arange(self._size + 2)
-        scores, _, _ = self._scores(np.asarray(ids, dtype=np.int64), slots, self._gamma3(slots))
+        scores, _, _ = self._scores(np.asarray(ids, dtype=np.int64), slots, gamma3)
         return scores
 
     def suggest(self, context: Sequence[str] = (), prefix: str = "", k: int = 5) -> list[Suggestion]:
@@ -340,8 +351,28 @@ class LanguageModel:
         found = self.vocab.prefix_range(model_form(prefix) if prefix else "")
         if found is None:
             return []
-        slots = self._slots(u, v)
-        gamma3 = self._gamma3(slots)
+        ids, probs, orders = self.top_in_range(u, v, found, k)
+        display = self.vocab.display
+        return [Suggestion(display(i), p, o, i) for i, p, o in zip(ids.tolist(), probs.tolist(), orders)]
+
+    def top_in_range(self, u: int, v: int, found: PrefixRange, k: int) -> tuple[np.ndarray, np.ndarray, list[int]]:
+        """The exact k most probable words of an id range after a context, without their display forms.
+
+        This is :meth:`suggest_ids` for callers that combine the answer with
+        another source (:mod:`predictor.adapt.combined`) and need ids and
+        probabilities, not strings.
+
+        Args:
+            u, v: the context ids (from :meth:`context_ids`).
+            found: the id range of a prefix (:meth:`Vocabulary.prefix_range`).
+            k: how many words at most (positive).
+
+        Returns:
+            ``(ids, probs, orders)``: int64 ids and float64 probabilities of shape
+            (n,), n <= k, by probability descending, ties by id ascending; and the
+            order (1, 2 or 3) that supplied most of each probability.
+        """
+        slots, gamma3 = self._context(u, v)
         explicit, stored, run = self._explicit_candidates(slots, gamma3, found, k)
         scores, a2, a3 = self._scores(explicit, slots, gamma3, run)
         factor = (gamma3 if slots.has3 else 1.0) * (float(self._g2[slots.v]) if slots.hi2 > slots.lo2 else 1.0)
@@ -354,10 +385,31 @@ class LanguageModel:
             a2 = None if a2 is None else np.concatenate((a2, nothing))
             a3 = None if a3 is None else np.concatenate((a3, nothing))
         top = np.lexsort((explicit, -scores))[:k]
-        probs = scores[top].tolist()
-        orders = self._orders(probs, None if a2 is None else a2[top].tolist(), None if a3 is None else a3[top].tolist(), gamma3)
-        display = self.vocab.display
-        return [Suggestion(display(i), p, o, i) for i, p, o in zip(explicit[top].tolist(), probs, orders)]
+        probs = scores[top]
+        orders = self._orders(probs.tolist(), None if a2 is None else a2[top].tolist(), None if a3 is None else a3[top].tolist(), gamma3)
+        return explicit[top], probs, orders
+
+    def probabilities_of(self, u: int, v: int, ids: np.ndarray) -> np.ndarray:
+        """P(w | u v) of outcome ids after a context given by ids (what :meth:`distribution` gives).
+
+        Args:
+            u, v: the context ids (from :meth:`context_ids`).
+            ids: int64 outcome ids of shape (n,): words, UNKNOWN or END.
+
+        Returns:
+            float64 array of shape (n,).
+        """
+        slots, gamma3 = self._context(u, v)
+        return self._scores(ids, slots, gamma3)[0]
+
+    def orders_of(self, u: int, v: int, ids: np.ndarray) -> list[int]:
+        """Which n-gram order (1, 2 or 3) supplied most of each id's probability after a context.
+
+        The same order :meth:`suggest_ids` reports for a suggested word.
+        """
+        slots, gamma3 = self._context(u, v)
+        probs, a2, a3 = self._scores(ids, slots, gamma3)
+        return self._orders(probs.tolist(), None if a2 is None else a2.tolist(), None if a3 is None else a3.tolist(), gamma3)
 
     def _explicit_candidates(self, slots: _Slots, gamma3: float, found: PrefixRange, k: int) -> tuple[np.ndarray, np.ndarray, int]:
         """Classes A and B: distinct candidate ids among the words stored after the context.

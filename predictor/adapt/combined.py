@@ -25,35 +25,35 @@ prefix, and, while learning is on, new words used ``min_uses`` times; minus
 the never-suggest list.
 
 1. List A is the base model's own exact top-a of R's base words (its
-   ``suggest_ids``: by P_base descending, ties by id, that is by word); a starts
-   at k + 4 (a few words past the k-th keep the bound below tight).  Each word
-   of A is scored exactly.
-2. Every other word of R has P_base <= p_a, the P_base of A's last word (0 once
-   A holds all of R's base words: only new words are left, with P_base = 0),
-   so its probability is at most m * p_a + mu * P_user(w) and at least
-   mu * P_user(w), and P_user(w) is known without the base model: for class X,
-   the words the user model saw after (u, v) or after v, it is computed once
-   per context; for every other counted word it is g3 * (g2 * c(w) / N), the
-   Witten-Bell chain with nothing above the unigram, which grows with c(w).
-3. L is the k-th largest of A's exact scores, the floors mu * P_user of class
-   X's words in R and the floors of the k most counted other words of R (the
-   k largest floors of that class, since its floor grows with the count).
-   Each value belongs to a different word and is at most that word's score,
-   so L never exceeds the final k-th score.  Every word outside A whose bound
-   reaches L (X's part of R is one slice of the prepared context; the other
-   counted words are read by count, down to the count where the bound falls
-   below L) gets its P_base in one call and is scored exactly; any other word
-   is bounded below L, so strictly below the k-th score.
-4. The words left never counted by the user model and outside A score
-   m * P_base <= m * p_a.  If the k-th best score exceeds that bound, the top k
-   is final.  If it equals it, it is final when the k-th word sorts no later
-   than A's last word and no smaller base value rounds to m * p_a: an unread
-   base word can then only tie, and it sorts after A's last word.  Otherwise A
-   is read four times deeper and the walk repeats (the threshold algorithm of
-   Fagin, Lotem & Naor 2003, with list A doing the sorted access of the base).
+   ``top_in_range``: by P_base descending, ties by id, that is by word); a
+   starts at k + 4 (a few words past the k-th keep the bound below tight).
+   Each word of A is scored exactly.
+2. The pool is every suggestable word the user model has counted, kept in
+   sort-key order; per context it carries each word's P_user: the exact value
+   for the words seen after (u, v) or after v, and g3 * (g2 * c(w) / N), the
+   Witten-Bell chain with nothing above the unigram, for the others.  R's part
+   of the pool is one slice.  A word never counted has P_user = 0.
+3. Every word of R outside A has P_base <= p_a, the P_base of A's last word
+   (0 once A holds all of R's base words: only new words are left, with
+   P_base = 0), so its probability is at most m * p_a + mu * P_user(w) and at
+   least mu * P_user(w).  L is the k-th best of A's exact scores (raised, when
+   many pool words reach it, to the k-th best floor mu * P_user of the slice's
+   words outside A).  Each value belongs to a different word and is at most
+   that word's score, so L never exceeds the final k-th score.  Every pool
+   word outside A whose bound reaches L gets its P_base in one call and is
+   scored exactly; any other pool word is bounded below L, so strictly below
+   the k-th score.
+4. The words left, never counted and outside A, score m * P_base <= m * p_a.
+   If the k-th best score exceeds that bound, the top k is final.  If it
+   equals it, it is final when the k-th word sorts no later than A's last word
+   and no smaller base value rounds to m * p_a: an unread base word can then
+   only tie, and it sorts after A's last word.  Otherwise A is read four times
+   deeper and the walk repeats (the threshold algorithm of Fagin, Lotem & Naor
+   2003, with list A doing the sorted access of the base).
 5. Where mu is 0 (no evidence yet in the context's bucket) new words score
-   exactly 0; they are added when the k-th score is 0 or fewer than k words
-   score at all, since ties go by word.
+   exactly 0; they are pool words whose bound is m * p_a, so they are read
+   when the k-th score is 0 or fewer than k words score at all (ties go by
+   word).
 
 The arithmetic is the one :meth:`AdaptedModel.distribution` uses, every
 bound is computed with the same operations in the same order (each one
@@ -82,11 +82,11 @@ from .never_list import NeverList
 from .settings import AdaptSettings
 from .user_model import UserContext, UserModel
 
-_SCORE_ALL = 96
-"""A prefix with at most this many counted words has them listed directly; with more, the global by-count list is read."""
 _GUARD = 4
 """List A is first read to k + this many words: its k-th word already bounds every unread one,
 and one more makes the bound strict in the usual case."""
+_FEW_REACHING = 32
+"""When more words than this reach the first threshold, it is raised by the pool's own floors first."""
 _KEY_SHIFT = 21
 """Sort keys: a base id i is (i << 21) | (2**21 - 1); the j-th new word sorting just before base word i is (i << 21) | j."""
 _BASE_KEY_LOW = (1 << _KEY_SHIFT) - 1
@@ -120,29 +120,22 @@ class AdaptedSuggestion(NamedTuple):
 class _Context:
     """What one context needs for every prefix typed after it (cached between queries).
 
-    Class X, the suggestable words seen after (u, v) or after v, has its user
-    probabilities computed once per context, in sort-key order so that a
-    prefix's part of it is one slice; their base probabilities are fetched per
-    query, only for the words that could make the top k.
+    The pool is every suggestable word the user model has counted, in sort-key
+    order so that a prefix's part of it is one slice, with its user
+    probability after this context; base probabilities are fetched per query,
+    only for the words that could make the top k.
     """
 
     mu: float
     user: UserContext | None
-    base_words: list[str]
     ub: int
     vb: int
-    x_keys: np.ndarray
-    """int64 sort keys of class X, ascending."""
-    x_ids: np.ndarray
-    """int64 ids of class X, in the order of x_keys."""
-    x_user: np.ndarray
-    """float64 user probabilities of x_ids."""
-    x_members: np.ndarray
-    """int64 ids of class X sorted by id, for membership tests."""
-    x_where: dict[int, int]
-    """Position of each class-X id in x_ids."""
-    x_user_list: list[float]
-    """x_user as Python floats."""
+    keys: np.ndarray
+    """int64 sort keys of the pool, ascending."""
+    ids: np.ndarray
+    """int64 ids of the pool, in the order of keys."""
+    p_user: np.ndarray
+    """float64 P_user of the pool's words after this context."""
 
 
 class LearnedWord(NamedTuple):
@@ -213,6 +206,10 @@ class AdaptedModel:
         self._insertion: dict[int, int] = {}
         self._context_key: tuple[int, ...] | None = None
         self._context: _Context | None = None
+        self._pool_state: tuple = ()
+        self._pool_keys = self._pool_ids = self._pool_where = _NO_IDS
+        self._pool_share_key: tuple[int, int] = (-1, -1)
+        self._pool_share = _NO_PROBS
 
     def reset(self, user: UserModel, never_entries: Sequence[str]) -> None:
         """Replace the learned counts and the never-suggest entries (everything derived is rebuilt).
@@ -229,6 +226,7 @@ class AdaptedModel:
         self._insertion = {}
         self._context_key = None
         self._context = None
+        self._pool_state = ()
 
     # ----------------------------------------------------------------- facts
     @property
@@ -295,7 +293,7 @@ class AdaptedModel:
         worth = user.worth(uctx.bucket)
         p_user = float(user.probabilities(np.array([w], dtype=np.int64), uctx)[0])
         target = user.unknown_id if user.is_learned(w) else w
-        p_base = float(self.base.distribution(self._base_context(u, v), np.array([target], dtype=np.int64))[0])
+        p_base = float(self.base.probabilities_of(*self._base_ids(u, v), np.array([target], dtype=np.int64))[0])
         mine = worth * p_user
         total = mine + (1.0 - worth) * p_base
         return mine / total if total > 0 else 0.0
@@ -321,11 +319,6 @@ class AdaptedModel:
         unknown = self.user.unknown_id
         return (unknown if u >= first else u), (unknown if v >= first else v)
 
-    def _base_context(self, u: int, v: int) -> list[str]:
-        """The context as words the base model maps back to (u', v')."""
-        vocab = self.base.vocab
-        return [vocab.word(i) for i in self._base_ids(u, v)]
-
     def _prepared(self, u: int, v: int) -> _Context:
         """The cached per-context data for (u, v), rebuilt when anything it depends on changed."""
         user = self.user
@@ -334,40 +327,58 @@ class AdaptedModel:
             return self._context
         self._refresh_filters()
         ub, vb = self._base_ids(u, v)
-        vocab = self.base.vocab
-        base_words = [vocab.word(ub), vocab.word(vb)]
         uctx = user.context(u, v)
         mu = user.share(uctx)
-        members = keys = x_ids = _NO_IDS
-        x_user = _NO_PROBS
-        if mu > 0.0:
-            members, members_user = user.followers(uctx)
-            # Sort keys of -1 mark blocked words and new words not used often enough; symbols are dropped too.
-            keys = self._keys_any(members)
-            keep = (keys >= 0) & ((members < user.base_size) | (members >= user.first_learned_id))
-            if not keep.all():
-                members, members_user, keys = members[keep], members_user[keep], keys[keep]
-            if len(members) and members[-1] >= user.first_learned_id:
-                by_key = np.argsort(keys)
-                keys, x_ids, x_user = keys[by_key], members[by_key], members_user[by_key]
-            else:
-                x_ids, x_user = members, members_user  # base ids alone: id order is key order
+        keys, ids = self._pool_keys, self._pool_ids
+        if mu > 0.0 and uctx.total1 > 0:
+            # Outside the words seen after (u, v) or v, P_user is the Witten-Bell chain over the
+            # unigram alone: (1 - g3) * 0.0 + g3 * ((1 - g2) * 0.0 + g2 * p1) is g3 * (g2 * p1) exactly.
+            p_user = uctx.gamma3 * (uctx.gamma2 * self._pool_unigram(uctx.total1))
+            keys, ids, p_user = self._with_followers(uctx, keys, ids, p_user)
         else:
-            uctx = None
-        x_list = x_ids.tolist()
-        self._context = _Context(mu, uctx, base_words, ub, vb, keys, x_ids, x_user, members, dict(zip(x_list, range(len(x_list)))), x_user.tolist())
+            p_user = np.zeros(len(ids), dtype=np.float64)
+            if mu <= 0.0:
+                mu, uctx = 0.0, None
+        self._context = _Context(mu, uctx, ub, vb, keys, ids, p_user)
         self._context_key = key
         return self._context
 
+    def _with_followers(self, uctx: UserContext, keys: np.ndarray, ids: np.ndarray, p_user: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """The pool with the exact P_user of the words seen after (u, v) or after v.
+
+        Those words are counted, so they are normally in the pool already; a
+        follower the pool lacks (a hand-edited file can hold one) is merged in.
+        """
+        members, members_user = self.user.followers(uctx)
+        where = self._pool_where
+        at = where[np.minimum(members, len(where) - 1)]  # the last slot is -1: ids past it are not pooled
+        hit = at >= 0
+        p_user[at[hit]] = members_user[hit]
+        if hit.all():
+            return keys, ids, p_user
+        strays, strays_user = members[~hit], members_user[~hit]
+        user = self.user
+        if all(user.base_size <= i < user.first_learned_id for i in strays.tolist()):
+            return keys, ids, p_user  # END and UNKNOWN are never suggested
+        stray_keys = self._keys_any(strays)
+        keep = (stray_keys >= 0) & ((strays < self.user.base_size) | (strays >= self.user.first_learned_id))
+        if not keep.any():
+            return keys, ids, p_user  # symbols, blocked words and new words not used enough
+        keys = np.concatenate((keys, stray_keys[keep]))
+        ids = np.concatenate((ids, strays[keep]))
+        p_user = np.concatenate((p_user, strays_user[keep]))
+        order = np.argsort(keys, kind="stable")
+        return keys[order], ids[order], p_user[order]
+
     # ------------------------------------------------------------ scoring
-    def _base_probs(self, ids: np.ndarray, context_words: list[str]) -> np.ndarray:
-        """P_base of ids (0 for new words and START)."""
+    def _base_probs(self, ids: np.ndarray, ub: int, vb: int) -> np.ndarray:
+        """P_base of ids after the base context (0 for new words and START)."""
         inside = ids <= self.user.end_id
         if inside.all():
-            return self.base.distribution(context_words, ids)
+            return self.base.probabilities_of(ub, vb, ids)
         out = np.zeros(len(ids), dtype=np.float64)
         if inside.any():
-            out[inside] = self.base.distribution(context_words, ids[inside])
+            out[inside] = self.base.probabilities_of(ub, vb, ids[inside])
         return out
 
     @staticmethod
@@ -393,7 +404,7 @@ class AdaptedModel:
             ids = np.arange(user.first_learned_id + user.learned_count, dtype=np.int64)
         ids = np.asarray(ids, dtype=np.int64)
         prepared = self._prepared(u, v)
-        base = self._base_probs(ids, prepared.base_words)
+        base = self._base_probs(ids, prepared.ub, prepared.vb)
         if prepared.user is None:
             return self._combine(0.0, base, np.zeros(len(ids)))
         return self._combine(prepared.mu, base, user.probabilities(ids, prepared.user))
@@ -459,60 +470,40 @@ class AdaptedModel:
     def _exact_top(self, prepared: _Context, prefix: str, k: int) -> list[AdaptedSuggestion]:
         """The threshold walk of the module docstring.
 
-        Candidates are (-probability, sort key, id, P_base, P_user) tuples; the
-        arithmetic on them is the arithmetic of :meth:`distribution`, one
-        IEEE double operation at a time in the same order (numpy's elementwise
-        operations round as Python's do).
+        Scores use the arithmetic of :meth:`distribution`, one IEEE double
+        operation at a time in the same order (numpy's elementwise operations
+        round as Python's do); candidates are (-probability, sort key, id,
+        P_base, P_user) rows, sorted.
         """
-        user = self.user
         form = model_form(prefix)
         span = self.base.vocab.prefix_range(form)
         key_range = self._key_range(form, span)
         if key_range is None:
             return []
-        klo, khi = key_range
         mu = prepared.mu
         m = 1.0 - mu
-        uctx = prepared.user
+        lo, hi = prepared.keys.searchsorted(np.array((key_range[0], key_range[1] + 1), dtype=np.int64)).tolist()
+        pool = _Slice(prepared.keys[lo:hi], prepared.ids[lo:hi], prepared.p_user[lo:hi])
         blocked = self._blocked_set
-        if uctx is not None and uctx.total1 > 0:
-            g3, g2, total1 = uctx.gamma3, uctx.gamma2, uctx.total1
-        else:
-            g3 = g2 = total1 = 0.0
-        weights = user.unigram_table()
-        x_where, x_user = prepared.x_where, prepared.x_user_list
         a_depth = k + _GUARD
         while True:
             # List A: the base model's own exact ranking of the range's base words.
-            listed = self.base.suggest_ids(prepared.ub, prepared.vb, prefix, a_depth) if span is not None else []
-            a_done = len(listed) < a_depth
-            a_last = listed[-1][1] if listed and not a_done else 0.0
-            a_set = {s[3] for s in listed}
-            rows = []
-            for s in listed:
-                i = s[3]
-                if i in blocked:
-                    continue
-                pb = s[1]
-                at = x_where.get(i)
-                if at is not None:
-                    pu = x_user[at]
-                else:
-                    pu = g3 * (g2 * (weights[i] / total1)) if total1 and weights[i] else 0.0
-                rows.append((-(m * pb + mu * pu), (i << _KEY_SHIFT) | _BASE_KEY_LOW, i, pb, pu))
-            if uctx is not None:
-                # Classes X and counted: every word whose bound reaches the k-th lower bound gets
-                # its base probability, all in one call.
-                ids, user_p = self._reaching(rows, prepared, span, form, klo, khi, a_set, a_last, k)
-                if len(ids):
-                    base_p = self._base_probs(ids, prepared.base_words)
-                    scores = (-(m * base_p + mu * user_p)).tolist()
-                    rows.extend(zip(scores, self._keys(ids).tolist(), ids.tolist(), base_p.tolist(), user_p.tolist()))
-            elif user.settings.learning and self._needs_zero_words(rows, k):
-                # mu is 0 here (no evidence yet in this bucket): new words score exactly 0 and
-                # matter only when the k-th score is 0 too (ties go by word) or words are few.
-                rows.extend((-0.0, key, i, 0.0, 0.0) for i, key in self._new_words_in_range(form))
+            if span is not None:
+                found, found_base, found_orders = self.base.top_in_range(prepared.ub, prepared.vb, span, a_depth)
+            else:
+                found, found_base, found_orders = _NO_IDS, _NO_PROBS, []
+            a_done = len(found) < a_depth
+            a_ids, a_base = found.tolist(), found_base.tolist()
+            a_last = a_base[-1] if a_ids and not a_done else 0.0
+            a_user = pool.p_user_of(found).tolist()
+            rows = [(-(m * pb + mu * pu), (i << _KEY_SHIFT) | _BASE_KEY_LOW, i, pb, pu) for i, pb, pu in zip(a_ids, a_base, a_user) if i not in blocked]
             rows.sort()
+            # Every unread word of the range scores at most m * a_last + mu * P_user (its own P_user).
+            c_ids, c_user, c_keys = pool.reaching(m * a_last, mu, -rows[k - 1][0] if len(rows) >= k else -math.inf, set(a_ids), k)
+            if c_ids:
+                c_base = self._base_probs(np.array(c_ids, dtype=np.int64), prepared.ub, prepared.vb).tolist()
+                rows.extend((-(m * pb + mu * pu), key, i, pb, pu) for i, pb, pu, key in zip(c_ids, c_base, c_user, c_keys))
+                rows.sort()
             if a_done:
                 break
             if len(rows) >= k:
@@ -520,215 +511,32 @@ class AdaptedModel:
                 z_bound = m * a_last + mu * 0.0
                 if kth_score > z_bound:
                     break
-                # Unread base words score at most the bound and, when equal, sort after A's last word.
-                if kth_score == z_bound and _no_merge(m, a_last) and rows[k - 1][1] <= (listed[-1][3] << _KEY_SHIFT) | _BASE_KEY_LOW:
+                # Unread words outside the pool score at most the bound and, when equal, sort after A's last word.
+                if kth_score == z_bound and _no_merge(m, a_last) and rows[k - 1][1] <= (a_ids[-1] << _KEY_SHIFT) | _BASE_KEY_LOW:
                     break
             a_depth *= 4
-        chosen = rows[:k]
-        a_orders = {s[3]: s[2] for s in listed}
-        missing = {i for _, _, i, pb, pu in chosen if not mu * pu > m * pb and i not in a_orders and i < user.base_size}
+        return self._results(prepared, rows[:k], dict(zip(a_ids, found_orders)))
+
+    def _results(self, prepared: _Context, chosen: list[tuple], base_orders: dict[int, int]) -> list[AdaptedSuggestion]:
+        """Suggestions from the chosen (-probability, key, id, P_base, P_user) rows."""
+        user = self.user
+        mu = prepared.mu
+        m = 1.0 - mu
+        uctx = prepared.user
+        mine = [mu * pu > m * pb for _, _, _, pb, pu in chosen]
+        missing = [row[2] for row, own in zip(chosen, mine) if not own and row[2] not in base_orders and row[2] < user.base_size]
         if missing:
-            a_orders.update(self._base_orders(prepared, prefix, missing, a_depth))
+            base_orders = {**base_orders, **dict(zip(missing, self.base.orders_of(prepared.ub, prepared.vb, np.array(missing, dtype=np.int64))))}
         first_new = user.first_learned_id
         display = user.display
         results = []
-        for score, _, i, pb, pu in chosen:
-            mine = mu * pu > m * pb
-            if not mine and i in a_orders:
-                order_of = a_orders[i]
+        for (score, _, i, _, _), own in zip(chosen, mine):
+            if not own and i in base_orders:
+                order_of = base_orders[i]
             else:
                 order_of = user.order_of(i, uctx) if uctx is not None else 1
-            results.append(AdaptedSuggestion(display(i), float(-score), int(order_of), int(i), bool(mine), i >= first_new))
+            results.append(AdaptedSuggestion(display(i), float(-score), int(order_of), int(i), own, i >= first_new))
         return results
-
-    @staticmethod
-    def _needs_zero_words(rows: list[tuple], k: int) -> bool:
-        """Tell whether words scoring exactly 0 could be among the k best."""
-        if len(rows) < k:
-            return True
-        return sorted(rows)[k - 1][0] == 0.0
-
-    def _new_words_in_range(self, form: str) -> list[tuple[int, int]]:
-        """(id, sort key) of the suggestable new words starting with ``form``."""
-        forms = self._ready_forms
-        lo = bisect_left(forms, form)
-        hi = bisect_left(forms, form + "\U0010ffff") if form else len(forms)
-        return [(i, self._learned_keys[i]) for i in self._ready_ids[lo:hi]]
-
-    def _reaching(
-        self,
-        rows: list[tuple],
-        prepared: _Context,
-        span,  # noqa: ANN001 - PrefixRange | None
-        form: str,
-        klo: int,
-        khi: int,
-        a_set: set[int],
-        a_last: float,
-        k: int,
-    ) -> tuple[np.ndarray, np.ndarray]:
-        """The words of the range outside A that could be among the k best, and their user probabilities.
-
-        Such a word scores (1 - mu) * P_base + mu * P_user with P_base at most
-        ``a_last``, so it is bounded by ``(1 - mu) * a_last + mu * P_user`` and
-        floored by ``mu * P_user``.  The threshold L is the k-th largest of A's
-        exact scores, the floors of class X in the range and the floors of the
-        k most counted other words of the range: each belongs to a different
-        word, so L never exceeds the final k-th score, and a word bounded below
-        L cannot enter the top k.  Class X is one slice of the prepared context;
-        the counted words are read by count, where the bound only falls.
-
-        Returns:
-            ``(ids, user_probabilities)``: int64 and float64 arrays of the words whose bound reaches L.
-        """
-        mu = prepared.mu
-        edge = (1.0 - mu) * a_last
-        lower = [-r[0] for r in rows]
-        x_lo, x_hi = prepared.x_keys.searchsorted(np.array((klo, khi + 1), dtype=np.int64)).tolist()
-        x_ids, x_pu = prepared.x_ids[x_lo:x_hi], prepared.x_user[x_lo:x_hi]
-        if x_hi > x_lo:
-            x_where = prepared.x_where
-            inside = [at - x_lo for at in map(x_where.get, a_set) if at is not None and x_lo <= at < x_hi]
-            if inside:
-                keep = np.ones(x_hi - x_lo, dtype=bool)
-                keep[inside] = False
-                x_ids, x_pu = x_ids[keep], x_pu[keep]
-            floors = mu * x_pu
-            lower.extend((np.partition(floors, len(floors) - k)[len(floors) - k :] if len(floors) > k else floors).tolist())
-        threshold = _kth(lower, k)
-        c_ids, c_pu = self._counted_reaching(prepared, span, form, klo, khi, a_set, edge, lower, threshold, k)
-        if len(x_ids):
-            threshold = _kth(lower, k)
-            reach = edge + mu * x_pu >= threshold
-            if not reach.all():
-                x_ids, x_pu = x_ids[reach], x_pu[reach]
-        if not len(c_ids):
-            return x_ids, x_pu
-        if not len(x_ids):
-            return c_ids, c_pu
-        return np.concatenate((x_ids, c_ids)), np.concatenate((x_pu, c_pu))
-
-    def _counted_reaching(
-        self,
-        prepared: _Context,
-        span,  # noqa: ANN001 - PrefixRange | None
-        form: str,
-        klo: int,
-        khi: int,
-        a_set: set[int],
-        edge: float,
-        lower: list[float],
-        threshold: float,
-        k: int,
-    ) -> tuple[np.ndarray, np.ndarray]:
-        """Counted words of the range outside X and A whose bound reaches L (their floors join ``lower``).
-
-        Outside X a counted word's user probability is g3 * (g2 * c(w) / N),
-        which falls with the count, so the k most counted eligible words carry
-        the class's k largest floors, and reading by count stops at the first
-        word whose bound is below L.
-        """
-        uctx = prepared.user
-        assert uctx is not None
-        mu = prepared.mu
-        g3, g2, total1 = uctx.gamma3, uctx.gamma2, uctx.total1
-        weights = self.user.unigram_table()
-        ranked, minus = self.user.ranked()
-        if not len(ranked):
-            return _NO_IDS, _NO_PROBS
-        if len(lower) >= k and edge + mu * (g3 * (g2 * (-float(minus[0]) / total1))) < threshold:
-            return _NO_IDS, _NO_PROBS  # the most counted word of all bounds every other
-        a_ids = np.array(sorted(a_set), dtype=np.int64) if a_set else _NO_IDS
-        members = prepared.x_members
-        if len(lower) >= k:
-            # L is already known: the words whose bound reaches it are the most counted ones, found by
-            # bisecting the count list at a slightly lower count, then checked exactly.  The margins cover
-            # the rounding of the bound's sum (absolute, a few ulps of L) and of the inverted product.
-            scale = mu * g3 * g2
-            gap = threshold - edge - 4.0 * math.ulp(threshold)
-            if gap > 0.0 and scale > 0.0:
-                least = gap / scale * total1 * (1.0 - 1e-9)
-                stop = int(minus.searchsorted(-least, side="right"))
-                if stop <= _SCORE_ALL:
-                    ids = ranked[:stop]
-                    pu = g3 * (g2 * (weights[ids] / total1))
-                    keys = self._keys_any(ids)
-                    eligible = (keys >= klo) & (keys <= khi) & (edge + mu * pu >= threshold)
-                    if len(members):
-                        eligible &= ~_member(members, ids)
-                    if len(a_ids):
-                        eligible &= ~_member(a_ids, ids)
-                    return ids[eligible], pu[eligible]
-        counted = self._counted_in_range(span, form)
-        found_ids: list[np.ndarray] = []
-        found_pu: list[np.ndarray] = []
-        have = 0
-        position = 0
-        chunk = 4 * k + 16
-        source = ranked if counted is None else counted
-        while position < len(source):
-            ids = source[position : position + chunk]
-            position += len(ids)
-            chunk *= 4
-            pu = g3 * (g2 * (weights[ids] / total1))
-            last_bound = edge + mu * float(pu[-1])
-            if counted is None:
-                keys = self._keys_any(ids)
-                eligible = (keys >= klo) & (keys <= khi)
-            else:
-                eligible = np.ones(len(ids), dtype=bool)
-            if len(members):
-                eligible &= ~_member(members, ids)
-            if len(a_ids):
-                eligible &= ~_member(a_ids, ids)
-            ids, pu = ids[eligible], pu[eligible]
-            if have < k and len(ids):
-                # The first k eligible words carry the k largest floors of the class.
-                lower.extend((mu * pu[: k - have]).tolist())
-                threshold = _kth(lower, k)
-            have += len(ids)
-            reach = edge + mu * pu >= threshold
-            if len(ids):
-                found_ids.append(ids[reach])
-                found_pu.append(pu[reach])
-            if last_bound < threshold:
-                break
-        if not found_ids:
-            return _NO_IDS, _NO_PROBS
-        if len(found_ids) == 1:
-            return found_ids[0], found_pu[0]
-        return np.concatenate(found_ids), np.concatenate(found_pu)
-
-    def _counted_in_range(self, span, form: str) -> np.ndarray | None:  # noqa: ANN001 - PrefixRange | None
-        """The range's counted, suggestable words, most counted first, or None when there are many.
-
-        With many, the walk reads the global by-count list instead.
-        """
-        seen = self._seen_ok
-        if span is not None:
-            start, stop = seen.searchsorted((span.lo, span.hi))
-        else:
-            start = stop = 0
-        forms = self._ready_forms
-        lo = bisect_left(forms, form) if forms else 0
-        hi = (bisect_left(forms, form + "\U0010ffff") if form else len(forms)) if forms else 0
-        if (stop - start) + (hi - lo) > _SCORE_ALL:
-            return None
-        ids = seen[start:stop]
-        if hi > lo:
-            ids = np.concatenate((ids, np.array(self._ready_ids[lo:hi], dtype=np.int64)))
-        return ids[np.argsort(-self.user.unigram_weights(ids), kind="stable")]
-
-    def _base_orders(self, prepared: _Context, prefix: str, wanted: set[int], depth: int) -> dict[int, int]:
-        """The base model's order for some words of the prefix range, reading its ranking deeper."""
-        found: dict[int, int] = {}
-        while wanted - set(found):
-            depth *= 4
-            listed = self.base.suggest_ids(prepared.ub, prepared.vb, prefix, depth)
-            found = {s[3]: s[2] for s in listed if s[3] in wanted}
-            if len(listed) < depth:
-                break
-        return found
 
     # -------------------------------------------------------------- filters
     def _refresh_filters(self) -> None:
@@ -754,6 +562,34 @@ class AdaptedModel:
                 for word_id in fresh:
                     self._add_ready(word_id)
                 self._ready_seen += len(fresh)
+        pool_state = (seen_state, ready_state, self._ready_seen, user.settings.learning)
+        if pool_state != self._pool_state:
+            self._rebuild_pool()
+            self._pool_state = pool_state
+
+    def _rebuild_pool(self) -> None:
+        """Every suggestable counted word (new words only while learning is on), in sort-key order."""
+        seen = self._seen_ok
+        keys = (seen << _KEY_SHIFT) | _BASE_KEY_LOW
+        ids = seen
+        if self.user.settings.learning and self._ready_ids:
+            new_ids = np.array(self._ready_ids, dtype=np.int64)
+            keys = np.concatenate((keys, np.array([self._learned_keys[i] for i in self._ready_ids], dtype=np.int64)))
+            ids = np.concatenate((ids, new_ids))
+            order = np.argsort(keys, kind="stable")
+            keys, ids = keys[order], ids[order]
+        where = np.full(self.user.first_learned_id + self.user.learned_count + 1, -1, dtype=np.int64)
+        where[ids] = np.arange(len(ids))
+        self._pool_keys, self._pool_ids, self._pool_where = keys, ids, where
+        self._pool_share_key = (-1, -1)
+
+    def _pool_unigram(self, total1: float) -> np.ndarray:
+        """c(w) / N of the pool's words (kept while the counts stay the same)."""
+        key = (self.user.version, id(self._pool_ids))
+        if key != self._pool_share_key:
+            self._pool_share = self.user.unigram_weights(self._pool_ids) / total1
+            self._pool_share_key = key
+        return self._pool_share
 
     def _rebuild_ready(self) -> None:
         """The suggestable new words (sorted by form, never-list applied) and their sort keys."""
@@ -831,19 +667,6 @@ class AdaptedModel:
             return None
         return min(firsts), max(lasts)
 
-    def _key(self, word_id: int) -> int:
-        if word_id < self.user.first_learned_id:
-            return (word_id << _KEY_SHIFT) | _BASE_KEY_LOW
-        return self._learned_keys[word_id]
-
-    def _keys(self, ids: np.ndarray) -> np.ndarray:
-        """Sort keys of suggestable ids, in model-form order (base and learned ids interleaved correctly)."""
-        keys = (ids << _KEY_SHIFT) | _BASE_KEY_LOW
-        learned = ids >= self.user.first_learned_id
-        if learned.any():
-            keys[learned] = self._learned_key_array[ids[learned] - self.user.first_learned_id]
-        return keys
-
     def _keys_any(self, ids: np.ndarray) -> np.ndarray:
         """Sort keys of counted ids; -1 for words that may not be suggested (blocked, not yet used enough)."""
         keys = (ids << _KEY_SHIFT) | _BASE_KEY_LOW
@@ -865,15 +688,6 @@ class AdaptedModel:
         found[known] = array[offsets[known]]
         return found
 
-    def _suggestable(self, ids: np.ndarray) -> np.ndarray:
-        """The ids that are suggestable words: unblocked base words and allowed new words."""
-        base = ids[ids < self.user.base_size]
-        base = self._unblocked(base)
-        new = ids[ids >= self.user.first_learned_id]
-        if len(new):
-            new = new[self._learned_key_lookup(new) >= 0]
-        return np.concatenate((base, new)) if len(new) else base
-
     def _unblocked(self, ids: np.ndarray) -> np.ndarray:
         """``ids`` without the base words the never-suggest list blocks."""
         blocked = self._blocked_base
@@ -882,18 +696,61 @@ class AdaptedModel:
         return ids[~_member(blocked, ids)]
 
 
-def _sorted_union(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    """The sorted distinct values of two int64 arrays (cheaper than numpy's set routines on short arrays)."""
-    if not len(a):
-        return b
-    if not len(b):
-        return a
-    merged = np.concatenate((a, b))
-    merged.sort()
-    keep = np.empty(len(merged), dtype=bool)
-    keep[0] = True
-    np.not_equal(merged[1:], merged[:-1], out=keep[1:])
-    return merged[keep]
+class _Slice:
+    """A prefix's part of a context's pool: sort keys, ids and user probabilities of the counted words."""
+
+    __slots__ = ("keys", "ids", "p_user")
+
+    def __init__(self, keys: np.ndarray, ids: np.ndarray, p_user: np.ndarray) -> None:
+        self.keys, self.ids, self.p_user = keys, ids, p_user
+
+    def p_user_of(self, ids: np.ndarray) -> np.ndarray:
+        """P_user of base word ids (0 for a word outside the slice: never counted)."""
+        if not len(self.keys) or not len(ids):
+            return np.zeros(len(ids), dtype=np.float64)
+        keys = (ids << _KEY_SHIFT) | _BASE_KEY_LOW
+        at = self.keys.searchsorted(keys)
+        np.minimum(at, len(self.keys) - 1, out=at)
+        return np.where(self.keys[at] == keys, self.p_user[at], 0.0)
+
+    def reaching(self, edge: float, mu: float, threshold: float, listed: set[int], k: int) -> tuple[list[int], list[float], list[int]]:
+        """The slice's words outside list A that could be among the k best.
+
+        Such a word scores ``m * P_base + mu * P_user`` with ``m * P_base`` at
+        most ``edge``, so its score is at most ``edge + mu * P_user`` and at
+        least ``mu * P_user``.  The threshold L starts as the k-th best of A's
+        exact scores and, when many words reach it, is raised to the k-th best
+        floor ``mu * P_user`` of the slice's words outside A: each is a lower
+        bound of a different word's score, so L never exceeds the final k-th
+        score, and a word whose bound is below L cannot enter the top k.
+
+        Args:
+            edge: ``m * P_base`` of A's last word (0 when A holds every base word of the range).
+            mu: the user model's share.
+            threshold: the k-th best score of A (minus infinity with fewer than k).
+            listed: the ids of A.
+            k: how many suggestions.
+
+        Returns:
+            ``(ids, p_user, keys)`` of the words whose bound reaches L, as lists.
+        """
+        if not len(self.keys):
+            return [], [], []
+        bound = edge + mu * self.p_user
+        at = np.flatnonzero(bound >= threshold)
+        if len(at) > _FEW_REACHING + len(listed):
+            floors = mu * self.p_user
+            best = np.argpartition(floors, len(floors) - k - len(listed))[len(floors) - k - len(listed) :] if len(floors) > k + len(listed) else np.arange(len(floors))
+            outside = sorted((-f for f, i in zip(floors[best].tolist(), self.ids[best].tolist()) if i not in listed))
+            if len(outside) >= k:
+                threshold = max(threshold, -outside[k - 1])
+                at = np.flatnonzero(bound >= threshold)
+        ids = self.ids[at].tolist()
+        if not listed.isdisjoint(ids):
+            keep = [j for j, i in enumerate(ids) if i not in listed]
+            at = at[keep]
+            ids = self.ids[at].tolist()
+        return ids, self.p_user[at].tolist(), self.keys[at].tolist()
 
 
 def _member(sorted_ids: np.ndarray, ids: np.ndarray) -> np.ndarray:
@@ -903,13 +760,6 @@ def _member(sorted_ids: np.ndarray, ids: np.ndarray) -> np.ndarray:
     pos = sorted_ids.searchsorted(ids)
     np.minimum(pos, len(sorted_ids) - 1, out=pos)
     return sorted_ids[pos] == ids
-
-
-def _kth(values: list[float], k: int) -> float:
-    """The k-th largest value (minus infinity when there are fewer than k)."""
-    if len(values) < k:
-        return -math.inf
-    return sorted(values, reverse=True)[k - 1]
 
 
 def _no_merge(m: float, value: float) -> bool:
