@@ -1,7 +1,8 @@
 """A hand-written SVG line chart of a vocabulary sweep: savings and p99 latency against vocabulary size.
 
-Keystroke savings (solid lines, left axis, percent) and the oracle's savings
-(dotted, same axis) share the chart with p99 suggestion latency (dashed, right
+Keystroke savings (solid lines, left axis, percent), the oracle's savings
+(dotted, same axis) and, when the sweep measured it, the savings of a typist
+whose user model learns as they go (dash-dot, hollow markers) share the chart with p99 suggestion latency (dashed, right
 axis, microseconds), one colour per method.  The vocabulary axis is
 logarithmic when the sizes span a factor of four or more.  Plain SVG 1.1, no
 scripts, readable in any browser or on GitHub.
@@ -41,7 +42,7 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
 
     Args:
         rows: sweep rows as JSON objects (``method``, ``vocab_size``, ``ksr``,
-            ``oracle_ksr``, ``latency_p99_us``).
+            ``oracle_ksr``, ``latency_p99_us``, optionally ``adapted_ksr``).
         k: suggestions per list, for the subtitle.
         title: the chart's title.
 
@@ -79,7 +80,10 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
         value = math.log10(size) if logarithmic else size
         return LEFT + (value - x_lo) / (x_hi - x_lo) * plot_w
 
-    savings = [100 * float(r[key]) for r in points for key in ("ksr", "oracle_ksr") if r.get(key) is not None]
+    learning = any(r.get("adapted_ksr") is not None for r in points)
+    if learning:
+        parts[-1] = parts[-1].replace(escape(subtitle), escape(subtitle.replace("; dotted: oracle (vocabulary-limited best)", "; dash-dot: learning as it goes; dotted: oracle")))
+    savings = [100 * float(r[key]) for r in points for key in ("ksr", "oracle_ksr", "adapted_ksr") if r.get(key) is not None]
     step = _nice_step(max(savings) - min(savings) if len(savings) > 1 else 10.0)
     y_lo = max(0.0, math.floor(min(savings) / step) * step - step)
     y_hi = min(100.0, math.ceil(max(savings) / step) * step + step)
@@ -129,6 +133,7 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
         for key, dash, to_y, scale in (
             ("ksr", "", y_of, 100.0),
             ("oracle_ksr", ' stroke-dasharray="2 3"', y_of, 100.0),
+            ("adapted_ksr", ' stroke-dasharray="8 3 2 3"', y_of, 100.0),
             ("latency_p99_us", ' stroke-dasharray="7 4"', y_lat, 1.0),
         ):
             line = [(x_of(float(r["vocab_size"])), to_y(scale * float(r[key]))) for r in mine if r.get(key) is not None]
@@ -139,6 +144,8 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
             parts.append(f'<polyline points="{path}" fill="none" stroke="{colour}" stroke-width="{width}"{dash}/>')
             for x, y in line:
                 marker = f'<circle cx="{x:.1f}" cy="{y:.1f}" r="3" fill="{colour}"/>' if key == "ksr" else ""
+                if key == "adapted_ksr":
+                    marker = f'<circle cx="{x:.1f}" cy="{y:.1f}" r="3" fill="#ffffff" stroke="{colour}" stroke-width="1.5"/>'
                 if key == "latency_p99_us":
                     marker = f'<rect x="{x - 2.5:.1f}" y="{y - 2.5:.1f}" width="5" height="5" fill="{colour}"/>'
                 if marker:

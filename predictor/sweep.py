@@ -16,7 +16,11 @@ counts, saves it in the output folder, loads it back and measures it:
 * ``build_seconds`` (from counts to model), ``load_ms`` (opening the saved file);
 * ``perplexity`` and ``oov_rate`` of the test text;
 * ``ksr``, ``oracle_ksr``, ``baseline_ksr`` and suggestion latency
-  ``latency_p50_us`` / ``latency_p99_us`` from :func:`predictor.simulate.simulate`.
+  ``latency_p50_us`` / ``latency_p99_us`` from :func:`predictor.simulate.simulate`;
+* with adaptation, ``adapted_ksr`` and ``adapted_latency_p50_us`` /
+  ``adapted_latency_p99_us``: the same typist again, each word feeding a user
+  model that starts empty (:func:`predictor.adapt.simulation.simulate_adaptive`);
+  empty otherwise.
 
 Rows are written to ``sweep.csv``, ``sweep.json`` and the chart ``sweep.svg``
 as each one finishes (atomically), so an interrupted sweep keeps its rows.
@@ -42,6 +46,7 @@ from .counting import count_corpus
 from .errors import OptionError
 from .estimate import METHODS
 from .model import load
+from .adapt.simulation import simulate_adaptive
 from .simulate import TypistSettings, read_passage, simulate
 from .simulate.writing import prepare_folder, write_text_atomic
 
@@ -66,6 +71,9 @@ COLUMNS = (
     "baseline_ksr",
     "latency_p50_us",
     "latency_p99_us",
+    "adapted_ksr",
+    "adapted_latency_p50_us",
+    "adapted_latency_p99_us",
 )
 """The columns of ``sweep.csv`` (and the keys of each row in ``sweep.json``)."""
 
@@ -100,6 +108,9 @@ class SweepRow:
     baseline_ksr: float
     latency_p50_us: float | None
     latency_p99_us: float | None
+    adapted_ksr: float | None = None
+    adapted_latency_p50_us: float | None = None
+    adapted_latency_p99_us: float | None = None
 
     def to_json(self) -> dict[str, Any]:
         """The row as a JSON object with the :data:`COLUMNS` as keys."""
@@ -211,6 +222,7 @@ def measure_model(
     settings: TypistSettings,
     folder: Path,
     progress: Callable[[int, int], None] | None = None,
+    adapt: bool = False,
 ) -> SweepRow:
     """Build, save, load and measure one model of the sweep.
 
@@ -222,6 +234,7 @@ def measure_model(
         settings: the simulated typist's settings.
         folder: where the model file is saved.
         progress: simulation progress, (words done, words in all).
+        adapt: also simulate the typist with learning, from an empty user model.
 
     Returns:
         The row.
@@ -241,13 +254,24 @@ def measure_model(
     load_ms = (time.perf_counter() - started) * 1000.0
     loaded = _rss()
     mapped_at_load = _mapped_resident(path)
-    report = simulate(model, test_text, settings, progress, keep_traces=False)
+    runs = 2 if adapt else 1
+
+    def first_run(done: int, total: int) -> None:
+        if progress is not None:
+            progress(done, runs * total)
+
+    def second_run(done: int, total: int) -> None:
+        if progress is not None:
+            progress(total + done, runs * total)
+
+    report = simulate(model, test_text, settings, first_run, keep_traces=False)
     mapped_after = _mapped_resident(path)
     if mapped_at_load is None or mapped_after is None:
         rss_bytes = max(0, _rss() - before)
     else:
         rss_bytes = max(0, loaded - before) + max(0, mapped_after - mapped_at_load)
     score = model.score(test_text, wrapped=settings.wrapped)
+    adapted = simulate_adaptive(model, test_text, settings, second_run, compare=False).adapted if adapt else None
     return SweepRow(
         method=method,
         requested_vocab_size=vocab_size,
@@ -266,6 +290,9 @@ def measure_model(
         baseline_ksr=report.baseline_ksr,
         latency_p50_us=report.latency_us["p50"],
         latency_p99_us=report.latency_us["p99"],
+        adapted_ksr=None if adapted is None else adapted.ksr,
+        adapted_latency_p50_us=None if adapted is None else adapted.latency_us["p50"],
+        adapted_latency_p99_us=None if adapted is None else adapted.latency_us["p99"],
     )
 
 
@@ -297,6 +324,7 @@ def run_sweep(
     test_name: str = "",
     progress: SweepProgress | None = None,
     on_row: Callable[[SweepRow], None] | None = None,
+    adapt: bool = False,
 ) -> SweepResult:
     """Count a corpus once, then build and measure a model per method and vocabulary size.
 
@@ -311,6 +339,8 @@ def run_sweep(
         test_name: the test file's name, for the results.
         progress: called with (stage, done, total) throughout.
         on_row: called with each row as it finishes (after the files are written).
+        adapt: add the adaptation columns: each model is simulated a second
+            time with a user model that starts empty and learns as the typist goes.
 
     Returns:
         The result, with ``complete`` set once every row finished.
@@ -331,7 +361,7 @@ def run_sweep(
             raise OptionError(f"vocabulary sizes must be at least 1, not {size}")
     read_passage(test_text, settings.text_mode, wrapped=settings.wrapped)  # reject a word-less test text before counting
     folder = prepare_folder(out)
-    result = SweepResult([str(p) for p in corpus], test_name, settings=asdict(settings))
+    result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), "adapt": adapt})
     report = progress or (lambda stage, done, total: None)
     started = time.perf_counter()
     counts = count_corpus(corpus, wrapped=settings.wrapped, progress=lambda done, total: report("counting the corpus", done, total))
@@ -350,6 +380,7 @@ def run_sweep(
             settings=settings,
             folder=folder,
             progress=lambda done, total, label=label: report(label, done, total),
+            adapt=adapt,
         )
         result.rows.append(row)
         result.complete = number == len(plan)
@@ -361,28 +392,35 @@ def run_sweep(
 
 def format_table(rows: Sequence[SweepRow]) -> str:
     """The rows as an aligned text table."""
+    adapted = any(row.adapted_ksr is not None for row in rows)
     headers = ("method", "asked", "vocab", "n-grams", "file MB", "RSS MB", "build s", "load ms", "perplexity", "OOV", "KSR", "oracle", "baseline", "p50 µs", "p99 µs")
+    if adapted:
+        headers += ("learning KSR", "learning p99 µs")
     lines = []
     for row in rows:
-        lines.append(
-            (
-                row.method,
-                f"{row.requested_vocab_size:,}",
-                f"{row.vocab_size:,}",
-                f"{row.unigrams + row.bigrams + row.trigrams:,}",
-                f"{row.file_bytes / 1e6:.1f}",
-                f"{row.rss_bytes / 1e6:.1f}",
-                f"{row.build_seconds:.2f}",
-                f"{row.load_ms:.1f}",
-                "inf" if row.perplexity is None else f"{row.perplexity:.1f}",
-                f"{100 * row.oov_rate:.2f}%",
-                f"{100 * row.ksr:.1f}%",
-                f"{100 * row.oracle_ksr:.1f}%",
-                f"{100 * row.baseline_ksr:.1f}%",
-                "n/a" if row.latency_p50_us is None else f"{row.latency_p50_us:,.0f}",
-                "n/a" if row.latency_p99_us is None else f"{row.latency_p99_us:,.0f}",
+        line = (
+            row.method,
+            f"{row.requested_vocab_size:,}",
+            f"{row.vocab_size:,}",
+            f"{row.unigrams + row.bigrams + row.trigrams:,}",
+            f"{row.file_bytes / 1e6:.1f}",
+            f"{row.rss_bytes / 1e6:.1f}",
+            f"{row.build_seconds:.2f}",
+            f"{row.load_ms:.1f}",
+            "inf" if row.perplexity is None else f"{row.perplexity:.1f}",
+            f"{100 * row.oov_rate:.2f}%",
+            f"{100 * row.ksr:.1f}%",
+            f"{100 * row.oracle_ksr:.1f}%",
+            f"{100 * row.baseline_ksr:.1f}%",
+            "n/a" if row.latency_p50_us is None else f"{row.latency_p50_us:,.0f}",
+            "n/a" if row.latency_p99_us is None else f"{row.latency_p99_us:,.0f}",
             )
-        )
+        if adapted:
+            line += (
+                "" if row.adapted_ksr is None else f"{100 * row.adapted_ksr:.1f}%",
+                "n/a" if row.adapted_latency_p99_us is None else f"{row.adapted_latency_p99_us:,.0f}",
+            )
+        lines.append(line)
     widths = [max(len(h), *(len(line[i]) for line in lines)) if lines else len(h) for i, h in enumerate(headers)]
     out = ["  ".join(h.ljust(w) if i == 0 else h.rjust(w) for i, (h, w) in enumerate(zip(headers, widths)))]
     for line in lines:

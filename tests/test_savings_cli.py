@@ -139,3 +139,15 @@ def test_sweep_prints_the_table_and_writes_its_files(run_cli, tmp_path: Path) ->
     # The full-vocabulary row is the worked example's model family (KN here): its oracle is the hand-counted 60%.
     assert rows[1]["oracle_ksr"] == pytest.approx(1 - 20 / 50)
     assert (out / "kneser-ney-v13.model").exists()
+
+
+def test_sweep_with_adapt_adds_the_learning_columns_to_the_table(run_cli, tmp_path: Path) -> None:
+    out = tmp_path / "sweep"
+    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", "4,13", "-k", "2", "--out", out, "--adapt")
+    assert result.code == 0, result.err
+    header = result.out.splitlines()[1]
+    assert "learning KSR" in header and "learning p99 µs" in header
+    rows = json.loads((out / "sweep.json").read_text(encoding="utf-8"))["rows"]
+    assert all(0.0 <= r["adapted_ksr"] <= 1.0 for r in rows)
+    # The worked text repeats words the 4-word vocabulary lacks; once learned they are suggested, so savings rise.
+    assert rows[0]["adapted_ksr"] >= rows[0]["ksr"]

@@ -106,3 +106,51 @@ def test_an_interrupted_sweep_keeps_the_rows_it_finished(kjv_files: tuple[Path, 
     assert [r["requested_vocab_size"] for r in saved["rows"]] == [100]
     assert len((tmp_path / "sweep.csv").read_text(encoding="utf-8").splitlines()) == 2
     assert not list(tmp_path.glob(".*.tmp"))
+
+
+@pytest.fixture(scope="module")
+def learning_sweep(kjv_files: tuple[Path, str], tmp_path_factory: pytest.TempPathFactory) -> tuple[Path, list[dict], str]:
+    corpus, test_text = kjv_files
+    out = tmp_path_factory.mktemp("learning-sweep")
+    result = run_sweep([corpus], test_text, out=out, vocab_sizes=[100, 1500], settings=TypistSettings(k=3), adapt=True)
+    return out, [row.to_json() for row in result.rows], test_text
+
+
+def test_the_learning_column_is_what_savings_with_adaptation_reports_for_the_saved_model(learning_sweep, run_cli, tmp_path: Path) -> None:
+    out, rows, test_text = learning_sweep
+    test_file = tmp_path / "heldout.txt"
+    test_file.write_text(test_text, encoding="utf-8")
+    for row in rows:
+        model = out / f"kneser-ney-v{row['requested_vocab_size']}.model"
+        result = run_cli("savings", model, test_file, "-k", "3", "--adapt", "--json")
+        assert result.code == 0, result.err
+        report = json.loads(result.out)
+        assert row["adapted_ksr"] == report["adaptation"]["ksr_adapted"]
+        assert row["ksr"] == report["adaptation"]["ksr_base"]
+        assert row["adapted_latency_p50_us"] <= row["adapted_latency_p99_us"]
+    with (out / "sweep.csv").open(encoding="utf-8", newline="") as handle:
+        table = list(csv.DictReader(handle))
+    assert [float(r["adapted_ksr"]) for r in table] == [r["adapted_ksr"] for r in rows]
+
+
+def test_learning_helps_most_where_the_vocabulary_is_smallest(learning_sweep) -> None:
+    # With 100 words most of the text is out of vocabulary; once typed, those words are learned and
+    # suggested, so the gain from learning shrinks as the vocabulary grows (common practice: a cache
+    # model gains most where the static model is weakest).
+    _, rows, _ = learning_sweep
+    gains = [r["adapted_ksr"] - r["ksr"] for r in rows]
+    assert gains[0] > gains[1] > 0
+
+
+def test_the_chart_adds_a_learning_line_per_method(learning_sweep) -> None:
+    out, rows, _ = learning_sweep
+    root = ET.parse(out / "sweep.svg").getroot()
+    assert len(root.findall(f"{SVG}polyline")) == 4  # KSR, oracle, learning, p99 latency
+    assert any("learning as it goes" in (t.text or "") for t in root.iter(f"{SVG}text"))
+
+
+def test_without_learning_the_columns_stay_empty(finished_sweep: tuple[Path, list[dict]]) -> None:
+    out, rows = finished_sweep
+    assert all(r["adapted_ksr"] is None and r["adapted_latency_p99_us"] is None for r in rows)
+    with (out / "sweep.csv").open(encoding="utf-8", newline="") as handle:
+        assert {r["adapted_ksr"] for r in csv.DictReader(handle)} == {""}

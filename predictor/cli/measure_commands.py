@@ -102,6 +102,11 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--vocab-sizes", default="1000,2000,5000,10000,20000,50000", metavar="N,N,...", help="vocabulary sizes (default 1000,2000,5000,10000,20000,50000)")
     p.add_argument("--methods", default="kneser-ney", metavar="M,M,...", help=f"estimators, comma-separated, from {', '.join(METHODS)} (default kneser-ney)")
     p.add_argument("--out", required=True, metavar="DIR", help="folder for the results and models (created if needed)")
+    p.add_argument(
+        "--adapt",
+        action="store_true",
+        help="also type the test text with learning: a user model that starts empty learns each word (adds the learning KSR and latency columns)",
+    )
     _add_typist_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_sweep_command)
@@ -174,8 +179,9 @@ def run_sweep_command(args: argparse.Namespace) -> int:
 
     def finished(row: SweepRow) -> None:
         stages.close()
+        learning = "" if row.adapted_ksr is None else f", learning {100 * row.adapted_ksr:.1f}%"
         print(
-            f"{row.method}, {row.vocab_size:,} words: KSR {100 * row.ksr:.1f}% (oracle {100 * row.oracle_ksr:.1f}%), "
+            f"{row.method}, {row.vocab_size:,} words: KSR {100 * row.ksr:.1f}% (oracle {100 * row.oracle_ksr:.1f}%{learning}), "
             f"p99 {row.latency_p99_us or 0:,.0f} µs, {row.file_bytes / 1e6:.1f} MB",
             file=sys.stderr,
         )
@@ -191,6 +197,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
             test_name=str(args.test),
             progress=stages,
             on_row=finished,
+            adapt=args.adapt,
         )
     finally:
         stages.close()
