@@ -195,6 +195,25 @@ async def test_the_sweep_screen_lists_every_row_and_charts_them(make_app) -> Non
         assert screen.query_one("#sweep-results").display
 
 
+async def test_a_sweep_with_learning_shows_its_learning_column(make_app, tmp_path: Path) -> None:
+    from predictor.simulate import TypistSettings
+    from predictor.sweep import run_sweep
+
+    worked = Path(__file__).parents[1] / "data" / "savings"
+    text = (worked / "worked-text.txt").read_text(encoding="utf-8")
+    result = run_sweep([worked / "worked-corpus.txt"], text, out=tmp_path, vocab_sizes=[4, 13], settings=TypistSettings(k=2), adapt=True)
+    app = make_app()
+    async with app.run_test(size=(120, 40)) as pilot:
+        app.push_screen(SweepScreen(tmp_path / "sweep.json"))
+        await pilot.pause()
+        table = app.screen.query_one(DataTable)
+        headers = [str(column.label) for column in table.columns.values()]
+        assert headers[:5] == ["method", "vocabulary", "KSR", "oracle", "learning"]
+        for index, row in enumerate(result.rows):
+            cells = table.get_row_at(index)
+            assert cells[2] == f"{100 * row.ksr:.1f}%" and cells[4] == f"{100 * row.adapted_ksr:.1f}%"
+
+
 async def test_a_file_that_is_not_a_sweep_result_is_refused(make_app) -> None:
     app = make_app()
     async with app.run_test(size=(80, 24)) as pilot:

@@ -30,6 +30,13 @@ if TYPE_CHECKING:
 
 COLUMNS = ("method", "vocabulary", "KSR", "oracle", "baseline", "p50 µs", "p99 µs", "perplexity", "OOV", "file", "memory")
 """The table's columns."""
+LEARNING_COLUMNS = COLUMNS[:4] + ("learning",) + COLUMNS[4:]
+"""The columns of a sweep run with ``--adapt``: the KSR of a typist whose user model learns as they go comes after the oracle."""
+
+
+def has_learning(rows: list[dict[str, Any]]) -> bool:
+    """Tell whether a sweep measured savings with learning (``foretype sweep --adapt``)."""
+    return any(r.get("adapted_ksr") is not None for r in rows)
 
 
 def _number(value: Any, digits: int = 0) -> str:
@@ -46,13 +53,14 @@ def _bytes(value: Any) -> str:
     return "n/a" if value is None else file_size(int(value))
 
 
-def table_row(row: dict[str, Any]) -> tuple[str, ...]:
-    """One sweep row as table cells (missing values read "n/a")."""
+def table_row(row: dict[str, Any], learning: bool = False) -> tuple[str, ...]:
+    """One sweep row as table cells (missing values read "n/a"), with the learning cell when asked."""
     return (
         str(row.get("method", "")),
         count(int(row["vocab_size"])),
         _share(row.get("ksr")),
         _share(row.get("oracle_ksr")),
+        *((_share(row.get("adapted_ksr")),) if learning else ()),
         _share(row.get("baseline_ksr")),
         _number(row.get("latency_p50_us")),
         _number(row.get("latency_p99_us")),
@@ -78,9 +86,12 @@ def draw_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
         rows = [r for r in sweep.rows if str(r.get("method", "")) == method]
         x = [int(r["vocab_size"]) for r in rows]
         ksr = [(i, 100 * float(r["ksr"])) for i, r in zip(x, rows) if r.get("ksr") is not None]
+        learned = [(i, 100 * float(r["adapted_ksr"])) for i, r in zip(x, rows) if r.get("adapted_ksr") is not None]
         p99 = [(i, float(r["latency_p99_us"])) for i, r in zip(x, rows) if r.get("latency_p99_us") is not None]
         if ksr:
             plt.plot([a for a, _ in ksr], [b for _, b in ksr], marker="braille", label=f"{method} KSR %", yside="left")
+        if learned:
+            plt.plot([a for a, _ in learned], [b for _, b in learned], marker="braille", label=f"{method} learning KSR %", yside="left")
         if p99:
             plt.plot([a for a, _ in p99], [b for _, b in p99], marker="dot", label=f"{method} p99 µs", yside="right")
     if logarithmic:
@@ -168,8 +179,10 @@ class SweepScreen(Screen[None]):
         status.update("")
         self.sweep = sweep
         table = self.query_one(DataTable)
-        table.clear()
-        table.add_rows(table_row(r) for r in sweep.rows)
+        learning = has_learning(sweep.rows)
+        table.clear(columns=True)
+        table.add_columns(*(LEARNING_COLUMNS if learning else COLUMNS))
+        table.add_rows(table_row(r, learning) for r in sweep.rows)
         notes = [f"{path.name}: {len(sweep.rows)} rows"]
         if sweep.test:
             notes.append(f"test {Path(sweep.test).name}")
