@@ -357,18 +357,22 @@ class AdaptedModel:
         if hit.all():
             return keys, ids, p_user
         strays, strays_user = members[~hit], members_user[~hit]
-        user = self.user
-        if all(user.base_size <= i < user.first_learned_id for i in strays.tolist()):
-            return keys, ids, p_user  # END and UNKNOWN are never suggested
+        if not any(self._could_suggest(i) for i in strays.tolist()):
+            return keys, ids, p_user  # END, UNKNOWN, blocked words and new words not used enough yet
+        keep = np.array([self._could_suggest(i) for i in strays.tolist()], dtype=bool)
         stray_keys = self._keys_any(strays)
-        keep = (stray_keys >= 0) & ((strays < self.user.base_size) | (strays >= self.user.first_learned_id))
-        if not keep.any():
-            return keys, ids, p_user  # symbols, blocked words and new words not used enough
         keys = np.concatenate((keys, stray_keys[keep]))
         ids = np.concatenate((ids, strays[keep]))
         p_user = np.concatenate((p_user, strays_user[keep]))
         order = np.argsort(keys, kind="stable")
         return keys[order], ids[order], p_user[order]
+
+    def _could_suggest(self, word_id: int) -> bool:
+        """Tell whether an id is a suggestable word: an unblocked base word, or a new word ready to be suggested."""
+        user = self.user
+        if word_id < user.base_size:
+            return word_id not in self._blocked_set
+        return word_id >= user.first_learned_id and user.settings.learning and word_id in self._learned_keys
 
     # ------------------------------------------------------------ scoring
     def _base_probs(self, ids: np.ndarray, ub: int, vb: int) -> np.ndarray:
@@ -737,14 +741,14 @@ class _Slice:
         if not len(self.keys):
             return [], [], []
         bound = edge + mu * self.p_user
-        at = np.flatnonzero(bound >= threshold)
+        at = (bound >= threshold).nonzero()[0]
         if len(at) > _FEW_REACHING + len(listed):
             floors = mu * self.p_user
             best = np.argpartition(floors, len(floors) - k - len(listed))[len(floors) - k - len(listed) :] if len(floors) > k + len(listed) else np.arange(len(floors))
             outside = sorted((-f for f, i in zip(floors[best].tolist(), self.ids[best].tolist()) if i not in listed))
             if len(outside) >= k:
                 threshold = max(threshold, -outside[k - 1])
-                at = np.flatnonzero(bound >= threshold)
+                at = (bound >= threshold).nonzero()[0]
         ids = self.ids[at].tolist()
         if not listed.isdisjoint(ids):
             keep = [j for j, i in enumerate(ids) if i not in listed]
