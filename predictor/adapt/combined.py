@@ -578,11 +578,17 @@ class AdaptedModel:
         ids = seen
         if self.user.settings.learning and self._ready_ids:
             new_ids = np.array(self._ready_ids, dtype=np.int64)
-            keys = np.concatenate((keys, np.array([self._learned_keys[i] for i in self._ready_ids], dtype=np.int64)))
+            # Both parts are sorted (new words by form, and so by key): a stable sort merges the two runs.
+            keys = np.concatenate((keys, self._learned_key_array[new_ids - self.user.first_learned_id]))
             ids = np.concatenate((ids, new_ids))
             order = np.argsort(keys, kind="stable")
             keys, ids = keys[order], ids[order]
-        where = np.full(self.user.first_learned_id + self.user.learned_count + 1, -1, dtype=np.int64)
+        size = self.user.first_learned_id + self.user.learned_count + 1
+        where = self._pool_where
+        if len(where) < size:
+            where = np.full(max(size, 2 * len(where)), -1, dtype=np.int64)
+        else:
+            where[self._pool_ids] = -1
         where[ids] = np.arange(len(ids))
         self._pool_keys, self._pool_ids, self._pool_where = keys, ids, where
         self._pool_share_key = (-1, -1)
