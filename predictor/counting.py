@@ -27,14 +27,12 @@ Memory stays within a :class:`~predictor.memory.MemoryBudget`:
 
 from __future__ import annotations
 
-import multiprocessing
 import os
 import sys
 from collections import deque
 from collections.abc import Callable, Iterable, Iterator
-from contextlib import contextmanager
 from dataclasses import dataclass, field
-from itertools import repeat
+from itertools import compress, repeat
 from typing import Any
 
 import numpy as np
@@ -45,7 +43,8 @@ from .errors import CapacityError, CorpusError, OptionError, OutputError
 from .memory import MemoryBudget
 from .scratch import SpillFolder
 from .spill import KeyCounter, Run, merge_tables, sum_duplicates
-from .text import is_sentence_end, model_form, tokens
+from .text import are_words, is_sentence_end, model_form, tokens
+from .tokenisers import TokenisedPart, tokenise_part, tokeniser_pool
 
 RAW_START = 0
 """Raw type id of the sentence-start padding."""
@@ -275,8 +274,13 @@ class CorpusCounts:
             candidates = candidates[candidates != self.types.index(UNLISTED)]
         if len(candidates) == 0:
             raise CorpusError(f"no word occurs at least {min_count} times")
-        string_rank = _string_ranks(self.types)
-        order = np.lexsort((string_rank[candidates], -counts[candidates]))
+        if vocab_size is not None and vocab_size < len(candidates):
+            # Only words as frequent as the vocab_size-th can be chosen: rank just their strings.
+            candidate_counts = counts[candidates]
+            cutoff = np.partition(candidate_counts, len(candidates) - vocab_size)[len(candidates) - vocab_size]
+            candidates = candidates[candidate_counts >= cutoff]
+        string_rank = _string_ranks([self.types[t] for t in candidates.tolist()])
+        order = np.lexsort((string_rank, -counts[candidates]))
         chosen = candidates[order]
         if vocab_size is not None:
             chosen = chosen[:vocab_size]
@@ -319,6 +323,29 @@ def _add_counts(target: np.ndarray, ids: np.ndarray) -> None:
     else:
         found, times = np.unique(ids, return_counts=True)
         target[found] += times
+
+
+class _WorkerNumbers:
+    """What the numbers of one tokenising worker's forms mean here: form ids and raw type ids."""
+
+    def __init__(self) -> None:
+        self.size = 0
+        self._fids = np.zeros(1024, dtype=np.int32)
+        self._tids = np.zeros(1024, dtype=np.int32)
+
+    def extend(self, fids: np.ndarray, tids: np.ndarray) -> None:
+        """Give the worker's next numbers these form ids and raw type ids."""
+        stop = self.size + len(fids)
+        while stop > len(self._fids):
+            self._fids = _grown(self._fids)
+            self._tids = _grown(self._tids)
+        self._fids[self.size : stop] = fids
+        self._tids[self.size : stop] = tids
+        self.size = stop
+
+    def ids(self, numbers: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """Form ids and raw type ids of the worker's numbers (int32 arrays shaped like ``numbers``)."""
+        return self._fids[numbers], self._tids[numbers]
 
 
 class CorpusCounter:
@@ -364,6 +391,7 @@ class CorpusCounter:
         self._initial = np.zeros(1024, dtype=np.int64)
         self._carry_forms = np.zeros(0, dtype=np.int32)
         self._carry_types = np.zeros(0, dtype=np.int32)
+        self._worker_numbers: dict[int, _WorkerNumbers] = {}
         rows = self.budget.table_rows
         merge = min(self.MERGE_ROWS, rows // 4)
         self._table = KeyCounter(rows - rows // 8, self._spill_folder, merge)
@@ -393,21 +421,35 @@ class CorpusCounter:
         del found
         self._add_ids(fids, tids)
 
-    def add_tokenized(self, distinct: list[str], positions: np.ndarray) -> None:
-        """Count a chunk tokenised elsewhere: its distinct tokens in order of first
-        appearance, and each token's index into them (what :func:`tokenise_part` returns).
+    def add_tokenized(self, part: TokenisedPart) -> None:
+        """Count a chunk tokenised by a worker process (see :mod:`predictor.tokenisers`).
 
-        The result is the same as :meth:`add_text` on the chunk's text.
+        The chunks of each worker must come in the order it tokenised them; the
+        result is the same as :meth:`add_text` on the chunk's text.
         """
-        if not len(positions):
+        numbers = self._worker_numbers.get(part.worker)
+        if numbers is None or part.first == 0:
+            numbers = self._worker_numbers[part.worker] = _WorkerNumbers()
+        assert part.first == numbers.size, "a worker's chunks arrive in the order it tokenised them"
+        if part.forms:
+            numbers.extend(*self._ids_of_forms(part.forms))
+        if not len(part.positions):
             return
-        unlisted_before = self.unlisted_tokens
-        fids, tids = self._ids_of(distinct)
-        fids, tids = fids[positions], tids[positions]
-        if self.unlisted_tokens != unlisted_before:
-            # _ids_of counted unlisted distinct tokens; the count is of occurrences.
-            self.unlisted_tokens = unlisted_before + int(np.count_nonzero(tids == self._unlisted))
+        fids, tids = numbers.ids(part.positions)
+        if self._unlisted >= 0:
+            self.unlisted_tokens += int(np.count_nonzero(tids == self._unlisted))
         self._add_ids(fids, tids)
+
+    def _ids_of_forms(self, forms: list[str]) -> tuple[np.ndarray, np.ndarray]:
+        """Form ids and raw type ids of distinct forms, as :meth:`_ids_of` gives them.
+
+        Forms not yet in the dictionaries are added as :meth:`_ids_of` would add
+        them; unlisted tokens are not counted (the caller counts occurrences).
+        """
+        unlisted_before = self.unlisted_tokens
+        fids, tids = self._ids_of(forms)
+        self.unlisted_tokens = unlisted_before
+        return fids, tids
 
     def _add_ids(self, fids: np.ndarray, tids: np.ndarray) -> None:
         fids = np.concatenate((self._carry_forms, fids))
@@ -469,24 +511,24 @@ class CorpusCounter:
         """
         if not tokens:
             return
-        forms = [model_form(t) for t in tokens]
+        forms = list(map(model_form, tokens))
         types = self._type_ids
-        new_types = dict.fromkeys(f for t, f in zip(tokens, forms) if not is_sentence_end(t) and f not in types)
+        new_types = [f for f in dict.fromkeys(compress(forms, are_words(tokens))) if f not in types]
         cost = sum(map(sys.getsizeof, tokens)) + FORM_ENTRY_BYTES * len(tokens)
         cost += sum(map(sys.getsizeof, new_types)) + TYPE_ENTRY_BYTES * len(new_types)
         if self.dictionary_bytes + cost > self._dictionary_limit or len(self._types) + len(new_types) + 1 >= self._max_types:
             for token in tokens:
                 self._new_form(token)
             return
-        for form in new_types:
-            self._new_type(form)
+        self._new_types(new_types)
         first = len(self._forms)
         stop = first + len(tokens)
         while stop > len(self._form_type):
             self._form_type = _grown(self._form_type)
             self._noninitial = _grown(self._noninitial)
             self._initial = _grown(self._initial)
-        self._form_type[first:stop] = [RAW_END if is_sentence_end(t) else types[f] for t, f in zip(tokens, forms)]
+        # A sentence end's form (punctuation or a line break) is never a type's: it gets RAW_END.
+        self._form_type[first:stop] = np.fromiter(map(types.get, forms, repeat(RAW_END)), dtype=np.int32, count=len(forms))
         self._form_ids.update(zip(tokens, range(first, stop)))
         self._forms.extend(tokens)
         self.dictionary_bytes += cost
@@ -526,6 +568,14 @@ class CorpusCounter:
         if type_id >= len(self._type_counts):
             self._type_counts = _grown(self._type_counts)
         return type_id
+
+    def _new_types(self, forms: list[str]) -> None:
+        """Add model forms, none of them known yet, as :meth:`_new_type` would one by one."""
+        first = len(self._types)
+        self._type_ids.update(zip(forms, range(first, first + len(forms))))
+        self._types.extend(forms)
+        while len(self._types) > len(self._type_counts):
+            self._type_counts = _grown(self._type_counts)
 
     def _become_full(self) -> None:
         if not self._full:
@@ -644,14 +694,16 @@ class CorpusCounter:
         ordered_types = form_type[order]
         first = np.ones(size, dtype=bool)
         first[1:] = ordered_types[1:] != ordered_types[:-1]
-        for form_id in order[first]:
-            type_id = int(form_type[form_id])
-            if type_id < 2:
-                continue
-            written = self._forms[form_id]
-            if noninitial[form_id] == 0 and written[:1].lower() + written[1:] == self._types[type_id]:
-                written = self._types[type_id]
-            display[type_id] = written
+        best = order[first]
+        best = best[form_type[best] >= 2]
+        type_ids = form_type[best].tolist()
+        written = list(map(self._forms.__getitem__, best.tolist()))
+        for i in np.flatnonzero(noninitial[best] == 0).tolist():
+            model = self._types[type_ids[i]]
+            if written[i][:1].lower() + written[i][1:] == model:
+                written[i] = model
+        for type_id, form in zip(type_ids, written):
+            display[type_id] = form
         return display
 
 
@@ -702,13 +754,13 @@ def count_corpus(
     # Read chunks of the budget's size, never more than the default.
     reading = {"chunk_bytes": piece} if piece < CHUNK_BYTES else {}
     done = 0
-    with _tokenisers(total, counter.budget) as pool:
+    usable = total >= PARALLEL_MIN_BYTES and counter.budget.limit >= PARALLEL_MIN_BUDGET
+    with tokeniser_pool(usable) as pool:
         pending: deque[Any] = deque()
 
         def drain(keep: int) -> None:
             while len(pending) > keep:
-                distinct, positions = pending.popleft().get()
-                counter.add_tokenized(distinct, positions)
+                counter.add_tokenized(pending.popleft().get())
 
         for path in found.files:
             for chunk in iter_chunks(path, replace_bad_bytes=replace_bad_bytes, **reading):
@@ -734,42 +786,12 @@ PARALLEL_MIN_BYTES = 16 << 20
 """Corpora at least this large are tokenised by worker processes (when the machine has two cores or more)."""
 
 PARALLEL_MIN_BUDGET = 4 << 30
-"""Workers hold a chunk of text and its tokens each (about 100 MB) outside the build's own
+"""Workers hold a chunk of text and its tokens each (about 100 MB), and their dictionaries of
+written forms (see :data:`predictor.tokenisers.WORKER_FORM_BYTES`), outside the build's own
 memory, so they are used only with a budget this large; below it the build tokenises itself."""
 
 TOKENISERS_AHEAD = 4
 """Chunks handed to the workers before the first result is awaited."""
-
-
-def tokenise_part(text: str, wrapped: bool) -> tuple[list[str], np.ndarray]:
-    """Tokenise a chunk for :meth:`CorpusCounter.add_tokenized` (runs in a worker process).
-
-    Returns:
-        The distinct tokens in order of first appearance, and an int32 array of
-        shape (tokens,) giving each token's index into them.
-    """
-    found = tokens(text, wrapped=wrapped)
-    distinct = list(dict.fromkeys(found))
-    index = {token: i for i, token in enumerate(distinct)}
-    return distinct, np.array(list(map(index.__getitem__, found)), dtype=np.int32)
-
-
-@contextmanager
-def _tokenisers(total_bytes: int, budget: MemoryBudget) -> Iterator[Any]:
-    """A pool of tokenising worker processes, or None where one would not pay."""
-    cores = os.cpu_count() or 1
-    usable = cores > 1 and total_bytes >= PARALLEL_MIN_BYTES and budget.limit >= PARALLEL_MIN_BUDGET
-    if not usable or "fork" not in multiprocessing.get_all_start_methods():
-        yield None
-        return
-    # Regular expressions and dictionary lookups cost about 0.7 us a token in
-    # Python; two workers tokenise while this process counts.
-    pool = multiprocessing.get_context("fork").Pool(min(cores, 2))
-    try:
-        yield pool
-    finally:
-        pool.terminate()
-        pool.join()
 
 
 def split_text(text: str, size: int) -> Iterator[str]:

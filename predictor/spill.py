@@ -34,18 +34,25 @@ MIN_BLOCK_ROWS = 1 << 12
 _EMPTY = np.zeros(0, dtype=np.int64)
 
 
-def sum_duplicates(keys: np.ndarray, counts: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
+PACKED_COUNT_BITS = 8
+"""Keys leaving at least this many of 63 bits free are sorted with their counts packed beside them."""
+
+
+def sum_duplicates(keys: np.ndarray, counts: np.ndarray | None = None, key_bits: int = 63) -> tuple[np.ndarray, np.ndarray]:
     """Sort keys and sum the counts of equal ones.
 
     Args:
         keys: int64 array of shape (n,), any order.
         counts: int64 array of shape (n,), or None for a count of 1 each.
+        key_bits: every key is below ``2 ** key_bits``.
 
     Returns:
         The sorted unique keys and their summed counts (int64 arrays).
     """
     if len(keys) == 0:
         return _EMPTY, _EMPTY
+    if counts is not None and 63 - key_bits >= PACKED_COUNT_BITS:
+        return _sum_packed(keys, counts, 63 - key_bits)
     if counts is None:
         keys = np.sort(keys)
         starts = _group_starts(keys)
@@ -58,6 +65,23 @@ def sum_duplicates(keys: np.ndarray, counts: np.ndarray | None = None) -> tuple[
     del order
     starts = _group_starts(keys)
     return keys[starts], np.add.reduceat(counts, starts).astype(np.int64, copy=False)
+
+
+def _sum_packed(keys: np.ndarray, counts: np.ndarray, spare: int) -> tuple[np.ndarray, np.ndarray]:
+    """:func:`sum_duplicates` by sorting values: each count below ``2 ** spare`` is packed
+    below its key (a value sort is several times faster than an argsort); larger counts
+    are summed apart and merged in."""
+    small = (counts >= 0) & (counts < (1 << spare))
+    packed = keys[small] << spare
+    packed |= counts[small]
+    packed.sort()
+    sorted_keys = packed >> spare
+    starts = _group_starts(sorted_keys) if len(packed) else _EMPTY
+    summed = np.add.reduceat(packed & ((1 << spare) - 1), starts) if len(packed) else _EMPTY
+    table = sorted_keys[starts], summed
+    if small.all():
+        return table
+    return merge_tables(*table, *sum_duplicates(keys[~small], counts[~small]))
 
 
 def _group_starts(sorted_keys: np.ndarray) -> np.ndarray:

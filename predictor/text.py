@@ -23,6 +23,7 @@ from __future__ import annotations
 import re
 import unicodedata
 from collections.abc import Iterator
+from operator import itemgetter
 
 # Combining marks that NFC cannot fold into a precomposed letter (Latin, Greek,
 # Cyrillic, Hebrew, Arabic, Devanagari vowel signs and the generic blocks).
@@ -70,6 +71,14 @@ def model_form(word: str) -> str:
 def is_sentence_end(token: str) -> bool:
     """Tell whether a token from :data:`TOKEN_RE` ends a sentence."""
     return not token[:1].isalnum()
+
+
+def are_words(found: list[str]) -> list[bool]:
+    """For each token from :data:`TOKEN_RE`, whether it is a word: :func:`is_sentence_end` negated, in bulk."""
+    return list(map(str.isalnum, map(_FIRST_CHARACTER, found)))
+
+
+_FIRST_CHARACTER = itemgetter(slice(0, 1))
 
 
 def prepare(text: str, *, wrapped: bool = False) -> str:

@@ -19,6 +19,7 @@ from nltk.util import ngrams
 import predictor
 from predictor import counting
 from predictor.corpus import iter_chunks
+from predictor.memory import MemoryBudget
 from public_text import kjv_split, model_sentences, write_lines
 
 VERSES = 800
@@ -165,13 +166,42 @@ def test_counting_with_tokenising_workers_gives_exactly_the_sequential_counts(tm
     sequential = counting.count_corpus([corpus])
     monkeypatch.setattr(counting, "PARALLEL_MIN_BYTES", 0)
     monkeypatch.setattr(counting, "PARALLEL_MIN_BUDGET", 0)
-    monkeypatch.setattr(counting, "CHUNK_BYTES", 1 << 14)
+    monkeypatch.setattr(MemoryBudget, "chunk_bytes", property(lambda self: 1 << 14))  # several chunks
     parallel = counting.count_corpus([corpus], budget=None)
-    assert parallel.types == sequential.types
-    assert parallel.display == sequential.display
-    assert np.array_equal(parallel.type_counts, sequential.type_counts)
-    assert (parallel.corpus_tokens, parallel.sentences) == (sequential.corpus_tokens, sequential.sentences)
+    assert_same_counts(parallel, sequential)
+
+
+def assert_same_counts(ours: predictor.CorpusCounts, theirs: predictor.CorpusCounts) -> None:
+    """Every count, type and display form equal, to the last trigram."""
+    assert ours.types == theirs.types
+    assert ours.display == theirs.display
+    assert np.array_equal(ours.type_counts, theirs.type_counts)
+    assert (ours.corpus_tokens, ours.sentences, ours.unlisted_tokens) == (theirs.corpus_tokens, theirs.sentences, theirs.unlisted_tokens)
     for name in ("table", "heldout"):
-        ours, theirs = getattr(parallel, name), getattr(sequential, name)
         for column in "uvwn":
-            assert np.array_equal(getattr(ours, column), getattr(theirs, column))
+            assert np.array_equal(getattr(getattr(ours, name), column), getattr(getattr(theirs, name), column))
+
+
+def test_workers_restarting_their_form_dictionaries_against_a_full_dictionary_count_as_one_process(corpus, monkeypatch):
+    # Exact equality with the single-process count is the reference (a property of the design):
+    # the workers' dictionaries start afresh every few chunks and the build's own dictionary fills up.
+    import predictor.tokenisers as tokenisers
+
+    monkeypatch.setattr(MemoryBudget, "dictionary_bytes", property(lambda self: 150_000))
+    sequential = counting.count_corpus([corpus])
+    assert sequential.unlisted_tokens > 0
+    monkeypatch.setattr(counting, "PARALLEL_MIN_BYTES", 0)
+    monkeypatch.setattr(counting, "PARALLEL_MIN_BUDGET", 0)
+    monkeypatch.setattr(MemoryBudget, "chunk_bytes", property(lambda self: 1 << 13))
+    monkeypatch.setattr(tokenisers, "WORKER_FORM_BYTES", 100_000)
+    fresh_starts = []
+    add_tokenized = counting.CorpusCounter.add_tokenized
+
+    def recording(self, part):
+        fresh_starts.append(part.first == 0)
+        add_tokenized(self, part)
+
+    monkeypatch.setattr(counting.CorpusCounter, "add_tokenized", recording)
+    parallel = counting.count_corpus([corpus])
+    assert sum(fresh_starts) > 2 and not all(fresh_starts)  # restarts beyond each worker's first chunk
+    assert_same_counts(parallel, sequential)

@@ -17,7 +17,7 @@ import pytest
 
 import predictor
 from predictor import counting
-from predictor.arrays import aggregate_rows, offsets_dtype, word_id_dtype
+from predictor.arrays import aggregate_rows, offsets_dtype, stable_argsort, word_id_dtype
 from predictor.counting import ID_BITS, MAX_RAW_TYPES, MAX_VOCABULARY, pack_trigrams, unpack_trigrams
 from predictor.modelfile import read_model_file, write_model_file
 from public_text import kjv_split, write_lines
@@ -66,6 +66,34 @@ def test_aggregating_rows_of_large_ids_sums_exactly_on_either_side_of_the_63_bit
     assert list(zip(u.tolist(), v.tolist(), w.tolist())) == sorted(reference)
     assert n.dtype == np.int64 and n.tolist() == [reference[row] for row in sorted(reference)]
     assert int(n.sum()) == int(counts.sum()) > 2**40
+
+
+@pytest.mark.parametrize("base", [1000, 50_003, 2**18])
+def test_aggregating_rows_with_counts_packed_beside_the_keys_sums_small_and_large_counts_exactly(base):
+    # Counts below 2^(63 - key bits) are sorted packed beside their keys; larger ones are summed
+    # apart and merged in. Reference: collections.Counter over the same rows.
+    rng = np.random.default_rng(base)
+    columns = [rng.integers(0, min(base, 40), 6000).astype(np.int32) for _ in range(3)]
+    spare = 63 - 3 * int(base - 1).bit_length()
+    counts = rng.integers(1, 5, 6000).astype(np.int64)
+    large = rng.random(6000) < 0.1
+    counts[large] = rng.integers(2**spare, 2**spare + 10**6, int(large.sum()))
+    (u, v, w), n = aggregate_rows(columns, counts, base)
+    reference: Counter = Counter()
+    for row, count in zip(zip(*(c.tolist() for c in columns)), counts.tolist()):
+        reference[row] += count
+    assert list(zip(u.tolist(), v.tolist(), w.tolist())) == sorted(reference)
+    assert n.tolist() == [reference[row] for row in sorted(reference)]
+
+
+@pytest.mark.parametrize("key_bits", [20, 50])
+def test_the_packed_argsort_is_numpys_stable_argsort(key_bits):
+    # Reference: numpy.argsort(kind="stable"); 20 bits pack beside a 14-bit row index, 50 do not.
+    rng = np.random.default_rng(key_bits)
+    keys = rng.integers(0, 2**key_bits, 10_000) // 1000 * 1000  # many equal keys
+    order, sorted_keys = stable_argsort(keys, key_bits)
+    assert np.array_equal(order, np.argsort(keys, kind="stable"))
+    assert np.array_equal(sorted_keys, np.sort(keys))
 
 
 def test_a_vocabulary_beyond_the_format_is_refused_before_the_corpus_is_read(tmp_path, run_cli):

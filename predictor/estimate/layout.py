@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..arrays import group_starts
+from ..arrays import group_starts, stable_argsort
 from ..counting import RAW_END, RAW_START, CorpusCounts, TrigramTable
 
 
@@ -114,12 +114,13 @@ class Layout:
         # Bigram entries are the distinct (v, w) tails of the trigram rows; keep which
         # entry each row's tail is, so estimators need no search for it.
         tail = table.v.astype(np.int64) * base + table.w
-        order = np.argsort(tail, kind="stable")
-        sorted_tail = tail[order]
+        order, sorted_tail = stable_argsort(tail, max(1, (base * base - 1).bit_length()))
+        rows = len(tail)
+        del tail
         starts = group_starts(sorted_tail)
-        trigram_bigram = np.empty(len(tail), dtype=np.int64)
-        if len(tail):
-            group = np.zeros(len(tail), dtype=np.int64)
+        trigram_bigram = np.empty(rows, dtype=np.int64)
+        if rows:
+            group = np.zeros(rows, dtype=np.int64)
             group[starts[1:]] = 1
             trigram_bigram[order] = np.cumsum(group)
         bn = np.add.reduceat(table.n[order], starts) if len(starts) else np.zeros(0, dtype=np.int64)
@@ -127,11 +128,15 @@ class Layout:
         bv = (unique_tail // base).astype(np.int32)
         bw = (unique_tail % base).astype(np.int32)
         bigram_off = np.searchsorted(bv, np.arange(base + 1)).astype(np.int64)
-        bigram_key = bv.astype(np.int64) * base + bw
-        row_key = table.u.astype(np.int64) * base + table.v
-        ctx = np.searchsorted(bigram_key, row_key).astype(np.int64)
-        opening = (table.u == start) & (table.v == start)
-        ctx[opening] = len(bw)
+        # Rows are sorted by (u, v): look each context pair up once.
+        pair_key = table.u.astype(np.int64) * base + table.v
+        pair_starts = group_starts(pair_key)
+        pair_ctx = np.searchsorted(unique_tail, pair_key[pair_starts]).astype(np.int64)
+        pair_ctx[pair_key[pair_starts] == start * base + start] = len(bw)
+        ctx = np.zeros(len(pair_key), dtype=np.int64)
+        if len(pair_ctx):
+            ctx[pair_starts] = np.diff(pair_ctx, prepend=0)
+            np.cumsum(ctx, out=ctx)
         trigram_off = np.searchsorted(ctx, np.arange(len(bw) + 2)).astype(np.int64)
         return Layout(base, bv, bw, bn, bigram_off, ctx, trigram_off, trigram_bigram)
 
