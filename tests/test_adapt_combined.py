@@ -233,3 +233,24 @@ def test_a_new_word_with_no_evidence_for_its_share_is_still_offered_at_probabili
     assert found(model, ("zzz",), "q", 12) == brute_force(model, ("zzz",), "q", 12)
     model.user.set_settings(model.settings.changed(learning=False))
     assert model.suggest((), "quillm", 3) == []
+
+
+def test_a_follower_whose_word_count_was_removed_from_the_file_is_still_ranked_exactly(bases):
+    # A hand-edited learned file can hold a bigram whose word has no unigram count; the word is then
+    # known only as a follower, and the list must still equal brute force.
+    base = bases["kneser-ney"]
+    user = UserModel(base.vocab)
+    model = AdaptedModel(base, user)
+    for _ in range(6):
+        model.learn(["the", "ferry", "left", "vessock", "harbour"], end=True)
+    state = user.snapshot()
+    dropped = state["words"].index("harbour")
+    keep = state["unigrams"]["w"] != dropped
+    state["unigrams"] = {name: column[keep] for name, column in state["unigrams"].items()}
+    edited = UserModel(base.vocab)
+    edited.restore(state)
+    assert edited.uses(edited.id_of("harbour")) == 0
+    model = AdaptedModel(base, edited)
+    for context, prefix in [(("left", "vessock"), ""), (("left", "vessock"), "h"), (("vessock",), "ha"), (("the", "ferry"), "")]:
+        assert found(model, context, prefix, 5) == brute_force(model, context, prefix, 5)
+    assert "harbour" in [s.word.lower() for s in model.suggest(("left", "vessock"), "h", 5)]
