@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import math
 
 import numpy as np
 import pytest
@@ -163,13 +162,3 @@ def test_learning_rejects_anything_that_is_not_one_word():
     with pytest.raises(OptionError, match="not a single word"):
         model.learn(["!"])
 
-
-def test_the_by_count_list_stays_sorted_as_counts_grow():
-    model = UserModel()
-    for sentence in [["a"], ["b", "b"], ["c", "c", "c"], ["a", "a", "a"], ["d"]]:
-        model.learn(sentence)
-    ids, minus = model.ranked()
-    counts = -minus
-    assert list(counts) == sorted(counts, reverse=True)
-    assert [model.form(int(i)) for i in ids[:2]] == ["a", "c"]
-    assert math.isclose(float(counts[0]), 4.0)

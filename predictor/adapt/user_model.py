@@ -220,11 +220,6 @@ class UserModel:
         self._w1 = np.zeros(capacity, dtype=np.float64)
         self._n1 = np.zeros(capacity, dtype=np.int64)
         self._seen1 = np.zeros(capacity, dtype=np.int64)
-        # Counted words by count, most counted first: ids, minus their counts (ascending), and each id's place.
-        self._rank = np.zeros(64, dtype=np.int64)
-        self._rank_neg = np.zeros(64, dtype=np.float64)
-        self._rank_pos = np.full(capacity, -1, dtype=np.int64)
-        self._rank_len = 0
         self._total = 0.0
         self._credit = np.zeros(3, dtype=np.float64)
         self._evidence = np.zeros(3, dtype=np.float64)
@@ -282,9 +277,9 @@ class UserModel:
         if needed <= len(self._w1):
             return
         capacity = max(needed, 2 * len(self._w1))
-        for name in ("_w1", "_n1", "_seen1", "_rank_pos"):
+        for name in ("_w1", "_n1", "_seen1"):
             old = getattr(self, name)
-            new = np.zeros(capacity, dtype=old.dtype) if name != "_rank_pos" else np.full(capacity, -1, dtype=old.dtype)
+            new = np.zeros(capacity, dtype=old.dtype)
             new[: len(old)] = old
             setattr(self, name, new)
 
@@ -400,8 +395,6 @@ class UserModel:
         self._n1[w] += 1
         self._seen1[w] = when
         self._total += amount
-        if w != self.end_id:
-            self._promote(w)
         followers = self._ctx2.get(v)
         if followers is None:
             followers = self._ctx2[v] = Followers()
@@ -419,46 +412,6 @@ class UserModel:
         if self._scale > _RESCALE_AT:
             self._rescale()
 
-    def _promote(self, word_id: int) -> None:
-        """Move a word whose count grew to its place in the by-count list (O(places moved))."""
-        pos = int(self._rank_pos[word_id])
-        if pos < 0:
-            if self._rank_len == len(self._rank):
-                self._rank = np.concatenate((self._rank, np.zeros(len(self._rank), dtype=np.int64)))
-                self._rank_neg = np.concatenate((self._rank_neg, np.zeros(len(self._rank_neg))))
-            pos = self._rank_len
-            self._rank_len += 1
-        neg = -self._w1[word_id]
-        place = int(self._rank_neg[:pos].searchsorted(neg, side="right"))
-        if place < pos:
-            self._rank[place + 1 : pos + 1] = self._rank[place:pos].copy()
-            self._rank_neg[place + 1 : pos + 1] = self._rank_neg[place:pos].copy()
-            self._rank_pos[self._rank[place + 1 : pos + 1]] += 1
-        self._rank[place] = word_id
-        self._rank_neg[place] = neg
-        self._rank_pos[word_id] = place
-
-    def _rebuild_rank(self) -> None:
-        counted = np.flatnonzero(self._n1 > 0)
-        counted = counted[(counted < self.base_size) | (counted >= self.first_learned_id)]
-        order = counted[np.argsort(-self._w1[counted], kind="stable")]
-        size = max(64, len(order))
-        self._rank = np.zeros(size, dtype=np.int64)
-        self._rank_neg = np.zeros(size, dtype=np.float64)
-        self._rank[: len(order)] = order
-        self._rank_neg[: len(order)] = -self._w1[order]
-        self._rank_pos = np.full(len(self._w1), -1, dtype=np.int64)
-        self._rank_pos[order] = np.arange(len(order))
-        self._rank_len = len(order)
-
-    def ranked(self) -> tuple[np.ndarray, np.ndarray]:
-        """Every counted word by inflated count, most counted first.
-
-        Returns:
-            ``(ids, minus_counts)``: int64 and float64 views of shape (n,); do not modify.
-        """
-        return self._rank[: self._rank_len], self._rank_neg[: self._rank_len]
-
     def _mark_ready(self, word_id: int) -> None:
         form = self._forms[word_id - self.first_learned_id]
         at = bisect_left(self._ready_forms, form)
@@ -472,7 +425,6 @@ class UserModel:
     def _rescale(self) -> None:
         factor = 1.0 / self._scale
         self._w1 *= factor
-        self._rank_neg *= factor
         self._total *= factor
         self._credit *= factor
         self._evidence *= factor
@@ -623,10 +575,6 @@ class UserModel:
         share1 = context.gamma3 * context.gamma2 * p1
         return 3 if share3 >= share2 and share3 >= share1 else 2 if share2 >= share1 else 1
 
-    def unigram_table(self) -> np.ndarray:
-        """The inflated unigram counts indexed by id (float64 view; do not modify)."""
-        return self._w1
-
     def unigram_weights(self, ids: np.ndarray) -> np.ndarray:
         """The inflated unigram counts of ids (float64 array of the same shape)."""
         return self._w1[np.asarray(ids, dtype=np.int64)]
@@ -684,7 +632,6 @@ class UserModel:
         self._ready_ids = [word_id for _, word_id in pairs]
         used = np.flatnonzero(self._n1[: self.base_size] > 0)
         self._seen_base = used.astype(np.int64)
-        self._rebuild_rank()
         self._ready_log = []
         self.seen_version += 1
         self.ready_version += 1
