@@ -2,8 +2,9 @@
 
 Keystroke savings (solid lines, left axis, percent), the oracle's savings
 (dotted, same axis) and, when the sweep measured it, the savings of a typist
-whose user model learns as they go (dash-dot, hollow markers) share the chart with p99 suggestion latency (dashed, right
-axis, microseconds), one colour per method.  The vocabulary axis is
+whose user model learns as they go (dash-dot, hollow markers) share the chart
+with p99 suggestion latency (dashed, right axis, microseconds), one colour per
+method.  The vocabulary axis is
 logarithmic when the sizes span a factor of four or more.  Plain SVG 1.1, no
 scripts, readable in any browser or on GitHub.
 """
@@ -37,6 +38,11 @@ def _size_label(size: float) -> str:
     return f"{size:,.0f}"
 
 
+def has_learning(rows: Sequence[dict[str, Any]]) -> bool:
+    """Tell whether sweep rows (as JSON objects) measured savings with learning (``foretype sweep --adapt``)."""
+    return any(r.get("adapted_ksr") is not None for r in rows)
+
+
 def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: str = "Keystroke savings and p99 latency by vocabulary size") -> str:
     """Draw a sweep's rows as an SVG document.
 
@@ -57,11 +63,14 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
         f'<rect width="{WIDTH}" height="{HEIGHT}" fill="#ffffff"/>',
         f'<text x="{LEFT}" y="22" font-size="15" font-weight="bold">{escape(title)}</text>',
     ]
-    subtitle = "solid: keystroke savings; dotted: oracle (vocabulary-limited best); dashed: p99 latency (right axis)"
+    points = [r for r in rows if r.get("vocab_size")]
+    if has_learning(points):
+        subtitle = "solid: keystroke savings; dash-dot: learning as it goes; dotted: oracle; dashed: p99 latency (right axis)"
+    else:
+        subtitle = "solid: keystroke savings; dotted: oracle (vocabulary-limited best); dashed: p99 latency (right axis)"
     if k is not None:
         subtitle = f"k = {k}. " + subtitle
     parts.append(f'<text x="{LEFT}" y="40" fill="#555555">{escape(subtitle)}</text>')
-    points = [r for r in rows if r.get("vocab_size")]
     if not points:
         parts.append(f'<text x="{LEFT + plot_w / 2}" y="{TOP + plot_h / 2}" text-anchor="middle" fill="#777777">no rows yet</text>')
         parts.append("</svg>")
@@ -80,9 +89,6 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
         value = math.log10(size) if logarithmic else size
         return LEFT + (value - x_lo) / (x_hi - x_lo) * plot_w
 
-    learning = any(r.get("adapted_ksr") is not None for r in points)
-    if learning:
-        parts[-1] = parts[-1].replace(escape(subtitle), escape(subtitle.replace("; dotted: oracle (vocabulary-limited best)", "; dash-dot: learning as it goes; dotted: oracle")))
     savings = [100 * float(r[key]) for r in points for key in ("ksr", "oracle_ksr", "adapted_ksr") if r.get(key) is not None]
     step = _nice_step(max(savings) - min(savings) if len(savings) > 1 else 10.0)
     y_lo = max(0.0, math.floor(min(savings) / step) * step - step)

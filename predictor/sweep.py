@@ -40,13 +40,13 @@ from dataclasses import asdict, dataclass, field
 from pathlib import Path
 from typing import Any
 
+from .adapt.simulation import simulate_adaptive
 from .build import build_from_counts, check_build_options
 from .chart import sweep_chart
 from .counting import count_corpus
 from .errors import OptionError
 from .estimate import METHODS
 from .model import load
-from .adapt.simulation import simulate_adaptive
 from .simulate import TypistSettings, read_passage, simulate
 from .simulate.writing import prepare_folder, write_text_atomic
 
@@ -414,7 +414,7 @@ def format_table(rows: Sequence[SweepRow]) -> str:
             f"{100 * row.baseline_ksr:.1f}%",
             "n/a" if row.latency_p50_us is None else f"{row.latency_p50_us:,.0f}",
             "n/a" if row.latency_p99_us is None else f"{row.latency_p99_us:,.0f}",
-            )
+        )
         if adapted:
             line += (
                 "" if row.adapted_ksr is None else f"{100 * row.adapted_ksr:.1f}%",

@@ -357,9 +357,9 @@ class AdaptedModel:
         if hit.all():
             return keys, ids, p_user
         strays, strays_user = members[~hit], members_user[~hit]
-        if not any(self._could_suggest(i) for i in strays.tolist()):
-            return keys, ids, p_user  # END, UNKNOWN, blocked words and new words not used enough yet
         keep = np.array([self._could_suggest(i) for i in strays.tolist()], dtype=bool)
+        if not keep.any():
+            return keys, ids, p_user  # END, UNKNOWN, blocked words and new words not used enough yet
         stray_keys = self._keys_any(strays)
         keys = np.concatenate((keys, stray_keys[keep]))
         ids = np.concatenate((ids, strays[keep]))

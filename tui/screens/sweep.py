@@ -19,6 +19,7 @@ from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Header, Static
 from textual_plotext import PlotextPlot
 
+from predictor.chart import has_learning
 from predictor.errors import ForetypeError
 
 from ..files import SweepFile, read_sweep
@@ -32,11 +33,6 @@ COLUMNS = ("method", "vocabulary", "KSR", "oracle", "baseline", "p50 µs", "p99 
 """The table's columns."""
 LEARNING_COLUMNS = COLUMNS[:4] + ("learning",) + COLUMNS[4:]
 """The columns of a sweep run with ``--adapt``: the KSR of a typist whose user model learns as they go comes after the oracle."""
-
-
-def has_learning(rows: list[dict[str, Any]]) -> bool:
-    """Tell whether a sweep measured savings with learning (``foretype sweep --adapt``)."""
-    return any(r.get("adapted_ksr") is not None for r in rows)
 
 
 def _number(value: Any, digits: int = 0) -> str:
