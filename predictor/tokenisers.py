@@ -61,9 +61,12 @@ class _FormNumbers(dict[str, int]):
     def __init__(self) -> None:
         super().__init__()
         self.bytes = 0
+        self.fresh: list[str] = []
+        """Forms numbered since the last chunk was sent (so sending them never walks the whole dictionary)."""
 
     def __missing__(self, form: str) -> int:
         number = self[form] = len(self)
+        self.fresh.append(form)
         return number
 
 
@@ -94,7 +97,7 @@ def tokenise_part(text: str, wrapped: bool) -> TokenisedPart:
     first = len(numbers)
     # One pass numbers every token, new forms included (__missing__ numbers them).
     positions = np.fromiter(map(numbers.__getitem__, found), dtype=np.int32, count=len(found))
-    new = list(numbers)[first:] if len(numbers) > first else []
+    new, numbers.fresh = numbers.fresh, []
     numbers.bytes += sum(map(sys.getsizeof, new)) + FORM_BYTES * len(new)
     return TokenisedPart(os.getpid(), first, new, positions)
 
