@@ -283,7 +283,8 @@ class LanguageModel:
         hit = words.take(at, mode="clip") == ids
         raw = codes.take(at, mode="clip")
         values = self._table.take(raw) if self._table is not None else raw.astype(np.float64)
-        return hit, np.where(hit, values, 0.0)
+        values *= hit  # stored values are finite and non-negative: times 0 is 0.0, times 1 unchanged
+        return hit, values
 
     def _orders(self, probs: list[float], a2: list[float] | None, a3: list[float] | None, gamma3: float) -> list[int]:
         """Which order (1, 2 or 3) supplied most of each probability (ties go to the higher order)."""

@@ -77,7 +77,7 @@ import numpy as np
 from ..errors import OptionError
 from ..model import LanguageModel, capitalise
 from ..text import model_form, split_before_cursor
-from ..vocabulary import END, START, Vocabulary
+from ..vocabulary import END, START, PrefixRange, Vocabulary
 from .never_list import NeverList
 from .settings import AdaptSettings
 from .user_model import UserContext, UserModel
@@ -90,6 +90,10 @@ _FEW_REACHING = 32
 _KEY_SHIFT = 21
 """Sort keys: a base id i is (i << 21) | (2**21 - 1); the j-th new word sorting just before base word i is (i << 21) | j."""
 _BASE_KEY_LOW = (1 << _KEY_SHIFT) - 1
+_SMALL_SLICE = 24
+"""A prefix's part of the pool with at most this many words is bounded in plain Python."""
+_PREFIX_MEMO = 4096
+"""At most this many typed prefixes keep their id and key ranges between queries."""
 _NO_IDS = np.zeros(0, dtype=np.int64)
 _NO_PROBS = np.zeros(0, dtype=np.float64)
 
@@ -136,6 +140,10 @@ class _Context:
     """int64 ids of the pool, in the order of keys."""
     p_user: np.ndarray
     """float64 P_user of the pool's words after this context."""
+    floors: np.ndarray
+    """float64 mu * P_user of the pool's words: the least combined score each can have."""
+    where: np.ndarray | None
+    """Pool position of each id (-1 if not pooled), when this context's pool is laid out as the shared one; else None."""
 
 
 class LearnedWord(NamedTuple):
@@ -204,6 +212,7 @@ class AdaptedModel:
         self._learned_keys: dict[int, int] = {}
         self._learned_key_array = np.zeros(0, dtype=np.int64)
         self._insertion: dict[int, int] = {}
+        self._prefixes: dict[str, tuple[PrefixRange | None, tuple[int, int] | None]] = {}
         self._context_key: tuple[int, ...] | None = None
         self._context: _Context | None = None
         self._pool_state: tuple = ()
@@ -224,6 +233,7 @@ class AdaptedModel:
         self._seen_state = (-1, -1)
         self._ready_state = (-1, -1)
         self._insertion = {}
+        self._prefixes = {}
         self._context_key = None
         self._context = None
         self._pool_state = ()
@@ -330,36 +340,45 @@ class AdaptedModel:
         uctx = user.context(u, v)
         mu = user.share(uctx)
         keys, ids = self._pool_keys, self._pool_ids
+        where: np.ndarray | None = self._pool_where
         if mu > 0.0 and uctx.total1 > 0:
             # Outside the words seen after (u, v) or v, P_user is the Witten-Bell chain over the
             # unigram alone: (1 - g3) * 0.0 + g3 * ((1 - g2) * 0.0 + g2 * p1) is g3 * (g2 * p1) exactly.
             p_user = uctx.gamma3 * (uctx.gamma2 * self._pool_unigram(uctx.total1))
-            keys, ids, p_user = self._with_followers(uctx, keys, ids, p_user)
+            merged = self._with_followers(uctx, keys, ids, p_user)
+            if merged is not None:
+                keys, ids, p_user = merged
+                where = None
         else:
             p_user = np.zeros(len(ids), dtype=np.float64)
             if mu <= 0.0:
                 mu, uctx = 0.0, None
-        self._context = _Context(mu, uctx, ub, vb, keys, ids, p_user)
+        self._context = _Context(mu, uctx, ub, vb, keys, ids, p_user, mu * p_user, where)
         self._context_key = key
         return self._context
 
-    def _with_followers(self, uctx: UserContext, keys: np.ndarray, ids: np.ndarray, p_user: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-        """The pool with the exact P_user of the words seen after (u, v) or after v.
+    def _with_followers(self, uctx: UserContext, keys: np.ndarray, ids: np.ndarray, p_user: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
+        """Write the exact P_user of the words seen after (u, v) or after v into ``p_user``.
 
-        Those words are counted, so they are normally in the pool already; a
-        follower the pool lacks (a hand-edited file can hold one) is merged in.
+        Those words are counted, so they are normally in the pool already and
+        None is returned: the pool keeps its layout.  A follower the pool lacks
+        (a hand-edited file can hold one) is merged in, and the merged
+        ``(keys, ids, p_user)`` are returned.
         """
         members, members_user = self.user.followers(uctx)
+        if not len(members):
+            return None
         where = self._pool_where
         at = where[np.minimum(members, len(where) - 1)]  # the last slot is -1: ids past it are not pooled
+        if at.min() >= 0:
+            p_user[at] = members_user
+            return None
         hit = at >= 0
         p_user[at[hit]] = members_user[hit]
-        if hit.all():
-            return keys, ids, p_user
         strays, strays_user = members[~hit], members_user[~hit]
         keep = np.array([self._could_suggest(i) for i in strays.tolist()], dtype=bool)
         if not keep.any():
-            return keys, ids, p_user  # END, UNKNOWN, blocked words and new words not used enough yet
+            return None  # END, UNKNOWN, blocked words and new words not used enough yet
         stray_keys = self._keys_any(strays)
         keys = np.concatenate((keys, stray_keys[keep]))
         ids = np.concatenate((ids, strays[keep]))
@@ -479,15 +498,17 @@ class AdaptedModel:
         round as Python's do); candidates are (-probability, sort key, id,
         P_base, P_user) rows, sorted.
         """
-        form = model_form(prefix)
-        span = self.base.vocab.prefix_range(form)
-        key_range = self._key_range(form, span)
+        span, key_range = self._ranges_of(prefix)
         if key_range is None:
             return []
         mu = prepared.mu
         m = 1.0 - mu
         lo, hi = prepared.keys.searchsorted(np.array((key_range[0], key_range[1] + 1), dtype=np.int64)).tolist()
-        pool = _Slice(prepared.keys[lo:hi], prepared.ids[lo:hi], prepared.p_user[lo:hi])
+        pool = _Slice(prepared.keys[lo:hi], prepared.ids[lo:hi], prepared.p_user[lo:hi], prepared.floors[lo:hi])
+        if prepared.where is not None and prepared.ids is self._pool_ids:
+            where_item, p_user_item = prepared.where.item, prepared.p_user.item
+        else:
+            where_item = None
         blocked = self._blocked_set
         a_depth = k + _GUARD
         while True:
@@ -499,7 +520,10 @@ class AdaptedModel:
             a_done = len(found) < a_depth
             a_ids, a_base = found.tolist(), found_base.tolist()
             a_last = a_base[-1] if a_ids and not a_done else 0.0
-            a_user = pool.p_user_of(found).tolist()
+            if where_item is not None:
+                a_user = [p_user_item(at) if at >= 0 else 0.0 for at in map(where_item, a_ids)]
+            else:
+                a_user = pool.p_user_of(found).tolist()
             rows = [(-(m * pb + mu * pu), (i << _KEY_SHIFT) | _BASE_KEY_LOW, i, pb, pu) for i, pb, pu in zip(a_ids, a_base, a_user) if i not in blocked]
             rows.sort()
             # Every unread word of the range scores at most m * a_last + mu * P_user (its own P_user).
@@ -604,6 +628,7 @@ class AdaptedModel:
     def _rebuild_ready(self) -> None:
         """The suggestable new words (sorted by form, never-list applied) and their sort keys."""
         user = self.user
+        self._prefixes.clear()
         self._ready_forms, self._ready_ids, self._learned_keys = [], [], {}
         self._learned_key_array = np.full(user.learned_count, -1, dtype=np.int64)
         allowed = [(form, word_id) for form, word_id in zip(user.ready_forms(), user.ready_learned("")) if not self.never.blocks(form)]
@@ -619,6 +644,7 @@ class AdaptedModel:
         at = bisect_left(self._ready_forms, form)
         if at < len(self._ready_forms) and self._ready_forms[at] == form:
             return
+        self._prefixes.clear()
         self._ready_forms.insert(at, form)
         self._ready_ids.insert(at, word_id)
         self._renumber(at, at + 1)
@@ -660,7 +686,19 @@ class AdaptedModel:
             place = self._insertion[word_id] = bisect_left(_BaseWords(self.base.vocab), form)
         return place
 
-    def _key_range(self, form: str, span) -> tuple[int, int] | None:  # noqa: ANN001 - PrefixRange | None
+    def _ranges_of(self, prefix: str) -> tuple[PrefixRange | None, tuple[int, int] | None]:
+        """The base id range and the sort-key range of a typed prefix (kept until the suggestable new words change)."""
+        found = self._prefixes.get(prefix)
+        if found is None:
+            form = model_form(prefix)
+            span = self.base.vocab.prefix_range(form)
+            found = (span, self._key_range(form, span))
+            if len(self._prefixes) >= _PREFIX_MEMO:
+                self._prefixes.clear()
+            self._prefixes[prefix] = found
+        return found
+
+    def _key_range(self, form: str, span: PrefixRange | None) -> tuple[int, int] | None:
         """The sort keys of the first and last suggestable word starting with ``form`` (None if none)."""
         firsts, lasts = [], []
         if span is not None:
@@ -709,10 +747,10 @@ class AdaptedModel:
 class _Slice:
     """A prefix's part of a context's pool: sort keys, ids and user probabilities of the counted words."""
 
-    __slots__ = ("keys", "ids", "p_user")
+    __slots__ = ("keys", "ids", "p_user", "floors")
 
-    def __init__(self, keys: np.ndarray, ids: np.ndarray, p_user: np.ndarray) -> None:
-        self.keys, self.ids, self.p_user = keys, ids, p_user
+    def __init__(self, keys: np.ndarray, ids: np.ndarray, p_user: np.ndarray, floors: np.ndarray) -> None:
+        self.keys, self.ids, self.p_user, self.floors = keys, ids, p_user, floors
 
     def p_user_of(self, ids: np.ndarray) -> np.ndarray:
         """P_user of base word ids (0 for a word outside the slice: never counted)."""
@@ -746,10 +784,18 @@ class _Slice:
         """
         if not len(self.keys):
             return [], [], []
-        bound = edge + mu * self.p_user
+        if len(self.keys) <= _SMALL_SLICE:
+            # The same bound, one Python float at a time: cheaper than numpy calls on a few words.
+            reach = [
+                (i, pu, key)
+                for i, pu, floor, key in zip(self.ids.tolist(), self.p_user.tolist(), self.floors.tolist(), self.keys.tolist())
+                if floor + edge >= threshold and i not in listed
+            ]
+            return [r[0] for r in reach], [r[1] for r in reach], [r[2] for r in reach]
+        bound = self.floors + edge  # edge + mu * P_user: addition commutes exactly
         at = (bound >= threshold).nonzero()[0]
         if len(at) > _FEW_REACHING + len(listed):
-            floors = mu * self.p_user
+            floors = self.floors
             best = np.argpartition(floors, len(floors) - k - len(listed))[len(floors) - k - len(listed) :] if len(floors) > k + len(listed) else np.arange(len(floors))
             outside = sorted((-f for f, i in zip(floors[best].tolist(), self.ids[best].tolist()) if i not in listed))
             if len(outside) >= k:
@@ -776,7 +822,7 @@ def _no_merge(m: float, value: float) -> bool:
     """Tell whether no smaller non-negative number times m rounds to m * value."""
     if value <= 0.0:
         return True
-    return m * value > m * float(np.nextafter(value, 0.0))
+    return m * value > m * math.nextafter(value, 0.0)
 
 
 __all__ = ["AdaptedModel", "AdaptedSuggestion", "LearnedWord"]
