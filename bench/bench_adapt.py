@@ -31,8 +31,6 @@ from __future__ import annotations
 
 import argparse
 import json
-import os
-import platform
 import sys
 import tempfile
 import time
@@ -47,6 +45,7 @@ sys.path.insert(0, str(HERE.parent))
 sys.path.insert(0, str(HERE.parent / "tests"))
 
 import corpus as bench_corpus  # noqa: E402
+from machine import describe, finish_facts, machine_facts  # noqa: E402
 
 import predictor  # noqa: E402
 from predictor.adapt import AdaptedModel  # noqa: E402
@@ -167,7 +166,9 @@ def load_time(model: AdaptedModel, sentences: list[list[str]], folder: Path) -> 
 
 def print_table(results: dict[str, Any]) -> None:
     """The figures as a small table."""
-    print(f"\nload average {results['machine']['load_average_at_start']} -> {results['machine']['load_average_at_end']} on {results['machine']['cpus']} cores")
+    machine = results["machine"]
+    print(f"\nload average {machine['load_average_at_start']} -> {machine['load_average_at_end']} on {machine['cpus']} cores")
+    print(f"{describe(machine['yardstick_at_start'])} at start; {describe(machine['yardstick_at_end'])} at end")
     for name, scenario in results["scenarios"].items():
         print(f"\n{name}: learned {scenario['learned']['tokens']:,} tokens at {scenario['learned']['us_per_token']:.0f} us/token; "
               f"user share {scenario['shares']}")
@@ -198,7 +199,7 @@ def main(argv: list[str] | None = None) -> int:
     words = args.words or (500 if args.quick else 3_000)
     bench_corpus.OUT.mkdir(parents=True, exist_ok=True)
     results: dict[str, Any] = {
-        "machine": {"cpus": os.cpu_count(), "python": platform.python_version(), "numpy": np.__version__, "platform": platform.platform(), "load_average_at_start": os.getloadavg()},
+        "machine": machine_facts(),
         "base": "synthetic: Zipf-distributed vocabulary of invented word forms with Markov structure, 5M tokens, 50,000 words (bench/corpus.py)",
         "scenarios": {},
     }
@@ -219,7 +220,7 @@ def main(argv: list[str] | None = None) -> int:
             scenario["learning"] = type_and_time(model, type_part, words, learning=True)
             scenario["learned_file"] = load_time(AdaptedModel(base), learn_part, Path(folder))
             results["scenarios"][name] = scenario
-    results["machine"]["load_average_at_end"] = os.getloadavg()
+    finish_facts(results["machine"])
     print_table(results)
     stamp = time.strftime("%Y%m%d-%H%M%S")
     text = json.dumps(results, indent=2)

@@ -27,8 +27,6 @@ from __future__ import annotations
 import argparse
 import gc
 import json
-import os
-import platform
 import statistics
 import sys
 import tempfile
@@ -42,6 +40,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 import corpus as bench_corpus  # noqa: E402
+from machine import describe, finish_facts, machine_facts  # noqa: E402
 
 import predictor  # noqa: E402
 from predictor.text import iter_sentences, model_form  # noqa: E402
@@ -239,6 +238,7 @@ def print_table(results: dict[str, Any]) -> None:
         f"load average {machine['load_average_at_start'][0]:.2f} at start, {machine['load_average_at_end'][0]:.2f} at end "
         "(other processes on the machine inflate the tail percentiles)"
     )
+    print(f"{describe(machine['yardstick_at_start'])} at start; {describe(machine['yardstick_at_end'])} at end")
     print(f"corpus: {results['synthetic_corpus']}")
     for build in results["builds"]:
         s = build["seconds"]
@@ -294,7 +294,7 @@ def main(argv: list[str] | None = None) -> int:
     queries = args.queries or (3_000 if args.quick else 20_000)
     bench_corpus.OUT.mkdir(parents=True, exist_ok=True)
     results: dict[str, Any] = {
-        "machine": {"cpus": os.cpu_count(), "python": platform.python_version(), "numpy": np.__version__, "platform": platform.platform(), "load_average_at_start": os.getloadavg()},
+        "machine": machine_facts(),
         "synthetic_corpus": "synthetic: Zipf-distributed vocabulary of 250,000 invented word forms with Markov structure, seeded (bench/corpus.py)",
         "builds": [],
         "models": [],
@@ -338,7 +338,7 @@ def main(argv: list[str] | None = None) -> int:
 
             verses_train, verses_heldout = public_text.kjv_split()
             results["nltk"] = nltk_side_by_side(verses_train[:1000], verses_heldout[:200], work, 30)
-    results["machine"]["load_average_at_end"] = os.getloadavg()
+    finish_facts(results["machine"])
     stamp = time.strftime("%Y%m%d-%H%M%S")
     out = bench_corpus.OUT / f"engine-{stamp}.json"
     out.write_text(json.dumps(results, indent=2), encoding="utf-8")
