@@ -103,3 +103,41 @@ def test_user_files_need_adapt(run_cli, model_path, write_file):
     text = write_file(TEXT, "test.txt")
     result = run_cli("savings", model_path, text, "--user", "x.learned")
     assert result.code == 2 and result.err.strip() == "foretype: --user, --save-user and --block go with --adapt"
+
+
+def test_suggest_with_adapt_answers_as_the_combined_model_and_leaves_the_learned_file_alone(run_cli, model_path, write_file):
+    notes = write_file(TEXT * 3, "notes.txt")
+    assert run_cli("learned", model_path, "--learn", notes).code == 0
+    learned_file = Path(f"{model_path}.learned")
+    before = learned_file.read_bytes()
+    result = run_cli("suggest", model_path, "Gorbalt mended the ", "--adapt", "--json")
+    assert result.code == 0, result.err
+    payload = json.loads(result.out)
+    combined = load_learned(learned_file, predictor.load(model_path))
+    expected = combined.suggest_text("Gorbalt mended the ", k=5)
+    assert [(s["word"], s["prob"], s["order"], s["learned"], s["new_word"]) for s in payload["suggestions"]] == [
+        (s.word, s.prob, s.order, s.learned, s.new_word) for s in expected
+    ]
+    assert ("Quillmere", True) in {(s["word"], s["new_word"]) for s in payload["suggestions"]}
+    assert payload["user_share"] == combined.share(["mended", "the"]) > 0
+    assert learned_file.read_bytes() == before
+    text = run_cli("suggest", model_path, "Gorbalt mended the Qu", "--adapt")
+    assert "Quillmere" in text.out and text.out.splitlines()[2].rstrip().endswith("+")
+    assert "63 tokens learned" in text.out  # 3 x (5 + 7 + 6 words and 3 sentence ends)
+
+
+def test_suggest_with_adapt_and_nothing_learned_is_the_model_alone(run_cli, model_path):
+    adapted = json.loads(run_cli("suggest", model_path, "check the ", "--adapt", "--json").out)
+    plain = json.loads(run_cli("suggest", model_path, "check the ", "--json").out)
+    assert [(s["word"], s["prob"], s["order"]) for s in adapted["suggestions"]] == [(s["word"], s["prob"], s["order"]) for s in plain["suggestions"]]
+    assert adapted["user_share"] == 0.0 and not Path(f"{model_path}.learned").exists()
+
+
+def test_a_named_learned_file_that_does_not_exist_is_an_error_not_an_empty_model(run_cli, model_path, write_file, tmp_path):
+    missing = tmp_path / "typo.learned"
+    for args in (["suggest", model_path, "the ", "--adapt", "--user", missing], ["savings", model_path, write_file(TEXT, "t.txt"), "--adapt", "--user", missing]):
+        result = run_cli(*args)
+        assert result.code == 5 and result.err.strip() == f"foretype: {missing}: no such learned file" and result.out == ""
+        assert not missing.exists()
+    refused = run_cli("suggest", model_path, "the ", "--user", missing)
+    assert refused.code == 2 and refused.err.strip() == "foretype: --user goes with --adapt"

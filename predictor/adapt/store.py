@@ -275,17 +275,21 @@ def apply_record(model: AdaptedModel, record: dict[str, Any]) -> None:
         raise ValueError(f"unknown record kind {kind!r}")
 
 
-def load_learned(path: str | os.PathLike[str], base: LanguageModel) -> AdaptedModel:
+def load_learned(path: str | os.PathLike[str], base: LanguageModel, *, must_exist: bool = False) -> AdaptedModel:
     """Read a learned file into a combined model, without locking or changing the file.
 
-    A missing file gives an empty user model with the default settings.
+    A missing file gives an empty user model with the default settings, unless
+    ``must_exist`` (a file the person named: a typo must not pass for "nothing learned").
 
     Raises:
-        ModelFileError: the file is not a learned file, or is damaged (other than a torn last line).
+        ModelFileError: the file is missing and ``must_exist``, is not a learned file,
+            or is damaged (other than a torn last line).
     """
     source = Path(path)
     parsed = _read(source)
     if parsed is None:
+        if must_exist:
+            raise ModelFileError(f"{source}: no such learned file")
         return AdaptedModel(base)
     return _build(source, base, parsed.records)
 

@@ -244,7 +244,7 @@ def run_adaptive_savings(args: argparse.Namespace, model: LanguageModel, text: s
 
     if args.save_user:
         check_writable_file(args.save_user)
-    start = load_learned(args.user, model) if args.user else AdaptedModel(model)
+    start = load_learned(args.user, model, must_exist=True) if args.user else AdaptedModel(model)
     with progress_bar("typing the test text, learning as it goes") as update:
         result = simulate_adaptive(model, text, settings, update, start=start, block_words=args.block)
     if args.trace:

@@ -5,6 +5,7 @@ from __future__ import annotations
 import argparse
 import time
 from pathlib import Path
+from typing import Any
 
 from ..build import build
 from ..counting import CorpusCounts
@@ -63,6 +64,8 @@ def register(commands: argparse._SubParsersAction) -> None:
     )
     p.add_argument("args", nargs="+", metavar="[MODEL] TEXT", help="model file (default: the demo model) and the text before the cursor")
     p.add_argument("-k", type=positive_int, default=5, help="how many suggestions (default 5)")
+    p.add_argument("--adapt", action="store_true", help="combine the model with what it learned from your typing (MODEL.learned beside it; read only)")
+    p.add_argument("--user", metavar="FILE", help="with --adapt: this learned file instead of MODEL.learned")
     add_json_option(p)
     p.set_defaults(handler=run_suggest)
 
@@ -157,20 +160,43 @@ def run_build(args: argparse.Namespace) -> int:
 
 
 def run_suggest(args: argparse.Namespace) -> int:
-    """foretype suggest."""
+    """foretype suggest (with --adapt: the combined model of the model and its learned file)."""
+    if args.user and not args.adapt:
+        raise OptionError("--user goes with --adapt")
     model_path, (text,) = split_model_argument(args.args, 1, "suggest")
-    model = open_model(model_path)
+    base = open_model(model_path)
+    model: Any = base
+    learned_file = None
+    if args.adapt:
+        from ..adapt.store import default_learned_path, load_learned
+
+        learned_file = Path(args.user) if args.user else default_learned_path(model_path)
+        model = load_learned(learned_file, base, must_exist=bool(args.user))
     context, prefix = model.parse_cursor_text(text)
     found = model.suggest_text(text, k=args.k)
     if args.json:
-        print_json({"context": context, "prefix": prefix, "suggestions": [{"word": s.word, "prob": s.prob, "order": s.order} for s in found]})
+        rows = []
+        for s in found:
+            row = {"word": s.word, "prob": s.prob, "order": s.order}
+            if args.adapt:
+                row.update(learned=s.learned, new_word=s.new_word)
+            rows.append(row)
+        payload: dict[str, Any] = {"context": context, "prefix": prefix, "suggestions": rows}
+        if args.adapt:
+            payload.update(learned_file=str(learned_file), user_share=model.share(context))
+        print_json(payload)
         return 0
     shown = " ".join(context) if context else "(sentence start)"
     print(f"context: {shown}   prefix: {prefix!r}")
+    if args.adapt:
+        tokens = model.user.raw_tokens
+        held = f"{tokens:,} tokens learned" if tokens else "nothing learned yet"
+        print(f"learned: {learned_file} ({held}; user model's share here {model.share(context):.1%}; • learned, + new word)")
     if not found:
         print("no vocabulary word matches")
     for rank, s in enumerate(found, 1):
-        print(f"{rank:>3}  {s.word:<24} {s.prob:>10.6f}  {s.order}-gram")
+        mark = ("+" if s.new_word else "•" if s.learned else " ") if args.adapt else ""
+        print(f"{rank:>3}  {s.word:<24} {s.prob:>10.6f}  {s.order}-gram {mark}".rstrip())
     return 0
 
 
