@@ -16,22 +16,12 @@ from textual.widgets import TextArea
 
 from predictor.simulate.editing import replaces_automatic_space
 
+from ..keys import CHORDS_FROM_ESCAPE_DIGITS, OPTION_DIGIT_KEYS
 from ..learning import Finished, finished_by_taking, finished_by_typing
 from ..session import Acceptance, Offer, PadSession
 
 MAX_RANKS = 9
 """Ranks that have a chord: alt+1 to alt+9."""
-
-ESCAPE_DIGIT_KEYS = ("inverted_exclamation_mark", "trade_mark_sign", "pound_sign", "cent_sign", "infinity", "section_sign", "pilcrow_sign", "bullet", "ª")
-"""What Textual 8 names alt+1 .. alt+9 when a terminal sends ESC and a digit.
-
-tmux, xterm and most Linux terminals send alt+digit as ESC followed by the
-digit; Textual reads those pairs as the characters a macOS keyboard types with
-Option+digit (¡ ™ £ ¢ ∞ § ¶ • ª) and names the keys after them.  Only
-terminals speaking the kitty keyboard protocol deliver the name "alt+1".  So
-each rank chord is bound under both names (checked with tmux 3.3a send-keys
-M-1 .. M-9), and those nine characters accept a rank instead of being typed.
-"""
 
 
 def rank_chord(rank: int) -> str:
@@ -48,7 +38,7 @@ class ComposeArea(TextArea, inherit_bindings=False):
         Binding("down", "highlight(1)", "down", show=False, id="highlight-down"),
         *(
             Binding(
-                f"alt+{n},{ESCAPE_DIGIT_KEYS[n - 1]}",
+                f"alt+{n}" if CHORDS_FROM_ESCAPE_DIGITS else f"alt+{n},{OPTION_DIGIT_KEYS[n - 1]}",
                 f"accept_rank({n})",
                 "rank n",
                 show=False,
