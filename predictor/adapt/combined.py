@@ -142,8 +142,6 @@ class _Context:
     """float64 P_user of the pool's words after this context."""
     floors: np.ndarray
     """float64 mu * P_user of the pool's words: the least combined score each can have."""
-    where: np.ndarray | None
-    """Pool position of each id (-1 if not pooled), when this context's pool is laid out as the shared one; else None."""
 
 
 class LearnedWord(NamedTuple):
@@ -340,7 +338,6 @@ class AdaptedModel:
         uctx = user.context(u, v)
         mu = user.share(uctx)
         keys, ids = self._pool_keys, self._pool_ids
-        where: np.ndarray | None = self._pool_where
         if mu > 0.0 and uctx.total1 > 0:
             # Outside the words seen after (u, v) or v, P_user is the Witten-Bell chain over the
             # unigram alone: (1 - g3) * 0.0 + g3 * ((1 - g2) * 0.0 + g2 * p1) is g3 * (g2 * p1) exactly.
@@ -348,12 +345,11 @@ class AdaptedModel:
             merged = self._with_followers(uctx, keys, ids, p_user)
             if merged is not None:
                 keys, ids, p_user = merged
-                where = None
         else:
             p_user = np.zeros(len(ids), dtype=np.float64)
             if mu <= 0.0:
                 mu, uctx = 0.0, None
-        self._context = _Context(mu, uctx, ub, vb, keys, ids, p_user, mu * p_user, where)
+        self._context = _Context(mu, uctx, ub, vb, keys, ids, p_user, mu * p_user)
         self._context_key = key
         return self._context
 
@@ -505,10 +501,9 @@ class AdaptedModel:
         m = 1.0 - mu
         lo, hi = prepared.keys.searchsorted(np.array((key_range[0], key_range[1] + 1), dtype=np.int64)).tolist()
         pool = _Slice(prepared.keys[lo:hi], prepared.ids[lo:hi], prepared.p_user[lo:hi], prepared.floors[lo:hi])
-        if prepared.where is not None and prepared.ids is self._pool_ids:
-            where_item, p_user_item = prepared.where.item, prepared.p_user.item
-        else:
-            where_item = None
+        # While the context's pool is the shared one, its positions table finds list A's words without a search.
+        where_item = self._pool_where.item if prepared.ids is self._pool_ids else None
+        p_user_item = prepared.p_user.item
         blocked = self._blocked_set
         a_depth = k + _GUARD
         while True:

@@ -165,37 +165,37 @@ def run_suggest(args: argparse.Namespace) -> int:
         raise OptionError("--user goes with --adapt")
     model_path, (text,) = split_model_argument(args.args, 1, "suggest")
     base = open_model(model_path)
-    model: Any = base
-    learned_file = None
+    adapted = None
     if args.adapt:
         from ..adapt.store import default_learned_path, load_learned
 
         learned_file = Path(args.user) if args.user else default_learned_path(model_path)
-        model = load_learned(learned_file, base, must_exist=bool(args.user))
+        adapted = load_learned(learned_file, base, must_exist=bool(args.user))
+    model = adapted if adapted is not None else base
     context, prefix = model.parse_cursor_text(text)
     found = model.suggest_text(text, k=args.k)
     if args.json:
         rows = []
         for s in found:
-            row = {"word": s.word, "prob": s.prob, "order": s.order}
-            if args.adapt:
+            row: dict[str, Any] = {"word": s.word, "prob": s.prob, "order": s.order}
+            if adapted is not None:
                 row.update(learned=s.learned, new_word=s.new_word)
             rows.append(row)
         payload: dict[str, Any] = {"context": context, "prefix": prefix, "suggestions": rows}
-        if args.adapt:
-            payload.update(learned_file=str(learned_file), user_share=model.share(context))
+        if adapted is not None:
+            payload.update(learned_file=str(learned_file), user_share=adapted.share(context))
         print_json(payload)
         return 0
     shown = " ".join(context) if context else "(sentence start)"
     print(f"context: {shown}   prefix: {prefix!r}")
-    if args.adapt:
-        tokens = model.user.raw_tokens
+    if adapted is not None:
+        tokens = adapted.user.raw_tokens
         held = f"{tokens:,} tokens learned" if tokens else "nothing learned yet"
-        print(f"learned: {learned_file} ({held}; user model's share here {model.share(context):.1%}; • learned, + new word)")
+        print(f"learned: {learned_file} ({held}; user model's share here {adapted.share(context):.1%}; • learned, + new word)")
     if not found:
         print("no vocabulary word matches")
     for rank, s in enumerate(found, 1):
-        mark = ("+" if s.new_word else "•" if s.learned else " ") if args.adapt else ""
+        mark = ("+" if s.new_word else "•" if s.learned else " ") if adapted is not None else ""
         print(f"{rank:>3}  {s.word:<24} {s.prob:>10.6f}  {s.order}-gram {mark}".rstrip())
     return 0
 
