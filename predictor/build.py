@@ -131,3 +131,31 @@ def build_from_counts(
     )
     sections.update(rank_sections(LanguageModel(sections, meta)))
     return LanguageModel(sections, meta)
+
+
+def build_from_store(
+    store: str | os.PathLike[str],
+    *,
+    vocab_size: int | None = None,
+    min_count: int = 1,
+    method: str = "kneser-ney",
+    add: float = 0.1,
+    encoding: str | None = None,
+    max_memory: int | None = None,
+) -> LanguageModel:
+    """Build a model from a count store (see :mod:`predictor.countstore`).
+
+    The model equals the one :func:`build` makes from the corpus the store counted
+    with the same settings; the trigram tables stream from the store while the
+    chosen vocabulary's table is gathered within ``max_memory``.
+
+    Raises:
+        OptionError, ModelFileError (not a readable store), CorpusError, CapacityError.
+    """
+    from .countstore import open_count_store, store_wrapped
+
+    check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+    counts, manifest = open_count_store(store, max_memory=max_memory)
+    model = build_from_counts(counts, vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+    model.meta["wrapped"] = store_wrapped(manifest)
+    return model

@@ -325,6 +325,7 @@ def run_sweep(
     progress: SweepProgress | None = None,
     on_row: Callable[[SweepRow], None] | None = None,
     adapt: bool = False,
+    counts_store: str | os.PathLike[str] | None = None,
 ) -> SweepResult:
     """Count a corpus once, then build and measure a model per method and vocabulary size.
 
@@ -341,6 +342,9 @@ def run_sweep(
         on_row: called with each row as it finishes (after the files are written).
         adapt: add the adaptation columns: each model is simulated a second
             time with a user model that starts empty and learns as the typist goes.
+        counts_store: estimate from this count store (:mod:`predictor.countstore`)
+            instead of counting ``corpus`` (which must then be empty); its
+            ``--wrapped`` setting must match ``settings.wrapped``.
 
     Returns:
         The result, with ``complete`` set once every row finished.
@@ -364,7 +368,11 @@ def run_sweep(
     result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), "adapt": adapt})
     report = progress or (lambda stage, done, total: None)
     started = time.perf_counter()
-    counts = count_corpus(corpus, wrapped=settings.wrapped, progress=lambda done, total: report("counting the corpus", done, total))
+    if counts_store is not None:
+        counts = _store_counts(counts_store, settings.wrapped)
+        result.corpus = [str(counts_store)]
+    else:
+        counts = count_corpus(corpus, wrapped=settings.wrapped, progress=lambda done, total: report("counting the corpus", done, total))
     result.counting_seconds = time.perf_counter() - started
     result.corpus_tokens = counts.corpus_tokens
     write_results(result, folder)
@@ -388,6 +396,17 @@ def run_sweep(
         if on_row is not None:
             on_row(row)
     return result
+
+
+def _store_counts(store: str | os.PathLike[str], wrapped: bool) -> Any:
+    """The counts of a count store, refusing one counted with another sentence rule."""
+    from .countstore import open_count_store, store_wrapped
+
+    counts, manifest = open_count_store(store)
+    if store_wrapped(manifest) != wrapped:
+        flag = "with" if store_wrapped(manifest) else "without"
+        raise OptionError(f"{store}: the count store was counted {flag} --wrapped; sweep it {flag} --wrapped too")
+    return counts
 
 
 def format_table(rows: Sequence[SweepRow]) -> str:
