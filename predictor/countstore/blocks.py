@@ -116,7 +116,8 @@ def read_block(block: Block) -> BlockText:
             begin = 0
             if before:
                 newline = data.find(b"\n")
-                if newline < 0:
+                if newline < 0 or newline + 1 >= len(data):
+                    # No line starts inside the range: an earlier block reads it.
                     return BlockText(b"", zlib.crc32(raw), len(raw))
                 begin = newline + 1
             text = data[begin:]
