@@ -30,8 +30,8 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 import corpus as bench_corpus  # noqa: E402
 from machine import describe, finish_facts, machine_facts  # noqa: E402
 
-from predictor.countstore import count_to_store  # noqa: E402
-from predictor.memory import parse_size  # noqa: E402
+from foretype.counting.memory import parse_size  # noqa: E402
+from foretype.counting.store_count import count_to_store  # noqa: E402
 
 
 def _count(corpus: Path, out: Path, block: int, workers: int | None) -> dict:

@@ -19,13 +19,12 @@ pytest.importorskip("pyarrow")
 import pyarrow.parquet as pq  # noqa: E402
 
 from countstore_corpus import write_corpus  # noqa: E402
-from predictor import build  # noqa: E402
-from predictor.build import build_from_store  # noqa: E402
-from predictor.countstore import count_to_store, open_count_store  # noqa: E402
-from predictor.countstore.blocks import crc32_combine, plan_blocks, read_block  # noqa: E402
-from predictor.countstore.store import ROW_GROUP_ROWS  # noqa: E402
-from predictor.errors import OptionError, OutputError  # noqa: E402
-from predictor.text import iter_sentences, model_form  # noqa: E402
+from foretype.builder import build, build_from_store  # noqa: E402
+from foretype.counting.blocks import crc32_combine, plan_blocks, read_block  # noqa: E402
+from foretype.counting.store import ROW_GROUP_ROWS, open_count_store  # noqa: E402
+from foretype.counting.store_count import count_to_store  # noqa: E402
+from foretype.errors import OptionError, OutputError  # noqa: E402
+from foretype.text import iter_sentences, model_form  # noqa: E402
 
 
 @settings(max_examples=60, deadline=None)
@@ -176,8 +175,8 @@ def test_the_cli_counts_builds_and_refuses_what_it_must(corpus: list[Path], tmp_
 
 
 def test_a_sweep_from_a_store_measures_what_a_sweep_from_the_corpus_measures(corpus: list[Path], line_store: Path, tmp_path: Path) -> None:
-    from predictor.simulate import TypistSettings
-    from predictor.sweep import run_sweep
+    from foretype.simulate import TypistSettings
+    from foretype.sweep import run_sweep
 
     text = corpus[0].read_text(encoding="utf-8-sig")[:400]
     direct = run_sweep(corpus, text, out=tmp_path / "a", vocab_sizes=[20], settings=TypistSettings())

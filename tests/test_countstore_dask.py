@@ -18,8 +18,8 @@ pytest.importorskip("distributed")
 pytest.importorskip("pyarrow")
 
 from countstore_corpus import write_corpus  # noqa: E402
-from predictor.countstore import count_to_store  # noqa: E402
-from predictor.errors import EncodingError  # noqa: E402
+from foretype.counting.store_count import count_to_store  # noqa: E402
+from foretype.errors import EncodingError  # noqa: E402
 
 BLOCK = 700
 """Bytes per block: every boundary of these blocks falls inside a line of the corpus or splits a wrapped sentence."""

@@ -6,7 +6,7 @@ import argparse
 import sys
 
 from ..errors import OptionError
-from ..memory import parse_size
+from ..counting.memory import parse_size
 from .output import add_json_option, positive_int, print_json, progress_bar
 
 
@@ -45,7 +45,8 @@ def run_count(args: argparse.Namespace) -> int:
     """foretype count."""
     from pathlib import Path
 
-    from ..countstore import BLOCK_BYTES, count_to_store
+    from ..counting.blocks import BLOCK_BYTES
+    from ..counting.store_count import count_to_store
 
     dask = args.cluster is not None or args.workers is not None
     spill_dir = args.spill_dir if args.spill_dir is not None else (str(Path(args.output).parent) or ".")

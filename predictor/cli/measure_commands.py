@@ -172,7 +172,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
     """foretype sweep."""
     from ..sweep import format_table, parse_methods, parse_vocab_sizes, run_sweep
 
-    from ..countstore.store import require_corpus_free
+    from ..counting.store import require_corpus_free
 
     require_corpus_free(args.corpus, args.counts)
     settings = _settings(args)

@@ -12,7 +12,7 @@ Word ids are canonical: 0 is ``<s>``, 1 is ``</s>``, then every word type by
 count descending, ties by model form in code-point order, so a store depends
 only on the corpus and the settings, never on how it was counted.  Trigrams
 are split into partitions by a hash of their packed key
-(:func:`predictor.countstore.tasks.partition_of`); each partition file is
+(:func:`predictor.counting.block_tasks.partition_of`); each partition file is
 sorted by (u, v, w) and written in row groups of :data:`ROW_GROUP_ROWS` rows.
 Nothing records the time or the machines, so the single-process count and
 every Dask count of the same corpus write byte-identical files.
@@ -36,13 +36,13 @@ from typing import Any
 
 import numpy as np
 
-from ..counting import MAX_RAW_TYPES, RAW_END, RAW_START, UNLISTED, CorpusCounts, TrigramTable, pack_trigrams, unpack_trigrams
+from .counter import MAX_RAW_TYPES, RAW_END, RAW_START, UNLISTED, CorpusCounts, TrigramTable, pack_trigrams, unpack_trigrams
 from ..errors import CorpusError, ModelFileError, OptionError, OutputError
-from ..memory import MemoryBudget
-from ..scratch import TEMP_PREFIX, lock_exclusively, remove_stale
-from ..spill import merge_tables, sum_duplicates
+from .memory import MemoryBudget
+from .scratch import TEMP_PREFIX, lock_exclusively, remove_stale
+from .spill import merge_tables, sum_duplicates
 from ..version import __version__
-from .extra import require_cluster_extra
+from .cluster_extra import require_cluster_extra
 
 STORE_FORMAT = "foretype-counts"
 STORE_VERSION = 1

@@ -19,6 +19,7 @@ import zlib
 from dataclasses import dataclass
 
 from ..errors import CorpusError
+from .corpus import resolve_corpus
 
 BLOCK_BYTES = 32 << 20
 """Default block size (32 MiB of text: several seconds of tokenising, a few hundred MB while counted)."""
@@ -204,8 +205,6 @@ def corpus_files(paths: list[str], *, reject_binary: bool = False) -> tuple[list
     Raises:
         CorpusError: a path is missing, unreadable or binary, or no text file remains.
     """
-    from ..corpus import resolve_corpus
-
     found: list[tuple[str, int]] = []
     skipped = 0
     for raw in paths:

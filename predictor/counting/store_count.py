@@ -1,22 +1,33 @@
-"""The single-process path to a count store: today's counter, then the store's canonical ids."""
+"""Counting a corpus into a count store: in this process (the default) or on Dask.
+
+:func:`count_to_store` is the entry point.  Without a cluster it runs the
+single-process counter (:func:`predictor.counting.count_corpus`) and renumbers
+its raw type ids into the store's canonical ids; with ``cluster`` or
+``workers`` it counts on Dask (:mod:`predictor.counting.cluster`).  Both write
+identical stores.
+"""
 
 from __future__ import annotations
 
 import os
+import time
 import zlib
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass
+from pathlib import Path
 
 import numpy as np
 
-from ..counting import CorpusCounts, SpilledTrigrams, TrigramTable, count_corpus, pack_trigrams, unpack_trigrams
 from ..errors import CorpusError, OutputError
-from ..memory import MemoryBudget
-from ..scratch import SpillFolder
-from ..spill import KeyCounter, Run, sum_duplicates
-from .blocks import corpus_files
-from .store import StoreWriter, canonical_order, file_entry, manifest_for, partitions_for
-from .tasks import split_table
+from .block_tasks import split_table
+from .blocks import BLOCK_BYTES, corpus_files
+from .cluster import count_on_dask, dashboard_of, open_client
+from .cluster_extra import require_cluster_extra
+from .counter import CorpusCounts, SpilledTrigrams, TrigramTable, count_corpus, pack_trigrams, unpack_trigrams
+from .memory import MemoryBudget
+from .scratch import SpillFolder
+from .spill import KeyCounter, Run, sum_duplicates
+from .store import PARTITION_BYTES, StoreWriter, canonical_order, check_store_target, file_entry, manifest_for, partitions_for
 
 _READ_BYTES = 1 << 20
 _BLOCK_ROWS = 1 << 20
@@ -181,3 +192,99 @@ def count_locally(
         partition_bytes=partition_bytes,
     )
     return writer, manifest, counts
+
+
+def count_to_store(
+    paths: list[str | os.PathLike[str]],
+    output: str | os.PathLike[str],
+    *,
+    wrapped: bool = False,
+    replace_bad_bytes: bool = False,
+    reject_binary: bool = False,
+    max_memory: int | None = None,
+    spill_dir: str | os.PathLike[str] | None = None,
+    cluster: str | None = None,
+    workers: int | None = None,
+    block_bytes: int = BLOCK_BYTES,
+    partition_bytes: int = PARTITION_BYTES,
+    progress: Callable[[int, int], None] | None = None,
+    on_dashboard: Callable[[str], None] | None = None,
+) -> CountSummary:
+    """Count a corpus into a count store.
+
+    Args:
+        paths: corpus files or folders (local), or fsspec URLs (with Dask).
+        output: the store folder (an existing store there is replaced once the new one is complete).
+        wrapped: treat single line breaks as spaces.
+        replace_bad_bytes: replace invalid UTF-8 instead of failing.
+        reject_binary: fail on binary files inside folders.
+        max_memory: ceiling on this process's peak memory (None: half of what is available).
+        spill_dir: where counts that outgrow memory go on the single-process path.
+        cluster: the address of a Dask scheduler to count on (``tcp://host:8786``).
+        workers: start a local Dask cluster of this many processes.
+        block_bytes: bytes of a file per Dask block.
+        partition_bytes: trigram occurrences per partition, in bytes (16 each).
+        progress: called with (done, total): bytes on the single-process path, Dask tasks otherwise.
+        on_dashboard: called with the Dask dashboard's address, when there is one.
+
+    Returns:
+        What was counted and how long each stage took.
+
+    Raises:
+        OptionError, CorpusError, EncodingError, CapacityError, OutputError.
+    """
+    require_cluster_extra("a count store")
+    names = [str(p) for p in paths]
+    target = Path(output)
+    check_store_target(target)
+    budget = MemoryBudget.of(max_memory)
+    started = time.perf_counter()
+    if cluster is None and workers is None:
+        writer, manifest, counts = count_locally(
+            names,
+            target,
+            wrapped=wrapped,
+            replace_bad_bytes=replace_bad_bytes,
+            reject_binary=reject_binary,
+            budget=budget,
+            spill_dir=spill_dir,
+            partition_bytes=partition_bytes,
+            progress=progress,
+        )
+        counts.close()
+        writer.commit(manifest)
+        seconds = {"count": time.perf_counter() - started}
+        return _summary(target, writer, manifest, seconds)
+    files, skipped = corpus_files(names, reject_binary=reject_binary)
+    client, local = open_client(cluster, workers)
+    try:
+        link = dashboard_of(client)
+        if link and on_dashboard is not None:
+            on_dashboard(link)
+        writer, manifest, facts = count_on_dask(
+            client, files, skipped, str(target), wrapped=wrapped, replace_bad_bytes=replace_bad_bytes,
+            block_bytes=block_bytes, partition_bytes=partition_bytes, progress=progress,
+        )
+    finally:
+        client.close()
+        if local is not None:
+            local.close()
+    writer.commit(manifest)
+    summary = _summary(target, writer, manifest, facts["seconds"])
+    summary.tasks = facts["tasks"]
+    summary.shuffle_bytes = facts["shuffle_bytes"]
+    summary.dashboard = link
+    return summary
+
+
+def _summary(target: Path, writer, manifest: dict, seconds: dict[str, float]) -> CountSummary:  # type: ignore[no-untyped-def]
+    return CountSummary(
+        store=str(target),
+        tokens=manifest["tokens"],
+        sentences=manifest["sentences"],
+        types=manifest["types"],
+        trigram_rows=writer.rows["trigrams"],
+        files=len(manifest["files"]),
+        partitions=writer.partitions,
+        seconds=seconds,
+    )

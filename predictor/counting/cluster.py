@@ -7,7 +7,7 @@ merged by a tree reduction (eight at a time, Dask's own default fan-in) in
 parts split by a hash of the model form, and each part picks its types'
 counts and display forms on the cluster.  The client receives only the types
 (model form, count, display), numbers them canonically (see
-:mod:`predictor.countstore.store`) and broadcasts the numbering once to every
+:mod:`predictor.counting.store`) and broadcasts the numbering once to every
 worker.  Pass 2 tokenises every block again, counts its trigrams by id with
 numpy and splits the sorted table into partitions by a hash of the key; each
 partition's pieces are merged by another eight-way tree reduction, so no task
@@ -21,7 +21,7 @@ corpus's size again); ``bench/bench_count.py`` measures what each pass costs.
 
 Sentences are numbered across the corpus (every 20th is held out), and in
 ``--wrapped`` text a sentence may cross a block boundary: pass 1 reports how
-each block's sentences begin and end (:class:`~predictor.countstore.tasks.BlockScan`),
+each block's sentences begin and end (:class:`~predictor.counting.block_tasks.BlockScan`),
 from which the client numbers every sentence and tells pass 2 whether a
 sentence is open at each block's start; the few sentences that cross a
 boundary come back as id arrays and are counted on the client.
@@ -40,11 +40,12 @@ from typing import Any
 
 import numpy as np
 
-from ..counting import MAX_RAW_TYPES, RAW_END, UNLISTED
+from .counter import MAX_RAW_TYPES, RAW_END, UNLISTED
 from ..errors import CorpusError, EncodingError, OptionError
+from ..text import model_form
 from .blocks import Block, crc32_combine, plan_blocks
-from .store import StoreWriter, canonical_order, file_entry, manifest_for, partitions_for
-from .tasks import (
+from .store import ROW_GROUP_ROWS, StoreWriter, canonical_order, file_entry, manifest_for, partitions_for
+from .block_tasks import (
     BlockPlan,
     BlockScan,
     choose_types,
@@ -158,7 +159,7 @@ def count_on_dask(
         output: the store folder.
         wrapped, replace_bad_bytes: tokeniser settings.
         block_bytes: bytes per block.
-        partition_bytes: see :func:`predictor.countstore.store.partitions_for`.
+        partition_bytes: see :func:`predictor.counting.store.partitions_for`.
         progress: called with (tasks done, tasks submitted so far).
 
     Returns:
@@ -265,8 +266,6 @@ def _wait(finals: dict[str, list[Any]]) -> None:
 
 def _fetch(client: Any, final: Any) -> Any:
     """Yield a partition's rows a row group at a time (the client never holds a whole partition)."""
-    from .store import ROW_GROUP_ROWS
-
     rows = client.submit(table_rows, final).result()
     for start in range(0, rows, ROW_GROUP_ROWS):
         yield client.submit(table_slice, final, start, start + ROW_GROUP_ROWS).result()
@@ -320,8 +319,6 @@ def _plan(
         tokens += scan.words
         plans.append(BlockPlan(carry, sentences + (1 if carry and scan.has_end else 0)))
         if scan.head_form is not None and not carry:
-            from ..text import model_form
-
             part = corrections[part_of_form(model_form(scan.head_form), parts)]
             part[scan.head_form] = part.get(scan.head_form, 0) + 1
         if scan.has_end:

@@ -24,8 +24,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..counting import HELDOUT_EVERY, RAW_END, RAW_START, pack_trigrams
-from ..spill import sum_duplicates
+from .counter import HELDOUT_EVERY, RAW_END, RAW_START, pack_trigrams
+from .spill import sum_duplicates
 from ..text import are_words, model_form, tokens
 from .blocks import Block, read_block
 
