@@ -33,6 +33,7 @@ Dask recomputes what it held and the store is unchanged.
 from __future__ import annotations
 
 import logging
+import sys
 import threading
 import time
 from collections.abc import Callable
@@ -40,8 +41,9 @@ from typing import Any
 
 import numpy as np
 
-from .counter import MAX_RAW_TYPES, RAW_END, UNLISTED
-from ..errors import CorpusError, EncodingError, OptionError
+from .counter import MAX_RAW_TYPES, RAW_END, TYPE_ENTRY_BYTES, UNLISTED
+from .memory import MemoryBudget, format_size
+from ..errors import CapacityError, CorpusError, EncodingError, OptionError
 from ..text import model_form
 from .blocks import Block, crc32_combine, plan_blocks
 from .store import ROW_GROUP_ROWS, StoreWriter, canonical_order, file_entry, manifest_for, partitions_for
@@ -148,6 +150,7 @@ def count_on_dask(
     replace_bad_bytes: bool,
     block_bytes: int,
     partition_bytes: int,
+    budget: MemoryBudget,
     progress: TaskProgress | None = None,
 ) -> tuple[StoreWriter, dict[str, Any], dict[str, Any]]:
     """Count corpus files on a Dask cluster and write the store's files.
@@ -160,6 +163,8 @@ def count_on_dask(
         wrapped, replace_bad_bytes: tokeniser settings.
         block_bytes: bytes per block.
         partition_bytes: see :func:`predictor.counting.store.partitions_for`.
+        budget: this process's memory budget: the vocabulary must fit its dictionary
+            share; everything else the client holds is a row group at a time.
         progress: called with (tasks done, tasks submitted so far).
 
     Returns:
@@ -199,6 +204,12 @@ def count_on_dask(
     del type_parts
     words, counts, display, unlisted_tokens = _numbered(types)
     del types
+    held = sum(map(sys.getsizeof, words)) + sum(map(sys.getsizeof, display)) + TYPE_ENTRY_BYTES * len(words)
+    if held > budget.dictionary_bytes:
+        raise CapacityError(
+            f"the corpus's {len(words):,} word types need about {format_size(held)} on this machine, more than the "
+            f"{format_size(budget.dictionary_bytes)} --max-memory {format_size(budget.limit)} allows for them; pass a larger --max-memory"
+        )
     vocabulary = {word: number for number, word in enumerate(words)}
     unlisted = vocabulary.get(UNLISTED, RAW_END)
     shared = client.scatter(vocabulary, broadcast=True, hash=False)

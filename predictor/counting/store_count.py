@@ -263,7 +263,7 @@ def count_to_store(
             on_dashboard(link)
         writer, manifest, facts = count_on_dask(
             client, files, skipped, str(target), wrapped=wrapped, replace_bad_bytes=replace_bad_bytes,
-            block_bytes=block_bytes, partition_bytes=partition_bytes, progress=progress,
+            block_bytes=block_bytes, partition_bytes=partition_bytes, budget=budget, progress=progress,
         )
     finally:
         client.close()
