@@ -17,8 +17,8 @@ from hypothesis import strategies as st
 
 pytest.importorskip("pyarrow")
 import pyarrow.parquet as pq  # noqa: E402
-
 from countstore_corpus import write_corpus  # noqa: E402
+
 from foretype.builder import build, build_from_store  # noqa: E402
 from foretype.counting.blocks import crc32_combine, plan_blocks, read_block  # noqa: E402
 from foretype.counting.store import ROW_GROUP_ROWS, open_count_store  # noqa: E402

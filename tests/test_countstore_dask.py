@@ -18,6 +18,7 @@ pytest.importorskip("distributed")
 pytest.importorskip("pyarrow")
 
 from countstore_corpus import write_corpus  # noqa: E402
+
 from foretype.counting.store_count import count_to_store  # noqa: E402
 from foretype.errors import EncodingError  # noqa: E402
 

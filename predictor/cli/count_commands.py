@@ -5,8 +5,8 @@ from __future__ import annotations
 import argparse
 import sys
 
-from ..errors import OptionError
 from ..counting.memory import parse_size
+from ..errors import OptionError
 from .output import add_json_option, positive_int, print_json, progress_bar
 
 

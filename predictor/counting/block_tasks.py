@@ -24,10 +24,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .counter import HELDOUT_EVERY, RAW_END, RAW_START, pack_trigrams
-from .spill import sum_duplicates
 from ..text import are_words, model_form, tokens
 from .blocks import Block, read_block
+from .counter import HELDOUT_EVERY, RAW_END, RAW_START, pack_trigrams
+from .spill import sum_duplicates
 
 Table = tuple[np.ndarray, np.ndarray]
 """Sorted unique int64 trigram keys and their int64 counts."""

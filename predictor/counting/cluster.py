@@ -41,12 +41,8 @@ from typing import Any
 
 import numpy as np
 
-from .counter import MAX_RAW_TYPES, RAW_END, TYPE_ENTRY_BYTES, UNLISTED
-from .memory import MemoryBudget, format_size
 from ..errors import CapacityError, CorpusError, EncodingError, OptionError
 from ..text import model_form
-from .blocks import Block, crc32_combine, plan_blocks
-from .store import ROW_GROUP_ROWS, StoreWriter, canonical_order, file_entry, manifest_for, partitions_for
 from .block_tasks import (
     BlockPlan,
     BlockScan,
@@ -62,6 +58,10 @@ from .block_tasks import (
     table_rows,
     table_slice,
 )
+from .blocks import Block, crc32_combine, plan_blocks
+from .counter import MAX_RAW_TYPES, RAW_END, TYPE_ENTRY_BYTES, UNLISTED
+from .memory import MemoryBudget, format_size
+from .store import ROW_GROUP_ROWS, StoreWriter, canonical_order, file_entry, manifest_for, partitions_for
 
 SPLIT_EVERY = 8
 """Inputs merged by one task of a tree reduction (Dask's default for its own tree reductions)."""
@@ -184,7 +184,7 @@ def count_on_dask(
     # Pass 1: forms and sentence structure.
     scans = tracker.add([client.submit(scan_block, block, wrapped, replace_bad_bytes, parts) for block in blocks])
     infos = tracker.add([client.submit(piece, scan, 0) for scan in scans])
-    roots = [_tree(client, tracker, merge_forms, tracker.add([client.submit(piece, scan, 1, q) for scan in scans])) for q in range(parts)]
+    form_roots = [_tree(client, tracker, merge_forms, tracker.add([client.submit(piece, scan, 1, q) for scan in scans])) for q in range(parts)]
     del scans
     summaries: list[BlockScan] = client.gather(infos)
     del infos
@@ -196,8 +196,8 @@ def count_on_dask(
 
     # The vocabulary: types chosen per part on the cluster, numbered on the client.
     started = time.perf_counter()
-    type_parts = tracker.add([client.submit(choose_types, roots[q], corrections[q]) for q in range(parts)])
-    del roots
+    type_parts = tracker.add([client.submit(choose_types, form_roots[q], corrections[q]) for q in range(parts)])
+    del form_roots
     types: list[tuple[str, int, str]] = [("<s>", 0, "<s>"), ("</s>", sentences, "</s>")]
     for found in client.gather(type_parts):
         types.extend(found)

@@ -36,13 +36,13 @@ from typing import Any
 
 import numpy as np
 
-from .counter import MAX_RAW_TYPES, RAW_END, RAW_START, UNLISTED, CorpusCounts, TrigramTable, pack_trigrams, unpack_trigrams
 from ..errors import CorpusError, ModelFileError, OptionError, OutputError
+from ..version import __version__
+from .cluster_extra import require_cluster_extra
+from .counter import MAX_RAW_TYPES, RAW_END, RAW_START, CorpusCounts, TrigramTable, pack_trigrams, unpack_trigrams
 from .memory import MemoryBudget
 from .scratch import TEMP_PREFIX, lock_exclusively, remove_stale
 from .spill import merge_tables, sum_duplicates
-from ..version import __version__
-from .cluster_extra import require_cluster_extra
 
 STORE_FORMAT = "foretype-counts"
 STORE_VERSION = 1

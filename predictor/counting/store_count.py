@@ -104,16 +104,7 @@ def store_from_counts(
     writer = StoreWriter(writer_target, parts)
     try:
         writer.write_vocabulary([counts.types[t] for t in order.tolist()], counts.type_counts[order], [counts.display[t] for t in order.tolist()])
-        folder: list[SpillFolder] = []
-
-        def spill_folder() -> SpillFolder:
-            if not folder:
-                try:
-                    folder.append(SpillFolder(spill_dir))
-                except OSError as error:
-                    raise OutputError(f"{spill_dir or 'the temporary folder'}: cannot create a folder for counts ({error.strerror or error})") from None
-            return folder[0]
-
+        spill_folder = _LazyFolder(spill_dir)
         for kind, table in (("trigrams", counts.table), ("heldout", counts.heldout)):
             counters = [KeyCounter(max(1 << 14, budget.table_rows // parts), spill_folder) for _ in range(parts)]
             for keys, block_counts in _raw_blocks(table):
@@ -127,12 +118,31 @@ def store_from_counts(
                 writer.write_partition(kind, part, _result_blocks(result))
                 if isinstance(result, Run):
                     result.delete()
-        for made in folder:
-            made.close()
+        spill_folder.close()
     except BaseException:
         writer.abort()
         raise
     return writer
+
+
+class _LazyFolder:
+    """A spill folder made on first use (most stores never spill)."""
+
+    def __init__(self, root: str | os.PathLike[str] | None) -> None:
+        self.root = root
+        self.folder: SpillFolder | None = None
+
+    def __call__(self) -> SpillFolder:
+        if self.folder is None:
+            try:
+                self.folder = SpillFolder(self.root)
+            except OSError as error:
+                raise OutputError(f"{self.root or 'the temporary folder'}: cannot create a folder for counts ({error.strerror or error})") from None
+        return self.folder
+
+    def close(self) -> None:
+        if self.folder is not None:
+            self.folder.close()
 
 
 def _raw_blocks(table: TrigramTable | SpilledTrigrams) -> Iterator[tuple[np.ndarray, np.ndarray]]:
