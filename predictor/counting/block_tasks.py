@@ -26,8 +26,9 @@ import numpy as np
 
 from ..text import are_words, model_form, tokens
 from .blocks import Block, read_block
-from .counter import HELDOUT_EVERY, RAW_END, RAW_START, pack_trigrams
+from .counter import HELDOUT_EVERY
 from .spill import sum_duplicates
+from .tables import RAW_END, RAW_START, pack_trigrams
 
 Table = tuple[np.ndarray, np.ndarray]
 """Sorted unique int64 trigram keys and their int64 counts."""

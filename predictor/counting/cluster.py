@@ -59,9 +59,11 @@ from .block_tasks import (
     table_slice,
 )
 from .blocks import Block, crc32_combine, plan_blocks
-from .counter import MAX_RAW_TYPES, RAW_END, TYPE_ENTRY_BYTES, UNLISTED
+from .counter import TYPE_ENTRY_BYTES
+from .counts import UNLISTED
 from .memory import MemoryBudget, format_size
 from .store import ROW_GROUP_ROWS, StoreWriter, canonical_order, file_entry, manifest_for, partitions_for
+from .tables import MAX_RAW_TYPES, RAW_END
 
 SPLIT_EVERY = 8
 """Inputs merged by one task of a tree reduction (Dask's default for its own tree reductions)."""

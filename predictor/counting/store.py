@@ -39,10 +39,11 @@ import numpy as np
 from ..errors import CorpusError, ModelFileError, OptionError, OutputError
 from ..version import __version__
 from .cluster_extra import require_cluster_extra
-from .counter import MAX_RAW_TYPES, RAW_END, RAW_START, CorpusCounts, TrigramTable, pack_trigrams, unpack_trigrams
+from .counts import CorpusCounts
 from .memory import MemoryBudget
 from .scratch import TEMP_PREFIX, lock_exclusively, remove_stale
 from .spill import merge_tables, sum_duplicates
+from .tables import MAX_RAW_TYPES, RAW_END, RAW_START, TrigramTable, pack_trigrams, unpack_trigrams
 
 STORE_FORMAT = "foretype-counts"
 STORE_VERSION = 1

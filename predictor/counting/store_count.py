@@ -23,11 +23,13 @@ from .block_tasks import split_table
 from .blocks import BLOCK_BYTES, corpus_files
 from .cluster import count_on_dask, dashboard_of, open_client
 from .cluster_extra import require_cluster_extra
-from .counter import CorpusCounts, SpilledTrigrams, TrigramTable, count_corpus, pack_trigrams, unpack_trigrams
+from .counts import CorpusCounts
 from .memory import MemoryBudget
+from .run import count_corpus
 from .scratch import SpillFolder
 from .spill import KeyCounter, Run, sum_duplicates
 from .store import PARTITION_BYTES, StoreWriter, canonical_order, check_store_target, file_entry, manifest_for, partitions_for
+from .tables import SpilledTrigrams, TrigramTable, pack_trigrams, unpack_trigrams
 
 _READ_BYTES = 1 << 20
 _BLOCK_ROWS = 1 << 20
