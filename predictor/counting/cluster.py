@@ -214,7 +214,8 @@ def count_on_dask(
         )
     vocabulary = {word: number for number, word in enumerate(words)}
     unlisted = vocabulary.get(UNLISTED, RAW_END)
-    shared = client.scatter(vocabulary, broadcast=True, hash=False)
+    # One future for the whole numbering (scattering a dict would make a future per word).
+    [shared] = client.scatter([vocabulary], broadcast=True, hash=False)
     del vocabulary
     partitions = partitions_for(tokens + sentences, partition_bytes)
     seconds["vocabulary"] = time.perf_counter() - started
