@@ -32,6 +32,9 @@ from .quantise import CODEBOOK8
 from .sections import VALUE_ENCODINGS, shrunk_model
 from .tables import BackoffTables, backoff_tables
 
+_RECORD_BYTES = 600
+"""Room the search leaves in the header for the shrink record (a few hundred bytes of JSON)."""
+
 CRITERIA = ("entropy", "prediction", "count")
 """Pruning criteria; ``count`` needs the corpus counts (``build --cutoffs``)."""
 
@@ -178,7 +181,8 @@ def _fit_budget(
     rank = np.empty(len(order), dtype=np.int64)
     rank[order] = np.arange(len(order))
     rank2, rank3 = rank[: len(candidates2)], rank[len(candidates2) :]
-    meta = {**model.meta, "shrink": {"criterion": "x" * 16, "max_bytes": budget, "threshold": 0.0, "cutoffs": [0, 0], "k": 0, "kept_ngrams": {"1": 0, "2": 0, "3": 0}}}
+    # The header's shrink record is written after the search: leave room for it.
+    meta = {**model.meta, "shrink": {"room": "x" * _RECORD_BYTES}}
 
     def masks(removed: int) -> tuple[np.ndarray, np.ndarray]:
         two, three = keep2.copy(), keep3.copy()
