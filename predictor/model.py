@@ -133,7 +133,8 @@ class LanguageModel:
         self._keys: tuple[np.ndarray, np.ndarray] | None = None
         self._ranks = RankLists(sections)
         self._root_values: np.ndarray | None = None
-        self._table = DECODE_TABLE if self._a2.dtype == np.uint16 else None
+        self._table = value_table(sections, "l2")
+        self._table3 = value_table(sections, "l3")
         self._last_context: tuple[int, int, _Slots, float] = (-1, -1, _Slots(-1, 0, 0, -1, 0, 0, False), 1.0)
 
     # ----------------------------------------------------------------- facts
@@ -250,7 +251,7 @@ class LanguageModel:
                 a2 = self._table.take(codes) if self._table is not None else codes.astype(np.float64)
                 hit2 = None
             else:
-                hit2, a2 = self._stored(self._w2[slots.lo2 : slots.hi2], self._a2[slots.lo2 : slots.hi2], ids)
+                hit2, a2 = self._stored(self._w2[slots.lo2 : slots.hi2], self._a2[slots.lo2 : slots.hi2], ids, self._table)
             lower = self._g2[slots.v] * p
             if self._interpolated:
                 p2 = a2 + lower
@@ -259,7 +260,7 @@ class LanguageModel:
         else:
             p2 = p
         if slots.has3:
-            hit3, a3 = self._stored(self._w3[slots.lo3 : slots.hi3], self._a3[slots.lo3 : slots.hi3], ids)
+            hit3, a3 = self._stored(self._w3[slots.lo3 : slots.hi3], self._a3[slots.lo3 : slots.hi3], ids, self._table3)
             lower = gamma3 * p2
             p3 = a3 + lower if self._interpolated else np.where(hit3, a3, lower)
         else:
@@ -277,12 +278,12 @@ class LanguageModel:
             p = self._g2[slots.v] * p
         return gamma3 * p if slots.has3 else p
 
-    def _stored(self, words: np.ndarray, codes: np.ndarray, ids: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    def _stored(self, words: np.ndarray, codes: np.ndarray, ids: np.ndarray, table: np.ndarray | None) -> tuple[np.ndarray, np.ndarray]:
         """Which ids one context stores, and their decoded values (0 where not stored)."""
         at = words.searchsorted(ids)
         hit = words.take(at, mode="clip") == ids
         raw = codes.take(at, mode="clip")
-        values = self._table.take(raw) if self._table is not None else raw.astype(np.float64)
+        values = table.take(raw) if table is not None else raw.astype(np.float64)
         values *= hit  # stored values are finite and non-negative: times 0 is 0.0, times 1 unchanged
         return hit, values
 
@@ -616,7 +617,7 @@ class LanguageModel:
         has2 = self._off2[v + 1] > self._off2[v]
         pos2 = np.minimum(np.searchsorted(key2, v * base + w), len(key2) - 1)
         hit2 = key2[pos2] == v * base + w
-        a2 = np.where(hit2, decode(self._a2[pos2]), 0.0)
+        a2 = np.where(hit2, _decoded(self._a2[pos2], self._table), 0.0)
         lower = self._g2[v] * p
         p2 = a2 + lower if self._interpolated else np.where(hit2, a2, lower)
         p2 = np.where(has2, p2, p)
@@ -627,7 +628,7 @@ class LanguageModel:
         has3 = (slot >= 0) & (off3[safe + 1] > off3[safe])
         pos3 = np.minimum(np.searchsorted(key3, safe * base + w), len(key3) - 1)
         hit3 = has3 & (key3[pos3] == safe * base + w)
-        a3 = np.where(hit3, decode(self._a3[pos3]), 0.0)
+        a3 = np.where(hit3, _decoded(self._a3[pos3], self._table3), 0.0)
         gamma3 = self._g3[safe].astype(np.float64)
         lower3 = gamma3 * p2
         p3 = a3 + lower3 if self._interpolated else np.where(hit3, a3, lower3)
@@ -720,6 +721,22 @@ class LanguageModel:
         """Write the model to a file atomically; returns the file size in bytes."""
         size = write_model_file(path, self.meta, self.sections)
         return size
+
+
+def value_table(sections: dict[str, np.ndarray], level: str) -> np.ndarray | None:
+    """The float64 value of every code of a level's stored values (None for float32 values).
+
+    16-bit codes use the fixed logarithmic table; 8-bit codes the level's own
+    codebook (section ``l2.codebook`` or ``l3.codebook``).
+    """
+    stored = sections[f"{level}.value"]
+    if stored.dtype == np.uint8:
+        return np.asarray(sections[f"{level}.codebook"], dtype=np.float64)
+    return DECODE_TABLE if stored.dtype == np.uint16 else None
+
+
+def _decoded(codes: np.ndarray, table: np.ndarray | None) -> np.ndarray:
+    return table[codes] if table is not None else decode(codes)
 
 
 def capitalise(word: str) -> str:

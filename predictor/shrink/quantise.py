@@ -23,11 +23,12 @@ _FLOOR = 2.0**-60
 """The smallest level; values at or below it (and zeros) take it."""
 
 
-def fit_codebook(values: np.ndarray, levels: int = LEVELS, sample: int = 2_000_000, seed: int = 0) -> np.ndarray:
+def fit_codebook(values: np.ndarray, weights: np.ndarray | None = None, levels: int = LEVELS, sample: int = 2_000_000, seed: int = 0) -> np.ndarray:
     """Fit the levels of one order's values.
 
     Args:
         values: float64 probabilities in (0, 1].
+        weights: how much each value's rounding error counts (None: equally).
         levels: codebook size.
         sample: fit on at most this many values (drawn with a fixed seed).
 
@@ -35,16 +36,19 @@ def fit_codebook(values: np.ndarray, levels: int = LEVELS, sample: int = 2_000_0
         float64 array of shape (levels,): the levels, ascending, in (0, 1].
     """
     logs = np.log2(np.maximum(values, _FLOOR)) if len(values) else np.zeros(1)
+    weights = np.ones(len(logs)) if weights is None or not len(values) else np.asarray(weights, dtype=np.float64)
     if len(logs) > sample:
-        logs = np.random.default_rng(seed).choice(logs, size=sample, replace=False)
-    logs = np.sort(logs)
+        chosen = np.random.default_rng(seed).choice(len(logs), size=sample, replace=False)
+        logs, weights = logs[chosen], weights[chosen]
+    order = np.argsort(logs)
+    logs, weights = logs[order], weights[order]
     centres = np.quantile(logs, (np.arange(levels) + 0.5) / levels)
     for _ in range(LLOYD_ROUNDS):
         centres = np.unique(centres)
         edges = (centres[1:] + centres[:-1]) / 2
         bins = np.searchsorted(edges, logs)
-        sums = np.bincount(bins, weights=logs, minlength=len(centres))
-        counts = np.bincount(bins, minlength=len(centres))
+        sums = np.bincount(bins, weights=logs * weights, minlength=len(centres))
+        counts = np.bincount(bins, weights=weights, minlength=len(centres))
         moved = np.where(counts > 0, sums / np.maximum(counts, 1), centres)
         if np.allclose(moved, centres, rtol=0, atol=1e-9):
             break

@@ -28,16 +28,21 @@ VALUE_ENCODINGS = (*ENCODINGS, CODEBOOK8)
 """Value encodings a shrunk model can use."""
 
 _NO_MASS = 1e-12
+USE_WEIGHT_POWER = 0.25
+"""Codebook levels are fitted with each value weighted by (P(h) p(w | h)) ** 0.25, how often it is
+used, damped: counting every value alike leaves too few levels where the used values lie, weighting
+by use alone (power 1) leaves the many rare values coarse; on the demo model power 0, 0.25, 0.5 and 1
+gave perplexity +0.8%, -0.07%, +15% and +17% against the 16-bit model."""
 
 
-def encode_level(values: np.ndarray, offsets: np.ndarray, encoding: str) -> tuple[np.ndarray, np.ndarray | None]:
-    """Encode one order's values.
+def encode_level(values: np.ndarray, offsets: np.ndarray, encoding: str, weights: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray | None]:
+    """Encode one order's values (``weights``: how much each value's rounding counts, for codebooks).
 
     Returns:
         ``(stored, codebook)``: the stored array, and the codebook (float64, 256 levels) for ``codebook8``, else None.
     """
     if encoding == CODEBOOK8:
-        book = fit_codebook(values)
+        book = fit_codebook(values, weights)
         codes = keep_mass_below_one(encode_codebook(values, book), book, offsets)
         return codes, book
     if encoding not in ENCODINGS:
@@ -61,8 +66,9 @@ def backoff_sections(tables: BackoffTables, encoding: str) -> dict[str, np.ndarr
     p1 = tables.p1.astype(np.float32)
     p1_stored = p1.astype(np.float64)
     total1 = float(p1_stored.sum())
-    a2, book2 = encode_level(tables.p2, tables.off2, encoding)
-    a3, book3 = encode_level(tables.p3, tables.off3, encoding)
+    p_v, p_slot = tables.history_probabilities()
+    a2, book2 = encode_level(tables.p2, tables.off2, encoding, (p_v[tables.context2()] * tables.p2) ** USE_WEIGHT_POWER)
+    a3, book3 = encode_level(tables.p3, tables.off3, encoding, (p_slot[tables.slot3()] * tables.p3) ** USE_WEIGHT_POWER)
     d2 = decoded(a2, book2)
     d3 = decoded(a3, book3)
     has2 = np.diff(tables.off2) > 0
