@@ -177,7 +177,7 @@ class _Stages:
 
 def run_sweep_command(args: argparse.Namespace) -> int:
     """foretype sweep."""
-    from ..shrink import parse_encodings
+    from ..builder.shrink import parse_encodings
     from ..sweep import format_table, parse_methods, parse_shares, parse_vocab_sizes, run_sweep
 
     settings = _settings(args)

@@ -7,14 +7,15 @@ import time
 from pathlib import Path
 from typing import Any
 
-from ..build import build
-from ..counting import CorpusCounts
+from ..builder import build
+from ..counting.counter import CorpusCounts
 from ..errors import OptionError
-from ..estimate import ENCODINGS, METHODS
-from ..integrity import verify_model
-from ..memory import parse_size, peak_resident_bytes
-from ..model import load
-from ..modelfile import check_target
+from ..estimate import METHODS
+from ..modelfile.encoding import ENCODINGS
+from ..query.verify import verify_model
+from ..counting.memory import parse_size, peak_resident_bytes
+from ..query.model import load
+from ..modelfile.format import check_target
 from .shrink_commands import describe_shrink
 from .output import (
     add_json_option,
@@ -95,7 +96,7 @@ def register(commands: argparse._SubParsersAction) -> None:
 
 def _cutoffs(text: str) -> tuple[int, int]:
     """argparse type: count cutoffs such as 2,3."""
-    from ..shrink import parse_cutoffs
+    from ..builder.shrink import parse_cutoffs
 
     try:
         return parse_cutoffs(text)

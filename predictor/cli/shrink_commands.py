@@ -8,10 +8,10 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import OptionError
-from ..memory import parse_size
-from ..model import LanguageModel, load
-from ..modelfile import check_target
-from ..shrink import VALUE_ENCODINGS, shrink
+from ..counting.memory import parse_size
+from ..query.model import LanguageModel, load
+from ..modelfile.format import check_target
+from ..builder.shrink import VALUE_ENCODINGS, shrink
 from .output import add_json_option, open_model, positive_int, print_json
 
 SHRINK_CRITERIA = ("entropy", "prediction")

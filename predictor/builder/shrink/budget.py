@@ -8,7 +8,7 @@ from typing import Any
 
 import numpy as np
 
-from ..arrays import offsets_dtype, word_id_dtype
+from ...arrays import offsets_dtype, word_id_dtype
 from .quantise import CODEBOOK8, LEVELS
 from .tables import BackoffTables
 

@@ -15,8 +15,10 @@ from __future__ import annotations
 
 import numpy as np
 
-CODEBOOK8 = "codebook8"
-"""The name of the 8-bit codebook value encoding."""
+from ...modelfile.encoding import CODEBOOK8
+
+__all__ = ["CODEBOOK8", "fit_codebook", "encode_codebook", "keep_mass_below_one"]
+
 LEVELS = 256
 LLOYD_ROUNDS = 12
 _FLOOR = 2.0**-60

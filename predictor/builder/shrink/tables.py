@@ -22,11 +22,11 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from ..estimate.encoding import decode
-from ..estimate.layout import context_totals
+from ...modelfile.encoding import decode, value_table
+from ...estimate.layout import context_totals
 
 if TYPE_CHECKING:
-    from ..model import LanguageModel
+    from ...query.model import LanguageModel
 
 
 @dataclass
@@ -186,7 +186,5 @@ def backoff_tables(model: LanguageModel) -> BackoffTables:
 def _decode_values(model: LanguageModel, level: str) -> np.ndarray:
     """Decode a level's stored values whatever their encoding (codebooks included)."""
     stored = model.sections[f"{level}.value"]
-    book = model.sections.get(f"{level}.codebook")
-    if book is not None and stored.dtype == np.uint8:
-        return book.astype(np.float64)[stored]
-    return decode(stored)
+    table = value_table(model.sections, level)
+    return table[stored] if table is not None else decode(stored)

@@ -22,9 +22,9 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import CapacityError, OptionError
-from ..model import LanguageModel
-from ..ranking import RANKED_MIN
+from ...errors import CapacityError, OptionError
+from ...query.model import LanguageModel
+from ...query.ranked import RANKED_MIN
 from .budget import file_bytes_of, level_bytes, search_removals
 from .entropy import perplexity_costs
 from .predictive import prediction_costs

@@ -6,14 +6,18 @@ import os
 from collections.abc import Callable, Iterable, Mapping
 from typing import Any
 
-from .counting import MAX_VOCABULARY, CorpusCounts, ProgressCallback, count_corpus
-from .errors import CapacityError, OptionError
-from .estimate import ENCODINGS, METHODS, fit_levels, model_counts
-from .memory import MemoryBudget
-from .model import LanguageModel
+from ..counting import CorpusCounts, ProgressCallback, count_corpus
+from ..errors import CapacityError, OptionError
+from ..estimate import METHODS, model_counts
+from ..modelfile.encoding import ENCODINGS
+from ..modelfile.levels import fit_levels
+from ..modelfile.limits import MAX_VOCABULARY
+from ..counting.memory import MemoryBudget
+from ..query.model import LanguageModel
 from .ranking import rank_sections
-from .shrink.quantise import CODEBOOK8
-from .vocabulary import vocabulary_sections
+from .shrink import shrink
+from ..modelfile.encoding import CODEBOOK8
+from ..query.vocabulary import vocabulary_sections
 
 
 def check_build_options(*, vocab_size: int | None, min_count: int, method: str, add: float, encoding: str | None, cutoffs: tuple[int, int] | None = None) -> None:
@@ -64,7 +68,7 @@ def build(
         paths: the corpus.
         vocab_size: keep the N most frequent words (None: all).
         min_count: drop words seen fewer times.
-        method: one of :data:`predictor.METHODS`.
+        method: one of :data:`foretype.METHODS`.
         add: k for the ``additive`` method.
         wrapped: treat single line breaks as spaces (hard-wrapped prose).
         replace_bad_bytes: replace invalid UTF-8 instead of failing.
@@ -72,7 +76,7 @@ def build(
         encoding: stored value encoding, ``log16`` (default) or ``float32``.
         progress: called with (bytes done, bytes in all) while reading.
         max_memory: ceiling on the build's peak resident memory in bytes (None: half
-            of the memory available; see :mod:`predictor.memory`).
+            of the memory available; see :mod:`foretype.counting.memory`).
         spill_dir: where counts that outgrow memory go (None: the system's temporary folder).
         on_counted: called with the counts once the corpus is read (for build summaries).
         cutoffs: (C2, C3): store only bigrams seen at least C2 times and trigrams
@@ -92,6 +96,7 @@ def build(
         budget=budget,
         spill_dir=spill_dir,
         min_count=min_count if vocab_size is None else None,
+        max_vocabulary=MAX_VOCABULARY,
     )
     if on_counted is not None:
         on_counted(counts)
@@ -127,7 +132,7 @@ def build_from_counts(
     cutoffs = None if shrink_options is None else shrink_options.get("cutoffs")
     check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding, cutoffs=cutoffs)
     shrinking = shrink_options is not None or encoding == CODEBOOK8
-    chosen = counts.select_vocabulary(vocab_size, min_count)
+    chosen = counts.select_vocabulary(vocab_size, min_count, max_words=MAX_VOCABULARY)
     vocabulary_counts = model_counts(counts, chosen)
     counts.require_estimate(len(vocabulary_counts.table), vocabulary_counts.vocab_size)
     sections, meta = fit_levels(vocabulary_counts, method, add=add, encoding="float32" if shrinking else encoding)
@@ -148,8 +153,6 @@ def build_from_counts(
         }
     )
     if shrinking:
-        from .shrink import shrink
-
         target = encoding or ("float32" if method in ("mle", "katz") else "log16")
         counts_of_entries = (vocabulary_counts.layout.bigram_n, vocabulary_counts.table.n)
         options = dict(shrink_options or {})

@@ -15,12 +15,13 @@ from typing import Any
 
 import numpy as np
 
-from ..arrays import offsets_dtype, word_id_dtype
-from ..errors import OptionError
-from ..estimate.encoding import ENCODINGS, decode, encode
-from ..estimate.layout import context_totals
-from ..model import LanguageModel
-from ..ranking import RANKED_MIN, rank_sections
+from ...arrays import offsets_dtype, word_id_dtype
+from ...errors import OptionError
+from ...modelfile.encoding import ENCODINGS, decode, encode
+from ...estimate.layout import context_totals
+from ...query.model import LanguageModel
+from ...query.ranked import RANKED_MIN
+from ..ranking import rank_sections
 from .quantise import CODEBOOK8, encode_codebook, fit_codebook, keep_mass_below_one
 from .tables import BackoffTables
 
