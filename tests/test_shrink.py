@@ -328,3 +328,34 @@ def test_shrink_and_info_on_the_command_line(katz_model, tmp_path, run_cli):
     assert run_cli("shrink", full, "-o", small, "--max-bytes", "1K").code == CapacityError.exit_code
     assert run_cli("shrink", full, "-o", small, "--max-bytes", "lots").code == OptionError.exit_code
     assert run_cli("check", small).code == 0
+
+
+def test_the_size_sweep_writes_rows_per_criterion_and_a_chart(tmp_path):
+    # The sweep's size axis: a shrunk row per criterion that fits its share of the full model's bytes.
+    from foretype.demo import demo_corpus, demo_heldout
+    from foretype.simulate import TypistSettings
+    from foretype.sweep import run_sweep
+
+    corpus = tmp_path / "corpus.txt"
+    corpus.write_text("".join(demo_corpus().read_text(encoding="utf-8").splitlines(keepends=True)[:3000]), encoding="utf-8")
+    text = "".join(demo_heldout().read_text(encoding="utf-8").splitlines(keepends=True)[:60])
+    result = run_sweep([corpus], text, out=tmp_path / "out", vocab_sizes=[800], settings=TypistSettings(k=3), shrink_criteria=["count", "entropy", "prediction"], keep_bytes=[0.85])
+    full = result.rows[0]
+    assert full.keep_bytes is None and full.criterion == "none"
+    shrunk = result.rows[1:]
+    assert [row.criterion for row in shrunk] == ["count", "entropy", "prediction"]
+    for row in shrunk:
+        assert row.file_bytes <= 0.85 * full.file_bytes
+        assert row.bigrams + row.trigrams < full.bigrams + full.trigrams
+    chart = (tmp_path / "out" / "size.svg").read_text(encoding="utf-8")
+    assert chart.count("<polyline") == 3
+
+
+def test_a_version_1_file_still_loads(katz_model, tmp_path):
+    # Format version 2 only adds codebooks: a version-1 file (no codebooks) reads as before.
+    path = tmp_path / "old.model"
+    katz_model.save(path)
+    data = bytearray(path.read_bytes())
+    struct.pack_into("<I", data, 8, 1)
+    path.write_bytes(bytes(data))
+    assert np.array_equal(predictor.load(path).distribution(["the"]), katz_model.distribution(["the"]))
