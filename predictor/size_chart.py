@@ -35,13 +35,16 @@ def size_lines(rows: Sequence[dict[str, Any]]) -> dict[tuple[str, ...], list[dic
     vocabularies = {r["vocab_size"] for r in rows}
     lines: dict[tuple[str, ...], list[dict[str, Any]]] = {}
     for row in rows:
-        if row.get("keep_bytes") is None or row.get("criterion") in (None, "none"):
+        if row.get("keep_bytes") is None:
             continue
-        key: tuple[str, ...] = (str(row["method"]), str(row["criterion"]), str(row.get("value_encoding", "")))
+        criterion = "values only" if row.get("criterion") in (None, "none") else str(row["criterion"])
+        key: tuple[str, ...] = (str(row["method"]), criterion, str(row.get("value_encoding", "")))
         if len(vocabularies) > 1:
             key += (f"{int(row['vocab_size']):,} words",)
         lines.setdefault(key, []).append(row)
     for key, members in lines.items():
+        if key[1] == "values only":
+            continue  # a point of its own: the full model re-encoded
         ends = [
             r
             for r in rows

@@ -85,9 +85,14 @@ def draw_size_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
     """Draw savings against model bytes (log scale), one line per method, criterion and value encoding."""
     plt = plot.plt
     plt.clear_figure()
+    sizes = []
     for key, members in size_lines(sweep.rows).items():
+        sizes.extend(float(r["file_bytes"]) for r in members)
         plt.plot([float(r["file_bytes"]) for r in members], [100 * float(r["ksr"]) for r in members], marker="braille", label=", ".join(key))
-    plt.xscale("log")
+    if sizes:
+        plt.xscale("log")
+        ticks = sorted(set(sizes))
+        plt.xticks(ticks, [file_size(int(t)) for t in ticks])
     plt.xlabel("model file bytes (log scale)")
     plt.title("keystroke savings (%) by model size")
     plot.refresh()
