@@ -44,7 +44,7 @@ from .adapt.simulation import simulate_adaptive
 from .builder import build_from_counts, check_build_options
 from .builder.shrink import CRITERIA, VALUE_ENCODINGS, shrink
 from .chart import sweep_chart
-from .counting.counter import count_corpus
+from .counting import count_corpus
 from .errors import CapacityError, OptionError
 from .size_chart import size_chart
 from .estimate import METHODS

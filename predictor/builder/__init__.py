@@ -7,17 +7,16 @@ from collections.abc import Callable, Iterable, Mapping
 from typing import Any
 
 from ..counting import CorpusCounts, ProgressCallback, count_corpus
+from ..counting.memory import MemoryBudget
 from ..errors import CapacityError, OptionError
 from ..estimate import METHODS, model_counts
-from ..modelfile.encoding import ENCODINGS
+from ..modelfile.encoding import CODEBOOK8, ENCODINGS
 from ..modelfile.levels import fit_levels
 from ..modelfile.limits import MAX_VOCABULARY
-from ..counting.memory import MemoryBudget
 from ..query.model import LanguageModel
+from ..query.vocabulary import vocabulary_sections
 from .ranking import rank_sections
 from .shrink import shrink
-from ..modelfile.encoding import CODEBOOK8
-from ..query.vocabulary import vocabulary_sections
 
 
 def check_build_options(*, vocab_size: int | None, min_count: int, method: str, add: float, encoding: str | None, cutoffs: tuple[int, int] | None = None) -> None:

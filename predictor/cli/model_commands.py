@@ -8,14 +8,14 @@ from pathlib import Path
 from typing import Any
 
 from ..builder import build
-from ..counting.counter import CorpusCounts
+from ..counting import CorpusCounts
+from ..counting.memory import parse_size, peak_resident_bytes
 from ..errors import OptionError
 from ..estimate import METHODS
 from ..modelfile.encoding import ENCODINGS
-from ..query.verify import verify_model
-from ..counting.memory import parse_size, peak_resident_bytes
-from ..query.model import load
 from ..modelfile.format import check_target
+from ..query.model import load
+from ..query.verify import verify_model
 from .shrink_commands import describe_shrink
 from .output import (
     add_json_option,

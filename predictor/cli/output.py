@@ -11,8 +11,8 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import OptionError
-from ..query.model import LanguageModel, load
 from ..modelfile.format import MAGIC
+from ..query.model import LanguageModel, load
 
 
 def add_json_option(parser: argparse.ArgumentParser) -> None:
@@ -74,8 +74,8 @@ def progress_bar(label: str) -> Iterator[Callable[[int, int], None]]:
     if not sys.stderr.isatty():
         yield lambda done, total: None
         return
-    from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeRemainingColumn
     from rich.console import Console
+    from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeRemainingColumn
 
     with Progress(
         TextColumn("{task.description}"),
