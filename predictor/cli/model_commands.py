@@ -9,6 +9,7 @@ from typing import Any
 
 from ..builder import build
 from ..counting import CorpusCounts
+from ..counting.corpus import read_text_file
 from ..counting.memory import parse_size, peak_resident_bytes
 from ..errors import OptionError
 from ..estimate import METHODS
@@ -23,7 +24,6 @@ from .output import (
     positive_int,
     print_json,
     progress_bar,
-    read_text_file,
     split_model_argument,
 )
 

@@ -7,7 +7,6 @@ import json
 import sys
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
-from pathlib import Path
 from typing import Any
 
 from ..errors import OptionError
@@ -102,15 +101,3 @@ def positive_int(text: str) -> int:
     if value < 1:
         raise argparse.ArgumentTypeError(f"must be at least 1, got {value}")
     return value
-
-
-def read_text_file(path: str) -> str:
-    """Read a UTF-8 text file for scoring or simulation.
-
-    Raises:
-        CorpusError / EncodingError: missing, binary or invalid UTF-8.
-    """
-    from ..counting.corpus import iter_chunks, resolve_corpus
-
-    found = resolve_corpus([path])
-    return "".join(chunk for file in found.files for chunk in iter_chunks(Path(file)))
