@@ -119,7 +119,7 @@ def main() -> None:
     encodings: list[dict] = []
     if not args.skip_encodings:
         counts = foretype.count_corpus([train])
-        for label, size in (("kn-v%d" % args.vocab_size, args.vocab_size), ("kn-full", None)):
+        for label, size in ((f"kn-v{args.vocab_size}", args.vocab_size), ("kn-full", None)):
             model = foretype.build_from_counts(counts, vocab_size=size, method="kneser-ney")
             encodings.extend(encodings_side_by_side(model, text, settings, folder, label))
         counts.close()

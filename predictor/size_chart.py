@@ -9,7 +9,7 @@ so the smallest model that keeps it can be read off.  Plain SVG 1.1, no scripts.
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from typing import Any
 from xml.sax.saxutils import escape
 
@@ -60,6 +60,27 @@ def size_lines(rows: Sequence[dict[str, Any]]) -> dict[tuple[str, ...], list[dic
     return lines
 
 
+def _grid(x_lo: float, x_hi: float, y_lo: float, y_hi: float, x_of: Callable[[float], float], y_of: Callable[[float], float]) -> list[str]:
+    """Horizontal grid lines with percent labels, and byte ticks at 1, 2 and 5 times powers of ten."""
+    plot_w = WIDTH - LEFT - RIGHT
+    plot_h = HEIGHT - TOP - BOTTOM
+    parts = []
+    step = 5.0 if y_hi - y_lo <= 40 else 10.0
+    value = y_lo
+    while value <= y_hi + 1e-9:
+        parts.append(f'<line x1="{LEFT}" y1="{y_of(value):.1f}" x2="{LEFT + plot_w}" y2="{y_of(value):.1f}" stroke="#e5e5e5"/>')
+        parts.append(f'<text x="{LEFT - 8}" y="{y_of(value) + 4:.1f}" text-anchor="end">{value:g}%</text>')
+        value += step
+    for exponent in range(math.floor(x_lo), math.ceil(x_hi) + 1):
+        for mantissa in (1, 2, 5):
+            tick = mantissa * 10.0**exponent
+            if x_lo <= math.log10(tick) <= x_hi:
+                x = x_of(tick)
+                parts.append(f'<line x1="{x:.1f}" y1="{TOP + plot_h}" x2="{x:.1f}" y2="{TOP + plot_h + 5}" stroke="#888888"/>')
+                parts.append(f'<text x="{x:.1f}" y="{TOP + plot_h + 19}" text-anchor="middle">{_bytes_label(tick)}</text>')
+    return parts
+
+
 def size_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: str = "Keystroke savings by model size") -> str:
     """Draw the rows of a size sweep (sweep rows as JSON objects) as an SVG document."""
     plot_w = WIDTH - LEFT - RIGHT
@@ -93,19 +114,7 @@ def size_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: s
     def y_of(percent: float) -> float:
         return TOP + plot_h - (percent - y_lo) / (y_hi - y_lo) * plot_h
 
-    step = 5.0 if y_hi - y_lo <= 40 else 10.0
-    value = y_lo
-    while value <= y_hi + 1e-9:
-        parts.append(f'<line x1="{LEFT}" y1="{y_of(value):.1f}" x2="{LEFT + plot_w}" y2="{y_of(value):.1f}" stroke="#e5e5e5"/>')
-        parts.append(f'<text x="{LEFT - 8}" y="{y_of(value) + 4:.1f}" text-anchor="end">{value:g}%</text>')
-        value += step
-    for exponent in range(math.floor(x_lo), math.ceil(x_hi) + 1):
-        for mantissa in (1, 2, 5):
-            tick = mantissa * 10.0**exponent
-            if x_lo <= math.log10(tick) <= x_hi:
-                x = x_of(tick)
-                parts.append(f'<line x1="{x:.1f}" y1="{TOP + plot_h}" x2="{x:.1f}" y2="{TOP + plot_h + 5}" stroke="#888888"/>')
-                parts.append(f'<text x="{x:.1f}" y="{TOP + plot_h + 19}" text-anchor="middle">{_bytes_label(tick)}</text>')
+    parts.extend(_grid(x_lo, x_hi, y_lo, y_hi, x_of, y_of))
     parts.append(f'<rect x="{LEFT}" y="{TOP}" width="{plot_w}" height="{plot_h}" fill="none" stroke="#888888"/>')
     parts.append(f'<text x="{LEFT + plot_w / 2}" y="{HEIGHT - 18}" text-anchor="middle">model file bytes (log scale)</text>')
     parts.append(f'<text x="18" y="{TOP + plot_h / 2}" text-anchor="middle" transform="rotate(-90 18 {TOP + plot_h / 2})">keystroke savings</text>')

@@ -46,11 +46,11 @@ from .builder.shrink import CRITERIA, VALUE_ENCODINGS, shrink
 from .chart import sweep_chart
 from .counting import count_corpus
 from .errors import CapacityError, OptionError
-from .size_chart import size_chart
 from .estimate import METHODS
 from .query.model import load
 from .simulate import TypistSettings, read_passage, simulate
 from .simulate.writing import prepare_folder, write_text_atomic
+from .size_chart import size_chart
 
 DEFAULT_VOCAB_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)
 """The vocabulary sizes swept when none are given."""
@@ -483,37 +483,16 @@ def run_sweep(
     write_results(result, folder)
     shrunk = shrink_plan(shrink_criteria, keep_bytes, value_encodings) if keep_bytes else []
     plan = [(method, size, step) for method in methods for size in vocab_sizes for step in [None, *shrunk]]
-    full_path, full_bytes = folder, 0
+    full: dict[tuple[str, int], tuple[Path, int]] = {}
     for number, (method, size, step) in enumerate(plan, 1):
-        label = f"[{number}/{len(plan)}] {method}, {size:,} words"
-        if step is not None:
-            label += f", {step[0]} to {step[1]:g} of the bytes" + (f", {step[2]} values" if step[2] else "")
+        label = _row_label(number, len(plan), method, size, step)
         report(label, 0, 0)
         moving = lambda done, total, label=label: report(label, done, total)  # noqa: E731
-        if step is None:
-            row = measure_model(counts, method=method, vocab_size=size, test_text=test_text, settings=settings, folder=folder, progress=moving, adapt=adapt)
-            full_path, full_bytes = folder / f"{method}-v{size}.model", row.file_bytes
-        else:
-            criterion, share, encoding = step
-            try:
-                row = measure_shrunk(
-                    counts,
-                    full_path,
-                    full_bytes,
-                    method=method,
-                    vocab_size=size,
-                    criterion=criterion,
-                    share=share,
-                    encoding=encoding,
-                    test_text=test_text,
-                    settings=settings,
-                    folder=folder,
-                    progress=moving,
-                    adapt=adapt,
-                )
-            except CapacityError as error:
-                report(f"{label}: skipped ({error})", 0, 0)
-                continue
+        common = {"method": method, "vocab_size": size, "test_text": test_text, "settings": settings, "folder": folder, "progress": moving, "adapt": adapt}
+        row = _measure_planned(counts, step, full, common)
+        if row is None:
+            report(f"{label}: skipped (below the smallest model this vocabulary allows)", 0, 0)
+            continue
         result.rows.append(row)
         result.complete = number == len(plan)
         write_results(result, folder)
@@ -523,6 +502,27 @@ def run_sweep(
         result.complete = True  # the last planned row was skipped as too small to build
         write_results(result, folder)
     return result
+
+
+def _measure_planned(counts: Any, step: tuple[str, float, str] | None, full: dict[tuple[str, int], tuple[Path, int]], common: dict[str, Any]) -> SweepRow | None:
+    """Measure one planned row: a full model (remembered in ``full``), or a shrunk one (None if its budget is too small)."""
+    key = (common["method"], common["vocab_size"])
+    if step is None:
+        row = measure_model(counts, **common)
+        full[key] = (common["folder"] / f"{key[0]}-v{key[1]}.model", row.file_bytes)
+        return row
+    try:
+        return measure_shrunk(counts, *full[key], criterion=step[0], share=step[1], encoding=step[2], **common)
+    except CapacityError:
+        return None
+
+
+def _row_label(number: int, planned: int, method: str, size: int, step: tuple[str, float, str] | None) -> str:
+    """The progress label of one planned row."""
+    label = f"[{number}/{planned}] {method}, {size:,} words"
+    if step is not None:
+        label += f", {step[0]} to {step[1]:g} of the bytes" + (f", {step[2]} values" if step[2] else "")
+    return label
 
 
 def parse_shares(text: str) -> list[float]:

@@ -17,15 +17,15 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from test_suggest_exact import WORDS, brute_force, build_text, suggested
 
 import foretype as predictor
-from foretype.errors import CapacityError, ModelFileError, OptionError
-from foretype.modelfile.format import read_model_file, write_model_file
 from foretype.builder.shrink import backoff_tables, shrink
 from foretype.builder.shrink.entropy import entropy_costs
 from foretype.builder.shrink.predictive import list_losses
 from foretype.builder.shrink.sections import shrunk_model
-from test_suggest_exact import WORDS, brute_force, build_text, suggested
+from foretype.errors import CapacityError, ModelFileError, OptionError
+from foretype.modelfile.format import read_model_file, write_model_file
 
 CORPUS = """the ferry leaves at noon
 the ferry is late

@@ -17,7 +17,6 @@ from ..modelfile.encoding import ENCODINGS
 from ..modelfile.format import check_target
 from ..query.model import load
 from ..query.verify import verify_model
-from .shrink_commands import describe_shrink
 from .output import (
     add_json_option,
     open_model,
@@ -26,6 +25,7 @@ from .output import (
     progress_bar,
     split_model_argument,
 )
+from .shrink_commands import describe_shrink
 
 
 def register(commands: argparse._SubParsersAction) -> None:

@@ -7,11 +7,11 @@ import time
 from pathlib import Path
 from typing import Any
 
-from ..errors import OptionError
-from ..counting.memory import parse_size
-from ..query.model import LanguageModel, load
-from ..modelfile.format import check_target
 from ..builder.shrink import VALUE_ENCODINGS, shrink
+from ..counting.memory import parse_size
+from ..errors import OptionError
+from ..modelfile.format import check_target
+from ..query.model import LanguageModel, load
 from .output import add_json_option, open_model, positive_int, print_json
 
 SHRINK_CRITERIA = ("entropy", "prediction")

@@ -96,14 +96,7 @@ def check_structure(model: ModelFile) -> None:
     for section in ("l2.value", "l3.value"):
         if s[section].dtype.name not in _VALUE_TYPES[encoding]:
             raise ModelFileError(f"{name}: corrupt (section {section} does not hold {encoding} values)")
-    if encoding == "codebook8":
-        for section in ("l2.codebook", "l3.codebook"):
-            if section not in s:
-                raise ModelFileError(f"{name}: corrupt (missing section {section})")
-            _check_type(name, section, s[section], {"float64"})
-            if len(s[section]) != _CODEBOOK_LEVELS:
-                raise ModelFileError(f"{name}: corrupt (section {section} has {len(s[section]):,} entries, expected {_CODEBOOK_LEVELS})")
-            _probabilities(name, section, s[section], upper=1.0)
+    _check_codebooks(name, s, encoding)
     for section in ("l2.word", "l3.word", "vocab.order", "rank2.ids", "rank3.ids"):
         if section in s and s[section].dtype == np.uint16 and size + 3 > 2**16:
             raise ModelFileError(f"{name}: corrupt (section {section} is too narrow for {size:,} words)")
@@ -148,6 +141,19 @@ def check_structure(model: ModelFile) -> None:
         _ids(name, "rank3.slot", s["rank3.slot"], n2)
         _increasing(name, "rank3.slot", s["rank3.slot"])
     _check_vocabulary(name, s, size)
+
+
+def _check_codebooks(name: object, s: dict[str, np.ndarray], encoding: str) -> None:
+    """8-bit values need both codebooks: 256 float64 levels in [0, 1] each."""
+    if encoding != "codebook8":
+        return
+    for section in ("l2.codebook", "l3.codebook"):
+        if section not in s:
+            raise ModelFileError(f"{name}: corrupt (missing section {section})")
+        _check_type(name, section, s[section], {"float64"})
+        if len(s[section]) != _CODEBOOK_LEVELS:
+            raise ModelFileError(f"{name}: corrupt (section {section} has {len(s[section]):,} entries, expected {_CODEBOOK_LEVELS})")
+        _probabilities(name, section, s[section], upper=1.0)
 
 
 def _check_meta(name: object, meta: dict[str, Any]) -> int:

@@ -22,8 +22,8 @@ from textual.widgets import DataTable, Footer, Header, Static
 from textual_plotext import PlotextPlot
 
 from foretype.chart import has_learning
-from foretype.size_chart import size_lines
 from foretype.errors import ForetypeError
+from foretype.size_chart import size_lines
 
 from ..files import SweepFile, read_sweep
 from ..formatting import count, file_size, signed_percent

@@ -114,47 +114,46 @@ def shrink(
         CapacityError: the budget is below the smallest model the vocabulary allows.
     """
     encoding = encoding or str(model.meta["value_encoding"])
+    pruning = threshold is not None or cutoffs is not None or max_bytes is not None
+    _check_options(model, encoding, pruning, threshold, max_bytes)
+    tables = backoff_tables(model)
+    source = {"1": tables.size + 2, "2": tables.n2, "3": tables.n3}
+    keep2 = np.ones(tables.n2, dtype=bool)
+    keep3 = np.ones(tables.n3, dtype=bool)
+    record: dict[str, Any] = {"criterion": criterion if pruning else None, "source_ngrams": source, "source_file_bytes": model.file_bytes}
+    if cutoffs is not None:
+        if counts is None:
+            raise OptionError("count cutoffs need the corpus counts: use 'foretype build --cutoffs'")
+        keep2 &= counts[0] >= cutoffs[0]
+        keep3 &= counts[1] >= cutoffs[1]
+        record["cutoffs"] = list(cutoffs)
+    if threshold is not None or max_bytes is not None:
+        score2, score3 = scores_of(model, tables, criterion, k=k, counts=counts)
+        if threshold is not None:
+            keep2 &= ~(score2 < threshold)
+            keep3 &= ~(score3 < threshold)
+            record["threshold"] = threshold
+        if max_bytes is not None:
+            keep2, keep3 = _fit_budget(model, tables, keep2, keep3, score2, score3, max_bytes, encoding, ranked_min)
+            record["max_bytes"] = max_bytes
+    if pruning and criterion == "prediction":
+        record["k"] = k
+    pruned = tables.pruned(keep2, keep3)
+    record["kept_ngrams"] = {"1": pruned.size + 2, "2": pruned.n2, "3": pruned.n3}
+    record["ranked_min"] = ranked_min
+    return shrunk_model(model, pruned, encoding=encoding, shrink_meta=record, ranked_min=ranked_min)
+
+
+def _check_options(model: LanguageModel, encoding: str, pruning: bool, threshold: float | None, max_bytes: int | None) -> None:
+    """Refuse an unknown encoding, a bad threshold or budget, and pruning a maximum-likelihood model."""
     if encoding not in VALUE_ENCODINGS:
         raise OptionError(f"unknown value encoding {encoding!r}; choose one of {', '.join(VALUE_ENCODINGS)}")
-    pruning = threshold is not None or cutoffs is not None or max_bytes is not None
     if pruning and model.method == "mle":
         raise OptionError("a maximum-likelihood model cannot be pruned: every removed n-gram would get probability 0")
     if threshold is not None and not (threshold >= 0 and np.isfinite(threshold)):
         raise OptionError(f"the pruning threshold must be a non-negative number, not {threshold}")
     if max_bytes is not None and max_bytes < 1:
         raise OptionError(f"--max-bytes must be positive, not {max_bytes}")
-    tables = backoff_tables(model)
-    source = {"1": tables.size + 2, "2": tables.n2, "3": tables.n3}
-    keep2 = np.ones(tables.n2, dtype=bool)
-    keep3 = np.ones(tables.n3, dtype=bool)
-    record: dict[str, Any] = {"criterion": criterion if pruning else None, "source_ngrams": source, "source_file_bytes": model.file_bytes}
-    if pruning:
-        if cutoffs is not None:
-            if counts is None:
-                raise OptionError("count cutoffs need the corpus counts: use 'foretype build --cutoffs'")
-            keep2 &= counts[0] >= cutoffs[0]
-            keep3 &= counts[1] >= cutoffs[1]
-            record["cutoffs"] = list(cutoffs)
-        score2 = score3 = None
-        if threshold is not None or max_bytes is not None:
-            score2, score3 = scores_of(model, tables, criterion, k=k, counts=counts)
-        if threshold is not None and score2 is not None and score3 is not None:
-            keep2 &= ~(score2 < threshold)
-            keep3 &= ~(score3 < threshold)
-            record["threshold"] = threshold
-        if max_bytes is not None and score2 is not None and score3 is not None:
-            keep2, keep3 = _fit_budget(model, tables, keep2, keep3, score2, score3, max_bytes, encoding, ranked_min)
-            record["max_bytes"] = max_bytes
-        if criterion == "prediction":
-            record["k"] = k
-    pruned = tables.pruned(keep2, keep3)
-    record["kept_ngrams"] = {"1": pruned.size + 2, "2": pruned.n2, "3": pruned.n3}
-    meta_for_size = {**model.meta, "shrink": record}
-    record["ranked_min"] = ranked_min
-    shrunk = shrunk_model(model, pruned, encoding=encoding, shrink_meta=record, ranked_min=ranked_min)
-    if max_bytes is not None and _estimated_bytes(model, pruned, encoding, ranked_min, meta_for_size) > max_bytes:
-        raise CapacityError(f"cannot fit {max_bytes:,} bytes")  # the search guarantees this does not happen
-    return shrunk
 
 
 def _estimated_bytes(model: LanguageModel, tables: BackoffTables, encoding: str, ranked_min: int, meta: dict[str, Any]) -> int:

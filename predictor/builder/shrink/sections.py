@@ -17,8 +17,8 @@ import numpy as np
 
 from ...arrays import offsets_dtype, word_id_dtype
 from ...errors import OptionError
-from ...modelfile.encoding import ENCODINGS, decode, encode
 from ...estimate.layout import context_totals
+from ...modelfile.encoding import ENCODINGS, decode, encode
 from ...query.model import LanguageModel
 from ...query.ranked import RANKED_MIN
 from ..ranking import rank_sections

@@ -22,8 +22,8 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from ...modelfile.encoding import decode, value_table
 from ...estimate.layout import context_totals
+from ...modelfile.encoding import decode, value_table
 
 if TYPE_CHECKING:
     from ...query.model import LanguageModel
