@@ -26,6 +26,7 @@ from .output import (
     progress_bar,
     split_model_argument,
 )
+from .shrink_commands import describe_shrink
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -46,7 +47,8 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces, blank lines end sentences")
     p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
     p.add_argument("--reject-binary", action="store_true", help="fail on binary files inside folders instead of skipping them")
-    p.add_argument("--values", choices=ENCODINGS, default=None, help="stored value encoding (default log16; float32 for katz and mle)")
+    p.add_argument("--values", choices=(*ENCODINGS, "codebook8"), default=None, help="stored value encoding (default log16; float32 for katz and mle; codebook8: one byte per value)")
+    p.add_argument("--cutoffs", type=_cutoffs, default=None, metavar="C2,C3", help="store only bigrams seen at least C2 times and trigrams at least C3 times (back-off form)")
     p.add_argument(
         "--max-memory",
         type=_memory_size,
@@ -94,6 +96,16 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.set_defaults(handler=run_check)
 
 
+def _cutoffs(text: str) -> tuple[int, int]:
+    """argparse type: count cutoffs such as 2,3."""
+    from ..builder.shrink import parse_cutoffs
+
+    try:
+        return parse_cutoffs(text)
+    except OptionError as error:
+        raise argparse.ArgumentTypeError(str(error)) from None
+
+
 def _memory_size(text: str) -> int:
     """argparse type: a memory size such as 512M or 2G."""
     try:
@@ -121,7 +133,7 @@ def run_build(args: argparse.Namespace) -> int:
         with progress_bar("estimating from the count store") as update:
             update(0, 0)
             model = build_from_store(
-                args.counts, vocab_size=args.vocab_size, min_count=args.min_count, method=args.method, add=args.add, encoding=args.values, max_memory=args.max_memory
+                args.counts, vocab_size=args.vocab_size, min_count=args.min_count, method=args.method, add=args.add, encoding=args.values, max_memory=args.max_memory, cutoffs=args.cutoffs
             )
     else:
         with progress_bar("reading corpus") as update:
@@ -139,6 +151,7 @@ def run_build(args: argparse.Namespace) -> int:
                 max_memory=args.max_memory,
                 spill_dir=spill_dir,
                 on_counted=note_counts,
+                cutoffs=args.cutoffs,
             )
     size = model.save(args.output)
     seconds = time.perf_counter() - started
@@ -245,6 +258,7 @@ def run_info(args: argparse.Namespace) -> int:
     model = open_model(model_path)
     info = model.info()
     info["model"] = str(model.path) if model.path else None
+    info["shrink"] = model.meta.get("shrink")
     if args.json:
         print_json(info)
         return 0
@@ -259,6 +273,9 @@ def run_info(args: argparse.Namespace) -> int:
         f"  file             {info['file_bytes']:,} bytes, {info['bytes_per_ngram']:.2f} bytes per stored n-gram\n"
         f"  corpus           {info['corpus_tokens']:,} tokens"
     )
+    shrunk = describe_shrink(model)
+    if shrunk:
+        print(f"  shrunk           {shrunk}")
     return 0
 
 
