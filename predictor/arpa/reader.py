@@ -1,0 +1,382 @@
+"""Reading an ARPA file as a stream: header, sections, entries, into sorted n-gram tables.
+
+Words get provisional ids in order of first appearance (the conversion gives
+them model ids).  Unigrams are kept in lists; bigrams and trigrams go, a batch
+of lines at a time, into :class:`~predictor.spill.KeyCounter` tables keyed by
+their packed provisional ids, which write sorted runs to disk when they
+outgrow their share of ``--max-memory`` and merge them at the end, as counting
+does.  A table's "count" holds the float32 bits of the value plus a marker
+bit, so an n-gram listed twice shows as a doubled marker after the merge.
+
+What real files contain is accepted with a warning where it changes nothing
+the file defines: blank lines, any run of spaces or tabs between fields, a
+missing back-off weight (log10 0), ``-99`` or less for log zero, header counts
+that disagree with the sections (the sections win), a missing ``\\end\\``, a
+word that appears in a longer n-gram but not among the 1-grams (probability 0
+as a unigram).  Anything else that does not parse is a
+:class:`~predictor.errors.ModelFileError` naming the line.
+"""
+
+from __future__ import annotations
+
+import gzip
+import math
+import os
+import re
+from collections.abc import Callable, Iterator
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from ..errors import CapacityError, ModelFileError
+from ..scratch import SpillFolder
+from ..spill import KeyCounter, Run, sum_duplicates
+from .syntax import LOG_ZERO, MAX_ORDER, parse_display_line
+
+ID_BITS = 21
+"""Bits of one provisional word id in a packed key (three ids fill 63 bits)."""
+
+MAX_WORDS = (1 << ID_BITS) - 1
+_MARK = 1 << 32
+_BATCH = 1 << 16
+_COUNT_RE = re.compile(r"ngram\s+(\d+)\s*=\s*(\d+)")
+_SECTION_RE = re.compile(r"\\(\d+)-grams:")
+_POSITIVE_SLACK = 1e-6
+"""A log10 probability up to this far above 0 (rounding in a writer) reads as 0."""
+
+
+@dataclass
+class ParsedArpa:
+    """An ARPA file as tables over provisional word ids.
+
+    Attributes:
+        source: the file read.
+        tokens: the words in order of first appearance; position = provisional id.
+        display: display forms from foretype's comment lines, by model form.
+        order: the highest order with a section.
+        uni_prob: float64 array over provisional ids: unigram probability (NaN: not listed).
+        uni_bow: float64 array: unigram back-off weight (NaN: none given).
+        bigrams: (keys, probabilities): sorted packed ``a << 21 | b`` keys, float64 values.
+        bigram_bows: (keys, weights) of the bigrams that give a back-off weight.
+        trigrams: (keys, probabilities) with keys ``a << 42 | b << 21 | c``.
+        declared: the header's n-gram counts by order.
+        warnings: one line per tolerated irregularity.
+    """
+
+    source: Path
+    tokens: list[str]
+    ids: dict[str, int]
+    display: dict[str, str]
+    order: int
+    uni_prob: np.ndarray
+    uni_bow: np.ndarray
+    bigrams: tuple[np.ndarray, np.ndarray]
+    bigram_bows: tuple[np.ndarray, np.ndarray]
+    trigrams: tuple[np.ndarray, np.ndarray]
+    declared: dict[int, int]
+    warnings: list[str] = field(default_factory=list)
+
+    def token_id(self, token: str) -> int | None:
+        """The provisional id of a word as the file writes it, or None if the file lacks it."""
+        return self.ids.get(token)
+
+
+def open_lines(path: Path) -> Iterator[bytes]:
+    """The raw lines of a plain or gzip file (gzip recognised by its magic bytes)."""
+    try:
+        with path.open("rb") as probe:
+            magic = probe.read(2)
+        handle = gzip.open(path, "rb") if magic == b"\x1f\x8b" else path.open("rb")
+    except FileNotFoundError:
+        raise ModelFileError(f"{path}: no such file") from None
+    except IsADirectoryError:
+        raise ModelFileError(f"{path}: is a folder, not an ARPA file") from None
+    except OSError as error:
+        raise ModelFileError(f"{path}: cannot read ({error.strerror or error})") from None
+    with handle:
+        try:
+            yield from handle
+        except (OSError, EOFError) as error:
+            raise ModelFileError(f"{path}: cannot read: {error}") from None
+
+
+class _Table:
+    """One order's n-grams, streamed into a spilling key table."""
+
+    def __init__(self, rows: int, folder: Callable[[], SpillFolder]) -> None:
+        self.counter = KeyCounter(rows, folder)
+        self.keys: list[int] = []
+        self.values: list[float] = []
+        self.rows = 0
+
+    def add(self, key: int, value: float) -> None:
+        self.keys.append(key)
+        self.values.append(value)
+        if len(self.keys) >= _BATCH:
+            self.flush()
+
+    def flush(self) -> None:
+        if not self.keys:
+            return
+        keys = np.array(self.keys, dtype=np.int64)
+        bits = np.array(self.values, dtype=np.float64).astype(np.float32).view(np.uint32).astype(np.int64)
+        self.rows += len(keys)
+        self.counter.add(*sum_duplicates(keys, bits + _MARK))
+        self.keys = []
+        self.values = []
+
+    def finish(self) -> tuple[np.ndarray, np.ndarray]:
+        """The sorted keys and their values; raises on a key listed twice."""
+        self.flush()
+        table = self.counter.finish()
+        if isinstance(table, Run):
+            keys, counts = table.read()
+            table.delete()
+        else:
+            keys, counts = table
+        if len(counts) and int(counts.max()) >= 2 * _MARK:
+            raise _Duplicate(int(keys[int(np.argmax(counts >= 2 * _MARK))]))
+        values = (counts - _MARK).astype(np.uint32).view(np.float32).astype(np.float64)
+        return keys, values
+
+
+class _Duplicate(Exception):
+    def __init__(self, key: int) -> None:
+        self.key = key
+
+
+class _Parser:
+    """The state of one pass over an ARPA file."""
+
+    def __init__(self, path: Path, rows: int, spill_dir: str | os.PathLike[str] | None) -> None:
+        self.path = path
+        self.ids: dict[str, int] = {}
+        self.tokens: list[str] = []
+        self.uni_prob: list[float] = []
+        self.uni_bow: list[float] = []
+        self.display: dict[str, str] = {}
+        self.declared: dict[int, int] = {}
+        self.listed: dict[int, int] = {}
+        self.warnings: list[str] = []
+        self.ignored_bows = 0
+        self._spill_dir = spill_dir
+        self._folder: SpillFolder | None = None
+        share = max(1 << 12, rows // 3)
+        self.tables = {2: _Table(share, self._spill_folder), 3: _Table(share, self._spill_folder)}
+        self.bows = _Table(share, self._spill_folder)
+
+    def _spill_folder(self) -> SpillFolder:
+        if self._folder is None:
+            try:
+                self._folder = SpillFolder(self._spill_dir)
+            except OSError as error:
+                where = self._spill_dir or "the temporary folder"
+                raise ModelFileError(f"{where}: cannot hold n-grams that outgrow memory ({error.strerror or error})") from None
+        return self._folder
+
+    def close(self) -> None:
+        if self._folder is not None:
+            self._folder.close()
+
+    def fail(self, number: int, what: str) -> ModelFileError:
+        return ModelFileError(f"{self.path} line {number}: {what}")
+
+    def word_id(self, token: str, number: int) -> int:
+        found = self.ids.get(token)
+        if found is None:
+            if "\x00" in token:
+                raise self.fail(number, "a word holds a NUL character")
+            found = len(self.tokens)
+            if found > MAX_WORDS:
+                raise CapacityError(f"{self.path}: more than {MAX_WORDS:,} distinct words, beyond what foretype's model files hold")
+            self.ids[token] = found
+            self.tokens.append(token)
+            self.uni_prob.append(math.nan)
+            self.uni_bow.append(math.nan)
+        return found
+
+    def parse(self) -> int:
+        """Read the whole file; returns the highest order that had a section."""
+        state = "preamble"
+        order = 0
+        ended = False
+        number = 0
+        for number, raw in enumerate(open_lines(self.path), start=1):
+            try:
+                line = raw.decode("utf-8")
+            except UnicodeDecodeError:
+                raise self.fail(number, "not valid UTF-8") from None
+            if state == "preamble":
+                stripped = line.strip()
+                if stripped == "\\data\\":
+                    state = "header"
+                elif stripped.startswith("#"):
+                    found = parse_display_line(line)
+                    if found is not None:
+                        self.display[found[0]] = found[1]
+                continue
+            fields = line.split()
+            if not fields:
+                continue
+            if fields[0].startswith("\\"):
+                if len(fields) != 1:
+                    raise self.fail(number, f"unexpected text after {fields[0]}")
+                if fields[0] == "\\end\\":
+                    ended = True
+                    break
+                match = _SECTION_RE.fullmatch(fields[0])
+                if match is None:
+                    raise self.fail(number, f"{fields[0]} is not a section header such as \\1-grams:")
+                section = int(match.group(1))
+                if section > MAX_ORDER:
+                    raise CapacityError(
+                        f"{self.path} line {number}: a {section}-gram section; foretype models orders 1 to {MAX_ORDER}, "
+                        "and cutting a back-off model to a lower order would change its probabilities"
+                    )
+                if section != order + 1:
+                    raise self.fail(number, f"\\{section}-grams: where \\{order + 1}-grams: was expected")
+                order = section
+                self.listed[order] = 0
+                state = "entries"
+                continue
+            if state == "header":
+                match = _COUNT_RE.fullmatch(" ".join(fields).replace(" =", "=").replace("= ", "="))
+                if match is None:
+                    raise self.fail(number, f"expected 'ngram N=count' or a section header, found {line.strip()[:60]!r}")
+                declared_order, count = int(match.group(1)), int(match.group(2))
+                if declared_order > MAX_ORDER and count > 0:
+                    raise CapacityError(
+                        f"{self.path} line {number}: a model of order {declared_order}; foretype models orders 1 to {MAX_ORDER}, "
+                        "and cutting a back-off model to a lower order would change its probabilities"
+                    )
+                self.declared[declared_order] = count
+                continue
+            self.entry(fields, order, number)
+        if state == "preamble":
+            raise ModelFileError(f"{self.path}: no \\data\\ line in {number:,} lines: not an ARPA file")
+        if order == 0:
+            raise ModelFileError(f"{self.path}: no \\1-grams: section")
+        if not ended:
+            self.warnings.append("no \\end\\ line: the file may be cut short; read what it holds")
+        return order
+
+    def entry(self, fields: list[str], order: int, number: int) -> None:
+        width = len(fields)
+        if width == order + 1:
+            bow = None
+        elif width == order + 2:
+            bow = fields[-1]
+        else:
+            raise self.fail(number, f"a {order}-gram line needs a log10 probability, {order} word{'s' if order > 1 else ''} and an optional back-off weight; found {width} fields")
+        prob = self.number(fields[0], number, "log10 probability")
+        if prob > _POSITIVE_SLACK:
+            raise self.fail(number, f"log10 probability {fields[0]} is above 0 (a probability above 1)")
+        probability = 0.0 if prob <= LOG_ZERO else 10.0 ** min(prob, 0.0)
+        weight = None
+        if bow is not None:
+            log_bow = self.number(bow, number, "log10 back-off weight")
+            if order == MAX_ORDER:
+                self.ignored_bows += 1
+            else:
+                weight = 0.0 if log_bow <= LOG_ZERO else 10.0**log_bow
+                if math.isinf(weight):
+                    raise self.fail(number, f"back-off weight {bow} is too large")
+        self.listed[order] += 1
+        ids = [self.word_id(token, number) for token in fields[1 : order + 1]]
+        if order == 1:
+            word = ids[0]
+            if not math.isnan(self.uni_prob[word]):
+                raise self.fail(number, f"the 1-gram {fields[1]!r} is listed twice")
+            self.uni_prob[word] = probability
+            if weight is not None:
+                self.uni_bow[word] = weight
+            return
+        if order == 2:
+            key = ids[0] << ID_BITS | ids[1]
+            if weight is not None:
+                self.bows.add(key, weight)
+        else:
+            key = (ids[0] << ID_BITS | ids[1]) << ID_BITS | ids[2]
+        self.tables[order].add(key, probability)
+
+    def number(self, text: str, number: int, what: str) -> float:
+        try:
+            value = float(text)
+        except ValueError:
+            raise self.fail(number, f"{what} {text[:40]!r} is not a number") from None
+        if value != value or value == math.inf:
+            raise self.fail(number, f"{what} {text!r} is not a usable number")
+        return value
+
+    def finish(self, order: int) -> ParsedArpa:
+        for section, count in sorted(self.listed.items()):
+            said = self.declared.get(section)
+            if said is None:
+                self.warnings.append(f"the header gives no count of {section}-grams; the section holds {count:,}")
+            elif said != count:
+                self.warnings.append(f"the header says {said:,} {section}-grams, the section holds {count:,}; using the section")
+        for section, said in sorted(self.declared.items()):
+            if section not in self.listed and said > 0:
+                self.warnings.append(f"the header says {said:,} {section}-grams but the file has no \\{section}-grams: section")
+        if self.ignored_bows:
+            self.warnings.append(f"ignored {self.ignored_bows:,} back-off weights on {MAX_ORDER}-grams (the highest order backs off to nothing)")
+        bigrams = self.finish_table(self.tables[2], 2)
+        trigrams = self.finish_table(self.tables[3], 3)
+        bows = self.finish_table(self.bows, 2)
+        return ParsedArpa(
+            source=self.path,
+            tokens=self.tokens,
+            ids=self.ids,
+            display=self.display,
+            order=order,
+            uni_prob=np.array(self.uni_prob, dtype=np.float64),
+            uni_bow=np.array(self.uni_bow, dtype=np.float64),
+            bigrams=bigrams,
+            bigram_bows=bows,
+            trigrams=trigrams,
+            declared=self.declared,
+            warnings=self.warnings,
+        )
+
+    def finish_table(self, table: _Table, order: int) -> tuple[np.ndarray, np.ndarray]:
+        try:
+            return table.finish()
+        except _Duplicate as duplicate:
+            mask = (1 << ID_BITS) - 1
+            words = " ".join(self.tokens[duplicate.key >> (ID_BITS * i) & mask] for i in reversed(range(order)))
+            raise ModelFileError(f"{self.path}: the {order}-gram {words!r} is listed twice") from None
+
+
+def read_arpa(
+    path: str | os.PathLike[str],
+    *,
+    table_rows: int = 1 << 22,
+    spill_dir: str | os.PathLike[str] | None = None,
+    check_room: Callable[[dict[int, int], int], None] | None = None,
+) -> ParsedArpa:
+    """Parse an ARPA file of order 1 to 3 (plain or gzip).
+
+    Args:
+        path: the file.
+        table_rows: rows the n-gram tables may hold in memory before they go to disk.
+        spill_dir: where tables that outgrow memory go (None: the system's temporary folder).
+        check_room: called with the n-grams listed per order and the number of words
+            once the file is read, before the tables are gathered in memory; it
+            raises if the model would not fit.
+
+    Returns:
+        The parsed tables and the warnings about tolerated irregularities.
+
+    Raises:
+        ModelFileError: missing, unreadable or malformed (the message names the line).
+        CapacityError: an order above 3, or more words than a model file holds.
+    """
+    parser = _Parser(Path(path), table_rows, spill_dir)
+    try:
+        order = parser.parse()
+        if check_room is not None:
+            check_room(dict(parser.listed), len(parser.tokens))
+        return parser.finish(order)
+    finally:
+        parser.close()
