@@ -62,6 +62,7 @@ class ParsedArpa:
         trigrams: (keys, probabilities) with keys ``a << 42 | b << 21 | c``.
         declared: the header's n-gram counts by order.
         warnings: one line per tolerated irregularity.
+        spilled_rows: n-gram rows written to disk on the way (0 when all fitted in memory).
     """
 
     source: Path
@@ -76,6 +77,7 @@ class ParsedArpa:
     trigrams: tuple[np.ndarray, np.ndarray]
     declared: dict[int, int]
     warnings: list[str] = field(default_factory=list)
+    spilled_rows: int = 0
 
     def token_id(self, token: str) -> int | None:
         """The provisional id of a word as the file writes it, or None if the file lacks it."""
@@ -106,6 +108,7 @@ class _Table:
 
     def __init__(self, rows: int, folder: Callable[[], SpillFolder]) -> None:
         self.counter = KeyCounter(rows, folder)
+        self.batch = min(_BATCH, self.counter.max_rows)
         self.keys: list[int] = []
         self.values: list[float] = []
         self.rows = 0
@@ -113,7 +116,7 @@ class _Table:
     def add(self, key: int, value: float) -> None:
         self.keys.append(key)
         self.values.append(value)
-        if len(self.keys) >= _BATCH:
+        if len(self.keys) >= self.batch:
             self.flush()
 
     def flush(self) -> None:
@@ -162,7 +165,7 @@ class _Parser:
         self.ignored_bows = 0
         self._spill_dir = spill_dir
         self._folder: SpillFolder | None = None
-        share = max(1 << 12, rows // 3)
+        share = max(16, rows // 3)
         self.tables = {2: _Table(share, self._spill_folder), 3: _Table(share, self._spill_folder)}
         self.bows = _Table(share, self._spill_folder)
 
@@ -324,6 +327,7 @@ class _Parser:
         bigrams = self.finish_table(self.tables[2], 2)
         trigrams = self.finish_table(self.tables[3], 3)
         bows = self.finish_table(self.bows, 2)
+        spilled = sum(table.counter.spilled_rows for table in (self.tables[2], self.tables[3], self.bows))
         return ParsedArpa(
             source=self.path,
             tokens=self.tokens,
@@ -337,6 +341,7 @@ class _Parser:
             trigrams=trigrams,
             declared=self.declared,
             warnings=self.warnings,
+            spilled_rows=spilled,
         )
 
     def finish_table(self, table: _Table, order: int) -> tuple[np.ndarray, np.ndarray]:
