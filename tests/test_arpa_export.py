@@ -163,4 +163,6 @@ def test_export_to_standard_output_and_compressed_file(models, tmp_path, run_cli
     written = run_cli("export", model_path, "-o", tmp_path / "kn.arpa.gz", "--json")
     assert written.code == 0 and '"compressed": true' in written.out
     assert gzip.open(tmp_path / "kn.arpa.gz", "rt", encoding="utf-8").read() == printed.out
+    assert run_cli("import", tmp_path / "kn.arpa.gz", "-o", tmp_path / "back.model").code == 0
+    assert run_cli("check", tmp_path / "back.model").code == 0  # every distribution sums to 1 again
     assert "\\end\\" in printed.out and "\n\\data\\\nngram 1=403\n" in printed.out

@@ -7,6 +7,8 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
+import numpy as np
+
 from ..errors import CapacityError, OptionError
 from ..estimate import ENCODINGS
 from ..estimate.encoding import FLOAT32
@@ -101,6 +103,8 @@ def model_from_arpa(
         "wrapped": False,
     }
     sections.update(rank_sections(LanguageModel(sections, meta)))
+    model = LanguageModel(sections, meta)
+    unnormalised = normalisation_warning(model)
     listed = {"1": len(parsed.uni_prob), "2": len(parsed.bigrams[0]), "3": len(parsed.trigrams[0])}
     summary = ImportSummary(
         source=str(path),
@@ -109,9 +113,39 @@ def model_from_arpa(
         listed=listed,
         added=levels.added,
         dropped=levels.dropped,
-        warnings=parsed.warnings + levels.warnings,
+        warnings=parsed.warnings + levels.warnings + ([unnormalised] if unnormalised else []),
     )
-    return LanguageModel(sections, meta), summary
+    return model, summary
+
+
+SUM_TOLERANCE = 1e-3
+"""A sampled distribution further than this from 1 is reported."""
+
+
+def normalisation_warning(model: LanguageModel, samples: int = 32) -> str | None:
+    """Say so when the file's distributions do not sum to 1 (after <s> and sampled contexts).
+
+    Pruned or hand-written files need not be normalised; foretype uses their
+    probabilities as they are, but perplexities are then not comparable, and
+    ``foretype check`` reports such a model.
+    """
+    size = model.vocab_size
+    outcomes = np.arange(size + 2)
+    start = size + 2
+    w2 = model.sections["l2.word"]
+    off2 = model.sections["l2.off"].astype(np.int64)
+    contexts = [(start, start)]
+    if len(w2):
+        for position in np.linspace(0, len(w2) - 1, num=min(samples, len(w2))).astype(np.int64):
+            v = int(np.searchsorted(off2, position, side="right") - 1)
+            if int(w2[position]) != size + 1 and v != size + 1:
+                contexts.append((v, int(w2[position])))
+    for u, v in contexts:
+        total = float(model.prob_triples(np.full(len(outcomes), u), np.full(len(outcomes), v), outcomes).sum())
+        if abs(total - 1.0) > SUM_TOLERANCE:
+            named = " ".join(model.vocab.word(i) for i in ((u,) if u == start else (u, v)))
+            return f"the file's distributions do not sum to 1 (after '{named}': {total:.6f}); they are used as they are"
+    return None
 
 
 def import_arpa(

@@ -14,7 +14,8 @@ establishes without changing any probability:
 * A context's weight is applied only where the context stores a word.  A
   context whose back-off weight is not 1 but which lists no longer n-gram
   (``P(w | u v) = bow(u v) * P(w | v)`` for every w) gets one stored word,
-  ``</s>``, with its backed-off value.
+  ``</s>``, with its backed-off value; so does ``<s> w`` for the first word w
+  in a file without trigrams, since queries expect one stored trigram.
 * foretype's first word of a sentence is predicted after ``<s> <s>`` and the
   format's after one ``<s>``; the ``<s> <s>`` slot stays empty, so the first
   word backs off to the bigrams after ``<s>``, as the format defines.
@@ -192,6 +193,15 @@ def convert(parsed: ParsedArpa, encoding: str) -> Levels:
         tv = np.concatenate((tv, lv))
         tw = np.concatenate((tw, np.full(added3, end)))
         val3 = np.concatenate((val3, lonely_values * bigram_value(lv, np.full(added3, end))))
+
+    if not len(tw):
+        # Queries expect at least one stored bigram and trigram: store </s> after "<s> w0"
+        # with the value the file gives it by back-off.
+        first = np.array([start * base])
+        weight = bow_val2[np.searchsorted(bow_key2, first)] if np.isin(first, bow_key2).all() else np.ones(1)
+        tu, tv, tw = np.array([start]), np.array([0]), np.array([end])
+        val3 = weight.astype(np.float32).astype(np.float64) * bigram_value(tv, tw)
+        added3 += 1
 
     # Every trigram's context and suffix must be a stored bigram.
     required = np.unique(np.concatenate((tu * base + tv, tv * base + tw)))

@@ -266,12 +266,17 @@ class _Parser:
 
     def entry(self, fields: list[str], order: int, number: int) -> None:
         width = len(fields)
+        needs = f"a {order}-gram line needs a log10 probability, {order} word{'s' if order > 1 else ''} and an optional back-off weight"
         if width == order + 1:
             bow = None
         elif width == order + 2:
             bow = fields[-1]
+            try:
+                float(bow)
+            except ValueError:
+                raise self.fail(number, f"{needs}; found {width} fields, the last of them no number") from None
         else:
-            raise self.fail(number, f"a {order}-gram line needs a log10 probability, {order} word{'s' if order > 1 else ''} and an optional back-off weight; found {width} fields")
+            raise self.fail(number, f"{needs}; found {width} fields")
         prob = self.number(fields[0], number, "log10 probability")
         if prob > _POSITIVE_SLACK:
             raise self.fail(number, f"log10 probability {fields[0]} is above 0 (a probability above 1)")
