@@ -36,6 +36,7 @@ class ImportSummary:
         added: n-grams added to hold back-off values, by order.
         dropped: n-grams no query reaches, left out.
         warnings: tolerated irregularities, one line each.
+        spilled_rows: n-gram rows written to disk while reading (0 when all fitted in memory).
     """
 
     source: str
@@ -45,6 +46,7 @@ class ImportSummary:
     added: dict[str, int]
     dropped: int
     warnings: list[str]
+    spilled_rows: int = 0
 
 
 def model_from_arpa(
@@ -114,6 +116,7 @@ def model_from_arpa(
         added=levels.added,
         dropped=levels.dropped,
         warnings=parsed.warnings + levels.warnings + ([unnormalised] if unnormalised else []),
+        spilled_rows=parsed.spilled_rows,
     )
     return model, summary
 

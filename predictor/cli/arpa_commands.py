@@ -4,12 +4,13 @@ from __future__ import annotations
 
 import argparse
 import sys
+import time
 from pathlib import Path
 
 from ..arpa import export_arpa, import_arpa
 from ..estimate import ENCODINGS
 from ..estimate.encoding import FLOAT32
-from ..memory import parse_size
+from ..memory import parse_size, peak_resident_bytes
 from ..errors import OptionError
 from .output import add_json_option, open_model, print_json
 
@@ -71,6 +72,7 @@ def run_export(args: argparse.Namespace) -> int:
 
 def run_import(args: argparse.Namespace) -> int:
     """foretype import."""
+    started = time.perf_counter()
     spill_dir = args.spill_dir if args.spill_dir is not None else (str(Path(args.output).parent) or ".")
     summary = import_arpa(args.arpa, args.output, encoding=args.values, max_memory=args.max_memory, spill_dir=spill_dir)
     for warning in summary.warnings:
@@ -86,6 +88,9 @@ def run_import(args: argparse.Namespace) -> int:
                 "added": summary.added,
                 "dropped": summary.dropped,
                 "warnings": summary.warnings,
+                "spilled_rows": summary.spilled_rows,
+                "seconds": time.perf_counter() - started,
+                "peak_memory_bytes": peak_resident_bytes(),
             }
         )
         return 0
