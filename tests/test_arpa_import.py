@@ -310,3 +310,17 @@ def test_import_command_writes_a_model_every_command_reads(tmp_path, run_cli, ha
     by_hand = -(HAND_SENTENCES[0][1] + HAND_SENTENCES[1][1]) * math.log2(10) / 6
     assert json.loads(scored.out)["cross_entropy_bits"] == pytest.approx(by_hand, abs=1e-5)
     assert run_cli("savings", target, text, "--json").code == 0
+
+
+def test_a_back_off_weight_above_one_is_kept(tmp_path):
+    # "<s> a" lists log10 bow +0.2 and no "<s> a b":
+    # P(b | <s> a) = 10^0.2 * P(b | a) = 10^0.2 * 10^-0.5 = 10^-0.3 (worked by hand).
+    path = tmp_path / "up.arpa"
+    path.write_text(
+        "\\data\\\n\\1-grams:\n-0.30103 a -0.1\n-0.30103 b\n-99 <s> 0\n-1 </s>\n"
+        "\\2-grams:\n-0.2 <s> a 0.2\n-0.5 a b\n\\3-grams:\n-0.1 <s> a a\n\\end\\\n",
+        encoding="utf-8",
+    )
+    model, _ = model_from_arpa(path)
+    assert math.log10(model.prob("b", ["a"])) == pytest.approx(-0.3, abs=1e-6)
+    assert arpa.loadf(path)[0].log_p(("<s>", "a", "b")) == pytest.approx(-0.3, abs=1e-9)

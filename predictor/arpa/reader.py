@@ -42,6 +42,8 @@ _MARK = 1 << 32
 _BATCH = 1 << 16
 _COUNT_RE = re.compile(r"ngram\s+(\d+)\s*=\s*(\d+)")
 _SECTION_RE = re.compile(r"\\(\d+)-grams:")
+_MAX_LOG_WEIGHT = 38.0
+"""A log10 back-off weight above this is beyond float32 (and beyond any sensible model)."""
 _POSITIVE_SLACK = 1e-6
 """A log10 probability up to this far above 0 (rounding in a writer) reads as 0."""
 
@@ -103,11 +105,22 @@ def open_lines(path: Path) -> Iterator[bytes]:
             raise ModelFileError(f"{path}: cannot read: {error}") from None
 
 
-class _Table:
-    """One order's n-grams, streamed into a spilling key table."""
+def linear(log10_values: np.ndarray, *, weights: bool) -> np.ndarray:
+    """Probabilities or back-off weights of log10 values: 0 at or below log zero.
 
-    def __init__(self, rows: int, folder: Callable[[], SpillFolder]) -> None:
+    A probability's log10 slightly above 0 (a writer's rounding) reads as 0;
+    a back-off weight may exceed 1.
+    """
+    capped = log10_values if weights else np.minimum(log10_values, 0.0)
+    return np.where(log10_values <= LOG_ZERO, 0.0, np.power(10.0, capped))
+
+
+class _Table:
+    """One order's n-grams (with log10 values), streamed into a spilling key table."""
+
+    def __init__(self, rows: int, folder: Callable[[], SpillFolder], *, weights: bool = False) -> None:
         self.counter = KeyCounter(rows, folder)
+        self.weights = weights
         self.batch = min(_BATCH, self.counter.max_rows)
         self.keys: list[int] = []
         self.values: list[float] = []
@@ -123,11 +136,12 @@ class _Table:
         if not self.keys:
             return
         keys = np.array(self.keys, dtype=np.int64)
-        bits = np.array(self.values, dtype=np.float64).astype(np.float32).view(np.uint32).astype(np.int64)
+        bits = linear(np.array(self.values, dtype=np.float64), weights=self.weights).astype(np.float32).view(np.uint32).astype(np.int64)
         self.rows += len(keys)
         self.counter.add(*sum_duplicates(keys, bits + _MARK))
-        self.keys = []
-        self.values = []
+        # Emptied in place: the fast line reader holds these very lists.
+        self.keys.clear()
+        self.values.clear()
 
     def finish(self) -> tuple[np.ndarray, np.ndarray]:
         """The sorted keys and their values; raises on a key listed twice."""
@@ -167,7 +181,7 @@ class _Parser:
         self._folder: SpillFolder | None = None
         share = max(16, rows // 3)
         self.tables = {2: _Table(share, self._spill_folder), 3: _Table(share, self._spill_folder)}
-        self.bows = _Table(share, self._spill_folder)
+        self.bows = _Table(share, self._spill_folder, weights=True)
 
     def _spill_folder(self) -> SpillFolder:
         if self._folder is None:
@@ -203,6 +217,7 @@ class _Parser:
         """Read the whole file; returns the highest order that had a section."""
         state = "preamble"
         order = 0
+        fast: Callable[[list[str], int], bool] = lambda fields, number: False
         ended = False
         number = 0
         for number, raw in enumerate(open_lines(self.path), start=1):
@@ -242,6 +257,8 @@ class _Parser:
                 order = section
                 self.listed[order] = 0
                 state = "entries"
+                if order > 1:
+                    fast = self._fast_entry(order)
                 continue
             if state == "header":
                 match = _COUNT_RE.fullmatch(" ".join(fields).replace(" =", "=").replace("= ", "="))
@@ -254,6 +271,8 @@ class _Parser:
                         "and cutting a back-off model to a lower order would change its probabilities"
                     )
                 self.declared[declared_order] = count
+                continue
+            if order > 1 and fast(fields, number):
                 continue
             self.entry(fields, order, number)
         if state == "preamble":
@@ -287,9 +306,9 @@ class _Parser:
             if order == MAX_ORDER:
                 self.ignored_bows += 1
             else:
-                weight = 0.0 if log_bow <= LOG_ZERO else 10.0**log_bow
-                if math.isinf(weight):
+                if log_bow > _MAX_LOG_WEIGHT:
                     raise self.fail(number, f"back-off weight {bow} is too large")
+                weight = 0.0 if log_bow <= LOG_ZERO else 10.0**log_bow
         self.listed[order] += 1
         ids = [self.word_id(token, number) for token in fields[1 : order + 1]]
         if order == 1:
@@ -303,10 +322,63 @@ class _Parser:
         if order == 2:
             key = ids[0] << ID_BITS | ids[1]
             if weight is not None:
-                self.bows.add(key, weight)
+                self.bows.add(key, float(bow))  # type: ignore[arg-type]
         else:
             key = (ids[0] << ID_BITS | ids[1]) << ID_BITS | ids[2]
-        self.tables[order].add(key, probability)
+        self.tables[order].add(key, prob)
+
+    def _fast_entry(self, order: int) -> Callable[[list[str], int], bool]:
+        """A reader of the common 2-gram and 3-gram line: known words, plain numbers.
+
+        It returns False, having changed nothing, for any line it is unsure of,
+        which :meth:`entry` then reads (and reports if malformed).
+        """
+        get = self.ids.get
+        table = self.tables[order]
+        keys, values = table.keys, table.values
+        bows = self.bows
+        bow_keys, bow_values = bows.keys, bows.values
+        listed = self.listed
+        shift = ID_BITS
+        slack = _POSITIVE_SLACK
+
+        def read(fields: list[str], number: int) -> bool:
+            width = len(fields)
+            if width != order + 1 and not (order == 2 and width == 4):
+                return False
+            try:
+                prob = float(fields[0])
+                weight = float(fields[3]) if order == 2 and width == 4 else 0.0
+            except ValueError:
+                return False
+            if not (-math.inf < prob <= slack) or not (-math.inf < weight <= _MAX_LOG_WEIGHT):
+                return False
+            if order == 2:
+                a = get(fields[1])
+                b = get(fields[2])
+                if a is None or b is None:
+                    return False
+                key = a << shift | b
+                if width == 4:
+                    bow_keys.append(key)
+                    bow_values.append(weight)
+                    if len(bow_keys) >= bows.batch:
+                        bows.flush()
+            else:
+                a = get(fields[1])
+                b = get(fields[2])
+                c = get(fields[3])
+                if a is None or b is None or c is None:
+                    return False
+                key = (a << shift | b) << shift | c
+            keys.append(key)
+            values.append(prob)
+            if len(keys) >= table.batch:
+                table.flush()
+            listed[order] += 1
+            return True
+
+        return read
 
     def number(self, text: str, number: int, what: str) -> float:
         try:
