@@ -317,8 +317,8 @@ def test_a_back_off_weight_above_one_is_kept(tmp_path):
     # P(b | <s> a) = 10^0.2 * P(b | a) = 10^0.2 * 10^-0.5 = 10^-0.3 (worked by hand).
     path = tmp_path / "up.arpa"
     path.write_text(
-        "\\data\\\n\\1-grams:\n-0.30103 a -0.1\n-0.30103 b\n-99 <s> 0\n-1 </s>\n"
-        "\\2-grams:\n-0.2 <s> a 0.2\n-0.5 a b\n\\3-grams:\n-0.1 <s> a a\n\\end\\\n",
+        "\\data\\\nngram 1=4\nngram 2=2\nngram 3=1\n\n\\1-grams:\n-0.30103\ta\t-0.1\n-0.30103\tb\n-99\t<s>\t0\n-1\t</s>\n\n"
+        "\\2-grams:\n-0.2\t<s> a\t0.2\n-0.5\ta b\n\n\\3-grams:\n-0.1\t<s> a a\n\n\\end\\\n",
         encoding="utf-8",
     )
     model, _ = model_from_arpa(path)

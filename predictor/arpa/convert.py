@@ -80,7 +80,8 @@ def model_from_arpa(
         if need > budget.working:
             raise CapacityError(
                 f"{path}: a model of {ngrams:,} bigrams and trigrams over {words:,} words needs about {format_size(need)} "
-                f"to convert, more than --max-memory {format_size(budget.limit)} allows"
+                f"to convert, more than the {format_size(budget.working)} that --max-memory {format_size(budget.limit)} leaves "
+                "beside what the process already holds"
             )
 
     parsed = read_arpa(path, table_rows=budget.table_rows, spill_dir=spill_dir, check_room=check_room)
