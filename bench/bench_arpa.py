@@ -83,7 +83,7 @@ def main() -> None:
         print(f"generated {lines:,} n-gram lines ({source.stat().st_size / 1e6:.0f} MB) in {time.perf_counter() - started:.0f} s", flush=True)
         for ceiling in args.ceilings.split(","):
             target = folder / f"big-{ceiling}.model"
-            command = [sys.executable, "-m", "predictor", "import", str(source), "-o", str(target), "--max-memory", ceiling, "--json"]
+            command = [sys.executable, "-m", "foretype", "import", str(source), "-o", str(target), "--max-memory", ceiling, "--json"]
             done = subprocess.run(command, capture_output=True, text=True)
             if done.returncode:
                 print(f"import under {ceiling} failed ({done.returncode}): {done.stderr.strip()}")

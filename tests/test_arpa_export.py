@@ -16,9 +16,9 @@ import arpa
 import numpy as np
 import pytest
 
-import predictor
-from predictor.arpa import export_arpa, model_from_arpa
-from predictor.text import iter_sentences
+import foretype
+from foretype.arpa import export_arpa, model_from_arpa
+from foretype.text import iter_sentences
 
 ROOT = Path(__file__).resolve().parents[1]
 TRAIN_LINES = 2500
@@ -41,11 +41,11 @@ def held_out() -> list[list[str]]:
 
 
 @pytest.fixture(scope="module")
-def models(corpus) -> dict[str, predictor.LanguageModel]:
-    return {method: predictor.build([corpus], vocab_size=400, method=method) for method in ("kneser-ney", "katz", "linear", "additive", "mle")}
+def models(corpus) -> dict[str, foretype.LanguageModel]:
+    return {method: foretype.build([corpus], vocab_size=400, method=method) for method in ("kneser-ney", "katz", "linear", "additive", "mle")}
 
 
-def log10_sentence(model: predictor.LanguageModel, words: list[str]) -> float:
+def log10_sentence(model: foretype.LanguageModel, words: list[str]) -> float:
     """foretype's log10 P(sentence), every word and the end symbol."""
     return model.logprob(words) / np.log2(10.0)
 

@@ -18,9 +18,9 @@ import arpa
 import numpy as np
 import pytest
 
-from predictor.arpa import model_from_arpa
-from predictor.arpa.reader import read_arpa
-from predictor.errors import CapacityError, ModelFileError
+from foretype.arpa import model_from_arpa
+from foretype.arpa.reader import read_arpa
+from foretype.errors import CapacityError, ModelFileError
 
 HAND = """\\data\\
 ngram 1=6

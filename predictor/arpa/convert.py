@@ -10,13 +10,12 @@ from typing import Any
 import numpy as np
 
 from ..errors import CapacityError, OptionError
-from ..estimate import ENCODINGS
-from ..estimate.encoding import FLOAT32
-from ..memory import ESTIMATE_BYTES_PER_TRIGRAM, ESTIMATE_BYTES_PER_WORD, MemoryBudget, format_size
-from ..model import LanguageModel
-from ..modelfile import check_target
-from ..ranking import rank_sections
-from ..vocabulary import vocabulary_sections
+from ..modelfile.encoding import ENCODINGS, FLOAT32
+from ..counting.memory import ESTIMATE_BYTES_PER_TRIGRAM, ESTIMATE_BYTES_PER_WORD, MemoryBudget, format_size
+from ..query.model import LanguageModel
+from ..modelfile.format import check_target
+from ..builder.ranking import rank_sections
+from ..query.vocabulary import vocabulary_sections
 from .levels import convert
 from .reader import read_arpa
 

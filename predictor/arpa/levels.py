@@ -40,9 +40,9 @@ import numpy as np
 
 from ..arrays import offsets_dtype, word_id_dtype
 from ..errors import CapacityError, ModelFileError
-from ..estimate.encoding import encode
+from ..modelfile.encoding import encode
 from ..text import model_form
-from ..vocabulary import END, START, UNKNOWN
+from ..query.vocabulary import END, START, UNKNOWN
 from .reader import ID_BITS, ParsedArpa
 
 _MASK = (1 << ID_BITS) - 1

@@ -30,8 +30,8 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import CapacityError, ModelFileError
-from ..scratch import SpillFolder
-from ..spill import KeyCounter, Run, sum_duplicates
+from ..counting.scratch import SpillFolder
+from ..counting.spill import KeyCounter, Run, sum_duplicates
 from .syntax import LOG_ZERO, MAX_ORDER, parse_display_line
 
 ID_BITS = 21

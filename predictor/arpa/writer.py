@@ -27,11 +27,11 @@ from typing import BinaryIO
 
 import numpy as np
 
-from ..atomic import replace_atomically
+from ..modelfile.atomic import replace_atomically
 from ..errors import OptionError
-from ..estimate.encoding import decode
-from ..model import LanguageModel
-from ..vocabulary import END, START, UNKNOWN
+from ..modelfile.encoding import decode
+from ..query.model import LanguageModel
+from ..query.vocabulary import END, START, UNKNOWN
 from .syntax import LOG_ZERO, NOTE_TAG, display_line, format_log10
 
 _REFUSED = {
@@ -99,7 +99,7 @@ def model_tables(model: LanguageModel) -> _Tables:
     g3 = s["l3.gamma"].astype(np.float64)
     n2 = len(w2)
     ctx2 = np.repeat(np.arange(size + 3, dtype=np.int64), np.diff(off2))
-    # P2(w | v) with the arithmetic of LanguageModel._scores.
+    # P2(w | v) with the arithmetic of the query core (query/scoring.py).
     a2 = decode(s["l2.value"])
     p2 = a2 + g2[ctx2] * p1[w2] if model.meta["interpolated"] else a2
     has2 = np.diff(off2) > 0

@@ -8,9 +8,8 @@ import time
 from pathlib import Path
 
 from ..arpa import export_arpa, import_arpa
-from ..estimate import ENCODINGS
-from ..estimate.encoding import FLOAT32
-from ..memory import parse_size, peak_resident_bytes
+from ..modelfile.encoding import ENCODINGS, FLOAT32
+from ..counting.memory import parse_size, peak_resident_bytes
 from ..errors import OptionError
 from .output import add_json_option, open_model, print_json
 
