@@ -9,12 +9,12 @@ from typing import Any
 
 import numpy as np
 
+from ..builder.ranking import rank_sections
+from ..counting.memory import ESTIMATE_BYTES_PER_TRIGRAM, ESTIMATE_BYTES_PER_WORD, MemoryBudget, format_size
 from ..errors import CapacityError, OptionError
 from ..modelfile.encoding import ENCODINGS, FLOAT32
-from ..counting.memory import ESTIMATE_BYTES_PER_TRIGRAM, ESTIMATE_BYTES_PER_WORD, MemoryBudget, format_size
-from ..query.model import LanguageModel
 from ..modelfile.format import check_target
-from ..builder.ranking import rank_sections
+from ..query.model import LanguageModel
 from ..query.vocabulary import vocabulary_sections
 from .levels import convert
 from .reader import read_arpa
@@ -166,5 +166,5 @@ def import_arpa(
     """
     check_target(output)
     model, summary = model_from_arpa(path, encoding=encoding, max_memory=max_memory, spill_dir=spill_dir)
-    model.save(output)
+    model.save(Path(output))
     return summary

@@ -41,8 +41,8 @@ import numpy as np
 from ..arrays import offsets_dtype, word_id_dtype
 from ..errors import CapacityError, ModelFileError
 from ..modelfile.encoding import encode
-from ..text import model_form
 from ..query.vocabulary import END, START, UNKNOWN
+from ..text import model_form
 from .reader import ID_BITS, ParsedArpa
 
 _MASK = (1 << ID_BITS) - 1
@@ -122,55 +122,16 @@ def convert(parsed: ParsedArpa, encoding: str) -> Levels:
         ModelFileError: the file defines a probability above 1.
     """
     words, display, model_id = word_forms(parsed)
-    warnings: list[str] = []
     size = len(words)
     base = size + 3
-    start, end, unknown = size + 2, size + 1, size
-    # Unigrams over the V + 2 outcomes; back-off weights over the V + 3 ids.
-    p1 = np.zeros(size + 3)
-    listed = ~np.isnan(parsed.uni_prob)
-    p1[model_id[listed]] = parsed.uni_prob[listed]
-    p1[start] = 0.0
-    p1 = p1[: size + 2]
-    missing = int(np.count_nonzero(~listed & (model_id < start)))
-    if missing:
-        warnings.append(f"{missing:,} words appear in longer n-grams but not among the 1-grams; they get unigram probability 0")
-    if parsed.token_id(UNKNOWN) is None:
-        warnings.append("no <unk>: an unknown word gets probability 0 (a text with unknown words scores an infinite perplexity)")
-    if parsed.token_id(END) is None:
-        warnings.append("no </s>: the end of a sentence gets probability 0")
-    g1 = np.ones(base)
-    given = ~np.isnan(parsed.uni_bow)
-    g1[model_id[given]] = parsed.uni_bow[given]
+    start, end = size + 2, size + 1
+    p1, g1, warnings = _unigrams(parsed, model_id, size)
     p1_stored = p1.astype(np.float32).astype(np.float64)
     g1_stored = g1.astype(np.float32).astype(np.float64)
-
-    # Bigrams, keyed v * base + w over model ids.
-    keys, values = parsed.bigrams
-    v = model_id[keys >> ID_BITS]
-    w = model_id[keys & _MASK]
-    keep = (w != start) & (v != end)
-    dropped = int(np.count_nonzero(~keep))
-    key2 = v[keep] * base + w[keep]
-    order = np.argsort(key2, kind="stable")
-    key2 = key2[order]
-    val2 = values[keep][order]
-    bow_keys, bow_values = parsed.bigram_bows
-    bv = model_id[bow_keys >> ID_BITS]
-    bw = model_id[bow_keys & _MASK]
-    bow_ok = (bw != start) & (bv != end)
-    bow_key2 = bv[bow_ok] * base + bw[bow_ok]
-    order = np.argsort(bow_key2, kind="stable")
-    bow_key2, bow_val2 = bow_key2[order], bow_values[bow_ok][order]
-
-    # Trigrams over model ids.
-    keys, values = parsed.trigrams
-    tu = model_id[keys >> (2 * ID_BITS)]
-    tv = model_id[keys >> ID_BITS & _MASK]
-    tw = model_id[keys & _MASK]
-    keep = (tw != start) & (tv != start) & (tv != end) & (tu != end)
-    dropped += int(np.count_nonzero(~keep))
-    tu, tv, tw, val3 = tu[keep], tv[keep], tw[keep], values[keep]
+    key2, val2, dropped = _reachable_bigrams(parsed.bigrams, model_id, base)
+    bow_key2, bow_val2, _ = _reachable_bigrams(parsed.bigram_bows, model_id, base)
+    tu, tv, tw, val3, dropped3 = _reachable_trigrams(parsed.trigrams, model_id, base)
+    dropped += dropped3
     if dropped:
         warnings.append(f"left out {dropped:,} n-grams no query reaches (<s> predicted or after a word, </s> as a context)")
 
@@ -243,3 +204,46 @@ def convert(parsed: ParsedArpa, encoding: str) -> Levels:
         "l3.gamma": g2.astype(np.float32),
     }
     return Levels(words, display, sections, {"2": added2, "3": added3}, dropped, warnings)
+
+
+def _unigrams(parsed: ParsedArpa, model_id: np.ndarray, size: int) -> tuple[np.ndarray, np.ndarray, list[str]]:
+    """P1 over the V + 2 outcomes, back-off weights over the V + 3 ids (1 where none), and warnings."""
+    start = size + 2
+    warnings = []
+    p1 = np.zeros(size + 3)
+    listed = ~np.isnan(parsed.uni_prob)
+    p1[model_id[listed]] = parsed.uni_prob[listed]
+    missing = int(np.count_nonzero(~listed & (model_id < start)))
+    if missing:
+        warnings.append(f"{missing:,} words appear in longer n-grams but not among the 1-grams; they get unigram probability 0")
+    if parsed.token_id(UNKNOWN) is None:
+        warnings.append("no <unk>: an unknown word gets probability 0 (a text with unknown words scores an infinite perplexity)")
+    if parsed.token_id(END) is None:
+        warnings.append("no </s>: the end of a sentence gets probability 0")
+    g1 = np.ones(size + 3)
+    given = ~np.isnan(parsed.uni_bow)
+    g1[model_id[given]] = parsed.uni_bow[given]
+    return p1[: size + 2], g1, warnings
+
+
+def _reachable_bigrams(table: tuple[np.ndarray, np.ndarray], model_id: np.ndarray, base: int) -> tuple[np.ndarray, np.ndarray, int]:
+    """Bigram keys ``v * base + w`` over model ids, sorted, with their values, leaving out what no query reaches."""
+    keys, values = table
+    start, end = base - 1, base - 2
+    v = model_id[keys >> ID_BITS]
+    w = model_id[keys & _MASK]
+    keep = (w != start) & (v != end)
+    key2 = v[keep] * base + w[keep]
+    order = np.argsort(key2, kind="stable")
+    return key2[order], values[keep][order], int(np.count_nonzero(~keep))
+
+
+def _reachable_trigrams(table: tuple[np.ndarray, np.ndarray], model_id: np.ndarray, base: int) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, int]:
+    """Trigram ids (u, v, w) and values over model ids, leaving out what no query reaches."""
+    keys, values = table
+    start, end = base - 1, base - 2
+    tu = model_id[keys >> (2 * ID_BITS)]
+    tv = model_id[keys >> ID_BITS & _MASK]
+    tw = model_id[keys & _MASK]
+    keep = (tw != start) & (tv != start) & (tv != end) & (tu != end)
+    return tu[keep], tv[keep], tw[keep], values[keep], int(np.count_nonzero(~keep))

@@ -29,9 +29,9 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import CapacityError, ModelFileError
 from ..counting.scratch import SpillFolder
 from ..counting.spill import KeyCounter, Run, sum_duplicates
+from ..errors import CapacityError, ModelFileError
 from .syntax import LOG_ZERO, MAX_ORDER, parse_display_line
 
 ID_BITS = 21
@@ -213,119 +213,129 @@ class _Parser:
             self.uni_bow.append(math.nan)
         return found
 
-    def parse(self) -> int:
-        """Read the whole file; returns the highest order that had a section."""
-        state = "preamble"
-        order = 0
-        fast: Callable[[list[str], int], bool] = lambda fields, number: False
-        ended = False
-        number = 0
+    def lines(self) -> Iterator[tuple[int, str]]:
+        """(line number, text) of every line, each checked to be UTF-8."""
         for number, raw in enumerate(open_lines(self.path), start=1):
             try:
-                line = raw.decode("utf-8")
+                yield number, raw.decode("utf-8")
             except UnicodeDecodeError:
                 raise self.fail(number, "not valid UTF-8") from None
-            if state == "preamble":
-                stripped = line.strip()
-                if stripped == "\\data\\":
-                    state = "header"
-                elif stripped.startswith("#"):
-                    found = parse_display_line(line)
-                    if found is not None:
-                        self.display[found[0]] = found[1]
-                continue
+
+    def preamble(self, lines: Iterator[tuple[int, str]]) -> None:
+        """Read up to the ``\\data\\`` line, keeping foretype's display comments."""
+        seen = 0
+        for number, line in lines:
+            seen = number
+            stripped = line.strip()
+            if stripped == "\\data\\":
+                return
+            if stripped.startswith("#"):
+                found = parse_display_line(line)
+                if found is not None:
+                    self.display[found[0]] = found[1]
+        raise ModelFileError(f"{self.path}: no \\data\\ line in {seen:,} lines: not an ARPA file")
+
+    def parse(self) -> int:
+        """Read the whole file; returns the highest order that had a section."""
+        lines = self.lines()
+        self.preamble(lines)
+        order = 0
+        fast = self._fast_entry(2)
+        ended = False
+        for number, line in lines:
             fields = line.split()
             if not fields:
                 continue
             if fields[0].startswith("\\"):
-                if len(fields) != 1:
-                    raise self.fail(number, f"unexpected text after {fields[0]}")
-                if fields[0] == "\\end\\":
+                if fields[0] == "\\end\\" and len(fields) == 1:
                     ended = True
                     break
-                match = _SECTION_RE.fullmatch(fields[0])
-                if match is None:
-                    raise self.fail(number, f"{fields[0]} is not a section header such as \\1-grams:")
-                section = int(match.group(1))
-                if section > MAX_ORDER:
-                    raise CapacityError(
-                        f"{self.path} line {number}: a {section}-gram section; foretype models orders 1 to {MAX_ORDER}, "
-                        "and cutting a back-off model to a lower order would change its probabilities"
-                    )
-                if section != order + 1:
-                    raise self.fail(number, f"\\{section}-grams: where \\{order + 1}-grams: was expected")
-                order = section
-                self.listed[order] = 0
-                state = "entries"
-                if order > 1:
-                    fast = self._fast_entry(order)
-                continue
-            if state == "header":
-                match = _COUNT_RE.fullmatch(" ".join(fields).replace(" =", "=").replace("= ", "="))
-                if match is None:
-                    raise self.fail(number, f"expected 'ngram N=count' or a section header, found {line.strip()[:60]!r}")
-                declared_order, count = int(match.group(1)), int(match.group(2))
-                if declared_order > MAX_ORDER and count > 0:
-                    raise CapacityError(
-                        f"{self.path} line {number}: a model of order {declared_order}; foretype models orders 1 to {MAX_ORDER}, "
-                        "and cutting a back-off model to a lower order would change its probabilities"
-                    )
-                self.declared[declared_order] = count
-                continue
-            if order > 1 and fast(fields, number):
-                continue
-            self.entry(fields, order, number)
-        if state == "preamble":
-            raise ModelFileError(f"{self.path}: no \\data\\ line in {number:,} lines: not an ARPA file")
+                order = self.section(fields, order, number)
+                fast = self._fast_entry(order) if order > 1 else fast
+            elif order == 0:
+                self.count(fields, number)
+            elif order == 1 or not fast(fields, number):
+                self.entry(fields, order, number)
         if order == 0:
             raise ModelFileError(f"{self.path}: no \\1-grams: section")
         if not ended:
             self.warnings.append("no \\end\\ line: the file may be cut short; read what it holds")
         return order
 
+    def section(self, fields: list[str], order: int, number: int) -> int:
+        """The order a section header line starts (it must be the next one)."""
+        match = _SECTION_RE.fullmatch(fields[0])
+        if match is None:
+            raise self.fail(number, f"{fields[0]} is not a section header such as \\1-grams:")
+        if len(fields) != 1:
+            raise self.fail(number, f"unexpected text after {fields[0]}")
+        section = int(match.group(1))
+        if section > MAX_ORDER:
+            raise CapacityError(
+                f"{self.path} line {number}: a {section}-gram section; foretype models orders 1 to {MAX_ORDER}, "
+                "and cutting a back-off model to a lower order would change its probabilities"
+            )
+        if section != order + 1:
+            raise self.fail(number, f"\\{section}-grams: where \\{order + 1}-grams: was expected")
+        self.listed[section] = 0
+        return section
+
+    def count(self, fields: list[str], number: int) -> None:
+        """One ``ngram N=count`` line of the header."""
+        match = _COUNT_RE.fullmatch(" ".join(fields).replace(" =", "=").replace("= ", "="))
+        if match is None:
+            raise self.fail(number, f"expected 'ngram N=count' or a section header, found {' '.join(fields)[:60]!r}")
+        declared_order, count = int(match.group(1)), int(match.group(2))
+        if declared_order > MAX_ORDER and count > 0:
+            raise CapacityError(
+                f"{self.path} line {number}: a model of order {declared_order}; foretype models orders 1 to {MAX_ORDER}, "
+                "and cutting a back-off model to a lower order would change its probabilities"
+            )
+        self.declared[declared_order] = count
+
     def entry(self, fields: list[str], order: int, number: int) -> None:
-        width = len(fields)
-        needs = f"a {order}-gram line needs a log10 probability, {order} word{'s' if order > 1 else ''} and an optional back-off weight"
-        if width == order + 1:
-            bow = None
-        elif width == order + 2:
-            bow = fields[-1]
-            try:
-                float(bow)
-            except ValueError:
-                raise self.fail(number, f"{needs}; found {width} fields, the last of them no number") from None
-        else:
-            raise self.fail(number, f"{needs}; found {width} fields")
-        prob = self.number(fields[0], number, "log10 probability")
-        if prob > _POSITIVE_SLACK:
-            raise self.fail(number, f"log10 probability {fields[0]} is above 0 (a probability above 1)")
-        probability = 0.0 if prob <= LOG_ZERO else 10.0 ** min(prob, 0.0)
-        weight = None
-        if bow is not None:
-            log_bow = self.number(bow, number, "log10 back-off weight")
-            if order == MAX_ORDER:
-                self.ignored_bows += 1
-            else:
-                if log_bow > _MAX_LOG_WEIGHT:
-                    raise self.fail(number, f"back-off weight {bow} is too large")
-                weight = 0.0 if log_bow <= LOG_ZERO else 10.0**log_bow
+        """Read one n-gram line in full, reporting anything malformed."""
+        prob, log_bow = self.values(fields, order, number)
         self.listed[order] += 1
         ids = [self.word_id(token, number) for token in fields[1 : order + 1]]
         if order == 1:
             word = ids[0]
             if not math.isnan(self.uni_prob[word]):
                 raise self.fail(number, f"the 1-gram {fields[1]!r} is listed twice")
-            self.uni_prob[word] = probability
-            if weight is not None:
-                self.uni_bow[word] = weight
+            self.uni_prob[word] = 0.0 if prob <= LOG_ZERO else 10.0 ** min(prob, 0.0)
+            if log_bow is not None:
+                self.uni_bow[word] = 0.0 if log_bow <= LOG_ZERO else 10.0**log_bow
             return
         if order == 2:
             key = ids[0] << ID_BITS | ids[1]
-            if weight is not None:
-                self.bows.add(key, float(bow))  # type: ignore[arg-type]
+            if log_bow is not None:
+                self.bows.add(key, log_bow)
         else:
             key = (ids[0] << ID_BITS | ids[1]) << ID_BITS | ids[2]
         self.tables[order].add(key, prob)
+
+    def values(self, fields: list[str], order: int, number: int) -> tuple[float, float | None]:
+        """The log10 probability and log10 back-off weight (None: none, or ignored) of a line."""
+        width = len(fields)
+        needs = f"a {order}-gram line needs a log10 probability, {order} word{'s' if order > 1 else ''} and an optional back-off weight"
+        if width not in (order + 1, order + 2):
+            raise self.fail(number, f"{needs}; found {width} fields")
+        log_bow = None
+        if width == order + 2:
+            try:
+                log_bow = float(fields[-1])
+            except ValueError:
+                raise self.fail(number, f"{needs}; found {width} fields, the last of them no number") from None
+            log_bow = self.number(fields[-1], number, "log10 back-off weight")
+            if log_bow > _MAX_LOG_WEIGHT:
+                raise self.fail(number, f"back-off weight {fields[-1]} is too large")
+            if order == MAX_ORDER:
+                self.ignored_bows += 1
+                log_bow = None
+        prob = self.number(fields[0], number, "log10 probability")
+        if prob > _POSITIVE_SLACK:
+            raise self.fail(number, f"log10 probability {fields[0]} is above 0 (a probability above 1)")
+        return prob, log_bow
 
     def _fast_entry(self, order: int) -> Callable[[list[str], int], bool]:
         """A reader of the common 2-gram and 3-gram line: known words, plain numbers.

@@ -27,8 +27,8 @@ from typing import BinaryIO
 
 import numpy as np
 
-from ..modelfile.atomic import replace_atomically
 from ..errors import OptionError
+from ..modelfile.atomic import replace_atomically
 from ..modelfile.encoding import decode
 from ..query.model import LanguageModel
 from ..query.vocabulary import END, START, UNKNOWN

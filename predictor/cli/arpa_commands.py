@@ -8,9 +8,9 @@ import time
 from pathlib import Path
 
 from ..arpa import export_arpa, import_arpa
-from ..modelfile.encoding import ENCODINGS, FLOAT32
 from ..counting.memory import parse_size, peak_resident_bytes
 from ..errors import OptionError
+from ..modelfile.encoding import ENCODINGS, FLOAT32
 from .output import add_json_option, open_model, print_json
 
 
