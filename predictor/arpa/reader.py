@@ -2,11 +2,9 @@
 
 Words get provisional ids in order of first appearance (the conversion gives
 them model ids).  Unigrams are kept in lists; bigrams and trigrams go, a batch
-of lines at a time, into :class:`~predictor.spill.KeyCounter` tables keyed by
-their packed provisional ids, which write sorted runs to disk when they
-outgrow their share of ``--max-memory`` and merge them at the end, as counting
-does.  A table's "count" holds the float32 bits of the value plus a marker
-bit, so an n-gram listed twice shows as a doubled marker after the merge.
+of lines at a time, into :class:`~.tables.NgramTable` tables keyed by their
+packed provisional ids, which spill to disk when they outgrow their share of
+``--max-memory``.
 
 What real files contain is accepted with a warning where it changes nothing
 the file defines: blank lines, any run of spaces or tabs between fields, a
@@ -30,16 +28,14 @@ from pathlib import Path
 import numpy as np
 
 from ..counting.scratch import SpillFolder
-from ..counting.spill import KeyCounter, Run, sum_duplicates
 from ..errors import CapacityError, ModelFileError
 from .syntax import LOG_ZERO, MAX_ORDER, parse_display_line
+from .tables import DuplicateNgram, NgramTable
 
 ID_BITS = 21
 """Bits of one provisional word id in a packed key (three ids fill 63 bits)."""
 
 MAX_WORDS = (1 << ID_BITS) - 1
-_MARK = 1 << 32
-_BATCH = 1 << 16
 _COUNT_RE = re.compile(r"ngram\s+(\d+)\s*=\s*(\d+)")
 _SECTION_RE = re.compile(r"\\(\d+)-grams:")
 _MAX_LOG_WEIGHT = 38.0
@@ -105,64 +101,6 @@ def open_lines(path: Path) -> Iterator[bytes]:
             raise ModelFileError(f"{path}: cannot read: {error}") from None
 
 
-def linear(log10_values: np.ndarray, *, weights: bool) -> np.ndarray:
-    """Probabilities or back-off weights of log10 values: 0 at or below log zero.
-
-    A probability's log10 slightly above 0 (a writer's rounding) reads as 0;
-    a back-off weight may exceed 1.
-    """
-    capped = log10_values if weights else np.minimum(log10_values, 0.0)
-    return np.where(log10_values <= LOG_ZERO, 0.0, np.power(10.0, capped))
-
-
-class _Table:
-    """One order's n-grams (with log10 values), streamed into a spilling key table."""
-
-    def __init__(self, rows: int, folder: Callable[[], SpillFolder], *, weights: bool = False) -> None:
-        self.counter = KeyCounter(rows, folder)
-        self.weights = weights
-        self.batch = min(_BATCH, self.counter.max_rows)
-        self.keys: list[int] = []
-        self.values: list[float] = []
-        self.rows = 0
-
-    def add(self, key: int, value: float) -> None:
-        self.keys.append(key)
-        self.values.append(value)
-        if len(self.keys) >= self.batch:
-            self.flush()
-
-    def flush(self) -> None:
-        if not self.keys:
-            return
-        keys = np.array(self.keys, dtype=np.int64)
-        bits = linear(np.array(self.values, dtype=np.float64), weights=self.weights).astype(np.float32).view(np.uint32).astype(np.int64)
-        self.rows += len(keys)
-        self.counter.add(*sum_duplicates(keys, bits + _MARK))
-        # Emptied in place: the fast line reader holds these very lists.
-        self.keys.clear()
-        self.values.clear()
-
-    def finish(self) -> tuple[np.ndarray, np.ndarray]:
-        """The sorted keys and their values; raises on a key listed twice."""
-        self.flush()
-        table = self.counter.finish()
-        if isinstance(table, Run):
-            keys, counts = table.read()
-            table.delete()
-        else:
-            keys, counts = table
-        if len(counts) and int(counts.max()) >= 2 * _MARK:
-            raise _Duplicate(int(keys[int(np.argmax(counts >= 2 * _MARK))]))
-        values = (counts - _MARK).astype(np.uint32).view(np.float32).astype(np.float64)
-        return keys, values
-
-
-class _Duplicate(Exception):
-    def __init__(self, key: int) -> None:
-        self.key = key
-
-
 class _Parser:
     """The state of one pass over an ARPA file."""
 
@@ -180,8 +118,8 @@ class _Parser:
         self._spill_dir = spill_dir
         self._folder: SpillFolder | None = None
         share = max(16, rows // 3)
-        self.tables = {2: _Table(share, self._spill_folder), 3: _Table(share, self._spill_folder)}
-        self.bows = _Table(share, self._spill_folder, weights=True)
+        self.tables = {2: NgramTable(share, self._spill_folder), 3: NgramTable(share, self._spill_folder)}
+        self.bows = NgramTable(share, self._spill_folder, weights=True)
 
     def _spill_folder(self) -> SpillFolder:
         if self._folder is None:
@@ -431,10 +369,10 @@ class _Parser:
             spilled_rows=spilled,
         )
 
-    def finish_table(self, table: _Table, order: int) -> tuple[np.ndarray, np.ndarray]:
+    def finish_table(self, table: NgramTable, order: int) -> tuple[np.ndarray, np.ndarray]:
         try:
             return table.finish()
-        except _Duplicate as duplicate:
+        except DuplicateNgram as duplicate:
             mask = (1 << ID_BITS) - 1
             words = " ".join(self.tokens[duplicate.key >> (ID_BITS * i) & mask] for i in reversed(range(order)))
             raise ModelFileError(f"{self.path}: the {order}-gram {words!r} is listed twice") from None
