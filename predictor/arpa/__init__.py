@@ -4,6 +4,7 @@
   the comment lines that carry display forms).
 * :mod:`.writer`: a model's probabilities and back-off weights as ARPA text.
 * :mod:`.reader`: streaming parse of an ARPA file into sorted n-gram tables.
+* :mod:`.tables`: those tables, spilled to disk when they outgrow memory.
 * :mod:`.levels`: from those tables to the model's level arrays.
 * :mod:`.convert`: the whole import, ending in a model file written atomically.
 
