@@ -167,7 +167,10 @@ def test_export_to_standard_output_and_compressed_file(models, tmp_path, run_cli
     assert gzip.open(tmp_path / "kn.arpa.gz", "rt", encoding="utf-8").read() == printed.out
     assert run_cli("import", tmp_path / "kn.arpa.gz", "-o", tmp_path / "back.model").code == 0
     assert run_cli("check", tmp_path / "back.model").code == 0  # every distribution sums to 1 again
-    assert "\\end\\" in printed.out and "\n\\data\\\nngram 1=403\n" in printed.out
+    assert "\\end\\" in printed.out
+    before = model_path.read_bytes()
+    refused = run_cli("export", model_path, "-o", model_path)
+    assert refused.code == 2 and "is a model file" in refused.err and model_path.read_bytes() == before and "\n\\data\\\nngram 1=403\n" in printed.out
 
 
 WORDS = ["a", "ab", "b", "ba", "c", "Ca", "don't", "7:40"]

@@ -30,6 +30,7 @@ import numpy as np
 from ..errors import OptionError
 from ..modelfile.atomic import replace_atomically
 from ..modelfile.encoding import decode
+from ..modelfile.format import MAGIC
 from ..query.model import LanguageModel
 from ..query.vocabulary import END, START, UNKNOWN
 from .syntax import LOG_ZERO, NOTE_TAG, display_line, format_log10
@@ -174,6 +175,16 @@ def _line(prob: float, words: str, bow: float, log_prob: float | None = None) ->
     return f"{text}\t{words}\t{format_log10(bow)}\n"
 
 
+def _refuse_to_replace_a_model(target: Path) -> None:
+    """An ARPA file written over a model file would destroy the model: refuse."""
+    try:
+        with target.open("rb") as existing:
+            if existing.read(len(MAGIC)) == MAGIC:
+                raise OptionError(f"{target} is a model file; not replacing it with ARPA text (choose another -o)")
+    except OSError:
+        return
+
+
 def export_arpa(model: LanguageModel, target: str, *, approximate: bool = False) -> ExportSummary:
     """Write a model as an ARPA file (gzip when the name ends in ``.gz``; ``-`` for standard output).
 
@@ -186,7 +197,8 @@ def export_arpa(model: LanguageModel, target: str, *, approximate: bool = False)
         What was written.
 
     Raises:
-        OptionError: the method has no exact ARPA form and ``approximate`` is False.
+        OptionError: the method has no exact ARPA form and ``approximate`` is False,
+            or the target is a model file.
         OutputError: the file cannot be written (a previous file stays as it was).
     """
     reason = refusal_reason(model.method)
@@ -195,6 +207,8 @@ def export_arpa(model: LanguageModel, target: str, *, approximate: bool = False)
     approximated = None
     if reason is not None:
         approximated = "probabilities of 0 (and back-off weights of 0) are written as -99, which readers may take as 10^-99"
+    if target != "-":
+        _refuse_to_replace_a_model(Path(target))
     tables = model_tables(model)
     compressed = target != "-" and target.endswith(".gz")
 
