@@ -276,57 +276,12 @@ class _Parser:
         return prob, log_bow
 
     def _fast_entry(self, order: int) -> Callable[[list[str], int], bool]:
-        """A reader of the common 2-gram and 3-gram line: known words, plain numbers.
+        """A reader of the common 2-gram or 3-gram line: known words, plain numbers.
 
         It returns False, having changed nothing, for any line it is unsure of,
         which :meth:`entry` then reads (and reports if malformed).
         """
-        get = self.ids.get
-        table = self.tables[order]
-        keys, values = table.keys, table.values
-        bows = self.bows
-        bow_keys, bow_values = bows.keys, bows.values
-        listed = self.listed
-        shift = ID_BITS
-        slack = _POSITIVE_SLACK
-
-        def read(fields: list[str], number: int) -> bool:
-            width = len(fields)
-            if width != order + 1 and not (order == 2 and width == 4):
-                return False
-            try:
-                prob = float(fields[0])
-                weight = float(fields[3]) if order == 2 and width == 4 else 0.0
-            except ValueError:
-                return False
-            if not (-math.inf < prob <= slack) or not (-math.inf < weight <= _MAX_LOG_WEIGHT):
-                return False
-            if order == 2:
-                a = get(fields[1])
-                b = get(fields[2])
-                if a is None or b is None:
-                    return False
-                key = a << shift | b
-                if width == 4:
-                    bow_keys.append(key)
-                    bow_values.append(weight)
-                    if len(bow_keys) >= bows.batch:
-                        bows.flush()
-            else:
-                a = get(fields[1])
-                b = get(fields[2])
-                c = get(fields[3])
-                if a is None or b is None or c is None:
-                    return False
-                key = (a << shift | b) << shift | c
-            keys.append(key)
-            values.append(prob)
-            if len(keys) >= table.batch:
-                table.flush()
-            listed[order] += 1
-            return True
-
-        return read
+        return _bigram_reader(self) if order == 2 else _trigram_reader(self)
 
     def number(self, text: str, number: int, what: str) -> float:
         try:
@@ -377,6 +332,66 @@ class _Parser:
             words = " ".join(self.tokens[duplicate.key >> (ID_BITS * i) & mask] for i in reversed(range(order)))
             raise ModelFileError(f"{self.path}: the {order}-gram {words!r} is listed twice") from None
 
+
+
+def _bigram_reader(parser: _Parser) -> Callable[[list[str], int], bool]:
+    """The fast reader of a plain 2-gram line (see :meth:`_Parser._fast_entry`)."""
+    get = parser.ids.get
+    table = parser.tables[2]
+    keys, values = table.keys, table.values
+    bows = parser.bows
+    listed = parser.listed
+
+    def read_bigram(fields: list[str], number: int) -> bool:
+        width = len(fields)
+        if not 3 <= width <= 4:
+            return False
+        try:
+            prob = float(fields[0])
+            weight = float(fields[3]) if width == 4 else 0.0
+        except ValueError:
+            return False
+        a, b = get(fields[1]), get(fields[2])
+        if a is None or b is None or not (-math.inf < prob <= _POSITIVE_SLACK and -math.inf < weight <= _MAX_LOG_WEIGHT):
+            return False
+        key = a << ID_BITS | b
+        if width == 4:
+            bows.add(key, weight)
+        keys.append(key)
+        values.append(prob)
+        if len(keys) >= table.batch:
+            table.flush()
+        listed[2] += 1
+        return True
+
+    return read_bigram
+
+
+def _trigram_reader(parser: _Parser) -> Callable[[list[str], int], bool]:
+    """The fast reader of a plain 3-gram line (see :meth:`_Parser._fast_entry`)."""
+    get = parser.ids.get
+    table = parser.tables[3]
+    keys, values = table.keys, table.values
+    listed = parser.listed
+
+    def read_trigram(fields: list[str], number: int) -> bool:
+        if len(fields) != 4:
+            return False
+        try:
+            prob = float(fields[0])
+        except ValueError:
+            return False
+        a, b, c = get(fields[1]), get(fields[2]), get(fields[3])
+        if a is None or b is None or c is None or not -math.inf < prob <= _POSITIVE_SLACK:
+            return False
+        keys.append((a << ID_BITS | b) << ID_BITS | c)
+        values.append(prob)
+        if len(keys) >= table.batch:
+            table.flush()
+        listed[3] += 1
+        return True
+
+    return read_trigram
 
 def read_arpa(
     path: str | os.PathLike[str],
