@@ -199,3 +199,23 @@ def test_any_small_model_exports_exactly_and_round_trips(tmp_path, sentences, pr
             ours = model.distribution(sentence[:cut])
             theirs = back.distribution(sentence[:cut])
             assert np.allclose(theirs, ours, rtol=1e-6, atol=0)
+
+
+def test_suggest_on_an_imported_model_equals_brute_force(models, held_out, tmp_path):
+    """Exact top k on an imported model whose large contexts carry ranked lists: brute force over every word."""
+    target = tmp_path / "model.arpa"
+    export_arpa(models["katz"], str(target))
+    back, _ = model_from_arpa(target)
+    assert "rank2.ids" in back.sections and len(back.sections["rank2.ids"])  # some contexts are ranked
+    words = back.vocabulary
+    for sentence in held_out[:40]:
+        for cut in range(min(len(sentence), 3)):
+            context = sentence[:cut]
+            scores = back.distribution(context)[: back.vocab_size]
+            for prefix in ("", sentence[cut][:1].lower()):
+                ids = np.array([i for i, w in enumerate(words) if w.startswith(prefix)], dtype=np.int64)
+                if not len(ids):
+                    continue
+                order = np.lexsort((ids, -scores[ids]))[:5]
+                expected = [(int(ids[i]), float(scores[ids[i]])) for i in order]
+                assert [(s.id, s.prob) for s in back.suggest(context, prefix, 5)] == expected
