@@ -219,3 +219,17 @@ def test_suggest_on_an_imported_model_equals_brute_force(models, held_out, tmp_p
                 order = np.lexsort((ids, -scores[ids]))[:5]
                 expected = [(int(ids[i]), float(scores[ids[i]])) for i in order]
                 assert [(s.id, s.prob) for s in back.suggest(context, prefix, 5)] == expected
+
+
+@pytest.mark.parametrize("method", ["kneser-ney", "katz"])
+def test_kenlm_reads_the_export_with_the_same_sentence_probabilities(models, held_out, tmp_path, method):
+    """A second reference where it is installed: the ``kenlm`` module from PyPI (a C++ build, so not in the
+    test extra; ``pip install kenlm`` adds it). It stores values as float32, hence the wider bound."""
+    kenlm = pytest.importorskip("kenlm")
+    model = models[method]
+    target = tmp_path / "model.arpa"
+    export_arpa(model, str(target))
+    reference = kenlm.Model(str(target))
+    for sentence in held_out:
+        tokens = " ".join(model.vocab.word(i) for i in model.sentence_ids(sentence).tolist())
+        assert reference.score(tokens, bos=True, eos=True) == pytest.approx(log10_sentence(model, sentence), abs=1e-5)
