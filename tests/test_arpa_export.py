@@ -20,6 +20,7 @@ from hypothesis import strategies as st
 
 import foretype
 from foretype.arpa import export_arpa, model_from_arpa
+from foretype.builder.shrink import shrink
 from foretype.text import iter_sentences
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -233,3 +234,15 @@ def test_kenlm_reads_the_export_with_the_same_sentence_probabilities(models, hel
     for sentence in held_out:
         tokens = " ".join(model.vocab.word(i) for i in model.sentence_ids(sentence).tolist())
         assert reference.score(tokens, bos=True, eos=True) == pytest.approx(log10_sentence(model, sentence), abs=1e-5)
+
+
+def test_a_shrunk_model_with_8_bit_codebook_values_exports_exactly(models, held_out, tmp_path):
+    """Pruned (Stolcke's relative entropy) and stored in 8-bit codebooks: still a back-off form the reader agrees with."""
+    small = shrink(models["kneser-ney"], criterion="entropy", threshold=1e-5, encoding="codebook8")
+    assert small.sections["l3.value"].dtype == np.uint8
+    target = tmp_path / "small.arpa"
+    export_arpa(small, str(target))
+    reference = arpa.loadf(target)[0]
+    for sentence in held_out[:100]:
+        tokens = [small.vocab.word(i) for i in small.sentence_ids(sentence).tolist()]
+        assert reference.log_s(tokens) == pytest.approx(log10_sentence(small, sentence), abs=1e-6)

@@ -29,7 +29,7 @@ import numpy as np
 
 from ..errors import OptionError
 from ..modelfile.atomic import replace_atomically
-from ..modelfile.encoding import decode
+from ..modelfile.encoding import value_table
 from ..modelfile.format import MAGIC
 from ..query.model import LanguageModel
 from ..query.vocabulary import END, START, UNKNOWN
@@ -101,7 +101,8 @@ def model_tables(model: LanguageModel) -> _Tables:
     n2 = len(w2)
     ctx2 = np.repeat(np.arange(size + 3, dtype=np.int64), np.diff(off2))
     # P2(w | v) with the arithmetic of the query core (query/scoring.py).
-    a2 = decode(s["l2.value"])
+    codes = value_table(s, "l2")
+    a2 = codes[s["l2.value"]] if codes is not None else s["l2.value"].astype(np.float64)
     p2 = a2 + g2[ctx2] * p1[w2] if model.meta["interpolated"] else a2
     has2 = np.diff(off2) > 0
     has3 = np.diff(off3) > 0
