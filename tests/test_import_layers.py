@@ -31,6 +31,7 @@ LAYERS: dict[str, int] = {
     "size_chart": 5,
     "demo": 6,
     "simulate": 6,
+    "arpa": 6,
     "adapt": 7,
     "sweep": 8,
     "cli": 9,
