@@ -12,6 +12,8 @@ import math
 from collections.abc import Sequence
 from typing import Any
 
+import numpy as np
+
 from ..adapt import AdaptedModel
 from ..errors import OptionError
 from ..model import LanguageModel
@@ -154,7 +156,8 @@ def probability(
 def _sentence_log2(source: LanguageModel | AdaptedModel, words: list[str]) -> float:
     """log2 P(sentence): the engine's own ``logprob`` for a model; the chain of ``prob`` for a combined one."""
     if isinstance(source, LanguageModel):
-        return source.logprob(words)
+        with np.errstate(divide="ignore"):  # a zero probability is -inf, reported as null
+            return source.logprob(words)
     total = 0.0
     history: list[str] = []
     for token in [*words, END]:
