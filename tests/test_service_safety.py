@@ -87,6 +87,15 @@ def test_bad_requests_get_a_json_4xx_and_the_service_goes_on(service, body, stat
     assert still_serving(service.url)
 
 
+@pytest.mark.parametrize(
+    "method, path, status, code",
+    [("GET", "/nowhere", 404, "not_found"), ("DELETE", "/api/suggest", 405, "method_not_allowed"), ("GET", "/api/session", 426, "websocket_only"), ("GET", "/api/models/nothing", 404, "unknown_model")],
+)
+def test_wrong_paths_and_methods_get_json_errors(service, method, path, status, code):
+    answer = httpx.request(method, f"{service.url}{path}")
+    assert answer.status_code == status and answer.json()["error"]["code"] == code
+
+
 def test_a_body_without_a_content_type_is_read_as_json(service):
     # curl -d sends form encoding and fetch(string) sends text/plain: both carry JSON here.
     for kind in ("application/x-www-form-urlencoded", "text/plain;charset=UTF-8"):

@@ -103,9 +103,14 @@ def _add_error_handlers(app: FastAPI) -> None:
         return JSONResponse(error_body(code, message), status_code=status)
 
     @app.exception_handler(StarletteHTTPException)
-    async def http_error(_: Request, error: StarletteHTTPException) -> JSONResponse:
+    async def http_error(request: Request, error: StarletteHTTPException) -> JSONResponse:
         code = {404: "not_found", 405: "method_not_allowed"}.get(error.status_code, "http_error")
-        return JSONResponse(error_body(code, str(error.detail)), status_code=error.status_code, headers=getattr(error, "headers", None))
+        message = str(error.detail)
+        if error.status_code == 404:
+            message = f"no such path: {request.url.path} (the endpoints are listed at {OPENAPI_PATH})"
+        elif error.status_code == 405:
+            message = f"{request.method} is not allowed on {request.url.path} (see {OPENAPI_PATH})"
+        return JSONResponse(error_body(code, message), status_code=error.status_code, headers=getattr(error, "headers", None))
 
     @app.exception_handler(Exception)
     async def internal(_: Request, error: Exception) -> JSONResponse:

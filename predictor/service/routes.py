@@ -15,6 +15,7 @@ from fastapi.responses import JSONResponse
 
 from ..version import __version__
 from . import answers
+from .problems import ApiError
 from .schemas import (
     ErrorResponse,
     HealthResponse,
@@ -83,6 +84,11 @@ async def probability(body: ProbabilityRequest, request: Request) -> JSONRespons
     state = service_state(request)
     served = state.catalogue.get(body.model)
     return _json(await state.answer(answers.probability, served, body.profile, word=body.word, context=body.context, sentence=body.sentence))
+
+
+@router.get("/session", include_in_schema=False)
+async def session_over_http() -> JSONResponse:
+    raise ApiError(426, "websocket_only", "/api/session is a WebSocket: connect with ws://HOST:PORT/api/session (docs/service.md)")
 
 
 @router.get("/profiles", response_model=ProfilesResponse, summary="the profiles in the profiles folder")
