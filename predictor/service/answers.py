@@ -90,7 +90,7 @@ def suggest(
         found = source.suggest_text(before, k)
     adapted = source if isinstance(source, AdaptedModel) else None
     rows = [
-        {"word": s.word, "prob": s.prob, "order": s.order, "learned": bool(getattr(s, "learned", False)), "new_word": bool(getattr(s, "new_word", False))}
+        {"word": s.word, "prob": s.prob, "order": s.order, "learned": bool(s.learned), "new_word": bool(s.new_word)}
         for s in found
     ]
     return {
