@@ -17,12 +17,12 @@ from pathlib import Path
 
 import httpx
 import pytest
+from service_server import running_service
 from websockets.asyncio.client import connect
 from websockets.exceptions import InvalidStatus
 
 import foretype
 from foretype.service import Limits
-from service_server import running_service
 
 ROOT = Path(__file__).resolve().parent.parent
 WORKED_CORPUS = ROOT / "tests" / "data" / "savings" / "worked-corpus.txt"
@@ -145,7 +145,7 @@ def test_the_services_own_origin_and_added_origins_are_accepted(service):
         answer = httpx.post(f"{service.url}/api/suggest", json={"text": "the "}, headers={"origin": origin})
         assert answer.status_code == 200, (origin, answer.text)
 
-        async def talk():
+        async def talk(origin=origin):
             async with connect(f"{service.ws_url}/api/session", origin=origin) as ws:
                 return json.loads(await ws.recv())["type"]
 

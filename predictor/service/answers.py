@@ -17,8 +17,8 @@ import numpy as np
 from ..adapt import AdaptedModel
 from ..errors import OptionError
 from ..query.model import LanguageModel
-from ..text import iter_sentences
 from ..query.vocabulary import END
+from ..text import iter_sentences
 from .catalogue import ServedModel
 from .problems import ApiError
 from .settings import Limits
