@@ -168,11 +168,11 @@ def format_session(report: SessionReport) -> str:
             _number(m.wpm, 1),
             _number(m.kspc),
             _percent(m.ksr),
-            _percent(m.errors.msd_error_rate),
-            _percent(m.errors.total_error_rate),
-            _percent(m.errors.corrected_error_rate),
-            _percent(m.errors.uncorrected_error_rate),
         ]
+        # Against the whole target, a phrase cut short would read as mostly errors: its rates are left blank.
+        errors = m.errors if m.complete else None
+        row += [_percent(errors.msd_error_rate if errors else None), _percent(errors.total_error_rate if errors else None)]
+        row += [_percent(errors.corrected_error_rate if errors else None), _percent(errors.uncorrected_error_rate if errors else None)]
         if simulated is not None:
             row.append(_percent(simulated[i].ksr))
         rows.append(row)
