@@ -208,6 +208,7 @@
     bar.appendChild(fill);
     button.append(badge, word, bar);
     button.addEventListener("click", () => take(rank));
+    button.addEventListener("mousedown", (event) => event.preventDefault());
     li.appendChild(button);
     return li;
   }
@@ -234,6 +235,7 @@
     button.textContent = label;
     button.dataset.key = name || label;
     button.addEventListener("click", action);
+    button.addEventListener("mousedown", (event) => event.preventDefault()); // keep the focus off the keys
     return button;
   }
 
@@ -297,7 +299,7 @@
   });
 
   // ---------------------------------------------------------------- the copy task and its log
-  const outbox = { queue: [], busy: false };
+  const outbox = { queue: [], busy: false, starting: false };
 
   function now() { return Math.round((performance.now() - state.study.t0) * 10) / 10; }
 
@@ -328,6 +330,11 @@
   }
 
   async function startStudy() {
+    outbox.starting = true;
+    try { await beginStudy(); } finally { outbox.starting = false; }
+  }
+
+  async function beginStudy() {
     const response = await fetch("/api/study/sessions", {
       method: "POST",
       headers: headers(true),
@@ -336,6 +343,8 @@
     const body = await response.json();
     if (!response.ok) { status(body.error?.message || "the session could not start"); return; }
     state.study = { session: body.session, phrases: body.phrases, index: -1, t0: performance.now(), rates: [] };
+    // A focused button that becomes disabled would swallow the participant's first keys.
+    if (document.activeElement && document.activeElement.blur) document.activeElement.blur();
     $("start-study").disabled = true;
     $("copy").hidden = false;
     $("design").hidden = true;
@@ -406,7 +415,7 @@
 
   // Test and automation hook: what the page holds now.
   window.foretypeKeyboard = {
-    state: () => ({ text: state.text, keystrokes: state.keystrokes, taken: state.taken, suggestions: state.suggestions.map((s) => s.word), seq: state.seq, shownSeq: state.shownSeq, pending: outbox.queue.length + (outbox.busy ? 1 : 0), session: state.study && state.study.session }),
+    state: () => ({ text: state.text, keystrokes: state.keystrokes, taken: state.taken, suggestions: state.suggestions.map((s) => s.word), seq: state.seq, shownSeq: state.shownSeq, pending: outbox.queue.length + (outbox.busy ? 1 : 0) + (outbox.starting ? 1 : 0), session: state.study && state.study.session }),
   };
   window.addEventListener("DOMContentLoaded", start);
 })();
