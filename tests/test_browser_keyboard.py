@@ -68,7 +68,7 @@ def start_server(folder: Path, model: Path) -> Server:
     profiles = folder / "profiles"
     profiles.mkdir()
     port = _free_port()
-    command = [sys.executable, "-m", "predictor", "serve", str(model), "--port", str(port), "--profiles", str(profiles), "--phrases", str(phrases)]
+    command = [sys.executable, "-m", "foretype", "serve", str(model), "--port", str(port), "--profiles", str(profiles), "--phrases", str(phrases)]
     process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
     base = f"http://127.0.0.1:{port}"
     for _ in range(300):
@@ -96,7 +96,7 @@ def stop(server: Server) -> None:
 
 @pytest.fixture(scope="module")
 def model(tmp_path_factory: pytest.TempPathFactory) -> Path:
-    from predictor.cli import main
+    from foretype.cli import main
 
     folder = tmp_path_factory.mktemp("keyboard-model")
     corpus = folder / "corpus.txt"
@@ -166,7 +166,7 @@ def read_log(path: Path) -> list[dict]:
 
 
 def test_a_session_typed_by_clicks_keys_and_suggestions(browser, server: Server) -> None:
-    from predictor.study import session_report
+    from foretype.study import session_report
 
     context, page, errors = open_page(browser, server)
     page.click("#start-study")
@@ -266,7 +266,7 @@ def test_browser_closed_mid_phrase_leaves_a_whole_log(browser, server: Server, r
     (log_path,) = server.logs("p01")
     raw = log_path.read_bytes()
     assert raw.endswith(b"\n")
-    from predictor.study import read_session_log
+    from foretype.study import read_session_log
 
     log = read_session_log(log_path)
     assert not log.torn_last_line and not log.ended
@@ -290,7 +290,7 @@ def test_server_stopped_mid_session_leaves_a_whole_log(browser, server: Server, 
     server.process.wait()
     context.close()
     (log_path,) = server.logs("p01")
-    from predictor.study import read_session_log, session_report
+    from foretype.study import read_session_log, session_report
 
     log = read_session_log(log_path)
     assert not log.torn_last_line

@@ -31,8 +31,10 @@ LAYERS: dict[str, int] = {
     "demo": 6,
     "simulate": 6,
     "adapt": 7,
+    "study": 7,
     "sweep": 8,
     "cli": 9,
+    "browser": 9,
     "__main__": 9,
     "__init__": 9,
 }

@@ -10,7 +10,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from nltk.metrics.distance import edit_distance
 
-from predictor.study import (
+from foretype.study import (
     ErrorCounts,
     SessionLogError,
     SessionLogWriter,
@@ -20,8 +20,8 @@ from predictor.study import (
     session_report,
     words_per_minute,
 )
-from predictor.study.log import PhraseLog
-from predictor.study.measures import measure_phrase
+from foretype.study.log import PhraseLog
+from foretype.study.measures import measure_phrase
 
 HAND_LOG = Path(__file__).parent / "data" / "study-session.jsonl"
 

@@ -20,6 +20,7 @@ service's JSON body, ``{"error": {"code": ..., "message": ...}}``.
 
 from __future__ import annotations
 
+import json
 import re
 import secrets
 import threading
@@ -86,8 +87,6 @@ def _static(name: str) -> bytes:
 async def _json_object(request: Request) -> dict[str, Any] | JSONResponse:
     raw = await request.body()
     try:
-        import json
-
         body = json.loads(raw.decode("utf-8")) if raw else {}
     except UnicodeDecodeError:
         return _problem(400, "bad_utf8", "the body is not valid UTF-8")

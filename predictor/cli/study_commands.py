@@ -79,7 +79,7 @@ def run_study_report(args: argparse.Namespace) -> int:
 
 
 def _write_chart(path: str, svg: str) -> None:
-    from ..atomic import replace_atomically
+    from ..modelfile.atomic import replace_atomically
     from ..errors import OutputError
 
     try:

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from ..demo import demo_folder
 from ..errors import CorpusError
 
 MAX_PHRASE_CHARACTERS = 500
@@ -12,9 +13,7 @@ MAX_PHRASE_CHARACTERS = 500
 
 def demo_phrases_path() -> Path:
     """The bundled demo phrases (``demo_vocab/phrases.txt``, invented like the rest of the demo text)."""
-    import demo_vocab
-
-    return Path(demo_vocab.__file__).resolve().parent / "phrases.txt"
+    return demo_folder() / "phrases.txt"
 
 
 def read_phrases(path: str | Path) -> list[str]:

@@ -7,11 +7,13 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
+from ..errors import CorpusError
+from ..simulate import TypistSettings, simulate
 from .log import SessionLog, read_session_log
 from .measures import PhraseMeasures, SessionMeasures, measure_phrase, pool_phrases
 
 if TYPE_CHECKING:
-    from ..model import LanguageModel
+    from ..query.model import LanguageModel
 
 
 @dataclass(frozen=True)
@@ -107,9 +109,6 @@ def simulate_phrases(model: LanguageModel, targets: Sequence[str], k: int) -> li
     Returns:
         One result per target; a target without words costs one keystroke per character.
     """
-    from ..errors import CorpusError
-    from ..simulate import TypistSettings, simulate
-
     settings = TypistSettings(k=k)
     memo: dict[str, SimulatedPhrase] = {}
     results = []
