@@ -35,6 +35,7 @@ LAYERS: dict[str, int] = {
     "sweep": 8,
     "cli": 9,
     "browser": 9,
+    "service": 9,
     "__main__": 9,
     "__init__": 9,
 }
