@@ -13,8 +13,8 @@ from typing import Any
 
 import uvicorn
 
-from predictor.model import LanguageModel
-from predictor.service import Limits, ServiceSettings, create_app
+from foretype.query.model import LanguageModel
+from foretype.service import Limits, ServiceSettings, create_app
 
 
 @dataclass

@@ -18,9 +18,9 @@ from pathlib import Path
 import httpx
 import pytest
 
-import predictor
-from predictor.text import model_form
-from predictor.version import __version__
+import foretype
+from foretype.text import model_form
+from foretype.version import __version__
 from service_server import SlowModel, running_service
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -35,14 +35,14 @@ def models(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Path]:
     corpus = folder / "corpus.txt"
     corpus.write_text("\n".join(lines) + "\n", encoding="utf-8")
     paths = {"ferry": folder / "ferry.model", "worked": folder / "worked.model"}
-    predictor.build([corpus], vocab_size=None, min_count=1, method="kneser-ney").save(paths["ferry"])
-    predictor.build([WORKED_CORPUS], vocab_size=None, min_count=1, method="mle").save(paths["worked"])
+    foretype.build([corpus], vocab_size=None, min_count=1, method="kneser-ney").save(paths["ferry"])
+    foretype.build([WORKED_CORPUS], vocab_size=None, min_count=1, method="mle").save(paths["worked"])
     return paths
 
 
 @pytest.fixture(scope="module")
 def service(models: dict[str, Path], tmp_path_factory: pytest.TempPathFactory):
-    loaded = {name: predictor.load(path) for name, path in models.items()}
+    loaded = {name: foretype.load(path) for name, path in models.items()}
     with running_service(loaded, tmp_path_factory.mktemp("profiles")) as running:
         yield running
 
@@ -53,7 +53,7 @@ def client(service):
         yield c
 
 
-def brute_force(model: predictor.LanguageModel, context: list[str], prefix: str, k: int) -> list[tuple[str, float]]:
+def brute_force(model: foretype.LanguageModel, context: list[str], prefix: str, k: int) -> list[tuple[str, float]]:
     """Every vocabulary word with the prefix, scored one by one, best k (probability descending, word ascending)."""
     typed = model_form(prefix)
     scored = [(model.prob(w, context), w) for w in model.vocabulary if w.startswith(typed)]
@@ -74,7 +74,7 @@ def test_suggestions_equal_the_command_line_and_brute_force(client, models, run_
     assert [{key: s[key] for key in ("word", "prob", "order")} for s in got["suggestions"]] == expected["suggestions"]
     assert all(s["learned"] is False and s["new_word"] is False for s in got["suggestions"])
     assert got["model"] == "ferry" and got["profile"] is None and got["user_share"] is None
-    model = predictor.load(models["ferry"])
+    model = foretype.load(models["ferry"])
     reference = brute_force(model, got["context"], got["prefix"], k)
     assert [model_form(s["word"]) for s in got["suggestions"]] == [w for w, _ in reference]
     assert [s["prob"] for s in got["suggestions"]] == [p for _, p in reference]
@@ -111,7 +111,7 @@ def test_sentence_probability_is_the_chain_rule(client, models):
     # followed by harbour, ferry, slipway (1/3 each); "the ferry" by leaves, is, the end (1/3 each).
     assert got["prob"] == pytest.approx(1 / 2 * 1 / 3 * 1 / 3, rel=1e-6)
     assert got["perplexity"] == pytest.approx(18 ** (1 / 6), rel=1e-6)
-    model = predictor.load(models["worked"])
+    model = foretype.load(models["worked"])
     assert got["log2_prob"] == pytest.approx(model.logprob(got["words"]), abs=1e-12)
 
 
@@ -158,7 +158,7 @@ def test_learning_events_then_suggestions_equal_suggest_adapt(client, service, m
 
 
 def test_a_request_in_flight_finishes_when_the_service_stops(models, tmp_path):
-    slow = SlowModel(predictor.load(models["worked"]), delay=1.0)
+    slow = SlowModel(foretype.load(models["worked"]), delay=1.0)
     with running_service({"slow": slow}, tmp_path) as running:
         result: dict[str, httpx.Response] = {}
 

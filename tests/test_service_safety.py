@@ -20,8 +20,8 @@ import pytest
 from websockets.asyncio.client import connect
 from websockets.exceptions import InvalidStatus
 
-import predictor
-from predictor.service import Limits
+import foretype
+from foretype.service import Limits
 from service_server import running_service
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -30,10 +30,10 @@ TOKEN = "s3cret-token-for-tests"
 
 
 @pytest.fixture(scope="module")
-def model(tmp_path_factory: pytest.TempPathFactory) -> predictor.LanguageModel:
+def model(tmp_path_factory: pytest.TempPathFactory) -> foretype.LanguageModel:
     path = tmp_path_factory.mktemp("safety-model") / "worked.model"
-    predictor.build([WORKED_CORPUS], vocab_size=None, min_count=1, method="kneser-ney").save(path)
-    return predictor.load(path)
+    foretype.build([WORKED_CORPUS], vocab_size=None, min_count=1, method="kneser-ney").save(path)
+    return foretype.load(path)
 
 
 @pytest.fixture(scope="module")
@@ -213,7 +213,7 @@ def test_a_profile_linked_outside_the_folder_is_refused(model, tmp_path):
 
 def test_the_engine_and_other_commands_never_load_the_service():
     # Common practice for a library with optional faces: the engine does not import them.
-    probe = "import json, sys, predictor, predictor.cli, predictor.adapt\n" "print(json.dumps(sorted(m for m in sys.modules if m.split('.')[0] in ('fastapi', 'uvicorn', 'starlette') or m.startswith('predictor.service'))))"
+    probe = "import json, sys, foretype, foretype.cli, foretype.adapt\n" "print(json.dumps(sorted(m for m in sys.modules if m.split('.')[0] in ('fastapi', 'uvicorn', 'starlette') or m.startswith('foretype.service'))))"
     done = subprocess.run([sys.executable, "-c", probe], capture_output=True, text=True, timeout=120, env={**os.environ})
     assert done.returncode == 0, done.stderr
     assert json.loads(done.stdout) == []

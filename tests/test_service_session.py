@@ -15,7 +15,7 @@ import pytest
 from websockets.asyncio.client import connect
 from websockets.exceptions import InvalidStatus
 
-import predictor
+import foretype
 from service_server import SlowModel, running_service
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -25,13 +25,13 @@ WORKED_CORPUS = ROOT / "tests" / "data" / "savings" / "worked-corpus.txt"
 @pytest.fixture(scope="module")
 def model_path(tmp_path_factory: pytest.TempPathFactory) -> Path:
     path = tmp_path_factory.mktemp("session-model") / "worked.model"
-    predictor.build([WORKED_CORPUS], vocab_size=None, min_count=1, method="kneser-ney").save(path)
+    foretype.build([WORKED_CORPUS], vocab_size=None, min_count=1, method="kneser-ney").save(path)
     return path
 
 
 @pytest.fixture(scope="module")
 def service(model_path: Path, tmp_path_factory: pytest.TempPathFactory):
-    model = predictor.load(model_path)
+    model = foretype.load(model_path)
     profiles = tmp_path_factory.mktemp("profiles")
     (profiles / "p01").mkdir()
     with running_service({"worked": model, "slow": SlowModel(model, delay=0.5)}, profiles) as running:

@@ -15,7 +15,7 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import OptionError
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from .output import open_model, positive_int
 
 SIGTERM_EXIT = 0

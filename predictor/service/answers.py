@@ -16,9 +16,9 @@ import numpy as np
 
 from ..adapt import AdaptedModel
 from ..errors import OptionError
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from ..text import iter_sentences
-from ..vocabulary import END
+from ..query.vocabulary import END
 from .catalogue import ServedModel
 from .problems import ApiError
 from .settings import Limits

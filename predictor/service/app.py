@@ -22,7 +22,7 @@ from starlette.exceptions import HTTPException as StarletteHTTPException
 from starlette.middleware.cors import CORSMiddleware
 
 from ..errors import ForetypeError
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from ..version import __version__
 from .catalogue import Catalogue
 from .limits import BodyLimit, ConnectionLimit

@@ -8,7 +8,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from ..errors import OptionError
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from .problems import ApiError
 
 MODEL_NAME_RE = re.compile(r"[A-Za-z0-9][A-Za-z0-9._-]{0,63}")

@@ -11,7 +11,7 @@ from starlette.requests import HTTPConnection
 
 from ..adapt import AdaptedModel
 from ..errors import ForetypeError, OptionError
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from .catalogue import Catalogue, ServedModel
 from .problems import ApiError
 from .profiles import Profiles
