@@ -68,7 +68,7 @@ def start_server(folder: Path, model: Path) -> Server:
     profiles = folder / "profiles"
     profiles.mkdir()
     port = _free_port()
-    command = [sys.executable, "-m", "foretype", "serve", str(model), "--port", str(port), "--profiles", str(profiles), "--phrases", str(phrases)]
+    command = [sys.executable, "-c", "from foretype.cli import main; raise SystemExit(main())", "serve", str(model), "--port", str(port), "--profiles", str(profiles), "--phrases", str(phrases)]
     process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
     base = f"http://127.0.0.1:{port}"
     for _ in range(300):

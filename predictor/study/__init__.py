@@ -2,7 +2,7 @@
 
 Usage::
 
-    from predictor.study import read_session_log, session_report
+    from foretype.study import read_session_log, session_report
     report = session_report("session.jsonl")
     report.session.wpm, report.session.ksr, report.session.errors.total_error_rate
     report.log.cut_short          # phrases presented but never submitted
