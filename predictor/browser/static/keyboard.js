@@ -202,7 +202,7 @@
     word.className = "word";
     word.textContent = s.word;
     const bar = document.createElement("span");
-    bar.className = "bar";
+    bar.className = "likelihood";
     const fill = document.createElement("i");
     fill.style.width = (top > 0 && s.probability != null ? Math.max(4, 100 * s.probability / top) : 0) + "%";
     bar.appendChild(fill);
