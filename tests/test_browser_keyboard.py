@@ -16,6 +16,7 @@ import socket
 import subprocess
 import sys
 import time
+import urllib.error
 import urllib.request
 from collections.abc import Iterator
 from dataclasses import dataclass
@@ -305,3 +306,42 @@ def test_server_stopped_mid_session_leaves_a_whole_log(browser, server: Server, 
     assert report.session.phrases == 1
     result = run_cli("study", "report", log_path)
     assert result.code == 0 and "phrase 2 was cut short" in result.out
+
+
+def _call(server: Server, method: str, path: str, body: bytes | None = None) -> tuple[int, dict]:
+    request = urllib.request.Request(server.base + path, data=body, method=method, headers={"Content-Type": "application/json"})
+    try:
+        with urllib.request.urlopen(request, timeout=10) as answer:
+            return answer.status, json.loads(answer.read())
+    except urllib.error.HTTPError as error:
+        return error.code, json.loads(error.read())
+
+
+def test_study_endpoints_refuse_bad_input(server: Server) -> None:
+    status, config = _call(server, "GET", "/api/study/config")
+    assert status == 200 and config["phrases"] == 2 and config["phrase_source"] == "phrases.txt"
+    # A profile name that would leave the profiles folder, and other bad starts.
+    for body, code in (
+        ({"profile": "../escape"}, "bad_profile_name"),
+        ({"profile": "a/b"}, "bad_profile_name"),
+        ({"profile": "p01", "k": 12}, "bad_k"),
+        ({"profile": "p01", "colour": "red"}, "unknown_field"),
+    ):
+        status, answer = _call(server, "POST", "/api/study/sessions", json.dumps(body).encode())
+        assert status == 422 and answer["error"]["code"] == code
+    assert not (server.profiles.parent / "escape").exists()
+    assert _call(server, "POST", "/api/study/sessions", b"{not json")[0] == 400
+    status, started = _call(server, "POST", "/api/study/sessions", json.dumps({"profile": "p02", "k": 4}).encode())
+    assert status == 201 and started["phrases"] == ["See you at the slipway", "The ferry is late"]
+    events = f"/api/study/sessions/{started['session']}/events"
+    good = {"t": 10, "kind": "phrase_start", "phrase": 0, "target": "See you at the slipway"}
+    # One bad event refuses the whole batch: nothing of it is written.
+    for bad in ({"t": 11, "kind": "shout"}, {"t": -1, "kind": "backspace", "text": ""}, {"t": 12, "kind": "key", "char": "ab", "text": "ab"}):
+        status, answer = _call(server, "POST", events, json.dumps({"events": [good, bad]}).encode())
+        assert status == 422 and answer["error"]["code"] == "bad_event"
+    assert _call(server, "POST", "/api/study/sessions/nope/events", json.dumps({"events": [good]}).encode())[0] == 404
+    assert _call(server, "POST", events, json.dumps({"events": [good]}).encode()) == (200, {"written": 1})
+    (log_path,) = server.logs("p02")
+    assert [json.loads(line)["kind"] for line in log_path.read_text(encoding="utf-8").splitlines()] == ["session_start", "phrase_start"]
+    status, report = _call(server, "GET", f"/api/study/sessions/{started['session']}/report")
+    assert status == 200 and report["cut_short"] == [0] and report["k"] == 4
