@@ -62,14 +62,14 @@ def _free_port() -> int:
         return int(probe.getsockname()[1])
 
 
-def start_server(folder: Path, model: Path) -> Server:
+def start_server(folder: Path, model: Path, *extra: str) -> Server:
     """Start ``foretype serve MODEL --phrases FILE`` and wait until it answers its health check."""
     phrases = folder / "phrases.txt"
     phrases.write_text(PHRASES, encoding="utf-8")
     profiles = folder / "profiles"
     profiles.mkdir()
     port = _free_port()
-    command = [sys.executable, "-c", "from foretype.cli import main; raise SystemExit(main())", "serve", str(model), "--port", str(port), "--profiles", str(profiles), "--phrases", str(phrases)]
+    command = [sys.executable, "-c", "from foretype.cli import main; raise SystemExit(main())", "serve", str(model), "--port", str(port), "--profiles", str(profiles), "--phrases", str(phrases), *extra]
     process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
     base = f"http://127.0.0.1:{port}"
     for _ in range(300):
@@ -79,6 +79,8 @@ def start_server(folder: Path, model: Path) -> Server:
             with urllib.request.urlopen(base + "/api/health", timeout=1) as answer:
                 if answer.status == 200:
                     return Server(process, base, profiles)
+        except urllib.error.HTTPError:
+            return Server(process, base, profiles)  # it answers (a service with a token refuses the bare check)
         except OSError:
             time.sleep(0.1)
     process.kill()
@@ -345,3 +347,25 @@ def test_study_endpoints_refuse_bad_input(server: Server) -> None:
     assert [json.loads(line)["kind"] for line in log_path.read_text(encoding="utf-8").splitlines()] == ["session_start", "phrase_start"]
     status, report = _call(server, "GET", f"/api/study/sessions/{started['session']}/report")
     assert status == 200 and report["cut_short"] == [0] and report["k"] == 4
+
+
+def test_the_page_works_on_a_service_that_requires_its_token(browser, tmp_path: Path, model: Path) -> None:
+    guarded = start_server(tmp_path, model, "--token", "s3cret-token")
+    try:
+        with urllib.request.urlopen(guarded.base + "/api/study/config", timeout=10) as answer:
+            raise AssertionError(f"answered {answer.status} without the token")
+    except urllib.error.HTTPError as error:
+        assert error.code == 401
+    try:
+        context, page, errors = open_page(browser, guarded, "?k=2&token=s3cret-token&profile=p03")
+        # The page, its stylesheet and script, its WebSocket and its log all passed the token check.
+        assert page.locator("#rail .suggestion").count() == 2
+        page.click("#start-study")
+        settle(page)
+        step(page, lambda: page.keyboard.press("S"))
+        context.close()
+        assert errors == []
+        (log_path,) = guarded.logs("p03")
+        assert [json.loads(line)["kind"] for line in log_path.read_text(encoding="utf-8").splitlines()][-1] in ("key", "list")
+    finally:
+        stop(guarded)

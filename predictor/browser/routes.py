@@ -29,6 +29,7 @@ from datetime import datetime, timezone
 from importlib import resources
 from pathlib import Path
 from typing import Any
+from urllib.parse import quote
 
 from fastapi import APIRouter, Request
 from fastapi.responses import HTMLResponse, JSONResponse, Response
@@ -113,8 +114,15 @@ def study_router(settings: StudySettings) -> APIRouter:
     assets = {name: _static(name) for name in ASSETS}
 
     @router.get("/", include_in_schema=False)
-    def keyboard_page() -> Response:
-        return HTMLResponse(page, headers={"Cache-Control": "no-store"})
+    def keyboard_page(request: Request) -> Response:
+        body = page
+        token = request.query_params.get("token")
+        if token:
+            # A service that requires its token was opened as /?token=TOKEN: the page's own files need it too.
+            suffix = ("?token=" + quote(token, safe="")).encode("ascii")
+            for name in ASSETS:
+                body = body.replace(f"/api/study/assets/{name}".encode("ascii"), f"/api/study/assets/{name}".encode("ascii") + suffix)
+        return HTMLResponse(body, headers={"Cache-Control": "no-store"})
 
     @router.get("/api/study/assets/{name}", include_in_schema=False)
     def asset(name: str) -> Response:
