@@ -17,11 +17,11 @@ from pathlib import Path
 
 import httpx
 import pytest
+from service_server import SlowModel, running_service
 
 import foretype
 from foretype.text import model_form
 from foretype.version import __version__
-from service_server import SlowModel, running_service
 
 ROOT = Path(__file__).resolve().parent.parent
 WORKED_CORPUS = ROOT / "tests" / "data" / "savings" / "worked-corpus.txt"

@@ -17,12 +17,12 @@ from pathlib import Path
 
 import httpx
 import pytest
+from service_server import running_service
 from websockets.asyncio.client import connect
 from websockets.exceptions import InvalidStatus
 
 import foretype
 from foretype.service import Limits
-from service_server import running_service
 
 ROOT = Path(__file__).resolve().parent.parent
 WORKED_CORPUS = ROOT / "tests" / "data" / "savings" / "worked-corpus.txt"
@@ -87,6 +87,15 @@ def test_bad_requests_get_a_json_4xx_and_the_service_goes_on(service, body, stat
     assert still_serving(service.url)
 
 
+@pytest.mark.parametrize(
+    "method, path, status, code",
+    [("GET", "/nowhere", 404, "not_found"), ("DELETE", "/api/suggest", 405, "method_not_allowed"), ("GET", "/api/session", 426, "websocket_only"), ("GET", "/api/models/nothing", 404, "unknown_model")],
+)
+def test_wrong_paths_and_methods_get_json_errors(service, method, path, status, code):
+    answer = httpx.request(method, f"{service.url}{path}")
+    assert answer.status_code == status and answer.json()["error"]["code"] == code
+
+
 def test_a_body_without_a_content_type_is_read_as_json(service):
     # curl -d sends form encoding and fetch(string) sends text/plain: both carry JSON here.
     for kind in ("application/x-www-form-urlencoded", "text/plain;charset=UTF-8"):
@@ -136,7 +145,7 @@ def test_the_services_own_origin_and_added_origins_are_accepted(service):
         answer = httpx.post(f"{service.url}/api/suggest", json={"text": "the "}, headers={"origin": origin})
         assert answer.status_code == 200, (origin, answer.text)
 
-        async def talk():
+        async def talk(origin=origin):
             async with connect(f"{service.ws_url}/api/session", origin=origin) as ws:
                 return json.loads(await ws.recv())["type"]
 

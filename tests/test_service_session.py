@@ -12,11 +12,11 @@ import json
 from pathlib import Path
 
 import pytest
+from service_server import SlowModel, running_service
 from websockets.asyncio.client import connect
 from websockets.exceptions import InvalidStatus
 
 import foretype
-from service_server import SlowModel, running_service
 
 ROOT = Path(__file__).resolve().parent.parent
 WORKED_CORPUS = ROOT / "tests" / "data" / "savings" / "worked-corpus.txt"

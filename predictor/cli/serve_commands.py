@@ -122,11 +122,25 @@ def open_socket(host: str, port: int) -> socket.socket:
     return listener
 
 
+def token_for(host: str, given: str | None) -> tuple[str | None, bool]:
+    """The token a service on ``host`` requires: the one given, else a new one off loopback, else none.
+
+    Returns:
+        (token or None, whether it was generated here).
+    """
+    from ..service.security import new_token
+    from ..service.settings import is_loopback
+
+    if given is not None:
+        return given, False
+    if is_loopback(host):
+        return None, False
+    return new_token(), True
+
+
 def run_serve(args: argparse.Namespace) -> int:
     """foretype serve."""
     from ..service import Limits, ServiceSettings, create_app
-    from ..service.security import new_token
-    from ..service.settings import is_loopback
 
     limits = Limits(
         max_body_bytes=args.max_body,
@@ -135,10 +149,7 @@ def run_serve(args: argparse.Namespace) -> int:
         max_k=args.max_k,
         max_connections=args.max_connections,
     )
-    token = args.token or os.environ.get("FORETYPE_TOKEN") or None
-    generated = False
-    if token is None and not is_loopback(args.host):
-        token, generated = new_token(), True
+    token, generated = token_for(args.host, args.token or os.environ.get("FORETYPE_TOKEN") or None)
     from ..browser import StudySettings, study_router
     from ..study import demo_phrases, read_phrases
 

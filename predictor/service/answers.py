@@ -17,8 +17,8 @@ import numpy as np
 from ..adapt import AdaptedModel
 from ..errors import OptionError
 from ..query.model import LanguageModel
-from ..text import iter_sentences
 from ..query.vocabulary import END
+from ..text import iter_sentences
 from .catalogue import ServedModel
 from .problems import ApiError
 from .settings import Limits
@@ -90,7 +90,7 @@ def suggest(
         found = source.suggest_text(before, k)
     adapted = source if isinstance(source, AdaptedModel) else None
     rows = [
-        {"word": s.word, "prob": s.prob, "order": s.order, "learned": bool(getattr(s, "learned", False)), "new_word": bool(getattr(s, "new_word", False))}
+        {"word": s.word, "prob": s.prob, "order": s.order, "learned": bool(s.learned), "new_word": bool(s.new_word)}
         for s in found
     ]
     return {

@@ -13,6 +13,7 @@ from __future__ import annotations
 import logging
 from collections.abc import AsyncIterator, Mapping, Sequence
 from contextlib import asynccontextmanager
+from typing import Any
 
 from fastapi import APIRouter, FastAPI, Request
 from fastapi.exceptions import RequestValidationError
@@ -103,9 +104,14 @@ def _add_error_handlers(app: FastAPI) -> None:
         return JSONResponse(error_body(code, message), status_code=status)
 
     @app.exception_handler(StarletteHTTPException)
-    async def http_error(_: Request, error: StarletteHTTPException) -> JSONResponse:
+    async def http_error(request: Request, error: StarletteHTTPException) -> JSONResponse:
         code = {404: "not_found", 405: "method_not_allowed"}.get(error.status_code, "http_error")
-        return JSONResponse(error_body(code, str(error.detail)), status_code=error.status_code, headers=getattr(error, "headers", None))
+        message = str(error.detail)
+        if error.status_code == 404:
+            message = f"no such path: {request.url.path} (the endpoints are listed at {OPENAPI_PATH})"
+        elif error.status_code == 405:
+            message = f"{request.method} is not allowed on {request.url.path} (see {OPENAPI_PATH})"
+        return JSONResponse(error_body(code, message), status_code=error.status_code, headers=getattr(error, "headers", None))
 
     @app.exception_handler(Exception)
     async def internal(_: Request, error: Exception) -> JSONResponse:
@@ -113,11 +119,11 @@ def _add_error_handlers(app: FastAPI) -> None:
         return JSONResponse(error_body("internal_error", f"the service failed: {type(error).__name__} (see its log)"), status_code=500)
 
 
-def describe_invalid(errors: Sequence[Mapping[str, object]]) -> tuple[int, str, str]:
+def describe_invalid(errors: Sequence[Mapping[str, Any]]) -> tuple[int, str, str]:
     """Turn the framework's validation errors into one (status, code, message) for the client."""
     first = errors[0] if errors else {"type": "", "loc": (), "msg": "invalid request"}
     kind = str(first.get("type", ""))
-    loc = [str(p) for p in first.get("loc", ()) if p != "body"]  # type: ignore[union-attr]
+    loc = [str(p) for p in first.get("loc", ()) if p != "body"]
     where = ".".join(loc) or "the body"
     if kind == "json_invalid":
         return 400, "bad_json", f"the body is not valid JSON ({first.get('msg')})"

@@ -54,25 +54,9 @@ class BodyLimit:
         if scope["type"] != "http" or scope["method"] in ("GET", "HEAD", "OPTIONS"):
             await self.app(scope, receive, send)
             return
-        declared = header(scope, b"content-length")
-        if declared is not None and declared.strip().isdigit() and int(declared) > self.limit:
-            await refuse(scope, receive, send, 413, "body_too_large", f"the request body has {int(declared):,} bytes; the limit is {self.limit:,}")
+        body = await self._read_body(scope, receive, send)
+        if body is None:
             return
-        chunks: list[bytes] = []
-        size = 0
-        while True:
-            message = await receive()
-            if message["type"] != "http.request":
-                return  # the client went away
-            chunk = message.get("body", b"")
-            size += len(chunk)
-            if size > self.limit:
-                await refuse(scope, receive, send, 413, "body_too_large", f"the request body has more than {self.limit:,} bytes, the limit")
-                return
-            chunks.append(chunk)
-            if not message.get("more_body", False):
-                break
-        body = b"".join(chunks)
         path = scope.get("path", "")
         ours = path.startswith(JSON_PATHS) and not path.startswith(FOREIGN_PATHS)
         if ours or _is_text(header(scope, b"content-type")):
@@ -94,6 +78,28 @@ class BodyLimit:
             return await receive()
 
         await self.app(scope, replay, send)
+
+
+    async def _read_body(self, scope: Scope, receive: Receive, send: Send) -> bytes | None:
+        """The whole body, or None once a refusal was sent (too large) or the client went away."""
+        declared = header(scope, b"content-length")
+        if declared is not None and declared.strip().isdigit() and int(declared) > self.limit:
+            await refuse(scope, receive, send, 413, "body_too_large", f"the request body has {int(declared):,} bytes; the limit is {self.limit:,}")
+            return None
+        chunks: list[bytes] = []
+        size = 0
+        while True:
+            message = await receive()
+            if message["type"] != "http.request":
+                return None  # the client went away
+            chunk = message.get("body", b"")
+            size += len(chunk)
+            if size > self.limit:
+                await refuse(scope, receive, send, 413, "body_too_large", f"the request body has more than {self.limit:,} bytes, the limit")
+                return None
+            chunks.append(chunk)
+            if not message.get("more_body", False):
+                return b"".join(chunks)
 
 
 def _is_text(content_type: str | None) -> bool:

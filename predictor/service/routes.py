@@ -1,7 +1,9 @@
 """The HTTP/JSON endpoints under ``/api`` (docs/service.md lists them with examples).
 
-Handlers are plain functions, so the framework runs them in worker threads
-and a slow request never holds up the event loop (health, WebSockets).
+Queries of a model alone answer on the event loop (they take tens of
+microseconds); anything that touches a profile's learned store runs in a
+worker thread (plain functions, or :meth:`ServiceState.answer`), so a store
+waiting for its lock or the disk never holds up other clients.
 """
 
 from __future__ import annotations
@@ -13,6 +15,7 @@ from fastapi.responses import JSONResponse
 
 from ..version import __version__
 from . import answers
+from .problems import ApiError
 from .schemas import (
     ErrorResponse,
     HealthResponse,
@@ -53,44 +56,39 @@ def _json(payload: dict[str, Any], status: int = 200) -> JSONResponse:
 
 
 @router.get("/health", response_model=HealthResponse, summary="the service is up; which models it serves")
-def health(request: Request) -> JSONResponse:
+async def health(request: Request) -> JSONResponse:
     catalogue = service_state(request).catalogue
     return _json({"status": "ok", "version": __version__, "models": catalogue.names, "default_model": catalogue.default})
 
 
 @router.get("/models", response_model=ModelsResponse, summary="facts about every served model")
-def models(request: Request) -> JSONResponse:
+async def models(request: Request) -> JSONResponse:
     catalogue = service_state(request).catalogue
     return _json({"default_model": catalogue.default, "models": [m.facts for m in catalogue.models.values()]})
 
 
 @router.get("/models/{name}", response_model=ModelFacts, summary="facts about one model (as foretype info --json)")
-def model_facts(name: str, request: Request) -> JSONResponse:
+async def model_facts(name: str, request: Request) -> JSONResponse:
     return _json(service_state(request).catalogue.get(name).facts)
 
 
 @router.post("/suggest", response_model=SuggestResponse, summary="exact top-k suggestions for the text before the cursor")
-def suggest(body: SuggestRequest, request: Request) -> JSONResponse:
+async def suggest(body: SuggestRequest, request: Request) -> JSONResponse:
     state = service_state(request)
     served = state.catalogue.get(body.model)
-    with state.source(served, body.profile) as source:
-        payload = engine_call(
-            answers.suggest, served, source, state.settings.limits,
-            text=body.text, context=body.context, prefix=body.prefix, k=body.k, profile=body.profile,
-        )
-    return _json(payload)
+    return _json(await state.answer(answers.suggest, served, body.profile, text=body.text, context=body.context, prefix=body.prefix, k=body.k))
 
 
 @router.post("/probability", response_model=WordProbability | SentenceProbability, summary="probability of a word after a context, or of one sentence")
-def probability(body: ProbabilityRequest, request: Request) -> JSONResponse:
+async def probability(body: ProbabilityRequest, request: Request) -> JSONResponse:
     state = service_state(request)
     served = state.catalogue.get(body.model)
-    with state.source(served, body.profile) as source:
-        payload = engine_call(
-            answers.probability, served, source, state.settings.limits,
-            word=body.word, context=body.context, sentence=body.sentence, profile=body.profile,
-        )
-    return _json(payload)
+    return _json(await state.answer(answers.probability, served, body.profile, word=body.word, context=body.context, sentence=body.sentence))
+
+
+@router.get("/session", include_in_schema=False)
+async def session_over_http() -> JSONResponse:
+    raise ApiError(426, "websocket_only", "/api/session is a WebSocket: connect with ws://HOST:PORT/api/session (docs/service.md)")
 
 
 @router.get("/profiles", response_model=ProfilesResponse, summary="the profiles in the profiles folder")

@@ -204,7 +204,7 @@ class Session:
             if request is None:
                 continue
             try:
-                payload = await run_in_threadpool(self.suggest, request)
+                payload = await self.suggest(request)
                 reply = {"type": "suggestions", "seq": request["seq"], "dropped": dropped, **payload}
             except ApiError as error:
                 reply = {"type": "error", "seq": request["seq"], "code": error.code, "message": error.message}
@@ -213,14 +213,10 @@ class Session:
                 reply = {"type": "error", "seq": request["seq"], "code": "internal_error", "message": "the service failed to answer (see its log)"}
             await self.send(reply)
 
-    def suggest(self, request: dict[str, Any]) -> dict[str, Any]:
-        """Answer one suggest message (in a worker thread)."""
+    async def suggest(self, request: dict[str, Any]) -> dict[str, Any]:
+        """Answer one suggest message (see :meth:`ServiceState.answer` for where it runs)."""
         options = self.options
-        with self.state.source(options.served, options.profile) as source:
-            return engine_call(
-                answers.suggest, options.served, source, self.limits,
-                text=request.get("text", ""), k=request.get("k", options.k), profile=options.profile,
-            )
+        return await self.state.answer(answers.suggest, options.served, options.profile, text=request.get("text", ""), k=request.get("k", options.k))
 
     def learn(self, request: dict[str, Any]) -> dict[str, Any]:
         """Apply one learn message (in a worker thread)."""

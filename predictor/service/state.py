@@ -7,6 +7,7 @@ from contextlib import contextmanager
 from dataclasses import dataclass
 from typing import Any
 
+from starlette.concurrency import run_in_threadpool
 from starlette.requests import HTTPConnection
 
 from ..adapt import AdaptedModel
@@ -34,6 +35,22 @@ class ServiceState:
             return
         with self.profiles.store(profile, served) as learned:
             yield learned.model
+
+    async def answer(self, function: Any, served: ServedModel, profile: str | None, **kwargs: Any) -> dict[str, Any]:
+        """``function(served, source, limits, profile=..., **kwargs)`` with engine errors as :class:`ApiError`.
+
+        A model alone answers on the event loop: a query takes tens of
+        microseconds, less than a hand-off to a worker thread.  A profile's
+        store may wait for its lock or the disk, so it answers in a worker thread.
+        """
+        if profile is None:
+            return engine_call(function, served, served.model, self.settings.limits, profile=None, **kwargs)
+
+        def with_store() -> dict[str, Any]:
+            with self.source(served, profile) as source:
+                return engine_call(function, served, source, self.settings.limits, profile=profile, **kwargs)
+
+        return await run_in_threadpool(with_store)
 
 
 def service_state(connection: HTTPConnection) -> ServiceState:
