@@ -82,7 +82,7 @@ def _problem(status: int, code: str, message: str) -> JSONResponse:
 
 
 def _static(name: str) -> bytes:
-    return resources.files(__package__).joinpath("static", name).read_bytes()
+    return resources.files(__package__).joinpath("static").joinpath(name).read_bytes()
 
 
 async def _json_object(request: Request) -> dict[str, Any] | JSONResponse:
@@ -98,6 +98,46 @@ async def _json_object(request: Request) -> dict[str, Any] | JSONResponse:
     return body
 
 
+def _session_choice(body: dict[str, Any], settings: StudySettings) -> tuple[str, int, str, str, Path] | JSONResponse:
+    """Validate a session start: (profile, k, placement, layout, log folder), or the error to answer."""
+    extra = sorted(set(body) - {"profile", "k", "placement", "layout"})
+    if extra:
+        return _problem(422, "unknown_field", f"unknown field {extra[0]!r}")
+    profile = body.get("profile", "pilot")
+    if not isinstance(profile, str) or not PROFILE_NAME.match(profile):
+        return _problem(422, "bad_profile_name", "a profile name is 1 to 64 letters, digits, '-' or '_', starting with a letter or digit")
+    k = body.get("k", settings.k)
+    if isinstance(k, bool) or not isinstance(k, int) or not 1 <= k <= 9:
+        return _problem(422, "bad_k", "k must be a whole number from 1 to 9")
+    placement = body.get("placement", "left")
+    layout = body.get("layout", "alphabetic")
+    if placement not in PLACEMENTS or layout not in LAYOUTS:
+        return _problem(422, "bad_field", f"placement is one of {', '.join(PLACEMENTS)}; layout one of {', '.join(LAYOUTS)}")
+    root = settings.profiles_dir.resolve()
+    folder = (root / profile / "study").resolve()
+    if root not in folder.parents:
+        return _problem(422, "bad_profile_name", "the profile name leaves the profiles folder")
+    return profile, k, placement, layout, folder
+
+
+def _checked_batch(body: dict[str, Any]) -> list[dict[str, Any]] | JSONResponse:
+    """Validate a batch of events whole: the events in order, or the error to answer."""
+    if set(body) != {"events"} or not isinstance(body["events"], list):
+        return _problem(422, "bad_field", 'the body is {"events": [EVENT, ...]}')
+    events = body["events"]
+    if len(events) > MAX_EVENTS_PER_BATCH:
+        return _problem(413, "too_many_events", f"at most {MAX_EVENTS_PER_BATCH} events per request")
+    checked = []
+    for number, event in enumerate(events, start=1):
+        if not isinstance(event, dict):
+            return _problem(422, "bad_event", f"event {number} is not an object")
+        try:
+            checked.append(check_event(event))
+        except ValueError as error:
+            return _problem(422, "bad_event", f"event {number}: {error}")
+    return checked
+
+
 def study_router(settings: StudySettings) -> APIRouter:
     """Build the router for ``/`` and ``/api/study/...``.
 
@@ -107,15 +147,30 @@ def study_router(settings: StudySettings) -> APIRouter:
     Returns:
         A FastAPI router for ``create_app(..., routers=[...])``.
     """
+    routes = _StudyRoutes(settings)
     router = APIRouter()
-    sessions: dict[str, _Session] = {}
-    sessions_lock = threading.Lock()
-    page = _static("index.html")
-    assets = {name: _static(name) for name in ASSETS}
+    router.add_api_route("/", routes.keyboard_page, methods=["GET"], include_in_schema=False)
+    router.add_api_route("/api/study/assets/{name}", routes.asset, methods=["GET"], include_in_schema=False)
+    router.add_api_route("/api/study/config", routes.config, methods=["GET"])
+    router.add_api_route("/api/study/sessions", routes.start_session, methods=["POST"], status_code=201)
+    router.add_api_route("/api/study/sessions/{session}/events", routes.append_events, methods=["POST"])
+    router.add_api_route("/api/study/sessions/{session}/report", routes.report, methods=["GET"])
+    return router
 
-    @router.get("/", include_in_schema=False)
-    def keyboard_page(request: Request) -> Response:
-        body = page
+
+class _StudyRoutes:
+    """The handlers, sharing the settings, the page's files and the open sessions."""
+
+    def __init__(self, settings: StudySettings) -> None:
+        self.settings = settings
+        self.sessions: dict[str, _Session] = {}
+        self.lock = threading.Lock()
+        self.page = _static("index.html")
+        self.assets = {name: _static(name) for name in ASSETS}
+
+    def keyboard_page(self, request: Request) -> Response:
+        """The keyboard page."""
+        body = self.page
         token = request.query_params.get("token")
         if token:
             # A service that requires its token was opened as /?token=TOKEN: the page's own files need it too.
@@ -124,15 +179,15 @@ def study_router(settings: StudySettings) -> APIRouter:
                 body = body.replace(f"/api/study/assets/{name}".encode("ascii"), f"/api/study/assets/{name}".encode("ascii") + suffix)
         return HTMLResponse(body, headers={"Cache-Control": "no-store"})
 
-    @router.get("/api/study/assets/{name}", include_in_schema=False)
-    def asset(name: str) -> Response:
-        if name not in assets:
+    def asset(self, name: str) -> Response:
+        """The page's stylesheet or script."""
+        if name not in self.assets:
             return _problem(404, "not_found", f"no asset named {name!r}")
-        return Response(assets[name], media_type=ASSETS[name], headers={"Cache-Control": "no-store"})
+        return Response(self.assets[name], media_type=ASSETS[name], headers={"Cache-Control": "no-store"})
 
-    @router.get("/api/study/config")
-    def config() -> dict[str, Any]:
+    def config(self) -> dict[str, Any]:
         """The page's starting point: model, WebSocket path, default k, and how many phrases the copy task has."""
+        settings = self.settings
         return {
             "model": settings.model,
             "websocket": settings.websocket,
@@ -143,30 +198,16 @@ def study_router(settings: StudySettings) -> APIRouter:
             "layouts": list(LAYOUTS),
         }
 
-    @router.post("/api/study/sessions", status_code=201)
-    async def start_session(request: Request) -> Any:
+    async def start_session(self, request: Request) -> Any:
         """Start a copy-task session for a profile: its log is created and the phrases are returned."""
+        settings = self.settings
         body = await _json_object(request)
         if isinstance(body, JSONResponse):
             return body
-        allowed = {"profile", "k", "placement", "layout"}
-        extra = sorted(set(body) - allowed)
-        if extra:
-            return _problem(422, "unknown_field", f"unknown field {extra[0]!r}")
-        profile = body.get("profile", "pilot")
-        if not isinstance(profile, str) or not PROFILE_NAME.match(profile):
-            return _problem(422, "bad_profile_name", "a profile name is 1 to 64 letters, digits, '-' or '_', starting with a letter or digit")
-        k = body.get("k", settings.k)
-        if isinstance(k, bool) or not isinstance(k, int) or not 1 <= k <= 9:
-            return _problem(422, "bad_k", "k must be a whole number from 1 to 9")
-        placement = body.get("placement", "left")
-        layout = body.get("layout", "alphabetic")
-        if placement not in PLACEMENTS or layout not in LAYOUTS:
-            return _problem(422, "bad_field", f"placement is one of {', '.join(PLACEMENTS)}; layout one of {', '.join(LAYOUTS)}")
-        root = settings.profiles_dir.resolve()
-        folder = (root / profile / "study").resolve()
-        if root not in folder.parents:
-            return _problem(422, "bad_profile_name", "the profile name leaves the profiles folder")
+        choice = _session_choice(body, settings)
+        if isinstance(choice, JSONResponse):
+            return choice
+        profile, k, placement, layout, folder = choice
         folder.mkdir(parents=True, exist_ok=True)
         started = datetime.now(timezone.utc)
         session = f"{started:%Y%m%d-%H%M%S}-{secrets.token_hex(3)}"
@@ -183,44 +224,32 @@ def study_router(settings: StudySettings) -> APIRouter:
             "phrase_source": settings.phrase_source,
         }
         writer = SessionLogWriter(path, header)
-        with sessions_lock:
-            sessions[session] = _Session(writer, path)
+        with self.lock:
+            self.sessions[session] = _Session(writer, path)
         return {"session": session, "phrases": list(settings.phrases), "log": f"{profile}/study/{session}.jsonl"}
 
-    def _find(session: str) -> _Session | None:
-        with sessions_lock:
-            return sessions.get(session)
+    def _find(self, session: str) -> _Session | None:
+        with self.lock:
+            return self.sessions.get(session)
 
-    @router.post("/api/study/sessions/{session}/events")
-    async def append_events(session: str, request: Request) -> Any:
+    async def append_events(self, session: str, request: Request) -> Any:
         """Append a batch of events (``{"events": [...]}``) to a session's log, each as one line."""
-        found = _find(session)
+        found = self._find(session)
         if found is None:
             return _problem(404, "unknown_session", f"no session {session!r} is open on this service")
         body = await _json_object(request)
         if isinstance(body, JSONResponse):
             return body
-        if set(body) != {"events"} or not isinstance(body["events"], list):
-            return _problem(422, "bad_field", 'the body is {"events": [EVENT, ...]}')
-        events = body["events"]
-        if len(events) > MAX_EVENTS_PER_BATCH:
-            return _problem(413, "too_many_events", f"at most {MAX_EVENTS_PER_BATCH} events per request")
-        checked = []
-        for number, event in enumerate(events, start=1):
-            if not isinstance(event, dict):
-                return _problem(422, "bad_event", f"event {number} is not an object")
-            try:
-                checked.append(check_event(event))
-            except ValueError as error:
-                return _problem(422, "bad_event", f"event {number}: {error}")
+        checked = _checked_batch(body)
+        if isinstance(checked, JSONResponse):
+            return checked
         with found.lock:
             found.writer.write_many(checked)
         return {"written": len(checked)}
 
-    @router.get("/api/study/sessions/{session}/report")
-    def report(session: str) -> Any:
+    def report(self, session: str) -> Any:
         """The session's measures as ``foretype study report --json`` gives them for its log."""
-        found = _find(session)
+        found = self._find(session)
         if found is None:
             return _problem(404, "unknown_session", f"no session {session!r} is open on this service")
         try:
@@ -231,5 +260,3 @@ def study_router(settings: StudySettings) -> APIRouter:
         data = measured.to_json()
         data["log"] = found.path.name
         return data
-
-    return router

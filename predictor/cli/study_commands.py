@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+from typing import BinaryIO
 
 from ..errors import OptionError
 from .output import add_json_option, open_model, print_json, progress_bar
@@ -79,10 +80,13 @@ def run_study_report(args: argparse.Namespace) -> int:
 
 
 def _write_chart(path: str, svg: str) -> None:
-    from ..modelfile.atomic import replace_atomically
     from ..errors import OutputError
+    from ..modelfile.atomic import replace_atomically
+
+    def write(handle: BinaryIO) -> None:
+        handle.write(svg.encode("utf-8"))
 
     try:
-        replace_atomically(path, lambda handle: handle.write(svg.encode("utf-8")))
+        replace_atomically(path, write)
     except OSError as error:
         raise OutputError(f"{path}: cannot write the chart ({error.strerror or error})") from None

@@ -11,7 +11,7 @@ Plain SVG 1.1, no scripts.
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from xml.sax.saxutils import escape
 
 from ..chart import COLOURS, LEFT, RIGHT, WIDTH, _nice_step
@@ -54,72 +54,93 @@ def entry_rate_chart(reports: Sequence[SessionReport], title: str = "Entry rate 
         parts.append(f'<text x="{LEFT + plot_w / 2}" y="{TOP + PANEL / 2}" text-anchor="middle" fill="#777777">no phrase with an entry rate yet</text>')
         parts.append("</svg>")
         return "\n".join(parts) + "\n"
+    axis = _Axis(count, plot_w)
+    lo, hi, step = _ticks(0.0, max(rates) * 1.1)
+    parts += axis.frame(TOP, lo, hi, step, "", "words per minute")
+    for number, report in enumerate(reports):
+        parts += _rate_lines(report, number, axis, lambda value: TOP + PANEL - (value - lo) / (hi - lo) * PANEL)
+    if simulated:
+        parts += _savings_panel(reports, axis, TOP + PANEL + GAP)
+    parts.append("</svg>")
+    return "\n".join(parts) + "\n"
 
-    def x_of(index: int) -> float:
-        return LEFT + (index + 0.5) / count * plot_w
 
-    def frame(top: float, lo: float, hi: float, step: float, unit: str, label: str) -> None:
+class _Axis:
+    """The phrase axis shared by both panels."""
+
+    def __init__(self, count: int, plot_w: float) -> None:
+        self.count = count
+        self.plot_w = plot_w
+
+    def x(self, index: int) -> float:
+        return LEFT + (index + 0.5) / self.count * self.plot_w
+
+    def frame(self, top: float, lo: float, hi: float, step: float, unit: str, label: str) -> list[str]:
+        """Grid, value labels, the phrase ticks and the axis titles of one panel."""
+        parts = []
         value = lo
         while value <= hi + 1e-9:
             y = top + PANEL - (value - lo) / (hi - lo) * PANEL
-            parts.append(f'<line x1="{LEFT}" y1="{y:.1f}" x2="{LEFT + plot_w}" y2="{y:.1f}" stroke="#e5e5e5"/>')
+            parts.append(f'<line x1="{LEFT}" y1="{y:.1f}" x2="{LEFT + self.plot_w}" y2="{y:.1f}" stroke="#e5e5e5"/>')
             parts.append(f'<text x="{LEFT - 8}" y="{y + 4:.1f}" text-anchor="end">{value:g}{unit}</text>')
             value += step
-        parts.append(f'<rect x="{LEFT}" y="{top}" width="{plot_w}" height="{PANEL}" fill="none" stroke="#888888"/>')
-        every = max(1, math.ceil(count / 20))
-        for index in range(count):
-            x = x_of(index)
+        parts.append(f'<rect x="{LEFT}" y="{top}" width="{self.plot_w}" height="{PANEL}" fill="none" stroke="#888888"/>')
+        every = max(1, math.ceil(self.count / 20))
+        for index in range(self.count):
+            x = self.x(index)
             parts.append(f'<line x1="{x:.1f}" y1="{top + PANEL}" x2="{x:.1f}" y2="{top + PANEL + 5}" stroke="#888888"/>')
             if index % every == 0:
                 parts.append(f'<text x="{x:.1f}" y="{top + PANEL + 19}" text-anchor="middle">{index + 1}</text>')
         parts.append(f'<text x="18" y="{top + PANEL / 2}" text-anchor="middle" transform="rotate(-90 18 {top + PANEL / 2})">{escape(label)}</text>')
-        parts.append(f'<text x="{LEFT + plot_w / 2}" y="{top + PANEL + 38}" text-anchor="middle">phrase</text>')
+        parts.append(f'<text x="{LEFT + self.plot_w / 2}" y="{top + PANEL + 38}" text-anchor="middle">phrase</text>')
+        return parts
 
-    lo, hi, step = _ticks(0.0, max(rates) * 1.1)
-    frame(TOP, lo, hi, step, "", "words per minute")
 
-    def y_rate(value: float) -> float:
-        return TOP + PANEL - (value - lo) / (hi - lo) * PANEL
+def _points(pairs: list[tuple[float, float]], colour: str, *, dashed: bool = False) -> list[str]:
+    if not pairs:
+        return []
+    path = " ".join(f"{x:.1f},{y:.1f}" for x, y in pairs)
+    if dashed:
+        marks = [f'<rect x="{x - 2.5:.1f}" y="{y - 2.5:.1f}" width="5" height="5" fill="{colour}"/>' for x, y in pairs]
+        return [f'<polyline points="{path}" fill="none" stroke="{colour}" stroke-width="1.5" stroke-dasharray="7 4"/>', *marks]
+    marks = [f'<circle cx="{x:.1f}" cy="{y:.1f}" r="3" fill="{colour}"/>' for x, y in pairs]
+    return [f'<polyline points="{path}" fill="none" stroke="{colour}" stroke-width="2"/>', *marks]
+
+
+def _rate_lines(report: SessionReport, number: int, axis: _Axis, y_rate: Callable[[float], float]) -> list[str]:
+    """One session's entry-rate line, its mean, hollow markers for phrases cut short, and its legend entry."""
+    colour = COLOURS[number % len(COLOURS)]
+    parts = _points([(axis.x(i), y_rate(m.wpm)) for i, m in enumerate(report.phrases) if m.wpm is not None and m.complete], colour)
+    parts += [
+        f'<circle cx="{axis.x(i):.1f}" cy="{TOP + PANEL:.1f}" r="4" fill="#ffffff" stroke="{colour}" stroke-width="1.5"/>'
+        for i, m in enumerate(report.phrases)
+        if not m.complete
+    ]
+    if report.session.wpm is not None:
+        y = y_rate(report.session.wpm)
+        parts.append(f'<line x1="{LEFT}" y1="{y:.1f}" x2="{LEFT + axis.plot_w}" y2="{y:.1f}" stroke="{colour}" stroke-width="1" stroke-dasharray="2 3"/>')
+    legend_y = TOP + 16 + 16 * number
+    name = str(report.log.header.get("session") or report.log.path.name)
+    mean = "" if report.session.wpm is None else f" (mean {report.session.wpm:.1f} WPM)"
+    parts.append(f'<line x1="{LEFT + 12}" y1="{legend_y - 4}" x2="{LEFT + 36}" y2="{legend_y - 4}" stroke="{colour}" stroke-width="2"/>')
+    parts.append(f'<text x="{LEFT + 42}" y="{legend_y}">{escape(name + mean)}</text>')
+    return parts
+
+
+def _savings_panel(reports: Sequence[SessionReport], axis: _Axis, top: float) -> list[str]:
+    """The second panel: measured keystroke savings per phrase (solid) beside the simulated typist's (dashed)."""
+    savings = [100 * m.ksr for r in reports for m in r.phrases if m.ksr is not None and m.complete]
+    savings += [100 * s.ksr for r in reports for s in (r.simulated or [])]
+    lo, hi, step = _ticks(min(0.0, min(savings)), max(savings) * 1.1 if max(savings) > 0 else 10.0)
+    parts = [f'<text x="{LEFT}" y="{top - 14}" fill="#555555">keystroke savings per phrase: solid, measured; dashed, the simulated typist of foretype savings</text>']
+    parts += axis.frame(top, lo, hi, step, "%", "keystroke savings")
+
+    def y_of(value: float) -> float:
+        return top + PANEL - (100 * value - lo) / (hi - lo) * PANEL
 
     for number, report in enumerate(reports):
         colour = COLOURS[number % len(COLOURS)]
-        points = [(x_of(i), y_rate(m.wpm)) for i, m in enumerate(report.phrases) if m.wpm is not None and m.complete]
-        if points:
-            path = " ".join(f"{x:.1f},{y:.1f}" for x, y in points)
-            parts.append(f'<polyline points="{path}" fill="none" stroke="{colour}" stroke-width="2"/>')
-            parts.extend(f'<circle cx="{x:.1f}" cy="{y:.1f}" r="3" fill="{colour}"/>' for x, y in points)
-        for i, m in enumerate(report.phrases):
-            if not m.complete:
-                parts.append(f'<circle cx="{x_of(i):.1f}" cy="{TOP + PANEL:.1f}" r="4" fill="#ffffff" stroke="{colour}" stroke-width="1.5"/>')
-        if report.session.wpm is not None:
-            y = y_rate(report.session.wpm)
-            parts.append(f'<line x1="{LEFT}" y1="{y:.1f}" x2="{LEFT + plot_w}" y2="{y:.1f}" stroke="{colour}" stroke-width="1" stroke-dasharray="2 3"/>')
-        legend_y = TOP + 16 + 16 * number
-        name = str(report.log.header.get("session") or report.log.path.name)
-        mean = "" if report.session.wpm is None else f" (mean {report.session.wpm:.1f} WPM)"
-        parts.append(f'<line x1="{LEFT + 12}" y1="{legend_y - 4}" x2="{LEFT + 36}" y2="{legend_y - 4}" stroke="{colour}" stroke-width="2"/>')
-        parts.append(f'<text x="{LEFT + 42}" y="{legend_y}">{escape(name + mean)}</text>')
-
-    if simulated:
-        top = TOP + PANEL + GAP
-        savings = [100 * m.ksr for r in reports for m in r.phrases if m.ksr is not None and m.complete]
-        savings += [100 * s.ksr for r in reports for s in (r.simulated or [])]
-        lo2, hi2, step2 = _ticks(min(0.0, min(savings)), max(savings) * 1.1 if max(savings) > 0 else 10.0)
-        parts.append(f'<text x="{LEFT}" y="{top - 14}" fill="#555555">keystroke savings per phrase: solid, measured; dashed, the simulated typist of foretype savings</text>')
-        frame(top, lo2, hi2, step2, "%", "keystroke savings")
-
-        def y_ksr(value: float) -> float:
-            return top + PANEL - (100 * value - lo2) / (hi2 - lo2) * PANEL
-
-        for number, report in enumerate(reports):
-            colour = COLOURS[number % len(COLOURS)]
-            measured = [(x_of(i), y_ksr(m.ksr)) for i, m in enumerate(report.phrases) if m.ksr is not None and m.complete]
-            if measured:
-                parts.append(f'<polyline points="{" ".join(f"{x:.1f},{y:.1f}" for x, y in measured)}" fill="none" stroke="{colour}" stroke-width="2"/>')
-                parts.extend(f'<circle cx="{x:.1f}" cy="{y:.1f}" r="3" fill="{colour}"/>' for x, y in measured)
-            if report.simulated is not None:
-                sim = [(x_of(i), y_ksr(s.ksr)) for i, s in enumerate(report.simulated)]
-                parts.append(f'<polyline points="{" ".join(f"{x:.1f},{y:.1f}" for x, y in sim)}" fill="none" stroke="{colour}" stroke-width="1.5" stroke-dasharray="7 4"/>')
-                parts.extend(f'<rect x="{x - 2.5:.1f}" y="{y - 2.5:.1f}" width="5" height="5" fill="{colour}"/>' for x, y in sim)
-    parts.append("</svg>")
-    return "\n".join(parts) + "\n"
+        parts += _points([(axis.x(i), y_of(m.ksr)) for i, m in enumerate(report.phrases) if m.ksr is not None and m.complete], colour)
+        if report.simulated is not None:
+            parts += _points([(axis.x(i), y_of(s.ksr)) for i, s in enumerate(report.simulated)], colour, dashed=True)
+    return parts

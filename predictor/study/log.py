@@ -221,18 +221,25 @@ def read_session_log(path: str | Path) -> SessionLog:
             is not a valid event.
     """
     path = Path(path)
+    events, torn = _read_events(path)
+    header = events[0]
+    if header.get("kind") != "session_start" or header.get("format") != LOG_FORMAT:
+        raise SessionLogError(f"{path}: not a session log (its first line is not a session header)")
+    if header.get("version") != LOG_VERSION:
+        raise SessionLogError(f"{path}: session log version {header.get('version')!r}; this foretype reads version {LOG_VERSION}")
+    phrases, ended = _group_phrases(events[1:])
+    return SessionLog(path=path, header=header, phrases=phrases, torn_last_line=torn, ended=ended)
+
+
+def _read_events(path: Path) -> tuple[list[dict[str, Any]], bool]:
+    """Every complete line as an object (events after the first validated), and whether a torn last line was dropped."""
     try:
         data = path.read_bytes()
     except OSError as error:
         raise SessionLogError(f"{path}: cannot read the session log ({error.strerror or error})") from None
-    torn = False
     lines = data.split(b"\n")
-    if lines and lines[-1] == b"":
-        lines.pop()
-    elif lines:
-        # No final newline: the last line was being written when the writer stopped.
-        lines.pop()
-        torn = True
+    # The last piece is empty after a final newline; anything else was being written when the writer stopped.
+    torn = lines.pop() != b""
     if not lines:
         raise SessionLogError(f"{path}: not a session log (no complete first line)")
     events: list[dict[str, Any]] = []
@@ -241,32 +248,30 @@ def read_session_log(path: str | Path) -> SessionLog:
             event = json.loads(raw.decode("utf-8"))
             if not isinstance(event, dict):
                 raise ValueError("not an object")
-            if number > 1:
-                event = check_event(event)
+            events.append(check_event(event) if number > 1 else event)
         except (ValueError, UnicodeDecodeError) as error:
             raise SessionLogError(f"{path}: line {number} is not a valid event ({error})") from None
-        events.append(event)
-    header = events[0]
-    if header.get("kind") != "session_start" or header.get("format") != LOG_FORMAT:
-        raise SessionLogError(f"{path}: not a session log (its first line is not a session header)")
-    if header.get("version") != LOG_VERSION:
-        raise SessionLogError(f"{path}: session log version {header.get('version')!r}; this foretype reads version {LOG_VERSION}")
+    return events, torn
+
+
+def _group_phrases(events: list[dict[str, Any]]) -> tuple[list[PhraseLog], bool]:
+    """Split a session's events into phrases; also tell whether the session was ended."""
     phrases: list[PhraseLog] = []
     current: PhraseLog | None = None
     ended = False
-    for event in events[1:]:
+    for event in events:
         kind = event["kind"]
         if kind == "phrase_start":
             current = PhraseLog(index=event["phrase"], target=event["target"], start_ms=float(event["t"]))
             phrases.append(current)
-        elif kind == "phrase_end":
-            if current is not None and current.index == event["phrase"]:
-                current.transcribed = event["text"]
-                current.end_ms = float(event["t"])
-            current = None
-        elif kind == "session_end":
-            ended = True
-            current = None
-        elif current is not None:
-            current.events.append(event)
-    return SessionLog(path=path, header=header, phrases=phrases, torn_last_line=torn, ended=ended)
+            continue
+        if kind == "phrase_end" and current is not None and current.index == event["phrase"]:
+            current.transcribed = event["text"]
+            current.end_ms = float(event["t"])
+        elif kind not in ("phrase_end", "session_end"):
+            if current is not None:
+                current.events.append(event)
+            continue
+        ended = ended or kind == "session_end"
+        current = None
+    return phrases, ended

@@ -10,7 +10,7 @@ from typing import TYPE_CHECKING, Any
 from ..errors import CorpusError
 from ..simulate import TypistSettings, simulate
 from .log import SessionLog, read_session_log
-from .measures import PhraseMeasures, SessionMeasures, measure_phrase, pool_phrases
+from .measures import ErrorCounts, PhraseMeasures, SessionMeasures, measure_phrase, pool_phrases
 
 if TYPE_CHECKING:
     from ..query.model import LanguageModel
@@ -144,6 +144,38 @@ def _number(value: float | None, digits: int = 2) -> str:
     return "—" if value is None else f"{value:.{digits}f}"
 
 
+COLUMNS = ("phrase", "chars", "keys", "taken", "seconds", "WPM", "KSPC", "KSR", "MSD ER", "total ER", "corrected", "uncorrected")
+"""The text report's columns (``simulated KSR`` is added with a comparison)."""
+
+
+def _row(label: str, m: PhraseMeasures | SessionMeasures, errors: ErrorCounts | None) -> list[str]:
+    rates = (None, None, None, None) if errors is None else (
+        errors.msd_error_rate,
+        errors.total_error_rate,
+        errors.corrected_error_rate,
+        errors.uncorrected_error_rate,
+    )
+    return [label, f"{m.characters}", f"{m.keystrokes}", f"{m.taken}", f"{m.seconds:.1f}", _number(m.wpm, 1), _number(m.kspc), _percent(m.ksr)] + [
+        _percent(rate) for rate in rates
+    ]
+
+
+def _notes(report: SessionReport) -> list[str]:
+    notes = [f"{report.session.phrases} of {len(report.phrases)} phrases submitted; session WPM is the mean of the phrases', the other ratios pool them."]
+    notes += [
+        f"phrase {m.index + 1} was cut short: the log ends before it was submitted (left out of the session figures)."
+        for m in report.phrases
+        if not m.complete
+    ]
+    if report.log.torn_last_line:
+        notes.append("the log's last line was incomplete (the writer stopped while writing it) and was left out.")
+    if not report.log.ended:
+        notes.append("the session has no end mark: the page was closed or the server stopped before the last phrase.")
+    if report.simulated is not None:
+        notes.append("simulated KSR: foretype savings' typist on the same phrases with the same k; it never errs and takes every right word at once.")
+    return notes
+
+
 def format_session(report: SessionReport) -> str:
     """The report as text: a header, one row per phrase, the session's totals and what was cut short."""
     header = report.log.header
@@ -153,63 +185,19 @@ def format_session(report: SessionReport) -> str:
         f"suggestions {header.get('placement', '?')}",
     ]
     simulated = report.simulated
-    columns = ["phrase", "chars", "keys", "taken", "seconds", "WPM", "KSPC", "KSR", "MSD ER", "total ER", "corrected", "uncorrected"]
-    if simulated is not None:
-        columns.append("simulated KSR")
-    rows = [columns]
+    rows = [list(COLUMNS) + (["simulated KSR"] if simulated is not None else [])]
     for i, m in enumerate(report.phrases):
-        row = [
-            f"{m.index + 1}" + ("" if m.complete else " (cut short)"),
-            f"{m.characters}",
-            f"{m.keystrokes}",
-            f"{m.taken}",
-            f"{m.seconds:.1f}",
-            _number(m.wpm, 1),
-            _number(m.kspc),
-            _percent(m.ksr),
-        ]
         # Against the whole target, a phrase cut short would read as mostly errors: its rates are left blank.
-        errors = m.errors if m.complete else None
-        row += [_percent(errors.msd_error_rate if errors else None), _percent(errors.total_error_rate if errors else None)]
-        row += [_percent(errors.corrected_error_rate if errors else None), _percent(errors.uncorrected_error_rate if errors else None)]
-        if simulated is not None:
-            row.append(_percent(simulated[i].ksr))
-        rows.append(row)
-    s = report.session
-    total = [
-        "session",
-        f"{s.characters}",
-        f"{s.keystrokes}",
-        f"{s.taken}",
-        f"{s.seconds:.1f}",
-        _number(s.wpm, 1),
-        _number(s.kspc),
-        _percent(s.ksr),
-        _percent(s.errors.msd_error_rate),
-        _percent(s.errors.total_error_rate),
-        _percent(s.errors.corrected_error_rate),
-        _percent(s.errors.uncorrected_error_rate),
-    ]
-    if simulated is not None:
-        total.append(_percent(report.simulated_ksr))
-    rows.append(total)
-    widths = [max(len(r[c]) for r in rows) for c in range(len(columns))]
+        label = f"{m.index + 1}" + ("" if m.complete else " (cut short)")
+        rows.append(_row(label, m, m.errors if m.complete else None) + ([_percent(simulated[i].ksr)] if simulated is not None else []))
+    rows.append(_row("session", report.session, report.session.errors) + ([_percent(report.simulated_ksr)] if simulated is not None else []))
+    widths = [max(len(r[c]) for r in rows) for c in range(len(rows[0]))]
     for number, row in enumerate(rows):
         cells = [row[0].ljust(widths[0])] + [cell.rjust(width) for cell, width in zip(row[1:], widths[1:])]
         lines.append("  ".join(cells).rstrip())
         if number == 0 or number == len(rows) - 2:
             lines.append("  ".join("-" * w for w in widths))
-    lines.append(f"{s.phrases} of {len(report.phrases)} phrases submitted; session WPM is the mean of the phrases', the other ratios pool them.")
-    for m in report.phrases:
-        if not m.complete:
-            lines.append(f"phrase {m.index + 1} was cut short: the log ends before it was submitted (left out of the session figures).")
-    if report.log.torn_last_line:
-        lines.append("the log's last line was incomplete (the writer stopped while writing it) and was left out.")
-    if not report.log.ended:
-        lines.append("the session has no end mark: the page was closed or the server stopped before the last phrase.")
-    if simulated is not None:
-        lines.append("simulated KSR: foretype savings' typist on the same phrases with the same k; it never errs and takes every right word at once.")
-    return "\n".join(lines)
+    return "\n".join(lines + _notes(report))
 
 
 def format_reports(reports: Sequence[SessionReport]) -> str:
