@@ -94,20 +94,13 @@ def test_ctrl_c_exits_130(model_path, tmp_path):
     assert "Traceback" not in err
 
 
-def test_a_given_token_is_required(model_path, tmp_path):
-    process, url = start(model_path, "--profiles", tmp_path, "--token", "t0ken")
+def test_two_models_by_name_behind_a_given_token(model_path, tmp_path):
+    process, url = start(f"a={model_path}", f"b={model_path}", "--profiles", tmp_path, "--token", "t0ken")
     try:
         assert httpx.get(f"{url}/api/health").status_code == 401
-        assert httpx.get(f"{url}/api/health", headers={"authorization": "Bearer t0ken"}).status_code == 200
-    finally:
-        stop(process, signal.SIGTERM)
-
-
-def test_two_models_served_by_name(model_path, tmp_path):
-    process, url = start(f"a={model_path}", f"b={model_path}", "--profiles", tmp_path)
-    try:
-        assert httpx.get(f"{url}/api/health").json()["models"] == ["a", "b"]
-        assert httpx.post(f"{url}/api/suggest", json={"model": "b", "text": "the "}).json()["model"] == "b"
+        with httpx.Client(headers={"authorization": "Bearer t0ken"}) as client:
+            assert client.get(f"{url}/api/health").json()["models"] == ["a", "b"]
+            assert client.post(f"{url}/api/suggest", json={"model": "b", "text": "the "}).json()["model"] == "b"
     finally:
         stop(process, signal.SIGTERM)
 

@@ -7,6 +7,7 @@ so every other command starts without it.
 from __future__ import annotations
 
 import argparse
+import importlib
 import os
 import signal
 import socket
@@ -24,6 +25,8 @@ INTERRUPT_EXIT = 130
 """Exit code after Ctrl-C (SIGINT), as for every interrupted command."""
 GRACE_SECONDS = 10
 """How long requests in flight may take to finish after a stop is asked for."""
+ROUTER_MODULES: tuple[str, ...] = ()
+"""Modules (under ``foretype``) whose ``router`` the service includes beside its own API, e.g. a page at ``/``."""
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -173,7 +176,9 @@ def run_serve(args: argparse.Namespace) -> int:
         profiles_dir=profiles,
         model=next(iter(models)),
     )
-    app = create_app(models, settings, routers=[study_router(study)])
+    routers = [study_router(study)]
+    routers += [importlib.import_module(f"{__package__.rsplit('.', 1)[0]}.{name}").router for name in ROUTER_MODULES]
+    app = create_app(models, settings, routers=routers)
     shown = f"[{args.host}]" if ":" in args.host else args.host
     url = f"http://{shown}:{port}"
     names = ", ".join(f"{n} (default)" if i == 0 else n for i, n in enumerate(models))
