@@ -24,6 +24,7 @@ COMMAND_MODULES = (
     "shrink_commands",
     "arpa_commands",
     "serve_commands",
+    "study_commands",
 )
 """The modules whose ``register(subparsers)`` adds commands, in help order."""
 

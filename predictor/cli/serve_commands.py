@@ -52,6 +52,13 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--max-k", type=positive_int, default=50, metavar="N", help="most suggestions per request (default 50)")
     p.add_argument("--max-connections", type=positive_int, default=64, metavar="N", help="concurrent requests and sockets (default 64)")
     p.add_argument("--access-log", action="store_true", help="log every request line on stderr (paths only, never text)")
+    p.add_argument(
+        "--phrases",
+        default=None,
+        metavar="FILE",
+        help="target phrases for the keyboard page's copy task, one per line (default: the bundled demo phrases); "
+        "session logs go to PROFILES/NAME/study/",
+    )
     p.set_defaults(handler=run_serve)
 
 
@@ -146,6 +153,10 @@ def run_serve(args: argparse.Namespace) -> int:
         max_connections=args.max_connections,
     )
     token, generated = token_for(args.host, args.token or os.environ.get("FORETYPE_TOKEN") or None)
+    from ..browser import StudySettings, study_router
+    from ..study import demo_phrases, read_phrases
+
+    phrases = read_phrases(args.phrases) if args.phrases else demo_phrases()
     models = load_models(model_arguments(args.models))
     profiles = Path(args.profiles) if args.profiles else default_profiles_folder()
     listener = open_socket(args.host, args.port)
@@ -159,13 +170,21 @@ def run_serve(args: argparse.Namespace) -> int:
         allowed_origins=tuple(args.allow_origin),
         limits=limits,
     )
-    routers = [importlib.import_module(f"{__package__.rsplit('.', 1)[0]}.{name}").router for name in ROUTER_MODULES]
+    study = StudySettings(
+        phrases=tuple(phrases),
+        phrase_source=Path(args.phrases).name if args.phrases else "demo phrases",
+        profiles_dir=profiles,
+        model=next(iter(models)),
+    )
+    routers = [study_router(study)]
+    routers += [importlib.import_module(f"{__package__.rsplit('.', 1)[0]}.{name}").router for name in ROUTER_MODULES]
     app = create_app(models, settings, routers=routers)
     shown = f"[{args.host}]" if ":" in args.host else args.host
     url = f"http://{shown}:{port}"
     names = ", ".join(f"{n} (default)" if i == 0 else n for i, n in enumerate(models))
     print(f"serving {names} on {url}  (API: {url}/api/openapi.json; WebSocket: ws://{shown}:{port}/api/session)", flush=True)
-    print(f"profiles: {profiles}  (learned stores are personal: they stay on this machine)", flush=True)
+    print(f"keyboard page: {url}/  ({len(phrases)} copy-task phrases; session logs under PROFILES/NAME/study/)", flush=True)
+    print(f"profiles: {profiles}  (learned stores and session logs are personal: they stay on this machine)", flush=True)
     if token is not None:
         print(f"token{' (generated)' if generated else ''}: {token}  (send 'Authorization: Bearer TOKEN' or ?token=TOKEN)", flush=True)
     print("Ctrl-C or SIGTERM stops it after requests in flight finish", flush=True)
