@@ -20,7 +20,13 @@ counts, saves it in the output folder, loads it back and measures it:
 * with adaptation, ``adapted_ksr`` and ``adapted_latency_p50_us`` /
   ``adapted_latency_p99_us``: the same typist again, each word feeding a user
   model that starts empty (:func:`predictor.adapt.simulation.simulate_adaptive`);
-  empty otherwise.
+  empty otherwise;
+* with ``interval_resamples``, ``ksr_low`` / ``ksr_high``: the 95% interval of
+  ``ksr`` by the bootstrap over test sentences (one bootstrap per row,
+  :func:`predictor.compare.ksr_interval`); empty otherwise;
+* with a scanning typist, ``scan_steps_per_char`` and ``scan_wpm`` with
+  prediction and ``scan_steps_per_char_unaided`` / ``scan_wpm_unaided``
+  without (:func:`predictor.simulate.scanning.simulate_scanning`); empty otherwise.
 
 Rows are written to ``sweep.csv``, ``sweep.json`` and the chart ``sweep.svg``
 as each one finishes (atomically), so an interrupted sweep keeps its rows.
@@ -48,6 +54,7 @@ from .errors import OptionError
 from .estimate import METHODS
 from .model import load
 from .simulate import TypistSettings, read_passage, simulate
+from .simulate.scanning import ScanningSettings, simulate_scanning
 from .simulate.writing import prepare_folder, write_text_atomic
 
 DEFAULT_VOCAB_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)
@@ -74,6 +81,12 @@ COLUMNS = (
     "adapted_ksr",
     "adapted_latency_p50_us",
     "adapted_latency_p99_us",
+    "ksr_low",
+    "ksr_high",
+    "scan_steps_per_char",
+    "scan_steps_per_char_unaided",
+    "scan_wpm",
+    "scan_wpm_unaided",
 )
 """The columns of ``sweep.csv`` (and the keys of each row in ``sweep.json``)."""
 
@@ -111,6 +124,12 @@ class SweepRow:
     adapted_ksr: float | None = None
     adapted_latency_p50_us: float | None = None
     adapted_latency_p99_us: float | None = None
+    ksr_low: float | None = None
+    ksr_high: float | None = None
+    scan_steps_per_char: float | None = None
+    scan_steps_per_char_unaided: float | None = None
+    scan_wpm: float | None = None
+    scan_wpm_unaided: float | None = None
 
     def to_json(self) -> dict[str, Any]:
         """The row as a JSON object with the :data:`COLUMNS` as keys."""
@@ -223,6 +242,9 @@ def measure_model(
     folder: Path,
     progress: Callable[[int, int], None] | None = None,
     adapt: bool = False,
+    interval_resamples: int = 0,
+    seed: int = 0,
+    scanning: ScanningSettings | None = None,
 ) -> SweepRow:
     """Build, save, load and measure one model of the sweep.
 
@@ -235,6 +257,9 @@ def measure_model(
         folder: where the model file is saved.
         progress: simulation progress, (words done, words in all).
         adapt: also simulate the typist with learning, from an empty user model.
+        interval_resamples: bootstrap resamples for the KSR interval (0: none).
+        seed: the bootstrap's seed.
+        scanning: also simulate a scanning typist with these settings.
 
     Returns:
         The row.
@@ -264,7 +289,7 @@ def measure_model(
         if progress is not None:
             progress(total + done, runs * total)
 
-    report = simulate(model, test_text, settings, first_run, keep_traces=False)
+    report = simulate(model, test_text, settings, first_run, keep_traces=interval_resamples > 0)
     mapped_after = _mapped_resident(path)
     if mapped_at_load is None or mapped_after is None:
         rss_bytes = max(0, _rss() - before)
@@ -272,6 +297,21 @@ def measure_model(
         rss_bytes = max(0, loaded - before) + max(0, mapped_after - mapped_at_load)
     score = model.score(test_text, wrapped=settings.wrapped)
     adapted = simulate_adaptive(model, test_text, settings, second_run, compare=False).adapted if adapt else None
+    extra: dict[str, Any] = {}
+    if interval_resamples > 0:
+        from .compare import ksr_interval
+
+        found = ksr_interval(test_text, settings, report.trace, resamples=interval_resamples, seed=seed)
+        if found is not None:
+            extra.update(ksr_low=found[0], ksr_high=found[1])
+    if scanning is not None:
+        scanned = simulate_scanning(model, test_text, settings, scanning).to_json()
+        extra.update(
+            scan_steps_per_char=scanned["scan_steps_per_char"],
+            scan_steps_per_char_unaided=scanned["scan_steps_per_char_unaided"],
+            scan_wpm=scanned["wpm"],
+            scan_wpm_unaided=scanned["wpm_unaided"],
+        )
     return SweepRow(
         method=method,
         requested_vocab_size=vocab_size,
@@ -293,6 +333,7 @@ def measure_model(
         adapted_ksr=None if adapted is None else adapted.ksr,
         adapted_latency_p50_us=None if adapted is None else adapted.latency_us["p50"],
         adapted_latency_p99_us=None if adapted is None else adapted.latency_us["p99"],
+        **extra,
     )
 
 
@@ -325,6 +366,9 @@ def run_sweep(
     progress: SweepProgress | None = None,
     on_row: Callable[[SweepRow], None] | None = None,
     adapt: bool = False,
+    interval_resamples: int = 0,
+    seed: int = 0,
+    scanning: ScanningSettings | None = None,
 ) -> SweepResult:
     """Count a corpus once, then build and measure a model per method and vocabulary size.
 
@@ -341,6 +385,9 @@ def run_sweep(
         on_row: called with each row as it finishes (after the files are written).
         adapt: add the adaptation columns: each model is simulated a second
             time with a user model that starts empty and learns as the typist goes.
+        interval_resamples: add the KSR interval columns: bootstrap resamples per row (0: none).
+        seed: the bootstrap's seed.
+        scanning: add the scanning columns: a scanning typist with these settings.
 
     Returns:
         The result, with ``complete`` set once every row finished.
@@ -361,7 +408,14 @@ def run_sweep(
             raise OptionError(f"vocabulary sizes must be at least 1, not {size}")
     read_passage(test_text, settings.text_mode, wrapped=settings.wrapped)  # reject a word-less test text before counting
     folder = prepare_folder(out)
-    result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), "adapt": adapt})
+    if interval_resamples < 0:
+        raise OptionError(f"interval resamples must be 0 or more, not {interval_resamples}")
+    options: dict[str, Any] = {"adapt": adapt}
+    if interval_resamples:
+        options.update(interval_resamples=interval_resamples, seed=seed)
+    if scanning is not None:
+        options["scanning"] = scanning.to_json()
+    result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), **options})
     report = progress or (lambda stage, done, total: None)
     started = time.perf_counter()
     counts = count_corpus(corpus, wrapped=settings.wrapped, progress=lambda done, total: report("counting the corpus", done, total))
@@ -381,6 +435,9 @@ def run_sweep(
             folder=folder,
             progress=lambda done, total, label=label: report(label, done, total),
             adapt=adapt,
+            interval_resamples=interval_resamples,
+            seed=seed,
+            scanning=scanning,
         )
         result.rows.append(row)
         result.complete = number == len(plan)
@@ -396,6 +453,12 @@ def format_table(rows: Sequence[SweepRow]) -> str:
     headers = ("method", "asked", "vocab", "n-grams", "file MB", "RSS MB", "build s", "load ms", "perplexity", "OOV", "KSR", "oracle", "baseline", "p50 µs", "p99 µs")
     if adapted:
         headers += ("learning KSR", "learning p99 µs")
+    intervals = any(row.ksr_low is not None for row in rows)
+    scanned = any(row.scan_steps_per_char is not None for row in rows)
+    if intervals:
+        headers += ("KSR 95%",)
+    if scanned:
+        headers += ("scan steps/char", "unaided", "scan wpm", "unaided wpm")
     lines = []
     for row in rows:
         line = (
@@ -420,6 +483,10 @@ def format_table(rows: Sequence[SweepRow]) -> str:
                 "" if row.adapted_ksr is None else f"{100 * row.adapted_ksr:.1f}%",
                 "n/a" if row.adapted_latency_p99_us is None else f"{row.adapted_latency_p99_us:,.0f}",
             )
+        if intervals:
+            line += ("" if row.ksr_low is None or row.ksr_high is None else f"{100 * row.ksr_low:.1f}-{100 * row.ksr_high:.1f}%",)
+        if scanned:
+            line += tuple("" if v is None else f"{v:.2f}" for v in (row.scan_steps_per_char, row.scan_steps_per_char_unaided, row.scan_wpm, row.scan_wpm_unaided))
         lines.append(line)
     widths = [max(len(h), *(len(line[i]) for line in lines)) if lines else len(h) for i, h in enumerate(headers)]
     out = ["  ".join(h.ljust(w) if i == 0 else h.rjust(w) for i, (h, w) in enumerate(zip(headers, widths)))]
