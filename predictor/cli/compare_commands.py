@@ -90,6 +90,8 @@ def run_compare(args: argparse.Namespace) -> int:
             check_writable_file(path)
     if args.resamples < 1:
         raise OptionError(f"--resamples must be at least 1, not {args.resamples}")
+    if not 0 < args.confidence < 1:
+        raise OptionError(f"--confidence must lie between 0 and 1, not {args.confidence}")
     scanning = scanning_settings(args)
     paths: list[str | None] = list(args.model) or [None]
     plans = label_systems(paths, args.k, args.select_cost)
