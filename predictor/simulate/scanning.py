@@ -36,6 +36,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable, Iterable, Mapping
+from itertools import accumulate
 from dataclasses import asdict, dataclass, field
 from typing import Any
 
@@ -393,7 +394,7 @@ class ScanningTypist:
         length = len(target)
         offset = self.letter_offset
         letter_steps = [self.grid.steps(c) + offset for c in target]
-        rest = np.concatenate((np.cumsum(letter_steps[::-1])[::-1], [0])).tolist()
+        rest = list(accumulate(reversed(letter_steps), initial=0))[::-1]  # rest[p]: steps of letters p.. to the end
         typed_gap = self._cost(gap_cells(word.gap, picked=False, autospace=autospace), offset)
         picked_gap = self._cost(gap_cells(word.gap, picked=True, autospace=autospace), offset)
         typed_cost = (rest[0] + typed_gap[0], 2 * length + typed_gap[1])
