@@ -24,8 +24,8 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 from machine import describe, finish_facts, machine_facts  # noqa: E402
 
-from predictor.stats import RatioMeasure, paired_bootstrap  # noqa: E402
-from predictor.stats.resampling import resample_indices  # noqa: E402
+from foretype.stats import RatioMeasure, paired_bootstrap  # noqa: E402
+from foretype.stats.resampling import resample_indices  # noqa: E402
 
 
 def _one_minus(ratio: np.ndarray) -> np.ndarray:

@@ -16,17 +16,17 @@ counts, saves it in the output folder, loads it back and measures it:
 * ``build_seconds`` (from counts to model), ``load_ms`` (opening the saved file);
 * ``perplexity`` and ``oov_rate`` of the test text;
 * ``ksr``, ``oracle_ksr``, ``baseline_ksr`` and suggestion latency
-  ``latency_p50_us`` / ``latency_p99_us`` from :func:`predictor.simulate.simulate`;
+  ``latency_p50_us`` / ``latency_p99_us`` from :func:`foretype.simulate.simulate`;
 * with adaptation, ``adapted_ksr`` and ``adapted_latency_p50_us`` /
   ``adapted_latency_p99_us``: the same typist again, each word feeding a user
-  model that starts empty (:func:`predictor.adapt.simulation.simulate_adaptive`);
+  model that starts empty (:func:`foretype.adapt.simulation.simulate_adaptive`);
   empty otherwise;
 * with ``interval_resamples``, ``ksr_low`` / ``ksr_high``: the 95% interval of
   ``ksr`` by the bootstrap over test sentences (one bootstrap per row,
-  :func:`predictor.compare.ksr_interval`); empty otherwise;
+  :func:`foretype.compare.ksr_interval`); empty otherwise;
 * with a scanning typist, ``scan_steps_per_char`` and ``scan_wpm`` with
   prediction and ``scan_steps_per_char_unaided`` / ``scan_wpm_unaided``
-  without (:func:`predictor.simulate.scanning.simulate_scanning`); empty otherwise.
+  without (:func:`foretype.simulate.scanning.simulate_scanning`); empty otherwise.
 
 Rows are written to ``sweep.csv``, ``sweep.json`` and the chart ``sweep.svg``
 as each one finishes (atomically), so an interrupted sweep keeps its rows.
@@ -47,12 +47,13 @@ from pathlib import Path
 from typing import Any
 
 from .adapt.simulation import simulate_adaptive
-from .build import build_from_counts, check_build_options
+from .builder import build_from_counts, check_build_options
 from .chart import sweep_chart
-from .counting import count_corpus
+from .compare import ksr_interval
+from .counting.counter import count_corpus
 from .errors import OptionError
 from .estimate import METHODS
-from .model import load
+from .query.model import load
 from .simulate import TypistSettings, read_passage, simulate
 from .simulate.scanning import ScanningSettings, simulate_scanning
 from .simulate.writing import prepare_folder, write_text_atomic
@@ -249,7 +250,7 @@ def measure_model(
     """Build, save, load and measure one model of the sweep.
 
     Args:
-        counts: the corpus counts (:class:`predictor.CorpusCounts`).
+        counts: the corpus counts (:class:`foretype.CorpusCounts`).
         method: the estimator.
         vocab_size: the requested vocabulary size.
         test_text: the test text.
@@ -299,8 +300,6 @@ def measure_model(
     adapted = simulate_adaptive(model, test_text, settings, second_run, compare=False).adapted if adapt else None
     extra: dict[str, Any] = {}
     if interval_resamples > 0:
-        from .compare import ksr_interval
-
         found = ksr_interval(test_text, settings, report.trace, resamples=interval_resamples, seed=seed)
         if found is not None:
             extra.update(ksr_low=found[0], ksr_high=found[1])

@@ -16,9 +16,9 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor.simulate import TypistSettings, simulate
-from predictor.sweep import COLUMNS
+import foretype
+from foretype.simulate import TypistSettings, simulate
+from foretype.sweep import COLUMNS
 
 DEMO = Path(__file__).resolve().parent.parent / "demo_vocab"
 SAVINGS = Path(__file__).parent / "data" / "savings"
@@ -32,8 +32,8 @@ def files(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Path]:
     corpus.write_text("".join((DEMO / "corpus.txt").read_text(encoding="utf-8").splitlines(keepends=True)[:3000]), encoding="utf-8")
     test = folder / "test.txt"
     test.write_text("".join((DEMO / "heldout.txt").read_text(encoding="utf-8").splitlines(keepends=True)[:50]), encoding="utf-8")
-    predictor.build([corpus], method="kneser-ney").save(folder / "kn.model")
-    predictor.build([corpus], method="katz").save(folder / "katz.model")
+    foretype.build([corpus], method="kneser-ney").save(folder / "kn.model")
+    foretype.build([corpus], method="katz").save(folder / "katz.model")
     return {"corpus": corpus, "test": test, "kn": folder / "kn.model", "katz": folder / "katz.model", "folder": folder}
 
 
@@ -43,7 +43,7 @@ def test_compare_prints_json_csv_and_a_chart_that_agree(run_cli, files: dict[str
     assert result.code == 0, result.err
     data = json.loads(result.out)
     assert [s["label"] for s in data["systems"]] == ["kn", "katz"]
-    expected = simulate(predictor.load(files["kn"]), files["test"].read_text(encoding="utf-8"), TypistSettings(k=3)).ksr
+    expected = simulate(foretype.load(files["kn"]), files["test"].read_text(encoding="utf-8"), TypistSettings(k=3)).ksr
     assert data["systems"][0]["ksr"]["value"] == pytest.approx(expected)
     assert data["systems"][0]["ksr"]["low"] <= expected <= data["systems"][0]["ksr"]["high"]
     (pair,) = [p for p in data["pairs"] if p["measure"] == "ksr"]
@@ -107,7 +107,7 @@ def test_compare_failures_are_one_line_with_their_exit_code(run_cli, files: dict
 
 def test_savings_with_scanning_prints_both_sides(run_cli, tmp_path: Path) -> None:
     path = tmp_path / "worked.model"
-    predictor.build([SAVINGS / "worked-corpus.txt"], method="mle").save(path)
+    foretype.build([SAVINGS / "worked-corpus.txt"], method="mle").save(path)
     args = ("savings", path, SAVINGS / "worked-text.txt", "-k", "2", "--text-mode", "words", "--access", "scanning", "--layout", SCANNING / "worked-grid.txt")
     data = json.loads(run_cli(*args, "--json").out)
     assert data["scan_steps"] == 90 and data["scan_steps_unaided"] == 191  # the hand count of test_scanning.py

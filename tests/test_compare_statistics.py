@@ -19,11 +19,11 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy import stats as scipy_stats
 
-import predictor
-from predictor.compare import ComparedSystem, run_comparison
-from predictor.simulate import TypistSettings, read_passage, simulate
-from predictor.simulate.sentences import sentence_characters, sentence_log_probs
-from predictor.stats import RatioMeasure, approximate_randomisation, paired_bootstrap
+import foretype
+from foretype.compare import ComparedSystem, run_comparison
+from foretype.simulate import TypistSettings, read_passage, simulate
+from foretype.simulate.sentences import sentence_characters, sentence_log_probs
+from foretype.stats import RatioMeasure, approximate_randomisation, paired_bootstrap
 
 DEMO = Path(__file__).resolve().parent.parent / "demo_vocab"
 
@@ -40,10 +40,10 @@ def demo_lines() -> tuple[list[str], list[str]]:
 
 
 @pytest.fixture(scope="module")
-def small_model(demo_lines: tuple[list[str], list[str]], tmp_path_factory: pytest.TempPathFactory) -> predictor.LanguageModel:
+def small_model(demo_lines: tuple[list[str], list[str]], tmp_path_factory: pytest.TempPathFactory) -> foretype.LanguageModel:
     path = tmp_path_factory.mktemp("corpus") / "corpus.txt"
     path.write_text("".join(demo_lines[0]), encoding="utf-8")
-    return predictor.build([path], method="kneser-ney")
+    return foretype.build([path], method="kneser-ney")
 
 
 def test_every_resample_of_three_sentences_gives_the_hand_computed_interval() -> None:
@@ -70,7 +70,7 @@ def test_the_pair_p_value_of_three_sentences_equals_the_hand_count() -> None:
     assert pair.interval == pytest.approx((0.0, 2 / 3 + 0.35 / 3))
 
 
-def test_the_ksr_interval_matches_scipy_bootstrap_on_the_same_sentences(small_model: predictor.LanguageModel, demo_lines: tuple[list[str], list[str]]) -> None:
+def test_the_ksr_interval_matches_scipy_bootstrap_on_the_same_sentences(small_model: foretype.LanguageModel, demo_lines: tuple[list[str], list[str]]) -> None:
     text = "".join(demo_lines[1])
     settings = TypistSettings(k=5)
     report = simulate(small_model, text, settings)
@@ -94,7 +94,7 @@ def test_the_ksr_interval_matches_scipy_bootstrap_on_the_same_sentences(small_mo
     assert high == pytest.approx(theirs.high, abs=0.06 * width)
 
 
-def test_two_identical_models_differ_by_exactly_zero_with_p_one(small_model: predictor.LanguageModel, demo_lines: tuple[list[str], list[str]]) -> None:
+def test_two_identical_models_differ_by_exactly_zero_with_p_one(small_model: foretype.LanguageModel, demo_lines: tuple[list[str], list[str]]) -> None:
     text = "".join(demo_lines[1][:40])
     systems = [ComparedSystem("a", small_model, TypistSettings(k=3)), ComparedSystem("b", small_model, TypistSettings(k=3))]
     for test in ("bootstrap", "randomisation"):
@@ -154,7 +154,7 @@ def test_intervals_narrow_as_the_text_grows(rows: list[tuple[int, float]]) -> No
     assert large[1] - large[0] < 0.8 * (small[1] - small[0])
 
 
-def test_per_sentence_totals_add_up_to_the_whole_text(small_model: predictor.LanguageModel, demo_lines: tuple[list[str], list[str]]) -> None:
+def test_per_sentence_totals_add_up_to_the_whole_text(small_model: foretype.LanguageModel, demo_lines: tuple[list[str], list[str]]) -> None:
     # The sentence is only the resampling unit: summed over sentences, the columns must give the
     # savings report's keystrokes and characters and LanguageModel.score's log2 probability and tokens.
     text = "".join(demo_lines[1][:60]) + "A last line, no ending"

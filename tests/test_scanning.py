@@ -18,10 +18,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-import predictor
-from predictor.errors import OptionError
-from predictor.simulate import TypistSettings, gap_keystrokes
-from predictor.simulate.scanning import (
+import foretype
+from foretype.errors import OptionError
+from foretype.simulate import TypistSettings, gap_keystrokes
+from foretype.simulate.scanning import (
     ScanGrid,
     ScanningSettings,
     default_grid,
@@ -36,8 +36,8 @@ SCANNING = Path(__file__).parent / "data" / "scanning"
 
 
 @pytest.fixture(scope="module")
-def worked_model() -> predictor.LanguageModel:
-    return predictor.build([SAVINGS / "worked-corpus.txt"], method="mle")
+def worked_model() -> foretype.LanguageModel:
+    return foretype.build([SAVINGS / "worked-corpus.txt"], method="mle")
 
 
 @pytest.fixture(scope="module")
@@ -73,7 +73,7 @@ HAND_LAST = [
 HAND_FIRST_STEPS = [3, 2, 2, 2, 35, 2, 2, 2, 2, 9]  # maren: 27 + 5 + space 3; slipway: s 7 + pick 2
 
 
-def test_scan_steps_equal_the_hand_count_word_by_word(worked_model: predictor.LanguageModel, worked_text: str, worked_grid: ScanGrid) -> None:
+def test_scan_steps_equal_the_hand_count_word_by_word(worked_model: foretype.LanguageModel, worked_text: str, worked_grid: ScanGrid) -> None:
     report = simulate_scanning(worked_model, worked_text, TypistSettings(k=2, text_mode="words"), ScanningSettings(grid=worked_grid))
     assert report.run.steps.tolist() == [steps for _, steps, _ in HAND_LAST]
     assert report.run.presses.tolist() == [presses for _, _, presses in HAND_LAST]
@@ -84,7 +84,7 @@ def test_scan_steps_equal_the_hand_count_word_by_word(worked_model: predictor.La
     assert first.steps == 61
 
 
-def test_without_prediction_every_character_costs_its_cell(worked_model: predictor.LanguageModel, worked_text: str, worked_grid: ScanGrid) -> None:
+def test_without_prediction_every_character_costs_its_cell(worked_model: foretype.LanguageModel, worked_text: str, worked_grid: ScanGrid) -> None:
     # By hand: the(10) ferry(22) is(11) late(16) maren(27) see(12) you(18) at(9) the(10) slipway(36) = 171
     # letter steps, plus ten spaces at 2 = 191 steps; 47 characters x 2 presses = 94.
     report = simulate_scanning(worked_model, worked_text, TypistSettings(k=2, text_mode="words"), ScanningSettings(grid=worked_grid))
@@ -92,7 +92,7 @@ def test_without_prediction_every_character_costs_its_cell(worked_model: predict
     assert report.presses_unaided == 94
 
 
-def test_entry_rate_follows_the_published_formula(worked_model: predictor.LanguageModel, worked_text: str, worked_grid: ScanGrid) -> None:
+def test_entry_rate_follows_the_published_formula(worked_model: foretype.LanguageModel, worked_text: str, worked_grid: ScanGrid) -> None:
     # wpm = 60 / (SPC x interval x 5) when every step costs one interval (MacKenzie 2012, from memory):
     # 90 steps / 47 characters at 0.8 s gives 60 / (90/47 x 0.8 x 5) = 7.833 wpm.
     report = simulate_scanning(worked_model, worked_text, TypistSettings(k=2, text_mode="words"), ScanningSettings(grid=worked_grid, scan_interval=0.8))
@@ -124,7 +124,7 @@ def test_the_frequency_ordered_grid_has_the_fewest_expected_steps_of_any_placeme
     assert grid.rows[0][0] == " "
 
 
-def test_the_default_grid_puts_the_models_most_frequent_characters_first(worked_model: predictor.LanguageModel) -> None:
+def test_the_default_grid_puts_the_models_most_frequent_characters_first(worked_model: foretype.LanguageModel) -> None:
     frequencies = letter_frequencies(worked_model)
     grid = default_grid(frequencies, "Zq")
     assert grid.rows[0][0] == " "  # one space per word outweighs any letter
@@ -139,7 +139,7 @@ def test_gap_cells_cost_exactly_the_keystroke_typists_keystrokes(gap: str, picke
     assert len(gap_cells(gap, picked=picked, autospace=autospace)) == gap_keystrokes(gap, picked=picked, autospace=autospace)
 
 
-def test_layout_files_report_bad_cells_and_missing_characters(worked_model: predictor.LanguageModel, worked_text: str, worked_grid: ScanGrid) -> None:
+def test_layout_files_report_bad_cells_and_missing_characters(worked_model: foretype.LanguageModel, worked_text: str, worked_grid: ScanGrid) -> None:
     with pytest.raises(OptionError, match="line 2"):
         parse_layout("a b\nab c\n", "grid.txt")
     with pytest.raises(OptionError, match="twice"):
@@ -150,7 +150,7 @@ def test_layout_files_report_bad_cells_and_missing_characters(worked_model: pred
     assert parse_layout(worked_grid.to_text()) == worked_grid
 
 
-def test_full_mode_runs_on_the_default_grid_and_prediction_saves_steps(worked_model: predictor.LanguageModel, worked_text: str) -> None:
+def test_full_mode_runs_on_the_default_grid_and_prediction_saves_steps(worked_model: foretype.LanguageModel, worked_text: str) -> None:
     report = simulate_scanning(worked_model, worked_text, TypistSettings(k=2), ScanningSettings())
     assert report.characters == 50
     assert report.steps < report.steps_unaided

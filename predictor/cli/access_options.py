@@ -6,7 +6,7 @@ import argparse
 
 from ..simulate.scanning import LIST_POSITIONS, ScanningSettings, format_scanning_report, parse_layout, simulate_scanning
 from ..simulate.typist import TypistSettings
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from .output import print_json, progress_bar, read_text_file
 
 ACCESS_CHOICES = ("keys", "scanning")

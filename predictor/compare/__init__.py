@@ -2,7 +2,7 @@
 
 Usage::
 
-    from predictor.compare import ComparedSystem, run_comparison
+    from foretype.compare import ComparedSystem, run_comparison
     systems = [ComparedSystem("kn", kn_model, TypistSettings(k=5)), ComparedSystem("katz", katz_model, TypistSettings(k=5))]
     result = run_comparison(systems, text, resamples=1000, seed=0)
     result.measures["ksr"].values, result.measures["ksr"].pairs[(0, 1)].p_value

@@ -5,7 +5,7 @@ each sentence it keeps the characters, the keystrokes (or, for the scanning
 typist, the scan steps, presses and seconds with and without prediction), and
 the model's log2 probability and predicted tokens.  The measures are ratios
 of totals over sentences, resampled together with one index matrix
-(:mod:`predictor.stats.resampling`), so every interval and difference is
+(:mod:`foretype.stats.resampling`), so every interval and difference is
 paired.
 """
 
@@ -19,7 +19,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import OptionError
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from ..simulate.passage import Passage, read_passage
 from ..simulate.scanning import ScanningSettings, ScanningTypist, grid_for
 from ..simulate.sentences import per_sentence, sentence_characters, sentence_log_probs

@@ -17,7 +17,7 @@ j steps and two presses.  The typist picks the intended word when it is offered
 and picking costs no more time than typing the rest of the word (ties go to the
 pick), the scanning counterpart of the keystroke typist's rule.
 
-What follows a word costs what :mod:`predictor.simulate.editing` says, counted
+What follows a word costs what :mod:`foretype.simulate.editing` says, counted
 in cells: after a pick with automatic spacing a character that attaches to the
 word replaces the automatic space, and any other character after a picked word
 first costs the delete cell.  A capital letter is selected with its lower-case
@@ -43,7 +43,8 @@ from typing import Any
 import numpy as np
 
 from ..errors import OptionError
-from ..model import LanguageModel, capitalise
+from ..query.model import LanguageModel
+from ..text import capitalise
 from ..text import model_form
 from .editing import replaces_automatic_space
 from .entry_rate import words_per_minute
@@ -308,7 +309,7 @@ class ScanningRun:
 def gap_cells(gap: str, *, picked: bool, autospace: bool) -> str:
     """The cells selected for the characters between a word and the next one.
 
-    The same rules as :func:`predictor.simulate.editing.gap_keystrokes`, as
+    The same rules as :func:`foretype.simulate.editing.gap_keystrokes`, as
     cells: a delete (``DELETE``) removes an automatic space the next character
     would swallow; its length equals that function's keystrokes.
     """

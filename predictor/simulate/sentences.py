@@ -14,7 +14,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from .passage import Passage
 
 

@@ -2,7 +2,7 @@
 
 Usage::
 
-    from predictor.stats import RatioMeasure, paired_bootstrap
+    from foretype.stats import RatioMeasure, paired_bootstrap
     ksr = RatioMeasure("ksr", keystrokes, characters, transform=lambda r: 1.0 - r)
     result = paired_bootstrap(ksr, resamples=1000, seed=0)
     result.values, result.intervals, result.pairs[(0, 1)].p_value
