@@ -53,19 +53,26 @@ def _without(ids: np.ndarray, exclude: np.ndarray) -> np.ndarray:
 
 
 class Suggestion(NamedTuple):
-    """One suggested word.
+    """One suggested word, from a model alone or from a model combined with what a person typed.
 
     Attributes:
         word: the word in display form.
         prob: its probability after the context.
         order: the n-gram order (1, 2 or 3) that supplied most of the probability.
-        id: the word's id in the model's vocabulary.
+        id: the word's id in the model's vocabulary (a combined model numbers the
+            words only the person's model knows from V + 3 on).
+        learned: the person's model supplied more of the probability than the base
+            model (always False for a model alone).
+        new_word: the word is not in the base vocabulary; it exists only because it
+            was learned (always False for a model alone).
     """
 
     word: str
     prob: float
     order: int
     id: int
+    learned: bool = False
+    new_word: bool = False
 
 
 @dataclass(frozen=True)
