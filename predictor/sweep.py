@@ -353,6 +353,22 @@ def write_results(result: SweepResult, folder: Path) -> None:
     write_text_atomic(folder / "sweep.svg", sweep_chart([r.to_json() for r in result.rows], k=result.settings.get("k")))
 
 
+def _row_options(adapt: bool, interval_resamples: int, seed: int, scanning: ScanningSettings | None) -> dict[str, Any]:
+    """The sweep's optional measurements as recorded in sweep.json's settings.
+
+    Raises:
+        OptionError: a negative number of interval resamples.
+    """
+    if interval_resamples < 0:
+        raise OptionError(f"interval resamples must be 0 or more, not {interval_resamples}")
+    options: dict[str, Any] = {"adapt": adapt}
+    if interval_resamples:
+        options.update(interval_resamples=interval_resamples, seed=seed)
+    if scanning is not None:
+        options["scanning"] = scanning.to_json()
+    return options
+
+
 def run_sweep(
     corpus: Sequence[str | os.PathLike[str]],
     test_text: str,
@@ -407,13 +423,7 @@ def run_sweep(
             raise OptionError(f"vocabulary sizes must be at least 1, not {size}")
     read_passage(test_text, settings.text_mode, wrapped=settings.wrapped)  # reject a word-less test text before counting
     folder = prepare_folder(out)
-    if interval_resamples < 0:
-        raise OptionError(f"interval resamples must be 0 or more, not {interval_resamples}")
-    options: dict[str, Any] = {"adapt": adapt}
-    if interval_resamples:
-        options.update(interval_resamples=interval_resamples, seed=seed)
-    if scanning is not None:
-        options["scanning"] = scanning.to_json()
+    options = _row_options(adapt, interval_resamples, seed, scanning)
     result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), **options})
     report = progress or (lambda stage, done, total: None)
     started = time.perf_counter()

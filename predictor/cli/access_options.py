@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import argparse
 
+from ..query.model import LanguageModel
 from ..simulate.scanning import LIST_POSITIONS, ScanningSettings, format_scanning_report, parse_layout, simulate_scanning
 from ..simulate.typist import TypistSettings
-from ..query.model import LanguageModel
 from .output import print_json, progress_bar, read_text_file
 
 ACCESS_CHOICES = ("keys", "scanning")

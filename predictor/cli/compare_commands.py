@@ -12,8 +12,8 @@ from ..simulate import TEXT_MODES, TypistSettings
 from ..simulate.writing import check_writable_file, write_text_atomic
 from ..text import WORD_RE
 from .access_options import add_access_options, scanning_settings
-from .output import add_json_option, open_model, print_json, read_text_file
 from .measure_commands import _Stages
+from .output import add_json_option, open_model, print_json, read_text_file
 
 
 def _whole_list(text: str) -> list[int]:
@@ -122,16 +122,10 @@ def run_compare(args: argparse.Namespace) -> int:
         )
     finally:
         stages.close()
-    written = []
-    if args.csv:
-        write_text_atomic(args.csv, comparison_csv(result))
-        written.append(args.csv)
-    if args.sentences:
-        write_text_atomic(args.sentences, sentences_csv(result))
-        written.append(args.sentences)
-    if args.chart:
-        write_text_atomic(args.chart, compare_chart(result))
-        written.append(args.chart)
+    outputs = [(path, render) for path, render in ((args.csv, comparison_csv), (args.sentences, sentences_csv), (args.chart, compare_chart)) if path]
+    for path, render in outputs:
+        write_text_atomic(path, render(result))
+    written = [path for path, _ in outputs]
     if args.json:
         print_json(comparison_json(result))
         return 0

@@ -47,6 +47,54 @@ def _fmt(value: float, percent: bool, signed: bool = False) -> str:
     return f"{value:+g}" if signed and value else f"{value:g}"
 
 
+class _Scale:
+    """Maps values in [lo, hi] to x positions across one panel."""
+
+    def __init__(self, lo: float, hi: float, x0: float) -> None:
+        self.lo, self.hi, self.x0 = lo, hi, x0
+
+    def x(self, value: float) -> float:
+        return self.x0 + (value - self.lo) / (self.hi - self.lo) * PANEL_W
+
+
+def _axis(parts: list[str], scale: _Scale, bottom: float, label: str, *, percent: bool, signed: bool) -> None:
+    for value in _ticks(scale.lo, scale.hi):
+        x = scale.x(value)
+        parts.append(f'<line x1="{x:.1f}" y1="{TOP - 6}" x2="{x:.1f}" y2="{bottom}" stroke="#e5e5e5"/>')
+        parts.append(f'<text x="{x:.1f}" y="{bottom + 16}" text-anchor="middle">{_fmt(value, percent, signed=signed)}</text>')
+    parts.append(f'<text x="{scale.x0 + PANEL_W / 2}" y="{bottom + 34}" text-anchor="middle">{escape(label)}</text>')
+
+
+def _whisker(parts: list[str], scale: _Scale, y: float, interval: tuple[float, float] | None, colour: str) -> None:
+    if interval is None:
+        return
+    low, high = scale.x(interval[0]), scale.x(interval[1])
+    parts.append(
+        f'<path d="M{low:.1f},{y:.1f}H{high:.1f}M{low:.1f},{y - 5:.1f}V{y + 5:.1f}M{high:.1f},{y - 5:.1f}V{y + 5:.1f}" '
+        f'stroke="{colour}" stroke-width="2" fill="none"/>'
+    )
+
+
+def _padded(values: list[float], symmetric: bool) -> tuple[float, float]:
+    if symmetric:
+        reach = max([abs(v) for v in values] + [1e-9]) * 1.15
+        return -reach, reach
+    lo, hi = min(values), max(values)
+    pad = (hi - lo) * 0.1 or abs(hi) * 0.05 or 0.01
+    return lo - pad, hi + pad
+
+
+def _header(result: ComparisonResult, heading: str, height: int) -> list[str]:
+    return [
+        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{height}" viewBox="0 0 {WIDTH} {height}" '
+        'font-family="Helvetica, Arial, sans-serif" font-size="12">',
+        f'<rect width="{WIDTH}" height="{height}" fill="#ffffff"/>',
+        f'<text x="12" y="22" font-size="15" font-weight="bold">{escape(heading)}</text>',
+        f'<text x="12" y="40" fill="#555555">{escape(result.test_name or "test text")}: {result.sentences:,} sentences; '
+        f"{escape(result.test)}, {result.resamples:,} resamples, seed {result.seed}. Simulated figures compare designs.</text>",
+    ]
+
+
 def compare_chart(result: ComparisonResult, *, title: str | None = None) -> str:
     """Draw a comparison as an SVG document.
 
@@ -57,82 +105,41 @@ def compare_chart(result: ComparisonResult, *, title: str | None = None) -> str:
     Returns:
         The SVG text.
     """
-    name = result.primary
-    spec = MEASURES[name]
-    found = result.measures[name]
+    spec = MEASURES[result.primary]
+    found = result.measures[result.primary]
     count = len(result.systems)
     height = TOP + BOTTOM + ROW * count
     level = f"{100 * result.confidence:g}%"
-    heading = title or f"{spec.title} by system, with {level} intervals; differences from {result.systems[0].label}"
-    parts = [
-        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{height}" viewBox="0 0 {WIDTH} {height}" '
-        'font-family="Helvetica, Arial, sans-serif" font-size="12">',
-        f'<rect width="{WIDTH}" height="{height}" fill="#ffffff"/>',
-        f'<text x="12" y="22" font-size="15" font-weight="bold">{escape(heading)}</text>',
-        f'<text x="12" y="40" fill="#555555">{escape(result.test_name or "test text")}: {result.sentences:,} sentences; '
-        f'{escape(result.test)}, {result.resamples:,} resamples, seed {result.seed}. Simulated figures compare designs.</text>',
-    ]
+    parts = _header(result, title or f"{spec.title} by system, with {level} intervals; differences from {result.systems[0].label}", height)
     spans = [v for iv in found.intervals if iv is not None for v in iv] + [v for v in found.values if v is not None]
     if not spans:
         parts.append(f'<text x="{LABEL_W}" y="{TOP + 20}" fill="#777777">no finite values</text></svg>')
         return "\n".join(parts) + "\n"
-    lo, hi = min(spans), max(spans)
-    pad = (hi - lo) * 0.1 or abs(hi) * 0.05 or 0.01
-    lo, hi = lo - pad, hi + pad
-    left_x0 = LABEL_W
-
-    def x_left(value: float) -> float:
-        return left_x0 + (value - lo) / (hi - lo) * PANEL_W
-
-    diffs = [(j, found.pairs.get((0, j))) for j in range(1, count)]
-    dvals = [v for _, p in diffs if p is not None for v in ([p.difference] if p.difference is not None else []) + (list(p.interval) if p.interval else [])]
-    dmax = max([abs(v) for v in dvals] + [1e-9])
-    dmax *= 1.15
-    right_x0 = LABEL_W + PANEL_W + GAP
-
-    def x_right(value: float) -> float:
-        return right_x0 + (value + dmax) / (2 * dmax) * PANEL_W
-
+    left = _Scale(*_padded(spans, False), LABEL_W)
+    # Each other system minus the first (the pairs hold first minus other, so the signs turn).
+    shifts = {j: found.pairs[(0, j)] for j in range(1, count) if found.pairs[(0, j)].difference is not None}
+    reach = [-v for pair in shifts.values() for v in ([pair.difference] + list(pair.interval or ()))]
+    right = _Scale(*_padded(reach, True), LABEL_W + PANEL_W + GAP)
     bottom = TOP + ROW * count
-    for value in _ticks(lo, hi):
-        x = x_left(value)
-        parts.append(f'<line x1="{x:.1f}" y1="{TOP - 6}" x2="{x:.1f}" y2="{bottom}" stroke="#e5e5e5"/>')
-        parts.append(f'<text x="{x:.1f}" y="{bottom + 16}" text-anchor="middle">{_fmt(value, spec.percent)}</text>')
-    parts.append(f'<text x="{left_x0 + PANEL_W / 2}" y="{bottom + 34}" text-anchor="middle">{escape(spec.title)}</text>')
+    _axis(parts, left, bottom, spec.title, percent=spec.percent, signed=False)
     if count > 1:
-        for value in _ticks(-dmax, dmax):
-            x = x_right(value)
-            parts.append(f'<line x1="{x:.1f}" y1="{TOP - 6}" x2="{x:.1f}" y2="{bottom}" stroke="#e5e5e5"/>')
-            parts.append(f'<text x="{x:.1f}" y="{bottom + 16}" text-anchor="middle">{_fmt(value, spec.percent, signed=True)}</text>')
-        zero = x_right(0.0)
+        _axis(parts, right, bottom, f"difference from {result.systems[0].label}" + (" (points)" if spec.percent else ""), percent=spec.percent, signed=True)
+        zero = right.x(0.0)
         parts.append(f'<line x1="{zero:.1f}" y1="{TOP - 6}" x2="{zero:.1f}" y2="{bottom}" stroke="#888888"/>')
-        unit = " (points)" if spec.percent else ""
-        parts.append(f'<text x="{right_x0 + PANEL_W / 2}" y="{bottom + 34}" text-anchor="middle">difference from {escape(result.systems[0].label)}{unit}</text>')
     for index, run in enumerate(result.systems):
         y = TOP + ROW * index + ROW / 2
-        parts.append(f'<text x="{LABEL_W - 10}" y="{y + 4:.1f}" text-anchor="end">{escape(run.label)}</text>')
-        interval = found.intervals[index]
-        value = found.values[index]
         colour = COLOUR if index == 0 else OTHER
-        if interval is not None:
-            parts.append(f'<line x1="{x_left(interval[0]):.1f}" y1="{y:.1f}" x2="{x_left(interval[1]):.1f}" y2="{y:.1f}" stroke="{colour}" stroke-width="2"/>')
-            for end in interval:
-                parts.append(f'<line x1="{x_left(end):.1f}" y1="{y - 5:.1f}" x2="{x_left(end):.1f}" y2="{y + 5:.1f}" stroke="{colour}" stroke-width="2"/>')
+        parts.append(f'<text x="{LABEL_W - 10}" y="{y + 4:.1f}" text-anchor="end">{escape(run.label)}</text>')
+        _whisker(parts, left, y, found.intervals[index], colour)
+        value = found.values[index]
         if value is not None:
-            parts.append(f'<circle cx="{x_left(value):.1f}" cy="{y:.1f}" r="4" fill="{colour}"/>')
-        if index == 0 or count == 1:
-            continue
-        pair = found.pairs.get((0, index))
+            parts.append(f'<circle cx="{left.x(value):.1f}" cy="{y:.1f}" r="4" fill="{colour}"/>')
+        pair = shifts.get(index)
         if pair is None or pair.difference is None:
             continue
-        # The pair holds first minus this system; the chart shows this system minus the first.
-        diff = -pair.difference
-        if pair.interval is not None:
-            a, b = -pair.interval[1], -pair.interval[0]
-            parts.append(f'<line x1="{x_right(a):.1f}" y1="{y:.1f}" x2="{x_right(b):.1f}" y2="{y:.1f}" stroke="{OTHER}" stroke-width="2"/>')
-            for end in (a, b):
-                parts.append(f'<line x1="{x_right(end):.1f}" y1="{y - 5:.1f}" x2="{x_right(end):.1f}" y2="{y + 5:.1f}" stroke="{OTHER}" stroke-width="2"/>')
-        parts.append(f'<rect x="{x_right(diff) - 3.5:.1f}" y="{y - 3.5:.1f}" width="7" height="7" fill="{OTHER}"/>')
-        parts.append(f'<text x="{right_x0 + PANEL_W + 8}" y="{y + 4:.1f}" fill="#444444">p {escape(p_text(pair.p_value, result.resamples))}</text>')
+        turned = None if pair.interval is None else (-pair.interval[1], -pair.interval[0])
+        _whisker(parts, right, y, turned, OTHER)
+        parts.append(f'<rect x="{right.x(-pair.difference) - 3.5:.1f}" y="{y - 3.5:.1f}" width="7" height="7" fill="{OTHER}"/>')
+        parts.append(f'<text x="{right.x0 + PANEL_W + 8}" y="{y + 4:.1f}" fill="#444444">p {escape(p_text(pair.p_value, result.resamples))}</text>')
     parts.append("</svg>")
     return "\n".join(parts) + "\n"

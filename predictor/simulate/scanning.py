@@ -36,20 +36,20 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable, Iterable, Mapping
-from itertools import accumulate
 from dataclasses import asdict, dataclass, field
+from itertools import accumulate
 from typing import Any
 
 import numpy as np
 
 from ..errors import OptionError
 from ..query.model import LanguageModel
-from ..text import capitalise
-from ..text import model_form
+from ..query.source import SuggestionSource
+from ..text import capitalise, model_form
 from .editing import replaces_automatic_space
 from .entry_rate import words_per_minute
 from .passage import Passage, PassageWord, read_passage
-from .typist import SuggestionSource, TypistSettings
+from .typist import TypistSettings
 
 LIST_POSITIONS = ("first", "last")
 """Where the suggestion row sits in the scan: before or after the letter rows."""
