@@ -118,7 +118,7 @@ def compare_chart(result: ComparisonResult, *, title: str | None = None) -> str:
     left = _Scale(*_padded(spans, False), LABEL_W)
     # Each other system minus the first (the pairs hold first minus other, so the signs turn).
     shifts = {j: found.pairs[(0, j)] for j in range(1, count) if found.pairs[(0, j)].difference is not None}
-    reach = [-v for pair in shifts.values() for v in ([pair.difference] + list(pair.interval or ()))]
+    reach = [-v for pair in shifts.values() for v in (pair.difference or 0.0, *(pair.interval or ()))]
     right = _Scale(*_padded(reach, True), LABEL_W + PANEL_W + GAP)
     bottom = TOP + ROW * count
     _axis(parts, left, bottom, spec.title, percent=spec.percent, signed=False)

@@ -254,11 +254,12 @@ def paired_bootstrap(
     if pairs:
         for i in range(count):
             for j in range(i + 1, count):
-                if values[i] is None or values[j] is None or not (math.isfinite(values[i]) and math.isfinite(values[j])):
+                first, second = values[i], values[j]
+                if first is None or second is None or not (math.isfinite(first) and math.isfinite(second)):
                     found[(i, j)] = PairResult(None, None, None)
                     continue
                 differences = samples[:, i] - samples[:, j]
-                found[(i, j)] = PairResult(values[i] - values[j], _interval(differences, confidence), _two_sided(differences))
+                found[(i, j)] = PairResult(first - second, _interval(differences, confidence), _two_sided(differences))
     return BootstrapResult(measure.name, values, intervals, found, int(samples.shape[0]), confidence, "bootstrap")
 
 
