@@ -131,6 +131,9 @@ def test_the_default_grid_puts_the_models_most_frequent_characters_first(worked_
     top = max((c for c in frequencies if c != " "), key=lambda c: (frequencies[c], c))
     assert grid.steps(top) == 3
     assert grid.place("z") is not None and grid.place("Z") == grid.place("z")
+    # Marks the model cannot weigh come before characters it expects less than once a sentence.
+    rare = default_grid({**frequencies, "é": frequencies["."] / 10})
+    assert rare.steps(",") < rare.steps("é") and rare.steps("\n") < rare.steps("é")
 
 
 @settings(max_examples=200, deadline=None)

@@ -234,16 +234,23 @@ def letter_frequencies(model: LanguageModel) -> dict[str, float]:
 
 
 def default_grid(frequencies: Mapping[str, float], needed: Iterable[str] = ()) -> ScanGrid:
-    """The default grid: the model's characters by frequency, then common marks, Enter, delete, and anything else needed.
+    """The default grid: the model's common characters by frequency, then marks, Enter and delete, then the rare ones.
+
+    The model knows how often it expects each letter but not each mark, so the
+    marks (:data:`DEFAULT_MARKS`), Enter and delete come right after every
+    character the model expects at least as often as a full stop (once a
+    sentence), and before the rarer ones (digits, accented letters).
 
     Args:
         frequencies: character -> weight (see :func:`letter_frequencies`).
         needed: characters the text needs; any the grid would lack go at its end (sorted).
     """
-    cells = [c for c, _ in sorted(frequencies.items(), key=lambda item: (-item[1], item[0]))]
-    for extra in (*DEFAULT_MARKS, "\n", DELETE):
-        if extra not in frequencies:
-            cells.append(extra)
+    ranked = [c for c, _ in sorted(frequencies.items(), key=lambda item: (-item[1], item[0]))]
+    stop = frequencies.get(".", 0.0)
+    common = [c for c in ranked if frequencies[c] >= stop]
+    marks = [c for c in (*DEFAULT_MARKS, "\n", DELETE) if c not in frequencies]
+    rare = [c for c in ranked if frequencies[c] < stop]
+    cells = [*common, *marks, *rare]
     cells.extend(sorted({c.lower() for c in needed} - set(cells)))
     return ScanGrid.frequency_ordered(list(dict.fromkeys(cells)))
 
