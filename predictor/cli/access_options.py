@@ -4,10 +4,11 @@ from __future__ import annotations
 
 import argparse
 
+from ..counting.corpus import read_text_file
 from ..query.model import LanguageModel
 from ..simulate.scanning import LIST_POSITIONS, ScanningSettings, format_scanning_report, parse_layout, simulate_scanning
 from ..simulate.typist import TypistSettings
-from .output import print_json, progress_bar, read_text_file
+from .output import print_json, progress_bar
 
 ACCESS_CHOICES = ("keys", "scanning")
 """``--access`` values: keystrokes (default) or single-switch row-column scanning."""

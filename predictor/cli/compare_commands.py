@@ -7,13 +7,14 @@ from pathlib import Path
 
 from ..compare import ComparedSystem, compare_chart, comparison_csv, comparison_json, format_comparison, label_systems, run_comparison, sentences_csv
 from ..compare.runner import TESTS
+from ..counting.corpus import read_text_file
 from ..errors import CorpusError, OptionError
 from ..simulate import TEXT_MODES, TypistSettings
 from ..simulate.writing import check_writable_file, write_text_atomic
 from ..text import WORD_RE
 from .access_options import add_access_options, scanning_settings
 from .measure_commands import _Stages
-from .output import add_json_option, open_model, print_json, read_text_file
+from .output import add_json_option, open_model, print_json
 
 
 def _whole_list(text: str) -> list[int]:
