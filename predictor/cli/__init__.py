@@ -19,6 +19,7 @@ from ..errors import ForetypeError, OptionError
 COMMAND_MODULES = (
     "model_commands",
     "measure_commands",
+    "compare_commands",
     "learn_commands",
     "run_commands",
     "shrink_commands",
