@@ -104,8 +104,8 @@ def size_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: s
     sizes = [float(r["file_bytes"]) for r in points]
     x_lo, x_hi = math.log10(min(sizes)) - 0.05, math.log10(max(sizes)) + 0.05
     savings = [100 * float(r["ksr"]) for r in points]
-    y_lo = math.floor(min(savings) / 5) * 5 - 5
-    y_hi = math.ceil(max(savings) / 5) * 5 + 5
+    y_lo = float(math.floor(min(savings) / 5) * 5 - 5)
+    y_hi = float(math.ceil(max(savings) / 5) * 5 + 5)
     y_lo, y_hi = max(0.0, y_lo), min(100.0, y_hi)
 
     def x_of(size: float) -> float:

@@ -95,7 +95,8 @@ class ModelFile:
 
 def crc32(data: bytes | memoryview | np.ndarray) -> int:
     """The CRC-32 (zlib's) of an array's or buffer's bytes."""
-    return zlib.crc32(memoryview(data).cast("B")) & 0xFFFFFFFF
+    view = data.data if isinstance(data, np.ndarray) else memoryview(data)
+    return zlib.crc32(view.cast("B")) & 0xFFFFFFFF
 
 
 
@@ -154,7 +155,7 @@ def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sect
             written = _PREAMBLE.size + len(header)
             for entry, array in zip(entries, arrays.values()):
                 out.write(b"\x00" * (entry["offset"] - written))
-                out.write(memoryview(array).cast("B"))
+                out.write(array.data.cast("B"))
                 written = entry["offset"] + entry["nbytes"]
             out.write(b"\x00" * (_align(written) - written))
             out.flush()

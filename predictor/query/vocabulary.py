@@ -66,7 +66,7 @@ class Vocabulary:
             sections: the ``vocab.*`` arrays described in :func:`vocabulary_sections`.
         """
         self._trie = marisa_trie.Trie()
-        self._trie.map(memoryview(sections["vocab.trie"]))
+        self._trie.map(sections["vocab.trie"].data)
         self._key_lo = sections["vocab.key_lo"]
         self._key_hi = sections["vocab.key_hi"]
         self._key_order = sections["vocab.key_order"]
