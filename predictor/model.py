@@ -32,6 +32,7 @@ from .estimate.encoding import DECODE_TABLE, decode
 from .modelfile import FORMAT_VERSION, read_model_file, write_model_file
 from .text import iter_sentences, model_form, split_before_cursor
 from .ranking import RANKED_MIN, RankLists
+from .query.compiled import COMPILED, NUMPY, default_path, describe_path, make_core
 from .vocabulary import END, START, UNKNOWN, PrefixRange, Vocabulary
 
 _SCORE_ALL = RANKED_MIN
@@ -39,6 +40,9 @@ _SCORE_ALL = RANKED_MIN
 _TIE_GUARD = 8
 """Extra words taken from a list ranked by P2, whose scaled scores may round to equal."""
 _NO_IDS = np.zeros(0, dtype=np.int64)
+_CACHE_ENTRIES = 1 << 16
+"""Prefix ranges and context ids kept per model (a cache is emptied when it reaches this size)."""
+_UNSEEN = object()
 
 
 def _without(ids: np.ndarray, exclude: np.ndarray) -> np.ndarray:
@@ -104,7 +108,15 @@ class _Slots(NamedTuple):
 class LanguageModel:
     """A smoothed trigram model over a fixed vocabulary (built in memory or loaded from a file)."""
 
-    def __init__(self, sections: dict[str, np.ndarray], meta: dict[str, Any], *, path: Path | None = None, file_bytes: int | None = None) -> None:
+    def __init__(
+        self,
+        sections: dict[str, np.ndarray],
+        meta: dict[str, Any],
+        *,
+        path: Path | None = None,
+        file_bytes: int | None = None,
+        compiled: bool | None = None,
+    ) -> None:
         """Wrap model arrays; use :func:`predictor.build` or :func:`predictor.load` to get one.
 
         Args:
@@ -112,6 +124,12 @@ class LanguageModel:
             meta: the header fields.
             path: the file the arrays are mapped from, if any.
             file_bytes: that file's size.
+            compiled: answer on the compiled core (True), the numpy path
+                (False), or the default (None: the core where it is built,
+                unless ``FORETYPE_PURE`` is set).
+
+        Raises:
+            RuntimeError: ``compiled=True`` but the compiled core is not built.
         """
         self.meta = meta
         self.sections = sections
@@ -135,6 +153,17 @@ class LanguageModel:
         self._root_values: np.ndarray | None = None
         self._table = DECODE_TABLE if self._a2.dtype == np.uint16 else None
         self._last_context: tuple[int, int, _Slots, float] = (-1, -1, _Slots(-1, 0, 0, -1, 0, 0, False), 1.0)
+        self._prefixes: dict[str, PrefixRange | None] = {}
+        self._contexts: dict[tuple[str, ...], tuple[int, int]] = {}
+        self._core = None
+        if compiled if compiled is not None else default_path() == COMPILED:
+            arrays = {**sections, "p1": self._p1, "l2.off": self._off2, "l2.gamma": self._g2}
+            self._core = make_core(arrays, self._interpolated, DECODE_TABLE)
+
+    @property
+    def query_path(self) -> str:
+        """Which path answers queries: ``compiled`` (the compiled core) or ``numpy``."""
+        return COMPILED if self._core is not None else NUMPY
 
     # ----------------------------------------------------------------- facts
     @property
@@ -171,6 +200,8 @@ class LanguageModel:
             "corpus_tokens": int(self.meta["corpus_tokens"]),
             "possible_trigrams": (self._size + 2) ** 3,
             "value_encoding": self.meta["value_encoding"],
+            "query_path": self.query_path,
+            "query_path_note": describe_path(self.query_path),
         }
 
     # -------------------------------------------------------------- contexts
@@ -342,19 +373,73 @@ class LanguageModel:
         Raises:
             OptionError: k is not positive.
         """
-        u, v = self.context_ids(context)
-        return self.suggest_ids(u, v, prefix, k)
+        key = tuple(context)[-2:]
+        ids = self._contexts.get(key)
+        if ids is None:
+            ids = self.context_ids(key)
+            if len(self._contexts) >= _CACHE_ENTRIES:
+                self._contexts = {}
+            self._contexts[key] = ids
+        return self.suggest_ids(ids[0], ids[1], prefix, k)
 
     def suggest_ids(self, u: int, v: int, prefix: str, k: int) -> list[Suggestion]:
         """:meth:`suggest` with a context already mapped by :meth:`context_ids`."""
         if k < 1:
             raise OptionError(f"k must be at least 1, not {k}")
-        found = self.vocab.prefix_range(model_form(prefix) if prefix else "")
+        found = self._prefix_range(prefix)
         if found is None:
             return []
-        ids, probs, orders = self.top_in_range(u, v, found, k)
         display = self.vocab.display
+        if self._core is not None:
+            ids, probs, orders = self._core.top(u, v, found.lo, found.hi, found.order_start, k)
+            return [Suggestion(display(i), p, o, i) for i, p, o in zip(ids, probs, orders)]
+        ids, probs, orders = self.top_in_range(u, v, found, k)
         return [Suggestion(display(i), p, o, i) for i, p, o in zip(ids.tolist(), probs.tolist(), orders)]
+
+    def suggest_steps(self, u: int, v: int, prefixes: Sequence[str], k: int, until: str | None = None) -> list[list[Suggestion]]:
+        """:meth:`suggest_ids` for several prefixes after one context, in one call (the simulated typist's steps).
+
+        Args:
+            u, v: the context ids (from :meth:`context_ids`).
+            prefixes: the prefixes to ask about, in order.
+            k: how many suggestions per prefix.
+            until: a word in model form: the answers end after the first list
+                that offers it (None: they never end early).
+
+        Returns:
+            One list per prefix answered, as :meth:`suggest_ids` gives it; the
+            answers end after the first empty list or the first list offering ``until``.
+        """
+        if k < 1:
+            raise OptionError(f"k must be at least 1, not {k}")
+        stop = self.vocab.id(until) if until else None
+        stop = -1 if stop is None else stop
+        display = self.vocab.display
+        if self._core is not None:
+            ranges = []
+            for prefix in prefixes:
+                found = self._prefix_range(prefix)
+                ranges.append(None if found is None else (found.lo, found.hi, found.order_start))
+                if found is None:
+                    break
+            return [[Suggestion(display(i), p, o, i) for i, p, o in zip(*answer)] for answer in self._core.steps(u, v, ranges, k, stop)]
+        lists = []
+        for prefix in prefixes:
+            found = self.suggest_ids(u, v, prefix, k)
+            lists.append(found)
+            if not found or any(s.id == stop for s in found):
+                break
+        return lists
+
+    def _prefix_range(self, prefix: str) -> PrefixRange | None:
+        """The id range of a prefix as typed (case-folded to model form), kept for the next query."""
+        found = self._prefixes.get(prefix, _UNSEEN)
+        if found is _UNSEEN:
+            found = self.vocab.prefix_range(model_form(prefix) if prefix else "")
+            if len(self._prefixes) >= _CACHE_ENTRIES:
+                self._prefixes = {}
+            self._prefixes[prefix] = found
+        return found  # type: ignore[return-value]
 
     def top_in_range(self, u: int, v: int, found: PrefixRange, k: int) -> tuple[np.ndarray, np.ndarray, list[int]]:
         """The exact k most probable words of an id range after a context, without their display forms.
@@ -373,6 +458,9 @@ class LanguageModel:
             (n,), n <= k, by probability descending, ties by id ascending; and the
             order (1, 2 or 3) that supplied most of each probability.
         """
+        if self._core is not None:
+            ids, probs, orders = self._core.top(u, v, found.lo, found.hi, found.order_start, k)
+            return np.array(ids, dtype=np.int64), np.array(probs, dtype=np.float64), orders
         slots, gamma3 = self._context(u, v)
         explicit, stored, run = self._explicit_candidates(slots, gamma3, found, k)
         scores, a2, a3 = self._scores(explicit, slots, gamma3, run)
@@ -400,6 +488,8 @@ class LanguageModel:
         Returns:
             float64 array of shape (n,).
         """
+        if self._core is not None:
+            return self._core.probabilities(u, v, ids)
         slots, gamma3 = self._context(u, v)
         return self._scores(ids, slots, gamma3)[0]
 
@@ -408,6 +498,8 @@ class LanguageModel:
 
         The same order :meth:`suggest_ids` reports for a suggested word.
         """
+        if self._core is not None:
+            return self._core.probabilities(u, v, ids, True)[1]
         slots, gamma3 = self._context(u, v)
         probs, a2, a3 = self._scores(ids, slots, gamma3)
         return self._orders(probs.tolist(), None if a2 is None else a2.tolist(), None if a3 is None else a3.tolist(), gamma3)

@@ -149,7 +149,7 @@ def test_the_batch_of_steps_equals_one_query_per_step(counts, positions):
         target = compiled.vocab.id(model_form(word))
         stop = -1 if target is None else target
         for source in (compiled, reference):
-            batch = source.suggest_steps(u, v, prefixes, 5, stop)
+            batch = source.suggest_steps(u, v, prefixes, 5, model_form(word))
             single = []
             for prefix in prefixes:
                 found = reference.suggest_ids(u, v, prefix, 5)

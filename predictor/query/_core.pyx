@@ -620,8 +620,9 @@ cdef class QueryCore:
             stop_id: stop after the first step whose list holds this id (-1: never).
 
         Returns:
-            One list of ids per step answered; the answers end after the first
-            empty list or the first list holding ``stop_id``.
+            One ``(ids, probs, orders)`` per step answered (as :meth:`top`); the
+            answers end after the first empty list or the first list holding
+            ``stop_id``.
         """
         cdef int64_t i, lo, hi, start
         cdef Best* b = &self.best
@@ -629,11 +630,15 @@ cdef class QueryCore:
         out = []
         for item in ranges:
             if item is None:
-                out.append([])
+                out.append(([], [], []))
                 break
             lo, hi, start = item
             self._top(u, v, lo, hi, start, k)
-            out.append([b.ids[i] for i in range(b.n)])
+            out.append((
+                [b.ids[i] for i in range(b.n)],
+                [b.score[i] for i in range(b.n)],
+                [self._order(b.score[i], b.a2[i], b.a3[i]) for i in range(b.n)],
+            ))
             if b.n == 0:
                 break
             found = False
