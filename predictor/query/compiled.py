@@ -44,12 +44,12 @@ def default_path() -> str:
 def describe_path(path: str) -> str:
     """One phrase for ``foretype info``, ``--version`` and the pad: which path answers, and why."""
     if path == COMPILED:
-        return "compiled core"
+        return "the compiled core"
     if not compiled_available():
-        return "numpy (the compiled core is not built)"
+        return "the numpy path (the compiled core is not built)"
     if forced_pure():
-        return f"numpy ({PURE_ENV} is set)"
-    return "numpy"
+        return f"the numpy path ({PURE_ENV} is set)"
+    return "the numpy path"
 
 
 def make_core(sections: dict[str, np.ndarray], interpolated: bool, decode_table: np.ndarray) -> Any:
