@@ -159,6 +159,7 @@ class LanguageModel:
         if compiled if compiled is not None else default_path() == COMPILED:
             arrays = {**sections, "p1": self._p1, "l2.off": self._off2, "l2.gamma": self._g2}
             self._core = make_core(arrays, self._interpolated, DECODE_TABLE)
+            self._core.bind_suggestions(Suggestion, self.vocab.display)
 
     @property
     def query_path(self) -> str:
@@ -373,7 +374,7 @@ class LanguageModel:
         Raises:
             OptionError: k is not positive.
         """
-        key = tuple(context)[-2:]
+        key = context if type(context) is tuple and len(context) <= 2 else tuple(context)[-2:]
         ids = self._contexts.get(key)
         if ids is None:
             ids = self.context_ids(key)
@@ -389,10 +390,9 @@ class LanguageModel:
         found = self._prefix_range(prefix)
         if found is None:
             return []
-        display = self.vocab.display
         if self._core is not None:
-            ids, probs, orders = self._core.top(u, v, found.lo, found.hi, found.order_start, k)
-            return [Suggestion(display(i), p, o, i) for i, p, o in zip(ids, probs, orders)]
+            return self._core.suggest(u, v, found.lo, found.hi, found.order_start, k)
+        display = self.vocab.display
         ids, probs, orders = self.top_in_range(u, v, found, k)
         return [Suggestion(display(i), p, o, i) for i, p, o in zip(ids.tolist(), probs.tolist(), orders)]
 
@@ -414,7 +414,6 @@ class LanguageModel:
             raise OptionError(f"k must be at least 1, not {k}")
         stop = self.vocab.id(until) if until else None
         stop = -1 if stop is None else stop
-        display = self.vocab.display
         if self._core is not None:
             ranges = []
             for prefix in prefixes:
@@ -422,7 +421,7 @@ class LanguageModel:
                 ranges.append(None if found is None else (found.lo, found.hi, found.order_start))
                 if found is None:
                     break
-            return [[Suggestion(display(i), p, o, i) for i, p, o in zip(*answer)] for answer in self._core.steps(u, v, ranges, k, stop)]
+            return self._core.steps(u, v, ranges, k, stop)
         lists = []
         for prefix in prefixes:
             found = self.suggest_ids(u, v, prefix, k)

@@ -135,6 +135,9 @@ cdef class QueryCore:
     cdef Best best
     cdef int64_t capacity
     cdef object _keep
+    cdef object _made
+    cdef object _display
+    cdef list _forms
 
     def __cinit__(self):
         self.best.score = NULL
@@ -583,6 +586,39 @@ cdef class QueryCore:
         return 0
 
     # ------------------------------------------------------------- entries
+    def bind_suggestions(self, made, display):
+        """Let :meth:`suggest` build finished suggestions.
+
+        Args:
+            made: the tuple subclass to build, with fields (word, prob, order, id).
+            display: maps a word id to its display form (asked once per id).
+        """
+        self._made = made
+        self._display = display
+        self._forms = [None] * self.size
+
+    cdef list _suggestions(self):
+        cdef Best* b = &self.best
+        cdef int64_t i, w
+        cdef list out = []
+        cdef list forms = self._forms
+        made = self._made
+        for i in range(b.n):
+            w = b.ids[i]
+            form = forms[w]
+            if form is None:
+                form = self._display(w)
+                forms[w] = form
+            out.append(tuple.__new__(made, (form, b.score[i], self._order(b.score[i], b.a2[i], b.a3[i]), w)))
+        return out
+
+    def suggest(self, int64_t u, int64_t v, int64_t lo, int64_t hi, int64_t order_start, int64_t k):
+        """:meth:`top` as a list of suggestions (see :meth:`bind_suggestions`), best first."""
+        if self._forms is None:
+            raise RuntimeError("bind_suggestions() first")
+        self._top(u, v, lo, hi, order_start, k)
+        return self._suggestions()
+
     def top(self, int64_t u, int64_t v, int64_t lo, int64_t hi, int64_t order_start, int64_t k):
         """The exact k best words of the id range [lo, hi) after context (u, v).
 
@@ -620,25 +656,23 @@ cdef class QueryCore:
             stop_id: stop after the first step whose list holds this id (-1: never).
 
         Returns:
-            One ``(ids, probs, orders)`` per step answered (as :meth:`top`); the
-            answers end after the first empty list or the first list holding
-            ``stop_id``.
+            One list of suggestions per step answered (as :meth:`suggest`);
+            the answers end after the first empty list or the first list
+            holding ``stop_id``.
         """
         cdef int64_t i, lo, hi, start
         cdef Best* b = &self.best
         cdef bint found
+        if self._forms is None:
+            raise RuntimeError("bind_suggestions() first")
         out = []
         for item in ranges:
             if item is None:
-                out.append(([], [], []))
+                out.append([])
                 break
             lo, hi, start = item
             self._top(u, v, lo, hi, start, k)
-            out.append((
-                [b.ids[i] for i in range(b.n)],
-                [b.score[i] for i in range(b.n)],
-                [self._order(b.score[i], b.a2[i], b.a3[i]) for i in range(b.n)],
-            ))
+            out.append(self._suggestions())
             if b.n == 0:
                 break
             found = False
