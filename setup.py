@@ -16,7 +16,7 @@ def extensions():
         return []
     # Multiply-then-add must round twice, as numpy does: no fused multiply-add.
     flags = [] if os.name == "nt" else ["-O2", "-ffp-contract=off"]
-    core = Extension("predictor.query._core", ["predictor/query/_core.pyx"], extra_compile_args=flags, optional=True)
+    core = Extension("foretype.query._core", ["predictor/query/_core.pyx"], extra_compile_args=flags, optional=True)
     return cythonize([core], quiet=True, compiler_directives={"language_level": "3"})
 
 

@@ -47,10 +47,10 @@ sys.path.insert(0, str(HERE.parent / "tests"))
 import corpus as bench_corpus  # noqa: E402
 from machine import describe, finish_facts, machine_facts  # noqa: E402
 
-import predictor  # noqa: E402
-from predictor.adapt import AdaptedModel  # noqa: E402
-from predictor.adapt.store import LearnedFile, load_learned  # noqa: E402
-from predictor.text import iter_sentences  # noqa: E402
+import foretype  # noqa: E402
+from foretype.adapt import AdaptedModel  # noqa: E402
+from foretype.adapt.store import LearnedFile, load_learned  # noqa: E402
+from foretype.text import iter_sentences  # noqa: E402
 
 K = 5
 TARGETS = {"p50 us": 50, "p99 us": 300}
@@ -64,14 +64,14 @@ def percentiles(samples_ns: list[int]) -> dict[str, float]:
     return {"n": int(len(us)), "p50": float(p50), "p90": float(p90), "p99": float(p99), "max": float(us.max())}
 
 
-def base_model(tokens: int) -> predictor.LanguageModel:
+def base_model(tokens: int) -> foretype.LanguageModel:
     """The 50,000-word synthetic base model (built once and cached)."""
     path = bench_corpus.OUT / f"adapt-synthetic-{tokens}-50k.model"
     if not path.exists():
         train, _ = bench_corpus.synthetic_corpus(tokens)
         print(f"building the 50,000-word base model from {train.name} ...", flush=True)
-        predictor.build([train], vocab_size=50_000).save(path)
-    return predictor.load(path)
+        foretype.build([train], vocab_size=50_000).save(path)
+    return foretype.load(path)
 
 
 def sentences_of(path: Path, limit_tokens: int, skip_tokens: int = 0) -> list[list[str]]:

@@ -14,10 +14,10 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor.adapt import AdaptedModel
-from predictor.adapt.store import MAGIC_LINE, LearnedFile, export_learned, learned_file_facts, load_learned, wipe_learned
-from predictor.errors import ModelFileError, OutputError
+import foretype
+from foretype.adapt import AdaptedModel
+from foretype.adapt.store import MAGIC_LINE, LearnedFile, export_learned, learned_file_facts, load_learned, wipe_learned
+from foretype.errors import ModelFileError, OutputError
 
 CORPUS = "the tide is high\nthe ferry sails at dawn\nthe nets are dry\n"
 ROOT = Path(__file__).resolve().parent.parent
@@ -28,7 +28,7 @@ def update(i: int) -> tuple[list[str], list[str], bool]:
     return [f"w{i % 37}", "tide"], ([f"w{(i - 1) % 37}"] if i % 4 else []), i % 3 == 0
 
 
-def replayed(base: predictor.LanguageModel, changes: int) -> AdaptedModel:
+def replayed(base: foretype.LanguageModel, changes: int) -> AdaptedModel:
     model = AdaptedModel(base)
     for i in range(changes):
         words, after, end = update(i)
@@ -45,10 +45,10 @@ def counts(model: AdaptedModel) -> tuple:
 
 
 @pytest.fixture(scope="module")
-def base(tmp_path_factory: pytest.TempPathFactory) -> predictor.LanguageModel:
+def base(tmp_path_factory: pytest.TempPathFactory) -> foretype.LanguageModel:
     path = tmp_path_factory.mktemp("store") / "corpus.txt"
     path.write_text(CORPUS, encoding="utf-8")
-    return predictor.build([path])
+    return foretype.build([path])
 
 
 WRITER = textwrap.dedent(
@@ -56,10 +56,10 @@ WRITER = textwrap.dedent(
     import sys
     sys.path.insert(0, {root!r})
     sys.path.insert(0, {tests!r})
-    import predictor
-    from predictor.adapt.store import LearnedFile
+    import foretype
+    from foretype.adapt.store import LearnedFile
     from test_adapt_store import update
-    base = predictor.build([{corpus!r}])
+    base = foretype.build([{corpus!r}])
     with LearnedFile({path!r}, base, compact_every=4) as learned:
         print("ready", flush=True)
         i = 0

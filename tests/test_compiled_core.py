@@ -20,10 +20,10 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-import predictor
-from predictor.model import LanguageModel
-from predictor.query import compiled as query_path
-from predictor.text import model_form, split_before_cursor
+import foretype
+from foretype.query.model import LanguageModel
+from foretype.query import compiled as query_path
+from foretype.text import model_form, split_before_cursor
 from public_text import kjv_split, write_lines
 
 pytestmark = pytest.mark.skipif(not query_path.compiled_available(), reason="the compiled core is not built here")
@@ -39,14 +39,14 @@ def invented_forms(count: int) -> list[str]:
 
 
 @pytest.fixture(scope="module")
-def counts(tmp_path_factory) -> dict[str, predictor.CorpusCounts]:
+def counts(tmp_path_factory) -> dict[str, foretype.CorpusCounts]:
     """Counts of 1,500 KJV verses, alone (narrow ids) and with 66,000 invented words (wide ids)."""
     train, _ = kjv_split()
     folder = tmp_path_factory.mktemp("core")
     narrow = write_lines(train[:1500], folder / "narrow.txt")
     forms = invented_forms(66_000)
     wide = write_lines(list(train[:1500]) + [" ".join(forms[i : i + 12]) for i in range(0, len(forms), 12)], folder / "wide.txt")
-    return {"narrow": predictor.count_corpus([narrow]), "wide": predictor.count_corpus([wide])}
+    return {"narrow": foretype.count_corpus([narrow]), "wide": foretype.count_corpus([wide])}
 
 
 @pytest.fixture(scope="module")
@@ -116,7 +116,7 @@ def queries(model: LanguageModel, positions, count: int, seed: int) -> list[tupl
 )
 def test_both_paths_give_identical_suggestions(counts, positions, width, method, encoding):
     # Reference: the numpy path (brute-force checked); equality of floats, ids, words and orders.
-    model = predictor.build_from_counts(counts[width], method=method, encoding=encoding)
+    model = foretype.build_from_counts(counts[width], method=method, encoding=encoding)
     expect_width = np.uint16 if width == "narrow" else np.int32
     assert model.sections["l2.word"].dtype == expect_width
     compiled, reference = twins(model)
@@ -141,7 +141,7 @@ def test_both_paths_give_identical_suggestions(counts, positions, width, method,
 def test_the_batch_of_steps_equals_one_query_per_step(counts, positions):
     # Reference: suggest_ids step by step on the numpy path; the batch ends at the
     # first list that holds the stop id or is empty, as the simulated typist stops.
-    model = predictor.build_from_counts(counts["narrow"])
+    model = foretype.build_from_counts(counts["narrow"])
     compiled, reference = twins(model)
     for context, word in positions[:400]:
         u, v = compiled.context_ids(context)
@@ -167,7 +167,7 @@ def test_the_compiled_core_is_built_where_a_compiler_exists():
 
 
 def test_bad_ids_from_a_caller_raise_instead_of_reading_outside_the_arrays(counts):
-    model = predictor.build_from_counts(counts["narrow"])
+    model = foretype.build_from_counts(counts["narrow"])
     compiled, _ = twins(model)
     size = compiled.vocab_size
     found = compiled.vocab.prefix_range("")

@@ -15,16 +15,16 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor.query import compiled
+import foretype
+from foretype.query import compiled
 
 DATA = Path(__file__).parent / "data" / "savings"
 
 CHILD = """
 import contextlib, io, json, sys
-sys.modules["predictor.query._core"] = None  # blocked: importing it now fails
-from predictor.cli import main
-from predictor.query import compiled
+sys.modules["foretype.query._core"] = None  # blocked: importing it now fails
+from foretype.cli import main
+from foretype.query import compiled
 assert not compiled.compiled_available()
 results = []
 for args in json.loads(sys.argv[1]):
@@ -85,7 +85,7 @@ def test_every_command_works_on_the_numpy_path_when_the_extension_is_missing(tmp
                 assert theirs["query_path"] == "numpy" and ours["query_path"] == "compiled"
             assert without(theirs, PATH_FACTS + TIMES) == without(ours, PATH_FACTS + TIMES), args
     assert "numpy" in fallback[-1][1] and "compiled" in reference[-1].out
-    loaded = predictor.load(tmp_path / "numpy.model")
+    loaded = foretype.load(tmp_path / "numpy.model")
     assert loaded.query_path == "compiled"  # the file itself is the same on either path
     assert (tmp_path / "numpy.model").read_bytes() == (tmp_path / "compiled.model").read_bytes()
 
@@ -93,8 +93,8 @@ def test_every_command_works_on_the_numpy_path_when_the_extension_is_missing(tmp
 def test_the_numpy_path_can_be_forced_by_the_environment(monkeypatch, tmp_path):
     corpus = DATA / "worked-corpus.txt"
     monkeypatch.setenv(compiled.PURE_ENV, "1")
-    model = predictor.build([corpus])
+    model = foretype.build([corpus])
     assert model.query_path == "numpy" and model.info()["query_path"] == "numpy"
     assert compiled.PURE_ENV in model.info()["query_path_note"] or not compiled.compiled_available()
     monkeypatch.setenv(compiled.PURE_ENV, "0")
-    assert predictor.build([corpus]).query_path == compiled.default_path()
+    assert foretype.build([corpus]).query_path == compiled.default_path()

@@ -7,7 +7,7 @@ of the last query.  The widgets only render it and forward keys to it, so the
 rules here are testable without a terminal.
 
 Counting convention (README "The typing pad" restates it; the simulated typist
-of :mod:`predictor.simulate` counts the same way): every key press
+of :mod:`foretype.simulate` counts the same way): every key press
 that changes the text costs one keystroke (a typed character, Enter,
 Backspace, Delete), a pasted text costs one keystroke per character, and
 accepting a suggestion costs one keystroke whatever its rank.  Cursor moves and
@@ -22,8 +22,9 @@ from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from typing import Protocol
 
-from predictor.model import Suggestion, capitalise
-from predictor.text import model_form
+from foretype.query.model import Suggestion
+from foretype.text import capitalise
+from foretype.text import model_form
 
 MARKS_BEFORE_SPACE = ".,;:!?…"
 """Marks after which an accepted word gets a space in front (when none was typed)."""
@@ -40,7 +41,7 @@ class WordIndex(Protocol):
 class SuggestionSource(Protocol):
     """Where the pad's suggestions come from.
 
-    A :class:`predictor.LanguageModel` is one; a wrapper that mixes in what the
+    A :class:`foretype.LanguageModel` is one; a wrapper that mixes in what the
     person has typed (a learning source) can stand in for it as long as it
     answers these four members the same way.
     """

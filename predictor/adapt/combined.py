@@ -5,7 +5,7 @@ The combined probability of an outcome w after the context (u, v) is::
     P(w | u v) = (1 - mu) * P_base(w | u' v') + mu * P_user(w | u v)
     mu = worth_b * n_b / (n_b + beta),   worth_b = (R_b + prior_worth * beta) / (n_b + beta)
 
-P_user is the Witten-Bell trigram of :mod:`predictor.adapt.user_model`; u' v'
+P_user is the Witten-Bell trigram of :mod:`foretype.adapt.user_model`; u' v'
 is the context as the base model sees it (a word only the user model knows
 reads as UNKNOWN there).  The share mu depends on the context only through
 its evidence bucket b (has the user written (u, v) before, only v, or
@@ -75,9 +75,10 @@ from typing import NamedTuple
 import numpy as np
 
 from ..errors import OptionError
-from ..model import LanguageModel, capitalise
+from ..query.model import LanguageModel
+from ..text import capitalise
 from ..text import model_form, split_before_cursor
-from ..vocabulary import END, START, PrefixRange, Vocabulary
+from ..query.vocabulary import END, START, PrefixRange, Vocabulary
 from .never_list import NeverList
 from .settings import AdaptSettings
 from .user_model import UserContext, UserModel
@@ -99,7 +100,7 @@ _NO_PROBS = np.zeros(0, dtype=np.float64)
 
 
 class AdaptedSuggestion(NamedTuple):
-    """A suggestion from the combined model: the fields of :class:`~predictor.model.Suggestion`, then two marks.
+    """A suggestion from the combined model: the fields of :class:`~foretype.query.model.Suggestion`, then two marks.
 
     Attributes:
         word: the word in display form.

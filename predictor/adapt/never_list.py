@@ -18,7 +18,7 @@ import numpy as np
 
 from ..errors import OptionError
 from ..text import model_form
-from ..vocabulary import Vocabulary
+from ..query.vocabulary import Vocabulary
 
 _WILDCARDS = re.compile(r"[*?\[]")
 

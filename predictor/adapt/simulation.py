@@ -19,7 +19,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from ..errors import OptionError
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from ..simulate import SavingsReport, TypistSettings, WordTrace, read_passage, simulate
 from ..simulate.passage import Passage, PassageWord
 from .combined import AdaptedModel

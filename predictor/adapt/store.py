@@ -14,7 +14,7 @@ zlib-compressed and base64-encoded, with its type and length), so nothing in
 the file is executed on load.  Change records:
 
 * ``learn``: ``words``, ``after`` (the preceding words of the sentence), ``end``, ``at`` (Unix
-  seconds) and ``credit`` (each token's responsibility, see :mod:`predictor.adapt.user_model`);
+  seconds) and ``credit`` (each token's responsibility, see :mod:`foretype.adapt.user_model`);
 * ``sentences``: ``sentences`` (lists of words, each a whole sentence), ``at`` and ``credit``
   (one list per sentence): a text learned at once, kept or lost as a whole;
 * ``settings``: ``settings`` (every learning setting);
@@ -53,10 +53,12 @@ from typing import Any, BinaryIO
 import numpy as np
 
 from ..errors import ModelFileError, OptionError, OutputError
-from ..model import LanguageModel
-from ..atomic import remove_quietly as _remove_quietly
-from ..atomic import replace_atomically
-from ..atomic import sync_directory as _sync_directory
+from ..query.model import LanguageModel
+from ..modelfile.atomic import remove_quietly as _remove_quietly
+from ..modelfile.atomic import replace_atomically
+from ..modelfile.atomic import sync_directory as _sync_directory
+from ..demo import cache_folder
+from ..simulate.writing import write_text_atomic
 from ..text import WORD_RE
 from .combined import AdaptedModel
 from .never_list import normalise_entry
@@ -89,12 +91,8 @@ def default_learned_path(model_path: str | os.PathLike[str] | None) -> Path:
     survives rebuilds of the cached demo model.
     """
     if model_path is None:
-        from ..demo import cache_folder
-
         return cache_folder() / f"demo{SUFFIX}"
     path = Path(model_path)
-    from ..demo import cache_folder
-
     try:
         if path.resolve().parent == cache_folder().resolve() and path.name.startswith("demo-"):
             return cache_folder() / f"demo{SUFFIX}"
@@ -645,8 +643,6 @@ def export_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> dict[st
     Raises:
         OutputError: the file cannot be written (an existing file stays as it was).
     """
-    from ..simulate.writing import write_text_atomic
-
     user = model.user
     words = [
         {"word": form, "shown_as": user.display(i), "count": count, "uses": uses, "last_seen": seen, "new_word": user.is_learned(i)}

@@ -23,7 +23,7 @@ count is divided by s once.  Ratios such as c(uvw) / c(uv.) need no correction;
 only the evidence counts in g(h) and the share mu are divided by s.
 
 **Share.** How much the combined model trusts these counts is learned from
-the person's text too (see :class:`~predictor.adapt.settings.AdaptSettings`):
+the person's text too (see :class:`~foretype.adapt.settings.AdaptSettings`):
 before each token is counted, the share of its probability the user model
 would have supplied at the current worth estimate (the EM responsibility of
 Jelinek & Mercer's interpolation-weight estimation) is added to R_b, and the
@@ -52,7 +52,7 @@ import numpy as np
 
 from ..errors import OptionError
 from ..text import WORD_RE, model_form
-from ..vocabulary import END, START, UNKNOWN, Vocabulary
+from ..query.vocabulary import END, START, UNKNOWN, Vocabulary
 from .settings import AdaptSettings
 
 _RESCALE_AT = 2.0**200

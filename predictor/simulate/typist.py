@@ -7,10 +7,10 @@ to write is offered (in full mode its written form must equal the offered form,
 so case matters; at a sentence start the offers carry a capital first letter,
 as the engine shows them), it picks it at ``select_cost`` keystrokes; otherwise
 it types the next letter.  A word never offered is typed in full.  What follows
-each word costs what :mod:`predictor.simulate.editing` says.
+each word costs what :mod:`foretype.simulate.editing` says.
 
 The source is anything with ``context_ids`` and ``suggest_ids`` (a
-:class:`~predictor.model.LanguageModel`, or a model combined with a user model).
+:class:`~foretype.query.model.LanguageModel`, or a model combined with a user model).
 A source that also has ``suggest_steps`` (LanguageModel does) answers all the
 steps of a word in one call.
 """
@@ -26,7 +26,8 @@ from typing import Any, Protocol
 import numpy as np
 
 from ..errors import OptionError
-from ..model import Suggestion, capitalise
+from ..query.model import Suggestion
+from ..text import capitalise
 from ..text import model_form
 from .editing import gap_keystrokes, latest_useful_pick
 from .passage import TEXT_MODES, Passage, PassageWord
@@ -212,7 +213,7 @@ class Typist:
         """Type a whole passage.
 
         Args:
-            passage: the text, parsed by :func:`~predictor.simulate.passage.read_passage`.
+            passage: the text, parsed by :func:`~foretype.simulate.passage.read_passage`.
             progress: called with (words done, words in all) now and then.
             keep_traces: keep a :class:`WordTrace` per word.
             after_word: called after each word (see :data:`WordObserver`).
