@@ -141,6 +141,7 @@ class LanguageModel:
         self._root_values: np.ndarray | None = None
         self._last_context: tuple[int, int, Slots, float] = (-1, -1, Slots(-1, 0, 0, -1, 0, 0, False), 1.0)
         self._prefixes: dict[str, PrefixRange | None] = {}
+        self._bounds: dict[str, tuple[int, int, int] | None] = {}
         self._contexts: dict[tuple[str, ...], tuple[int, int]] = {}
         self._compiled = None
         if compiled if compiled is not None else default_path() == COMPILED:
@@ -195,7 +196,11 @@ class LanguageModel:
     # -------------------------------------------------------------- contexts
     def context_ids(self, context: Sequence[str]) -> tuple[int, int]:
         """Map up to two context words to ids: padded with START, unknown words to UNKNOWN."""
-        words = list(context)[-2:]
+        key = context if type(context) is tuple and len(context) <= 2 else tuple(context)[-2:]
+        known = self._contexts.get(key)
+        if known is not None:
+            return known
+        words = list(key)
         ids = [self.vocab.id_or_unknown(w) for w in words]
         start = self.vocab.start_id
         while len(ids) < 2:
@@ -203,6 +208,9 @@ class LanguageModel:
         u, v = ids
         if v == start:
             u = start
+        if len(self._contexts) >= _CACHE_ENTRIES:
+            self._contexts = {}
+        self._contexts[key] = (u, v)
         return u, v
 
     def _context(self, u: int, v: int) -> tuple[Slots, float]:
@@ -264,14 +272,8 @@ class LanguageModel:
         Raises:
             OptionError: k is not positive.
         """
-        key = context if type(context) is tuple and len(context) <= 2 else tuple(context)[-2:]
-        ids = self._contexts.get(key)
-        if ids is None:
-            ids = self.context_ids(key)
-            if len(self._contexts) >= _CACHE_ENTRIES:
-                self._contexts = {}
-            self._contexts[key] = ids
-        return self.suggest_ids(ids[0], ids[1], prefix, k)
+        u, v = self.context_ids(context)
+        return self.suggest_ids(u, v, prefix, k)
 
     def suggest_ids(self, u: int, v: int, prefix: str, k: int) -> list[Suggestion]:
         """:meth:`suggest` with a context already mapped by :meth:`context_ids`."""
@@ -305,11 +307,15 @@ class LanguageModel:
         stop = self.vocab.id(until) if until else None
         stop = -1 if stop is None else stop
         if self._compiled is not None:
+            known = self._bounds
             ranges = []
             for prefix in prefixes:
-                found = self._prefix_range(prefix)
-                ranges.append(None if found is None else (found.lo, found.hi, found.order_start))
-                if found is None:
+                bounds = known.get(prefix, _UNSEEN)
+                if bounds is _UNSEEN:
+                    found = self._prefix_range(prefix)
+                    bounds = known[prefix] = None if found is None else (found.lo, found.hi, found.order_start)
+                ranges.append(bounds)
+                if bounds is None:
                     break
             return self._compiled.steps(u, v, ranges, k, stop)
         lists = []
@@ -327,6 +333,7 @@ class LanguageModel:
             found = self.vocab.prefix_range(model_form(prefix) if prefix else "")
             if len(self._prefixes) >= _CACHE_ENTRIES:
                 self._prefixes = {}
+                self._bounds = {}
             self._prefixes[prefix] = found
         return found  # type: ignore[return-value]
 
