@@ -28,6 +28,7 @@ over an unsorted slice stays inside the slice.  What callers pass (context
 ids, id ranges, outcome ids) is checked on entry.
 """
 
+from cpython.object cimport PyObject, PyTypeObject
 from libc.stdint cimport int32_t, int64_t, uint16_t, uint32_t, uint64_t
 from libc.stdlib cimport free, realloc
 from libc.string cimport memmove
@@ -593,6 +594,8 @@ cdef class QueryCore:
             made: the tuple subclass to build, with fields (word, prob, order, id).
             display: maps a word id to its display form (asked once per id).
         """
+        if not (isinstance(made, type) and issubclass(made, tuple) and made.__basicsize__ == tuple.__basicsize__):
+            raise TypeError("suggestions must be a tuple type without fields of its own (a named tuple)")
         self._made = made
         self._display = display
         self._forms = [None] * self.size
@@ -602,14 +605,17 @@ cdef class QueryCore:
         cdef int64_t i, w
         cdef list out = []
         cdef list forms = self._forms
-        made = self._made
+        cdef type made = self._made
+        # tuple's own constructor, called directly: the made type adds no fields to a tuple.
+        cdef PyTypeObject* base = <PyTypeObject*>tuple
         for i in range(b.n):
             w = b.ids[i]
             form = forms[w]
             if form is None:
                 form = self._display(w)
                 forms[w] = form
-            out.append(tuple.__new__(made, (form, b.score[i], self._order(b.score[i], b.a2[i], b.a3[i]), w)))
+            fields = ((form, b.score[i], self._order(b.score[i], b.a2[i], b.a3[i]), w),)
+            out.append(base.tp_new(made, <PyObject*>fields, NULL))
         return out
 
     def suggest(self, int64_t u, int64_t v, int64_t lo, int64_t hi, int64_t order_start, int64_t k):
