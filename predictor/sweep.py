@@ -43,7 +43,7 @@ from typing import Any
 from .adapt.simulation import simulate_adaptive
 from .builder import build_from_counts, check_build_options
 from .chart import sweep_chart
-from .counting.counter import count_corpus
+from .counting import count_corpus
 from .errors import OptionError
 from .estimate import METHODS
 from .query.model import load

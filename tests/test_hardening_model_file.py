@@ -22,12 +22,12 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from public_text import kjv_split, write_lines
 
 import foretype
 from foretype.errors import ForetypeError, ModelFileError, ModelVersionError
-from foretype.query.verify import verify_model
 from foretype.modelfile.format import crc32
-from public_text import kjv_split, write_lines
+from foretype.query.verify import verify_model
 
 PREAMBLE = struct.Struct("<8sIIII")
 CONTEXTS = [(), ("the",), ("of", "the"), ("and", "god"), ("zzz", "the"), ("said", "unto")]

@@ -76,9 +76,8 @@ import numpy as np
 
 from ..errors import OptionError
 from ..query.model import LanguageModel
-from ..text import capitalise
-from ..text import model_form, split_before_cursor
 from ..query.vocabulary import END, START, PrefixRange, Vocabulary
+from ..text import capitalise, model_form, split_before_cursor
 from .never_list import NeverList
 from .settings import AdaptSettings
 from .user_model import UserContext, UserModel

@@ -52,12 +52,12 @@ from typing import Any, BinaryIO
 
 import numpy as np
 
+from ..demo import cache_folder
 from ..errors import ModelFileError, OptionError, OutputError
-from ..query.model import LanguageModel
 from ..modelfile.atomic import remove_quietly as _remove_quietly
 from ..modelfile.atomic import replace_atomically
 from ..modelfile.atomic import sync_directory as _sync_directory
-from ..demo import cache_folder
+from ..query.model import LanguageModel
 from ..simulate.writing import write_text_atomic
 from ..text import WORD_RE
 from .combined import AdaptedModel

@@ -51,8 +51,8 @@ from typing import Any
 import numpy as np
 
 from ..errors import OptionError
-from ..text import WORD_RE, model_form
 from ..query.vocabulary import END, START, UNKNOWN, Vocabulary
+from ..text import WORD_RE, model_form
 from .settings import AdaptSettings
 
 _RESCALE_AT = 2.0**200

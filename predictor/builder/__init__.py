@@ -6,15 +6,15 @@ import os
 from collections.abc import Callable, Iterable
 
 from ..counting import CorpusCounts, ProgressCallback, count_corpus
+from ..counting.memory import MemoryBudget
 from ..errors import CapacityError, OptionError
 from ..estimate import METHODS, model_counts
 from ..modelfile.encoding import ENCODINGS
 from ..modelfile.levels import fit_levels
 from ..modelfile.limits import MAX_VOCABULARY
-from ..counting.memory import MemoryBudget
 from ..query.model import LanguageModel
-from .ranking import rank_sections
 from ..query.vocabulary import vocabulary_sections
+from .ranking import rank_sections
 
 
 def check_build_options(*, vocab_size: int | None, min_count: int, method: str, add: float, encoding: str | None) -> None:

@@ -9,6 +9,7 @@ from contextlib import AbstractContextManager
 from pathlib import Path
 from typing import TYPE_CHECKING
 
+from ..counting.corpus import read_text_file
 from ..errors import CorpusError
 from ..estimate import METHODS
 from ..simulate import TEXT_MODES, TypistSettings, format_report, simulate, write_trace
@@ -21,7 +22,6 @@ from .output import (
     positive_int,
     print_json,
     progress_bar,
-    read_text_file,
     split_model_argument,
 )
 

@@ -8,21 +8,21 @@ from pathlib import Path
 from typing import Any
 
 from ..builder import build
-from ..counting.counter import CorpusCounts
+from ..counting import CorpusCounts
+from ..counting.corpus import read_text_file
+from ..counting.memory import parse_size, peak_resident_bytes
 from ..errors import OptionError
 from ..estimate import METHODS
 from ..modelfile.encoding import ENCODINGS
-from ..query.verify import verify_model
-from ..counting.memory import parse_size, peak_resident_bytes
-from ..query.model import load
 from ..modelfile.format import check_target
+from ..query.model import load
+from ..query.verify import verify_model
 from .output import (
     add_json_option,
     open_model,
     positive_int,
     print_json,
     progress_bar,
-    read_text_file,
     split_model_argument,
 )
 

@@ -50,10 +50,10 @@ from typing import Any
 
 import numpy as np
 
+from ..counting.scratch import TEMP_PREFIX, lock_exclusively, remove_stale
+from ..errors import ModelFileError, ModelVersionError, OutputError
 from .atomic import remove_quietly as _remove_quietly
 from .atomic import sync_directory as _sync_directory
-from ..errors import ModelFileError, ModelVersionError, OutputError
-from ..counting.scratch import TEMP_PREFIX, lock_exclusively, remove_stale
 
 MAGIC = b"FTMODEL\x00"
 FORMAT_VERSION = 1

@@ -32,7 +32,7 @@ import marisa_trie
 import numpy as np
 
 from ..errors import ModelFileError
-from .format import ModelFile, read_model_file
+from .format import ModelFile
 from .limits import MAX_VOCABULARY
 
 _WORD_TYPES = {"uint16", "int32"}

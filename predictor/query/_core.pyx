@@ -137,6 +137,7 @@ cdef class QueryCore:
     cdef int64_t capacity
     cdef object _keep
     cdef object _made
+    cdef tuple _tail
     cdef object _display
     cdef list _forms
 
@@ -587,16 +588,18 @@ cdef class QueryCore:
         return 0
 
     # ------------------------------------------------------------- entries
-    def bind_suggestions(self, made, display):
+    def bind_suggestions(self, made, display, tuple tail=()):
         """Let :meth:`suggest` build finished suggestions.
 
         Args:
-            made: the tuple subclass to build, with fields (word, prob, order, id).
+            made: the tuple subclass to build, whose fields start (word, prob, order, id).
             display: maps a word id to its display form (asked once per id).
+            tail: the values of the fields after those four, the same in every suggestion.
         """
         if not (isinstance(made, type) and issubclass(made, tuple) and made.__basicsize__ == tuple.__basicsize__):
             raise TypeError("suggestions must be a tuple type without fields of its own (a named tuple)")
         self._made = made
+        self._tail = tail
         self._display = display
         self._forms = [None] * self.size
 
@@ -614,7 +617,7 @@ cdef class QueryCore:
             if form is None:
                 form = self._display(w)
                 forms[w] = form
-            fields = ((form, b.score[i], self._order(b.score[i], b.a2[i], b.a3[i]), w),)
+            fields = ((form, b.score[i], self._order(b.score[i], b.a2[i], b.a3[i]), w) + self._tail,)
             out.append(base.tp_new(made, <PyObject*>fields, NULL))
         return out
 

@@ -57,19 +57,26 @@ def _without(ids: np.ndarray, exclude: np.ndarray) -> np.ndarray:
 
 
 class Suggestion(NamedTuple):
-    """One suggested word.
+    """One suggested word, from a model alone or from a model combined with what a person typed.
 
     Attributes:
         word: the word in display form.
         prob: its probability after the context.
         order: the n-gram order (1, 2 or 3) that supplied most of the probability.
-        id: the word's id in the model's vocabulary.
+        id: the word's id in the model's vocabulary (a combined model numbers the
+            words only the person's model knows from V + 3 on).
+        learned: the person's model supplied more of the probability than the base
+            model (always False for a model alone).
+        new_word: the word is not in the base vocabulary; it exists only because it
+            was learned (always False for a model alone).
     """
 
     word: str
     prob: float
     order: int
     id: int
+    learned: bool = False
+    new_word: bool = False
 
 
 @dataclass(frozen=True)
@@ -147,7 +154,8 @@ class LanguageModel:
         if compiled if compiled is not None else default_path() == COMPILED:
             arrays = {**sections, "p1": self._p1, "l2.off": self._off2, "l2.gamma": self._g2}
             self._compiled = make_core(arrays, self._interpolated, DECODE_TABLE)
-            self._compiled.bind_suggestions(Suggestion, self.vocab.display)
+            tail = tuple(Suggestion._field_defaults[name] for name in Suggestion._fields[4:])
+            self._compiled.bind_suggestions(Suggestion, self.vocab.display, tail)
 
     @property
     def query_path(self) -> str:

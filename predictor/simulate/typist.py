@@ -19,30 +19,17 @@ from __future__ import annotations
 
 import math
 import time
-from collections.abc import Callable, Iterator, Sequence
+from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
-from typing import Any, Protocol
+from typing import Any
 
 import numpy as np
 
 from ..errors import OptionError
-from ..query.model import Suggestion
-from ..text import capitalise
-from ..text import model_form
+from ..query.source import SuggestionSource
+from ..text import capitalise, model_form
 from .editing import gap_keystrokes, latest_useful_pick
 from .passage import TEXT_MODES, Passage, PassageWord
-
-
-class SuggestionSource(Protocol):
-    """What the typist asks for suggestions (LanguageModel has both methods)."""
-
-    def context_ids(self, context: Sequence[str]) -> tuple[int, int]:
-        """Map up to two context words (as written) to the ids ``suggest_ids`` takes."""
-        ...
-
-    def suggest_ids(self, u: int, v: int, prefix: str, k: int) -> list[Suggestion]:
-        """The top k words after context (u, v) that start with ``prefix`` (display forms, best first)."""
-        ...
 
 
 @dataclass(frozen=True)

@@ -8,11 +8,10 @@ import re
 from pathlib import Path
 
 import pytest
+from pilot_steps import finish, paste
 from rich.console import Console
 from textual.binding import Binding
 from textual.widgets import DataTable, Input, Static
-
-from pilot_steps import finish, paste
 
 from foretype.tui.app import PadApp
 from foretype.tui.screens.confirm_quit import ConfirmQuitDialog
