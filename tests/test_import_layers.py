@@ -28,6 +28,7 @@ LAYERS: dict[str, int] = {
     "query": 4,
     "builder": 5,
     "chart": 5,
+    "size_chart": 5,
     "demo": 6,
     "simulate": 6,
     "adapt": 7,

@@ -107,6 +107,14 @@ def register(commands: argparse._SubParsersAction) -> None:
         action="store_true",
         help="also type the test text with learning: a user model that starts empty learns each word (adds the learning KSR and latency columns)",
     )
+    p.add_argument("--prune", default="", metavar="C,C,...", help="the size axis: pruning criteria from entropy, prediction, count (with --keep-bytes)")
+    p.add_argument(
+        "--keep-bytes",
+        default="",
+        metavar="F,F,...",
+        help="shares of each full model's file bytes the shrunk models must fit, e.g. 0.5,0.2,0.05 (1: every n-gram, only --values changes); writes DIR/size.svg",
+    )
+    p.add_argument("--values", default="", metavar="E,E,...", help="value encodings of the shrunk models, from log16, float32, codebook8 (default: the model's)")
     _add_typist_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_sweep_command)
@@ -169,17 +177,23 @@ class _Stages:
 
 def run_sweep_command(args: argparse.Namespace) -> int:
     """foretype sweep."""
-    from ..sweep import format_table, parse_methods, parse_vocab_sizes, run_sweep
+    from ..builder.shrink import parse_encodings
+    from ..sweep import format_table, parse_methods, parse_shares, parse_vocab_sizes, run_sweep
 
     settings = _settings(args)
     sizes = parse_vocab_sizes(args.vocab_sizes)
     methods = parse_methods(args.methods)
+    criteria = [c.strip() for c in args.prune.split(",") if c.strip()]
+    shares = parse_shares(args.keep_bytes) if args.keep_bytes.strip() else []
+    encodings = parse_encodings(args.values) if args.values.strip() else []
     text = _read_test_text(args.test)
     stages = _Stages()
 
     def finished(row: SweepRow) -> None:
         stages.close()
         learning = "" if row.adapted_ksr is None else f", learning {100 * row.adapted_ksr:.1f}%"
+        if row.keep_bytes is not None:
+            learning += f"; {row.criterion} to {row.keep_bytes:g} of the bytes, {row.value_encoding} values"
         print(
             f"{row.method}, {row.vocab_size:,} words: KSR {100 * row.ksr:.1f}% (oracle {100 * row.oracle_ksr:.1f}%{learning}), "
             f"p99 {row.latency_p99_us or 0:,.0f} µs, {row.file_bytes / 1e6:.1f} MB",
@@ -198,6 +212,9 @@ def run_sweep_command(args: argparse.Namespace) -> int:
             progress=stages,
             on_row=finished,
             adapt=args.adapt,
+            shrink_criteria=criteria,
+            keep_bytes=shares,
+            value_encodings=encodings,
         )
     finally:
         stages.close()
@@ -207,7 +224,8 @@ def run_sweep_command(args: argparse.Namespace) -> int:
     print(f"corpus: {result.corpus_tokens:,} tokens, counted once in {result.counting_seconds:.1f} s; test: {args.test}; k={settings.k}, {settings.text_mode} mode")
     print(format_table(result.rows))
     out = Path(args.out)
-    print(f"wrote {out / 'sweep.csv'}, {out / 'sweep.json'}, {out / 'sweep.svg'}")
+    size_chart = f", {out / 'size.svg'}" if shares else ""
+    print(f"wrote {out / 'sweep.csv'}, {out / 'sweep.json'}, {out / 'sweep.svg'}{size_chart}")
     print("RSS = resident memory the model costs: RSS growth across loading it plus the mapped file pages its queries touched (psutil; approximate).")
     print("Simulated savings are estimates for comparing models, not a clinical assessment of anyone's needs.")
     return 0

@@ -25,6 +25,7 @@ from .output import (
     progress_bar,
     split_model_argument,
 )
+from .shrink_commands import describe_shrink
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -44,7 +45,8 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces, blank lines end sentences")
     p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
     p.add_argument("--reject-binary", action="store_true", help="fail on binary files inside folders instead of skipping them")
-    p.add_argument("--values", choices=ENCODINGS, default=None, help="stored value encoding (default log16; float32 for katz and mle)")
+    p.add_argument("--values", choices=(*ENCODINGS, "codebook8"), default=None, help="stored value encoding (default log16; float32 for katz and mle; codebook8: one byte per value)")
+    p.add_argument("--cutoffs", type=_cutoffs, default=None, metavar="C2,C3", help="store only bigrams seen at least C2 times and trigrams at least C3 times (back-off form)")
     p.add_argument(
         "--max-memory",
         type=_memory_size,
@@ -92,6 +94,16 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.set_defaults(handler=run_check)
 
 
+def _cutoffs(text: str) -> tuple[int, int]:
+    """argparse type: count cutoffs such as 2,3."""
+    from ..builder.shrink import parse_cutoffs
+
+    try:
+        return parse_cutoffs(text)
+    except OptionError as error:
+        raise argparse.ArgumentTypeError(str(error)) from None
+
+
 def _memory_size(text: str) -> int:
     """argparse type: a memory size such as 512M or 2G."""
     try:
@@ -125,6 +137,7 @@ def run_build(args: argparse.Namespace) -> int:
             max_memory=args.max_memory,
             spill_dir=spill_dir,
             on_counted=note_counts,
+            cutoffs=args.cutoffs,
         )
     size = model.save(args.output)
     seconds = time.perf_counter() - started
@@ -231,6 +244,7 @@ def run_info(args: argparse.Namespace) -> int:
     model = open_model(model_path)
     info = model.info()
     info["model"] = str(model.path) if model.path else None
+    info["shrink"] = model.meta.get("shrink")
     if args.json:
         print_json(info)
         return 0
@@ -246,6 +260,9 @@ def run_info(args: argparse.Namespace) -> int:
         f"  corpus           {info['corpus_tokens']:,} tokens\n"
         f"  queries          answered by {info['query_path_note']}"
     )
+    shrunk = describe_shrink(model)
+    if shrunk:
+        print(f"  shrunk           {shrunk}")
     return 0
 
 
