@@ -22,6 +22,7 @@ import pytest
 
 import foretype
 from foretype.query.model import LanguageModel
+from foretype.builder.shrink import shrink
 from foretype.query import compiled as query_path
 from foretype.text import model_form, split_before_cursor
 from public_text import kjv_split, write_lines
@@ -164,6 +165,20 @@ def test_the_compiled_core_is_built_where_a_compiler_exists():
     if shutil.which("cc") is None and shutil.which("gcc") is None:
         pytest.skip("no C compiler on this machine")
     assert query_path.compiled_available()
+
+
+@pytest.mark.parametrize("method, encoding", [("kneser-ney", "codebook8"), ("katz", "codebook8"), ("linear", "log16")])
+def test_both_paths_agree_on_shrunk_models(counts, positions, method, encoding):
+    # Reference: the numpy path; shrunk models store 8-bit codes with a codebook per level
+    # (or 16-bit codes) and fewer n-grams, with ranked lists recomputed.
+    model = shrink(foretype.build_from_counts(counts["narrow"], method=method), criterion="entropy", threshold=1e-7, encoding=encoding)
+    assert str(model.meta["value_encoding"]) == encoding
+    compiled, reference = twins(model)
+    for context, prefix, k in queries(model, positions, 400, seed=3):
+        assert compiled.suggest(context, prefix, k) == reference.suggest(context, prefix, k), (context, prefix, k)
+        u, v = reference.context_ids(context)
+    outcomes = np.arange(model.vocab_size + 2, dtype=np.int64)
+    assert np.array_equal(compiled.probabilities_of(u, v, outcomes), reference.probabilities_of(u, v, outcomes))
 
 
 def test_bad_ids_from_a_caller_raise_instead_of_reading_outside_the_arrays(counts):

@@ -29,7 +29,7 @@ ids, id ranges, outcome ids) is checked on entry.
 """
 
 from cpython.object cimport PyObject, PyTypeObject
-from libc.stdint cimport int32_t, int64_t, uint16_t, uint32_t, uint64_t
+from libc.stdint cimport int32_t, int64_t, uint8_t, uint16_t, uint32_t, uint64_t
 from libc.stdlib cimport free, realloc
 from libc.string cimport memmove
 
@@ -43,6 +43,7 @@ cdef enum:
     K_I64 = 4
     K_F32 = 5
     K_F64 = 6
+    K_U8 = 7
 
 SCORE_ALL_WORDS = SCORE_ALL
 
@@ -117,7 +118,7 @@ cdef struct Best:
 
 def _kind(array):
     name = array.dtype.name
-    return {"uint16": K_U16, "int32": K_I32, "uint32": K_U32, "uint64": K_U64, "int64": K_I64, "float32": K_F32, "float64": K_F64}[name]
+    return {"uint8": K_U8, "uint16": K_U16, "int32": K_I32, "uint32": K_U32, "uint64": K_U64, "int64": K_I64, "float32": K_F32, "float64": K_F64}[name]
 
 
 cdef class QueryCore:
@@ -126,11 +127,15 @@ cdef class QueryCore:
     Args:
         sections: the model's arrays after the load checks (or as built).
         interpolated: whether stored values add to the lower order (else they replace it).
-        decode_table: float64 value of every 16-bit value code.
+        table2, table3: float64 value of every code of the level's stored
+            values (8- or 16-bit codes), or None where the level stores float32.
+
+    Raises:
+        ValueError: a layout this core does not read (a value type without its table).
     """
 
-    cdef Arr p1, off2, w2, a2, g2, off3, w3, a3, g3, r2off, r2ids, r3slot, r3off, r3ids, order, table
-    cdef bint interpolated, ranked, log16
+    cdef Arr p1, off2, w2, a2, g2, off3, w3, a3, g3, r2off, r2ids, r3slot, r3off, r3ids, order, table2, table3
+    cdef bint interpolated, ranked
     cdef int64_t size, n2, start
     cdef Ctx ctx
     cdef Best best
@@ -148,7 +153,7 @@ cdef class QueryCore:
         self.best.a3 = NULL
         self.capacity = 0
 
-    def __init__(self, sections, bint interpolated, decode_table):
+    def __init__(self, sections, bint interpolated, table2, table3):
         keep = []
         self.interpolated = interpolated
         self.size = len(sections["vocab.words_off"]) - 1
@@ -167,9 +172,14 @@ cdef class QueryCore:
         self._set(&self.a3, sections["l3.value"], keep)
         self._set(&self.g3, sections["l3.gamma"], keep)
         self._set(&self.order, sections["vocab.order"], keep)
-        self.log16 = sections["l2.value"].dtype == np.uint16
-        table = np.ascontiguousarray(decode_table, dtype=np.float64)
-        self._set(&self.table, table, keep)
+        for level, values, table in (("l2", sections["l2.value"], table2), ("l3", sections["l3.value"], table3)):
+            codes = {"uint8": 256, "uint16": 65536}.get(values.dtype.name)
+            if codes is None and values.dtype.name != "float32":
+                raise ValueError(f"{level} values of type {values.dtype.name} are not read by the compiled core")
+            if codes is not None and (table is None or len(table) < codes):
+                raise ValueError(f"{level} values need a table of {codes} entries")
+        self._set(&self.table2, np.ascontiguousarray(table2 if table2 is not None else np.zeros(1), dtype=np.float64), keep)
+        self._set(&self.table3, np.ascontiguousarray(table3 if table3 is not None else np.zeros(1), dtype=np.float64), keep)
         self.ranked = "rank2.off" in sections
         if self.ranked:
             self._set(&self.r2off, np.ascontiguousarray(sections["rank2.off"], dtype=np.int64), keep)
@@ -186,6 +196,8 @@ cdef class QueryCore:
         if array.ndim != 1:
             raise ValueError("model arrays are one-dimensional")
         keep.append(array)
+        if array.dtype.name not in ("uint8", "uint16", "int32", "uint32", "uint64", "int64", "float32", "float64"):
+            raise ValueError(f"arrays of type {array.dtype.name} are not read by the compiled core")
         target.p = <const char*><size_t>array.ctypes.data
         target.kind = _kind(array)
         target.n = array.shape[0]
@@ -251,9 +263,12 @@ cdef class QueryCore:
         return 0
 
     # -------------------------------------------------------------- scoring
-    cdef inline double _value(self, const Arr* values, int64_t i) noexcept nogil:
-        if self.log16:
-            return fget(&self.table, (<const uint16_t*>values.p)[i])
+    cdef inline double _value(self, const Arr* values, const Arr* table, int64_t i) noexcept nogil:
+        """A stored value decoded: a code looked up in its level's table, or a float32 widened."""
+        if values.kind == K_U16:
+            return fget(table, (<const uint16_t*>values.p)[i])
+        if values.kind == K_U8:
+            return fget(table, (<const uint8_t*>values.p)[i])
         return <double>(<const float*>values.p)[i]
 
     cdef inline double _p2(self, int64_t w, int64_t lo, int64_t hi, double* a2) noexcept nogil:
@@ -268,7 +283,7 @@ cdef class QueryCore:
         pos = lower_bound(&self.w2, lo, hi, w)
         lower = c.g2v * p
         if pos < hi and iget(&self.w2, pos) == w:
-            value = self._value(&self.a2, pos)
+            value = self._value(&self.a2, &self.table2, pos)
             a2[0] = value
             return value + lower if self.interpolated else value
         a2[0] = 0.0
@@ -285,7 +300,7 @@ cdef class QueryCore:
         pos = lower_bound(&self.w3, lo, hi, w)
         lower = c.gamma3 * p2
         if pos < hi and iget(&self.w3, pos) == w:
-            value = self._value(&self.a3, pos)
+            value = self._value(&self.a3, &self.table3, pos)
             a3[0] = value
             return value + lower if self.interpolated else value
         a3[0] = 0.0
@@ -386,7 +401,7 @@ cdef class QueryCore:
         cdef double g2v = self.ctx.g2v
         for pos in range(start, stop):
             w = iget(&self.w2, pos)
-            value = self._value(&self.a2, pos)
+            value = self._value(&self.a2, &self.table2, pos)
             lower = g2v * fget(&self.p1, w)
             p2 = value + lower if self.interpolated else value
             p3 = self._p3(w, p2, a_lo, a_hi, &a3)
@@ -438,7 +453,7 @@ cdef class QueryCore:
                 at = lower_bound(&self.w3, a_start, a_stop, w)
                 if at < a_stop and iget(&self.w3, at) == w:
                     continue
-            value = self._value(&self.a2, pos)
+            value = self._value(&self.a2, &self.table2, pos)
             lower = c.g2v * fget(&self.p1, w)
             p2 = value + lower if self.interpolated else value
             # Not stored after the pair: P = 0.0 + gamma3 * P2 (interpolated) or gamma3 * P2.

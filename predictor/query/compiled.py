@@ -14,6 +14,8 @@ from typing import Any
 
 import numpy as np
 
+from ..modelfile.encoding import value_table
+
 PURE_ENV = "FORETYPE_PURE"
 """Set to 1 to make every model answer on the numpy path."""
 
@@ -52,12 +54,13 @@ def describe_path(path: str) -> str:
     return "the numpy path"
 
 
-def make_core(sections: dict[str, np.ndarray], interpolated: bool, decode_table: np.ndarray) -> Any:
+def make_core(sections: dict[str, np.ndarray], interpolated: bool) -> Any:
     """A compiled core over a model's arrays (which passed the load checks or were just built).
 
     Raises:
         RuntimeError: the compiled core is not built.
+        ValueError: the arrays have a layout the core does not read.
     """
     if QueryCore is None:
         raise RuntimeError("the compiled query core is not built")
-    return QueryCore(sections, interpolated, decode_table)
+    return QueryCore(sections, interpolated, value_table(sections, "l2"), value_table(sections, "l3"))

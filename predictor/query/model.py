@@ -28,7 +28,7 @@ from typing import Any, NamedTuple
 import numpy as np
 
 from ..errors import OptionError
-from ..modelfile.encoding import DECODE_TABLE, decode
+from ..modelfile.encoding import decode
 from ..modelfile.format import FORMAT_VERSION, read_model_file, write_model_file
 from ..modelfile.integrity import check_structure
 from ..text import capitalise, iter_sentences, model_form, split_before_cursor
@@ -153,9 +153,15 @@ class LanguageModel:
         self._compiled = None
         if compiled if compiled is not None else default_path() == COMPILED:
             arrays = {**sections, "p1": self._p1, "l2.off": self._off2, "l2.gamma": self._g2}
-            self._compiled = make_core(arrays, self._interpolated, DECODE_TABLE)
-            tail = tuple(Suggestion._field_defaults[name] for name in Suggestion._fields[4:])
-            self._compiled.bind_suggestions(Suggestion, self.vocab.display, tail)
+            try:
+                self._compiled = make_core(arrays, self._interpolated)
+            except ValueError:
+                if compiled:
+                    raise
+                self._compiled = None  # a layout the core does not read: the numpy path answers
+            if self._compiled is not None:
+                tail = tuple(Suggestion._field_defaults[name] for name in Suggestion._fields[4:])
+                self._compiled.bind_suggestions(Suggestion, self.vocab.display, tail)
 
     @property
     def query_path(self) -> str:
