@@ -18,7 +18,17 @@ from ..errors import ForetypeError, OptionError
 from ..query.compiled import default_path, describe_path
 from ..version import __version__
 
-COMMAND_MODULES = ("model_commands", "measure_commands", "learn_commands", "run_commands", "shrink_commands")
+COMMAND_MODULES = (
+    "model_commands",
+    "measure_commands",
+    "compare_commands",
+    "learn_commands",
+    "run_commands",
+    "shrink_commands",
+    "arpa_commands",
+    "serve_commands",
+    "study_commands",
+)
 """The modules whose ``register(subparsers)`` adds commands, in help order."""
 
 INTERNAL_ERROR = 70
