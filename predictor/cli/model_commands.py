@@ -271,7 +271,8 @@ def run_info(args: argparse.Namespace) -> int:
         f"  n-grams stored   {n['1']:,} unigrams, {n['2']:,} bigrams, {n['3']:,} trigrams\n"
         f"  possible         {info['possible_trigrams']:.3g} trigrams over this vocabulary\n"
         f"  file             {info['file_bytes']:,} bytes, {info['bytes_per_ngram']:.2f} bytes per stored n-gram\n"
-        f"  corpus           {info['corpus_tokens']:,} tokens"
+        f"  corpus           {info['corpus_tokens']:,} tokens\n"
+        f"  queries          answered by {info['query_path_note']}"
     )
     shrunk = describe_shrink(model)
     if shrunk:
