@@ -1,6 +1,6 @@
 """Tokenizer rules: words, sentence ends, case folding, display forms, bad bytes.
 
-The rules are the ones predictor/text.py and README's "Text conventions"
+The rules are the ones predictor/text.py and docs/models.md "Text conventions"
 state; most are common practice for word-prediction corpora (words with
 inner apostrophes and hyphens kept whole, numbers with inner separators kept
 whole, one sentence per line).  Unicode normalisation follows the Unicode
@@ -126,7 +126,7 @@ def test_sentence_initial_capitals_do_not_count_as_a_words_own_form(kjv_model):
 
 
 def test_a_word_written_only_in_capitals_at_sentence_starts_keeps_them(write_file):
-    # README: a word seen only at sentence starts is lower-cased only when its written form is
+    # docs/models.md: a word seen only at sentence starts is lower-cased only when its written form is
     # just a capitalised model form ("The"); "NASA"-like forms stay as written.
     model = foretype.build([write_file("ABBA went home\nThe end\nand ABBA sang\nTHEN came it\n")])
     assert display(model, "the") == "the"
@@ -172,7 +172,7 @@ def test_counting_in_chunks_splits_sentences_exactly_as_one_pass_does(write_file
 
 
 def test_building_with_wrapped_joins_hard_wrapped_lines_into_sentences(write_file):
-    # README: --wrapped is for hard-wrapped prose; the same text counts as fewer, longer sentences.
+    # docs/models.md: --wrapped is for hard-wrapped prose; the same text counts as fewer, longer sentences.
     path = write_file("And God said\nLet there be light\n\nand there was\nlight\n")
     assert foretype.count_corpus([path]).sentences == 4
     wrapped = foretype.build([path], wrapped=True, method="mle")
