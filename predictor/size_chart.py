@@ -89,8 +89,7 @@ def size_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: s
     if k is not None:
         subtitle = f"k = {k}. " + subtitle
     parts = [
-        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{HEIGHT}" viewBox="0 0 {WIDTH} {HEIGHT}" '
-        'font-family="Helvetica, Arial, sans-serif" font-size="12">',
+        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{HEIGHT}" viewBox="0 0 {WIDTH} {HEIGHT}" font-family="Helvetica, Arial, sans-serif" font-size="12">',
         f'<rect width="{WIDTH}" height="{HEIGHT}" fill="#ffffff"/>',
         f'<text x="{LEFT}" y="22" font-size="15" font-weight="bold">{escape(title)}</text>',
         f'<text x="{LEFT}" y="40" fill="#555555">{escape(subtitle)}</text>',

@@ -222,9 +222,7 @@ def count_on_dask(
 
     # Pass 2: trigrams by id, partitioned, merged by trees per partition.
     started = time.perf_counter()
-    counted = tracker.add(
-        [client.submit(count_block, block, wrapped, replace_bad_bytes, shared, unlisted, plans[block.index], partitions) for block in blocks]
-    )
+    counted = tracker.add([client.submit(count_block, block, wrapped, replace_bad_bytes, shared, unlisted, plans[block.index], partitions) for block in blocks])
     edges = tracker.add([client.submit(piece, result, where) for result in counted for where in (2, 3)])
     roots = {
         kind: [_tree(client, tracker, merge_partition, tracker.add([client.submit(piece, result, slot, p) for result in counted])) for p in range(partitions)]

@@ -274,8 +274,16 @@ def count_to_store(
         if link and on_dashboard is not None:
             on_dashboard(link)
         writer, manifest, facts = count_on_dask(
-            client, files, skipped, str(target), wrapped=wrapped, replace_bad_bytes=replace_bad_bytes,
-            block_bytes=block_bytes, partition_bytes=partition_bytes, budget=budget, progress=progress,
+            client,
+            files,
+            skipped,
+            str(target),
+            wrapped=wrapped,
+            replace_bad_bytes=replace_bad_bytes,
+            block_bytes=block_bytes,
+            partition_bytes=partition_bytes,
+            budget=budget,
+            progress=progress,
         )
     finally:
         client.close()

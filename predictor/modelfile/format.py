@@ -99,7 +99,6 @@ def crc32(data: bytes | memoryview | np.ndarray) -> int:
     return zlib.crc32(view.cast("B")) & 0xFFFFFFFF
 
 
-
 def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sections: Mapping[str, np.ndarray]) -> int:
     """Write a model file atomically.
 
@@ -231,8 +230,6 @@ def _align(position: int) -> int:
     return (position + _ALIGN - 1) // _ALIGN * _ALIGN
 
 
-
-
 def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> ModelFile:
     """Memory-map a model file, check its structure and view its sections.
 
@@ -257,8 +254,7 @@ def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> 
     if version not in READABLE_VERSIONS:
         if version > FORMAT_VERSION:
             raise ModelVersionError(
-                f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} "
-                "(or a damaged file); upgrade foretype or rebuild the model"
+                f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} (or a damaged file); upgrade foretype or rebuild the model"
             )
         raise ModelVersionError(f"{source}: model format version {version}, which this engine does not read; rebuild the model")
     if header_length == 0 or header_length > MAX_HEADER_BYTES:
