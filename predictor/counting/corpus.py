@@ -81,29 +81,40 @@ def resolve_corpus(paths: Iterable[str | os.PathLike[str]], *, reject_binary: bo
     for raw in paths:
         path = Path(raw)
         if path.is_dir():
-            for found in sorted(p for p in path.rglob("*") if p.is_file()):
-                if any(part.startswith(".") for part in found.relative_to(path).parts):
-                    continue
-                if _readable_binary(found):
-                    if reject_binary:
-                        raise CorpusError(f"{found}: binary file inside a corpus folder")
-                    result.skipped.append(found)
-                else:
-                    result.files.append(found)
-        elif path.exists():
-            if not path.is_file():
-                raise CorpusError(f"{path}: not a regular file (a pipe or device)")
-            if _readable_binary(path):
-                raise CorpusError(f"{path}: {_not_text_reason(path)}")
-            result.files.append(path)
+            _add_folder(result, path, reject_binary=reject_binary)
         else:
-            raise CorpusError(f"{path}: no such file or folder")
+            result.files.append(_named_file(path))
     if not result.files:
         raise CorpusError("no text files to read" + (f" ({len(result.skipped)} binary files skipped)" if result.skipped else ""))
     return result
 
 
+def _add_folder(result: CorpusFiles, folder: Path, *, reject_binary: bool) -> None:
+    """Add every non-hidden file below a folder, in sorted order: text to the files, binary to the skipped (or an error)."""
+    for found in sorted(p for p in folder.rglob("*") if p.is_file()):
+        if any(part.startswith(".") for part in found.relative_to(folder).parts):
+            continue
+        if _readable_binary(found):
+            if reject_binary:
+                raise CorpusError(f"{found}: binary file inside a corpus folder")
+            result.skipped.append(found)
+        else:
+            result.files.append(found)
+
+
+def _named_file(path: Path) -> Path:
+    """Check a path named directly (not a folder): it must be an existing regular text file."""
+    if not path.exists():
+        raise CorpusError(f"{path}: no such file or folder")
+    if not path.is_file():
+        raise CorpusError(f"{path}: not a regular file (a pipe or device)")
+    if _readable_binary(path):
+        raise CorpusError(f"{path}: {_not_text_reason(path)}")
+    return path
+
+
 def _readable_binary(path: Path) -> bool:
+    """Tell whether a file looks binary; a file that cannot be read is a CorpusError."""
     try:
         return looks_binary(path)
     except OSError as error:
