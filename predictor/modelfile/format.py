@@ -248,22 +248,41 @@ def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> 
     """
     source = Path(path)
     mapped, size = _map(source)
+    header_length, header_crc = _read_preamble(source, mapped, size)
+    header = mapped[_PREAMBLE.size : _PREAMBLE.size + header_length]
+    if crc32(header) != header_crc:
+        raise ModelFileError(f"{source}: corrupt header (checksum mismatch)")
+    meta, entries = _parse_header(source, header)
+    layout = [_section_entry(source, entry) for entry in entries]
+    _check_layout(source, layout, _PREAMBLE.size + header_length, size)
+    sections, recorded = _view_sections(source, mapped, layout, checksums=checksums)
+    return ModelFile(meta=meta, sections=sections, path=source, file_bytes=size, checksums=recorded)
+
+
+def _read_preamble(source: Path, mapped: mmap.mmap, size: int) -> tuple[int, int]:
+    """Check the magic, the version and the header's length; returns the header's length and recorded CRC-32."""
     magic, version, header_length, header_crc, _ = _PREAMBLE.unpack_from(mapped, 0)
     if magic != MAGIC:
         raise ModelFileError(f"{source}: not a foretype model ({_what_it_looks_like(mapped)})")
-    if version not in READABLE_VERSIONS:
-        if version > FORMAT_VERSION:
-            raise ModelVersionError(
-                f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} (or a damaged file); upgrade foretype or rebuild the model"
-            )
-        raise ModelVersionError(f"{source}: model format version {version}, which this engine does not read; rebuild the model")
+    _check_version(source, version)
     if header_length == 0 or header_length > MAX_HEADER_BYTES:
         raise ModelFileError(f"{source}: corrupt header (implausible length {header_length})")
     if _PREAMBLE.size + header_length > size:
         raise ModelFileError(f"{source}: truncated (header runs past the end of the file)")
-    header = mapped[_PREAMBLE.size : _PREAMBLE.size + header_length]
-    if crc32(header) != header_crc:
-        raise ModelFileError(f"{source}: corrupt header (checksum mismatch)")
+    return header_length, header_crc
+
+
+def _check_version(source: Path, version: int) -> None:
+    """Refuse a format version this engine does not read, saying whether to upgrade or to rebuild."""
+    if version in READABLE_VERSIONS:
+        return
+    if version > FORMAT_VERSION:
+        raise ModelVersionError(f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} (or a damaged file); upgrade foretype or rebuild the model")
+    raise ModelVersionError(f"{source}: model format version {version}, which this engine does not read; rebuild the model")
+
+
+def _parse_header(source: Path, header: bytes) -> tuple[dict[str, Any], list[Any]]:
+    """Decode the header JSON into its ``meta`` object and its list of section entries."""
     try:
         parsed = json.loads(header.decode("utf-8"))
         meta = parsed["meta"]
@@ -272,8 +291,15 @@ def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> 
             raise TypeError
     except (ValueError, KeyError, TypeError, UnicodeDecodeError, RecursionError):
         raise ModelFileError(f"{source}: corrupt header (not the expected JSON)") from None
-    layout = [_section_entry(source, entry) for entry in entries]
-    _check_layout(source, layout, _PREAMBLE.size + header_length, size)
+    return meta, entries
+
+
+def _view_sections(source: Path, mapped: mmap.mmap, layout: list[_Entry], *, checksums: bool) -> tuple[dict[str, np.ndarray], dict[str, int]]:
+    """View each checked section as a read-only array of the mapped file (checking its CRC-32 unless told not to).
+
+    Returns:
+        The arrays by name, and the CRC-32 the header records for each.
+    """
     sections: dict[str, np.ndarray] = {}
     recorded: dict[str, int] = {}
     for name, dtype, shape, offset, nbytes, crc in layout:
@@ -283,7 +309,7 @@ def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> 
             raise ModelFileError(f"{source}: corrupt (section {name} checksum mismatch)")
         sections[name] = array
         recorded[name] = crc
-    return ModelFile(meta=meta, sections=sections, path=source, file_bytes=size, checksums=recorded)
+    return sections, recorded
 
 
 def _map(source: Path) -> tuple[mmap.mmap, int]:
