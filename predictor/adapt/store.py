@@ -24,16 +24,14 @@ file beside it as ``<file>.format-1``.
 from __future__ import annotations
 
 import glob
-import json
 import os
 import sqlite3
 import tempfile
 import time
 import zlib
-from collections.abc import Callable, Iterator, Sequence
-from contextlib import contextmanager
+from collections.abc import Callable, Sequence
 from pathlib import Path
-from typing import Any
+from typing import Any, BinaryIO
 
 from ..atomic import remove_quietly as _remove_quietly
 from ..atomic import replace_atomically
@@ -43,16 +41,13 @@ from ..model import LanguageModel
 from ..text import WORD_RE
 from . import learned_db
 from .combined import AdaptedModel
+from .export import PRIVACY_NOTE, export_learned
 from .journal_v1 import is_journal, read_journal, state_of
 from .never_list import normalise_entry
 from .records import RECORD_ERRORS, LearnedState, apply_record, rebuild
 from .settings import AdaptSettings
 from .user_model import UserModel
-
-try:  # advisory locks; on systems without fcntl writers are not serialised
-    import fcntl
-except ImportError:  # pragma: no cover - not on Linux or macOS
-    fcntl = None  # type: ignore[assignment]
+from .writer_lock import LOCKS_AVAILABLE, acquire, lock_path, locked, release
 
 SUFFIX = ".learned"
 """A model's learned file is the model's path with this appended."""
@@ -60,12 +55,6 @@ FORMAT_1_SUFFIX = ".format-1"
 """A converted format-1 file is kept beside the new one with this appended."""
 COMPACT_EVERY = 500
 """Changes recorded between two rewrites of the counts tables."""
-PRIVACY_NOTE = (
-    "A learned file holds personal text (the words and phrases typed). "
-    "It stays on this machine: foretype never sends it anywhere. Inspect it with 'foretype learned', "
-    "export it, prune it, or wipe it."
-)
-"""Said wherever learned data is shown."""
 
 
 def default_learned_path(model_path: str | os.PathLike[str] | None) -> Path:
@@ -246,7 +235,7 @@ def wipe_learned(path: str | os.PathLike[str]) -> bool:
         OutputError: another process is writing it, or it cannot be removed.
     """
     target = Path(path)
-    with _locked(target):
+    with locked(target):
         removed = False
         for part in (target, *learned_db.companions(target), target.with_name(target.name + FORMAT_1_SUFFIX)):
             try:
@@ -257,42 +246,18 @@ def wipe_learned(path: str | os.PathLike[str]) -> bool:
             except OSError as error:
                 raise OutputError(f"{part}: cannot remove ({error.strerror or error})") from None
         _sync_directory(target.parent if str(target.parent) else Path("."))
-    _remove_quietly(str(_lock_path(target)))
+    _remove_quietly(str(lock_path(target)))
     return removed
 
 
 # ---------------------------------------------------------------- writing
-def _lock_path(path: Path) -> Path:
-    return path.with_name(path.name + ".lock")
+def _writer(data: bytes) -> Callable[[BinaryIO], None]:
+    """A writer for :func:`replace_atomically` that writes ``data``."""
 
+    def write(out: BinaryIO) -> None:
+        out.write(data)
 
-@contextmanager
-def _locked(path: Path) -> Iterator[None]:
-    handle = _acquire(path)
-    try:
-        yield
-    finally:
-        _release(handle)
-
-
-def _acquire(path: Path) -> int | None:
-    if fcntl is None:
-        return None
-    try:
-        handle = os.open(_lock_path(path), os.O_RDWR | os.O_CREAT, 0o600)
-    except OSError as error:
-        raise OutputError(f"{path}: cannot write ({error.strerror or error})") from None
-    try:
-        fcntl.flock(handle, fcntl.LOCK_EX | fcntl.LOCK_NB)
-    except OSError:
-        os.close(handle)
-        raise OutputError(f"{path}: in use by another foretype process (close it first)") from None
-    return handle
-
-
-def _release(handle: int | None) -> None:
-    if handle is not None:
-        os.close(handle)  # closing releases the lock
+    return write
 
 
 def _create(path: Path, state: LearnedState, changes: Sequence[dict[str, Any]] = ()) -> None:
@@ -363,13 +328,13 @@ class LearnedFile:
         self.converted_from: Path | None = None
         self._conn: sqlite3.Connection | None = None
         self._pending = 0
-        self._lock = _acquire(self.path)
+        self._lock = acquire(self.path)
         try:
             self._remove_stale_temporaries()
             self.model = self._open(base)
         except BaseException:
             self._close_connection()
-            _release(self._lock)
+            release(self._lock)
             raise
 
     def _open(self, base: LanguageModel) -> AdaptedModel:
@@ -380,7 +345,7 @@ class LearnedFile:
             # The same state and changes move to the new file, so it replays exactly as the old one read.
             model, data, state, changes = _journal_model(self.path, base)
             kept = self.path.with_name(self.path.name + FORMAT_1_SUFFIX)
-            replace_atomically(kept, lambda out: out.write(data))
+            replace_atomically(kept, _writer(data))
             _create(self.path, state, changes)
             self.converted_from = kept
             self._conn = self._connect()
@@ -538,12 +503,12 @@ class LearnedFile:
         """Release the file (changes are already on disk)."""
         self._close_connection()
         if self._lock is not None:
-            _release(self._lock)
+            release(self._lock)
             self._lock = None
 
     # ------------------------------------------------------------ internals
     def _ensure_file(self) -> None:
-        if self._lock is None and fcntl is not None:
+        if self._lock is None and LOCKS_AVAILABLE:
             raise OutputError(f"{self.path}: the learned file was closed")
         if self._conn is None:
             self.compact()
@@ -605,7 +570,7 @@ def save_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> int:
     """
     target = Path(path)
     state = LearnedState.of(model)
-    with _locked(target):
+    with locked(target):
         conn = None
         head = None if target.is_dir() else _head(target)
         if head is not None and learned_db.is_database(head):
@@ -627,45 +592,6 @@ def save_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> int:
             finally:
                 conn.close()
     return learned_db.file_bytes(target)
-
-
-def export_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> dict[str, int]:
-    """Write everything a combined model learned to a plain JSON file (atomically).
-
-    The export lists the settings, the never-suggest list, and every word,
-    bigram and trigram with its decayed count, raw uses and last-seen time,
-    words written out (never ids).
-
-    Returns:
-        How many words, bigrams and trigrams were written.
-
-    Raises:
-        OutputError: the file cannot be written (an existing file stays as it was).
-    """
-    user = model.user
-    words = [
-        {"word": form, "shown_as": user.display(i), "count": count, "uses": uses, "last_seen": seen, "new_word": user.is_learned(i)}
-        for i, form, count, uses, seen in user.word_rows()
-    ]
-    grams = {}
-    for order in (2, 3):
-        grams[order] = [
-            {"words": [user.form(i) for i in ids], "count": count, "uses": uses, "last_seen": seen} for ids, count, uses, seen in user.ngram_rows(order)
-        ]
-    payload = {
-        "format": "foretype-learned-export",
-        "version": 1,
-        "note": PRIVACY_NOTE,
-        "settings": model.settings.to_json(),
-        "never_suggest": model.never.entries,
-        "tokens": user.raw_tokens,
-        "words": words,
-        "bigrams": grams[2],
-        "trigrams": grams[3],
-    }
-    data = (json.dumps(payload, ensure_ascii=False, indent=1) + "\n").encode("utf-8")
-    replace_atomically(path, lambda out: out.write(data))
-    return {"words": len(words), "bigrams": len(grams[2]), "trigrams": len(grams[3])}
 
 
 __all__ = [
