@@ -233,7 +233,10 @@ class AdaptedModel:
 
     def _prepared(self, u: int, v: int) -> PreparedContext:
         """The per-context data for (u, v) under the current snapshot (the last context is kept with it)."""
-        view = self._snapshot()
+        return self._prepared_in(self._snapshot(), u, v)
+
+    @staticmethod
+    def _prepared_in(view: Suggestable, u: int, v: int) -> PreparedContext:
         prepared = view.memo.get("context")
         if prepared is None or prepared.u != u or prepared.v != v:
             prepared = view.memo["context"] = prepare(view, u, v)
@@ -316,8 +319,8 @@ class AdaptedModel:
         """:meth:`suggest` with a context already mapped by :meth:`context_ids` (see the module docstring)."""
         if k < 1:
             raise OptionError(f"k must be at least 1, not {k}")
-        prepared = self._prepared(u, v)
         view = self._snapshot()
+        prepared = self._prepared_in(view, u, v)
         if prepared.user is None and not self.never and not view.any_new_word:
             return [AdaptedSuggestion(s[0], s[1], s[2], s[3]) for s in self.base.suggest_ids(prepared.ub, prepared.vb, prefix, k)]
         span, key_range = view.ranges_of(prefix, self.base.vocab)

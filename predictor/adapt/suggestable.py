@@ -182,37 +182,41 @@ def derive(previous: Suggestable | None, user: UserModel, never: NeverList, voca
         seen_ok = _unblocked(user.seen_base_ids(), blocked_base)
     insertion = old._insertion if old is not None else {}
     ready_state = (user.ready_epoch, never_version)
-    if old is not None and old._states[2] == ready_state:
+    ready_forms: tuple[str, ...]
+    ready_ids: tuple[int, ...]
+    if old is not None and old._states[2] == ready_state and not user.ready_since(old._states[3]):
+        # Nothing new became suggestable: share the previous snapshot's words, keys and prefix memo.
         taken = old._states[3]
-        fresh = user.ready_since(taken)
-        if fresh:
+        ready_forms, ready_ids, learned_keys, learned_key_array = old.ready_forms, old.ready_ids, old.learned_keys, old.learned_key_array
+        prefixes = old._prefixes
+    else:
+        if old is not None and old._states[2] == ready_state:
+            taken = old._states[3]
+            fresh = user.ready_since(taken)
             ready = _Ready(list(old.ready_forms), list(old.ready_ids), dict(old.learned_keys), old.learned_key_array.copy())
             for word_id in fresh:
                 ready.add(word_id, user, never, vocab, insertion)
             taken += len(fresh)
-            prefixes: dict[str, Any] = {}
         else:
-            ready = _Ready(list(old.ready_forms), list(old.ready_ids), old.learned_keys, old.learned_key_array)
-            prefixes = old._prefixes
-    else:
-        ready = _Ready.build(user, never, vocab, insertion)
-        taken = len(user.ready_since(0))
+            ready = _Ready.build(user, never, vocab, insertion)
+            taken = len(user.ready_since(0))
+        ready_forms, ready_ids, learned_keys, learned_key_array = tuple(ready.forms), tuple(ready.ids), ready.keys, ready.key_array
         prefixes = {}
     states = (never_version, seen_state, ready_state, taken, user.settings.learning)
     if old is not None and old._states[1:] == states[1:]:
         pool_keys, pool_ids, pool_where = old.pool_keys, old.pool_ids, old.pool_where
     else:
-        pool_keys, pool_ids, pool_where = _pool(user, seen_ok, ready)
+        pool_keys, pool_ids, pool_where = _pool(user, seen_ok, ready_ids, learned_key_array)
     return Suggestable(
         user=user,
         version=(user.version, never_version),
         blocked_base=blocked_base,
         blocked=blocked,
         seen_ok=seen_ok,
-        ready_forms=tuple(ready.forms),
-        ready_ids=tuple(ready.ids),
-        learned_keys=ready.keys,
-        learned_key_array=ready.key_array,
+        ready_forms=ready_forms,
+        ready_ids=ready_ids,
+        learned_keys=learned_keys,
+        learned_key_array=learned_key_array,
         pool_keys=pool_keys,
         pool_ids=pool_ids,
         pool_where=pool_where,
@@ -288,14 +292,14 @@ class _Ready:
             self.key_array[ids[i] - first] = key
 
 
-def _pool(user: UserModel, seen_ok: np.ndarray, ready: _Ready) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def _pool(user: UserModel, seen_ok: np.ndarray, ready_ids: tuple[int, ...], key_array: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Every suggestable counted word (new words only while learning is on), in sort-key order, and positions."""
     keys = (seen_ok << KEY_SHIFT) | BASE_KEY_LOW
     ids = seen_ok
-    if user.settings.learning and ready.ids:
-        new_ids = np.array(ready.ids, dtype=np.int64)
+    if user.settings.learning and ready_ids:
+        new_ids = np.array(ready_ids, dtype=np.int64)
         # Both parts are sorted (new words by form, and so by key): a stable sort merges the two runs.
-        keys = np.concatenate((keys, ready.key_array[new_ids - user.first_learned_id]))
+        keys = np.concatenate((keys, key_array[new_ids - user.first_learned_id]))
         ids = np.concatenate((ids, new_ids))
         order = np.argsort(keys, kind="stable")
         keys, ids = keys[order], ids[order]

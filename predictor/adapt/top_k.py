@@ -163,6 +163,7 @@ def exact_top(base: LanguageModel, view: Suggestable, prepared: PreparedContext,
     where_item = view.pool_where.item if prepared.ids is view.pool_ids else None
     p_user_item = prepared.p_user.item
     blocked = view.blocked
+    row = tuple.__new__  # Candidate rows built without the named tuple's Python-level constructor
     a_depth = k + GUARD
     while True:
         # List A: the base model's own exact ranking of the range's base words.
@@ -177,13 +178,13 @@ def exact_top(base: LanguageModel, view: Suggestable, prepared: PreparedContext,
             a_user = [p_user_item(at) if at >= 0 else 0.0 for at in map(where_item, a_ids)]
         else:
             a_user = pool.p_user_of(found).tolist()
-        rows = [Candidate(-(m * pb + mu * pu), (i << KEY_SHIFT) | BASE_KEY_LOW, i, pb, pu) for i, pb, pu in zip(a_ids, a_base, a_user) if i not in blocked]
+        rows = [row(Candidate, (-(m * pb + mu * pu), (i << KEY_SHIFT) | BASE_KEY_LOW, i, pb, pu)) for i, pb, pu in zip(a_ids, a_base, a_user) if i not in blocked]
         rows.sort()
         # Every unread word of the range scores at most m * a_last + mu * P_user (its own P_user).
         c_ids, c_user, c_keys = pool.reaching(m * a_last, mu, -rows[k - 1].neg_score if len(rows) >= k else -math.inf, set(a_ids), k)
         if c_ids:
             c_base = base_probabilities(base, np.array(c_ids, dtype=np.int64), prepared.ub, prepared.vb, view.user.end_id).tolist()
-            rows.extend(Candidate(-(m * pb + mu * pu), key, i, pb, pu) for i, pb, pu, key in zip(c_ids, c_base, c_user, c_keys))
+            rows.extend(row(Candidate, (-(m * pb + mu * pu), key, i, pb, pu)) for i, pb, pu, key in zip(c_ids, c_base, c_user, c_keys))
             rows.sort()
         if a_done:
             break
