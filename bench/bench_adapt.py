@@ -28,7 +28,7 @@ goes to bench/out/adapt-<time>.json and bench/out/adapt-latest.json.
 
 ``--against MODULE`` compares the current combined model with an earlier
 copy of the ``predictor/adapt`` package (copy it to, say,
-``predictor/_adapt_old/`` and pass ``predictor._adapt_old``): both learn the
+``predictor/_adapt_old/`` and pass ``foretype._adapt_old``): both learn the
 same text, every query is put to both, alternating which goes first, their
 whole answers (ids, probabilities, orders, marks) must be identical, and the
 table adds the ratio of their medians measured side by side.  It also puts
@@ -58,11 +58,11 @@ sys.path.insert(0, str(HERE.parent / "tests"))
 import corpus as bench_corpus  # noqa: E402
 from machine import describe, finish_facts, machine_facts  # noqa: E402
 
-import predictor  # noqa: E402
-from predictor.adapt import AdaptedModel  # noqa: E402
-from predictor.adapt.learned_db import file_bytes  # noqa: E402
-from predictor.adapt.store import LearnedFile, load_learned  # noqa: E402
-from predictor.text import iter_sentences  # noqa: E402
+import foretype  # noqa: E402
+from foretype.adapt import AdaptedModel, AdaptSettings  # noqa: E402
+from foretype.adapt.learned_db import file_bytes  # noqa: E402
+from foretype.adapt.store import LearnedFile, load_learned  # noqa: E402
+from foretype.text import iter_sentences, model_form  # noqa: E402
 
 K = 5
 TARGETS = {"p50 us": 50, "p99 us": 300}
@@ -76,14 +76,14 @@ def percentiles(samples_ns: list[int]) -> dict[str, float]:
     return {"n": int(len(us)), "p50": float(p50), "p90": float(p90), "p99": float(p99), "max": float(us.max())}
 
 
-def base_model(tokens: int) -> predictor.LanguageModel:
+def base_model(tokens: int) -> foretype.LanguageModel:
     """The 50,000-word synthetic base model (built once and cached)."""
     path = bench_corpus.OUT / f"adapt-synthetic-{tokens}-50k.model"
     if not path.exists():
         train, _ = bench_corpus.synthetic_corpus(tokens)
         print(f"building the 50,000-word base model from {train.name} ...", flush=True)
-        predictor.build([train], vocab_size=50_000).save(path)
-    return predictor.load(path)
+        foretype.build([train], vocab_size=50_000).save(path)
+    return foretype.load(path)
 
 
 def sentences_of(path: Path, limit_tokens: int, skip_tokens: int = 0) -> list[list[str]]:
@@ -127,6 +127,15 @@ def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *
     cpus: dict[str, dict[int, list[int]]] = {name: {p: [] for p in PREFIXES} for name in sources}
     compared = 0
     typed = 0
+
+    def timed(source: Any, name: str, u: int, v: int, prefix: str, letters: int) -> Any:
+        c0, t0 = cpu(), clock()
+        answer = source.suggest_ids(u, v, prefix, K)
+        t1, c1 = clock(), cpu()
+        wall[name][letters].append(t1 - t0)
+        cpus[name][letters].append(c1 - c0)
+        return answer
+
     for sentence in sentences:
         for i, word in enumerate(sentence):
             context = sentence[max(0, i - 2) : i]
@@ -136,12 +145,9 @@ def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *
                 if letters > len(word):
                     break
                 prefix = word[:letters]
-                if earlier is not None and compared % 2:
-                    c0, t0 = cpu(), clock()
-                    old_answer = earlier.suggest_ids(u, v, prefix, K)
-                    t1, c1 = clock(), cpu()
-                    wall["earlier"][letters].append(t1 - t0)
-                    cpus["earlier"][letters].append(c1 - c0)
+                old_first = earlier is not None and compared % 2 == 1
+                if old_first:
+                    old_answer = timed(earlier, "earlier", u, v, prefix, letters)
                 c0, t0 = cpu(), clock()
                 answer = model.suggest_ids(u, v, prefix, K)
                 t1, c1 = clock(), cpu()
@@ -152,14 +158,9 @@ def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *
                 wall["base"][letters].append(t2 - t1)
                 cpus["base"][letters].append(c2 - c1)
                 if earlier is not None:
-                    if compared % 2 == 0:
-                        c0, t0 = cpu(), clock()
-                        old_answer = earlier.suggest_ids(u, v, prefix, K)
-                        t1, c1 = clock(), cpu()
-                        wall["earlier"][letters].append(t1 - t0)
-                        cpus["earlier"][letters].append(c1 - c0)
-                    if [tuple(s) for s in answer] != [tuple(s) for s in old_answer]:
-                        raise SystemExit(f"answers differ after {context} {prefix!r}: {answer} against {old_answer}")
+                    if not old_first:
+                        old_answer = timed(earlier, "earlier", u, v, prefix, letters)
+                    same_answers(answer, old_answer, f"after {context} {prefix!r}")
                     compared += 1
             if learning:
                 model.learn([word], after=context, end=i == len(sentence) - 1)
@@ -189,7 +190,52 @@ def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *
     return result
 
 
-def compare_after_edits(earlier_class: Any, base: predictor.LanguageModel, sentences: list[list[str]], rounds: int, seed: int = 7) -> int:
+def same_answers(mine: list[Any], theirs: list[Any], where: str) -> None:
+    """Stop the run if two answers differ in any field (ids, probabilities, orders, marks).
+
+    Raises:
+        SystemExit: they differ.
+    """
+    if [tuple(s) for s in mine] != [tuple(s) for s in theirs]:
+        raise SystemExit(f"answers differ {where}: {mine} against {theirs}")
+
+
+def random_edit(model: Any, edit: int, round_number: int, vocabulary: list[str]) -> None:
+    """One edit as ``foretype learned`` makes them, drawn the same way for every model given the same round."""
+    r = random.Random(round_number)
+    if edit == 0:
+        model.never.add(r.choice(vocabulary)[:3] + "*")
+    elif edit == 1 and model.never.entries:
+        model.never.remove(r.choice(model.never.entries))
+    elif edit == 2:
+        model.user.forget(r.choice(vocabulary))
+    elif edit == 3:
+        model.user.prune(below=1.5 if r.random() < 0.5 else None, seen_before=1_800_000_000 + round_number // 2)
+    elif edit == 4:
+        model.user.set_settings(model.user.settings.changed(learning=not model.user.settings.learning))
+    else:
+        model.user.set_settings(AdaptSettings(learning=True, min_uses=r.choice([1, 2, 3]), half_life=r.choice([None, 200.0, 1000.0])))
+
+
+def compare_sentence(now: AdaptedModel, old: Any, sentence: list[str]) -> int:
+    """Put every query of typing one sentence to both models (k = 1, 5, 12); returns how many."""
+    compared = 0
+    for i in range(len(sentence) + 1):
+        context = sentence[max(0, i - 2) : i]
+        word = sentence[i] if i < len(sentence) else ""
+        u, v = now.context_ids(context)
+        if (u, v) != old.context_ids(context):
+            raise SystemExit(f"context ids differ after {context}")
+        for letters in range(min(2, len(word)) + 1):
+            for k in (1, 5, 12):
+                same_answers(now.suggest_ids(u, v, word[:letters], k), old.suggest_ids(u, v, word[:letters], k), f"after {context} {word[:letters]!r} k={k}")
+                compared += 1
+    if not np.array_equal(now.distribution(sentence[:2]), old.distribution(sentence[:2])):
+        raise SystemExit(f"distributions differ after {sentence[:2]}")
+    return compared
+
+
+def compare_after_edits(earlier_class: Any, base: foretype.LanguageModel, sentences: list[list[str]], rounds: int, seed: int = 7) -> int:
     """Put the same queries to the current and an earlier combined model after random edits; returns how many.
 
     Both models learn the same sentences; between rounds, never-suggest entries
@@ -199,9 +245,6 @@ def compare_after_edits(earlier_class: Any, base: predictor.LanguageModel, sente
     Raises:
         SystemExit: an answer, a distribution or a listing differs.
     """
-    from predictor.adapt import AdaptSettings
-    from predictor.text import model_form
-
     rng = random.Random(seed)
     now, old = AdaptedModel(base), earlier_class(base)
     vocabulary = sorted({model_form(w) for s in sentences for w in s})
@@ -213,37 +256,9 @@ def compare_after_edits(earlier_class: Any, base: predictor.LanguageModel, sente
                 model.learn(sentence, end=True, when=1_800_000_000 + round_number)
         edit = rng.randrange(6)
         for model in (now, old):
-            r = random.Random(round_number)
-            if edit == 0:
-                model.never.add(r.choice(vocabulary)[:3] + "*")
-            elif edit == 1 and model.never.entries:
-                model.never.remove(r.choice(model.never.entries))
-            elif edit == 2:
-                model.user.forget(r.choice(vocabulary))
-            elif edit == 3:
-                model.user.prune(below=1.5 if r.random() < 0.5 else None, seen_before=1_800_000_000 + round_number // 2)
-            elif edit == 4:
-                model.user.set_settings(model.user.settings.changed(learning=not model.user.settings.learning))
-            else:
-                half = r.choice([None, 200.0, 1000.0])
-                model.user.set_settings(AdaptSettings(learning=True, min_uses=r.choice([1, 2, 3]), half_life=half))
+            random_edit(model, edit, round_number, vocabulary)
         for sentence in batch[:10]:
-            for i in range(len(sentence) + 1):
-                context = sentence[max(0, i - 2) : i]
-                word = sentence[i] if i < len(sentence) else ""
-                u, v = now.context_ids(context)
-                if (u, v) != old.context_ids(context):
-                    raise SystemExit(f"context ids differ after {context}")
-                for letters in (0, 1, 2):
-                    if letters > len(word):
-                        break
-                    for k in (1, 5, 12):
-                        mine, theirs = now.suggest_ids(u, v, word[:letters], k), old.suggest_ids(u, v, word[:letters], k)
-                        if [tuple(s) for s in mine] != [tuple(s) for s in theirs]:
-                            raise SystemExit(f"answers differ after {context} {word[:letters]!r} k={k}: {mine} against {theirs}")
-                        compared += 1
-            if not np.array_equal(now.distribution(sentence[:2]), old.distribution(sentence[:2])):
-                raise SystemExit(f"distributions differ after {sentence[:2]}")
+            compared += compare_sentence(now, old, sentence)
         if [tuple(w) for w in now.learned_words()] != [tuple(w) for w in old.learned_words()]:
             raise SystemExit("the learned-word listings differ")
     return compared
@@ -302,7 +317,7 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--learn", type=int, default=None, help="tokens the user model learns first (default 20,000)")
     parser.add_argument("--words", type=int, default=None, help="words typed per run (default 3,000)")
     parser.add_argument("--tokens", type=int, default=5_000_000, help="synthetic base corpus tokens")
-    parser.add_argument("--against", metavar="MODULE", help="an earlier copy of predictor/adapt (e.g. predictor._adapt_old) to compare with, side by side")
+    parser.add_argument("--against", metavar="MODULE", help="an earlier copy of predictor/adapt (e.g. foretype._adapt_old) to compare with, side by side")
     args = parser.parse_args(argv)
     earlier_class = importlib.import_module(f"{args.against}.combined").AdaptedModel if args.against else None
     learn_tokens = args.learn or (5_000 if args.quick else 20_000)
@@ -335,7 +350,7 @@ def main(argv: list[str] | None = None) -> int:
             scenario["learned_file"] = load_time(AdaptedModel(base), learn_part, Path(folder))
             results["scenarios"][name] = scenario
     if earlier_class is not None:
-        small = predictor.build([synthetic_heldout], vocab_size=3_000)
+        small = foretype.build([synthetic_heldout], vocab_size=3_000)
         results["compared_after_edits"] = compare_after_edits(earlier_class, small, sentences_of(kjv_heldout, 40_000), 40 if args.quick else 120)
     finish_facts(results["machine"])
     print_table(results)

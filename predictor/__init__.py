@@ -15,8 +15,8 @@ completions, and score held-out text::
 
 from __future__ import annotations
 
-from .build import build, build_from_counts
-from .counting import CorpusCounts, count_corpus
+from .builder import build, build_from_counts
+from .counting.counter import CorpusCounts, count_corpus
 from .errors import (
     CapacityError,
     CorpusError,
@@ -28,10 +28,10 @@ from .errors import (
     OutputError,
 )
 from .estimate import METHODS
-from .model import LanguageModel, Suggestion, TextScore, load
-from .integrity import verify_model as verify
-from .modelfile import FORMAT_VERSION
-from .vocabulary import END, START, UNKNOWN
+from .query.model import LanguageModel, Suggestion, TextScore, load
+from .query.verify import verify_model as verify
+from .modelfile.format import FORMAT_VERSION
+from .query.vocabulary import END, START, UNKNOWN
 
 __all__ = [
     "build",

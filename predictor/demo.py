@@ -12,11 +12,12 @@ import hashlib
 import os
 from pathlib import Path
 
-from .build import build
-from .counting import ProgressCallback
+from .builder import build
+from .counting.counter import ProgressCallback
 from .errors import CorpusError, ModelFileError
-from .model import LanguageModel, load
-from .modelfile import FORMAT_VERSION
+from .query.model import LanguageModel, load
+from .modelfile.format import FORMAT_VERSION
+from . import demo_vocab  # type: ignore[attr-defined]  # installed as foretype.demo_vocab
 from .version import __version__
 
 DEMO_BUILD = {"vocab_size": None, "min_count": 1, "method": "kneser-ney"}
@@ -25,8 +26,6 @@ DEMO_BUILD = {"vocab_size": None, "min_count": 1, "method": "kneser-ney"}
 
 def demo_folder() -> Path:
     """The folder holding the bundled demo text (installed beside the engine)."""
-    import demo_vocab
-
     return Path(demo_vocab.__file__).resolve().parent
 
 
@@ -64,7 +63,7 @@ def demo_model(progress: ProgressCallback | None = None) -> LanguageModel:
     """Load the cached demo model, building it first if needed.
 
     Args:
-        progress: reading progress, passed to :func:`predictor.build` when a build happens.
+        progress: reading progress, passed to :func:`foretype.builder` when a build happens.
     """
     path = demo_model_path()
     if path.exists():

@@ -16,10 +16,10 @@ counts, saves it in the output folder, loads it back and measures it:
 * ``build_seconds`` (from counts to model), ``load_ms`` (opening the saved file);
 * ``perplexity`` and ``oov_rate`` of the test text;
 * ``ksr``, ``oracle_ksr``, ``baseline_ksr`` and suggestion latency
-  ``latency_p50_us`` / ``latency_p99_us`` from :func:`predictor.simulate.simulate`;
+  ``latency_p50_us`` / ``latency_p99_us`` from :func:`foretype.simulate.simulate`;
 * with adaptation, ``adapted_ksr`` and ``adapted_latency_p50_us`` /
   ``adapted_latency_p99_us``: the same typist again, each word feeding a user
-  model that starts empty (:func:`predictor.adapt.simulation.simulate_adaptive`);
+  model that starts empty (:func:`foretype.adapt.simulation.simulate_adaptive`);
   empty otherwise.
 
 Rows are written to ``sweep.csv``, ``sweep.json`` and the chart ``sweep.svg``
@@ -41,12 +41,12 @@ from pathlib import Path
 from typing import Any
 
 from .adapt.simulation import simulate_adaptive
-from .build import build_from_counts, check_build_options
+from .builder import build_from_counts, check_build_options
 from .chart import sweep_chart
-from .counting import count_corpus
+from .counting.counter import count_corpus
 from .errors import OptionError
 from .estimate import METHODS
-from .model import load
+from .query.model import load
 from .simulate import TypistSettings, read_passage, simulate
 from .simulate.writing import prepare_folder, write_text_atomic
 
@@ -227,7 +227,7 @@ def measure_model(
     """Build, save, load and measure one model of the sweep.
 
     Args:
-        counts: the corpus counts (:class:`predictor.CorpusCounts`).
+        counts: the corpus counts (:class:`foretype.CorpusCounts`).
         method: the estimator.
         vocab_size: the requested vocabulary size.
         test_text: the test text.

@@ -15,7 +15,7 @@ The rules (README "Text conventions" restates them):
   is never predicted.
 * Words are modelled in their *model form*: lower-cased, with the typographic
   apostrophe ’ replaced by '.  Each word keeps its most frequent written form
-  for display (see :mod:`predictor.counting`).
+  for display (see :mod:`foretype.counting`).
 """
 
 from __future__ import annotations
@@ -157,3 +157,8 @@ def split_before_cursor(text: str) -> tuple[list[str], str]:
         else:
             words.append(token)
     return words, prefix
+
+
+def capitalise(word: str) -> str:
+    """The word with its first letter in upper case (as at a sentence start)."""
+    return word[:1].upper() + word[1:]

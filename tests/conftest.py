@@ -50,8 +50,8 @@ class CliResult:
 
 @pytest.fixture
 def run_cli(capsys: pytest.CaptureFixture[str]) -> Callable[..., CliResult]:
-    """Return ``run(*args)``: runs ``predictor.cli.main`` in-process; returns its exit code and output."""
-    from predictor.cli import main
+    """Return ``run(*args)``: runs ``foretype.cli.main`` in-process; returns its exit code and output."""
+    from foretype.cli import main
 
     def run(*args: str | os.PathLike[str]) -> CliResult:
         capsys.readouterr()

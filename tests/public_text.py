@@ -69,7 +69,7 @@ def kjv_split(every: int = HELDOUT_EVERY) -> tuple[tuple[str, ...], tuple[str, .
 
 def model_sentences(verses: Iterable[str]) -> list[list[str]]:
     """The engine's sentences of some verses, words in model form (what reference libraries are given)."""
-    from predictor.text import iter_sentences, model_form
+    from foretype.text import iter_sentences, model_form
 
     return [[model_form(w) for w in sentence] for verse in verses for sentence in iter_sentences(verse)]
 

@@ -8,8 +8,8 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor.adapt.store import load_learned
+import foretype
+from foretype.adapt.store import load_learned
 
 TEXT = "Gorbalt checked the Quillmere nets.\nGorbalt mended the Quillmere nets at dawn.\nThe tide was high at Vessock.\n"
 
@@ -19,7 +19,7 @@ def model_path(tmp_path: Path) -> Path:
     corpus = tmp_path / "corpus.txt"
     corpus.write_text("the tide is high\nthe ferry sails at dawn\nthe nets are dry\ncheck the nets at dawn\n", encoding="utf-8")
     path = tmp_path / "chat.model"
-    predictor.build([corpus]).save(path)
+    foretype.build([corpus]).save(path)
     return path
 
 
@@ -44,7 +44,7 @@ def test_learning_a_file_then_listing_never_suggesting_forgetting_and_exporting(
     assert payload["never_suggest"] == ["q*", "vessock"] and payload["suggestable_new_words"] == 2
     exported = json.loads(export.read_text(encoding="utf-8"))
     assert "dawn" not in {w["word"] for w in exported["words"]} and "gorbalt" in {w["word"] for w in exported["words"]}
-    model = load_learned(Path(f"{model_path}.learned"), predictor.load(model_path))
+    model = load_learned(Path(f"{model_path}.learned"), foretype.load(model_path))
     assert [s.word for s in model.suggest((), "q", 5)] == []  # Quillmere is learned but never shown
 
 
@@ -105,7 +105,7 @@ def test_a_learned_file_of_the_earlier_format_is_converted_by_the_first_change_a
     corpus = tmp_path / "corpus.txt"
     corpus.write_bytes((source / "corpus.txt").read_bytes())
     model = tmp_path / "chat.model"
-    predictor.build([corpus]).save(model)
+    foretype.build([corpus]).save(model)
     old = tmp_path / "chat.model.learned"
     old.write_bytes((source / "chat.model.learned").read_bytes())
     shown = run_cli("learned", model, "--json")
@@ -133,7 +133,7 @@ def test_savings_with_adaptation_reports_both_figures_and_leaves_a_given_user_fi
     assert adaptation["gain"] == pytest.approx(payload["ksr"] - adaptation["ksr_base"])
     assert sum(p["last_word"] - p["first_word"] + 1 for p in adaptation["curve"]) == payload["words"]
     assert start.read_bytes() == before
-    assert load_learned(after, predictor.load(model_path)).user.raw_tokens > load_learned(start, predictor.load(model_path)).user.raw_tokens
+    assert load_learned(after, foretype.load(model_path)).user.raw_tokens > load_learned(start, foretype.load(model_path)).user.raw_tokens
     text_result = run_cli("savings", model_path, text, "--adapt", "--block", "40")
     assert "KSR per block of 40 words (█ with learning, ░ without; full bar = 100%):" in text_result.out
     assert "stays on this machine" in text_result.out
@@ -153,7 +153,7 @@ def test_suggest_with_adapt_answers_as_the_combined_model_and_leaves_the_learned
     result = run_cli("suggest", model_path, "Gorbalt mended the ", "--adapt", "--json")
     assert result.code == 0, result.err
     payload = json.loads(result.out)
-    combined = load_learned(learned_file, predictor.load(model_path))
+    combined = load_learned(learned_file, foretype.load(model_path))
     expected = combined.suggest_text("Gorbalt mended the ", k=5)
     assert [(s["word"], s["prob"], s["order"], s["learned"], s["new_word"]) for s in payload["suggestions"]] == [
         (s.word, s.prob, s.order, s.learned, s.new_word) for s in expected

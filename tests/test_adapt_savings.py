@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import pytest
 
-from predictor.adapt.simulation import block_savings, simulate_adaptive
-from predictor.demo import demo_heldout, demo_model
-from predictor.simulate import TypistSettings, WordTrace, read_passage
+from foretype.adapt.simulation import block_savings, simulate_adaptive
+from foretype.demo import demo_heldout, demo_model
+from foretype.simulate import TypistSettings, WordTrace, read_passage
 from public_text import kjv_split
 
 

@@ -17,11 +17,11 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor.adapt import AdaptedModel
-from predictor.adapt.learned_db import APPLICATION_ID, SCHEMA_VERSION
-from predictor.adapt.store import LearnedFile, export_learned, learned_file_facts, load_learned, save_learned, wipe_learned
-from predictor.errors import ModelFileError, OutputError
+import foretype
+from foretype.adapt import AdaptedModel
+from foretype.adapt.learned_db import APPLICATION_ID, SCHEMA_VERSION
+from foretype.adapt.store import LearnedFile, export_learned, learned_file_facts, load_learned, save_learned, wipe_learned
+from foretype.errors import ModelFileError, OutputError
 
 CORPUS = "the tide is high\nthe ferry sails at dawn\nthe nets are dry\n"
 ROOT = Path(__file__).resolve().parent.parent
@@ -33,7 +33,7 @@ def update(i: int) -> tuple[list[str], list[str], bool]:
     return [f"w{i % 37}", "tide"], ([f"w{(i - 1) % 37}"] if i % 4 else []), i % 3 == 0
 
 
-def replayed(base: predictor.LanguageModel, changes: int) -> AdaptedModel:
+def replayed(base: foretype.LanguageModel, changes: int) -> AdaptedModel:
     model = AdaptedModel(base)
     for i in range(changes):
         words, after, end = update(i)
@@ -50,13 +50,13 @@ def counts(model: AdaptedModel) -> tuple:
 
 
 @pytest.fixture(scope="module")
-def base(tmp_path_factory: pytest.TempPathFactory) -> predictor.LanguageModel:
+def base(tmp_path_factory: pytest.TempPathFactory) -> foretype.LanguageModel:
     path = tmp_path_factory.mktemp("store") / "corpus.txt"
     path.write_text(CORPUS, encoding="utf-8")
-    return predictor.build([path])
+    return foretype.build([path])
 
 
-def written(base: predictor.LanguageModel, path: Path, changes: int, *, compact_every: int = 10**6) -> Path:
+def written(base: foretype.LanguageModel, path: Path, changes: int, *, compact_every: int = 10**6) -> Path:
     with LearnedFile(path, base, compact_every=compact_every) as learned:
         for i in range(changes):
             words, after, end = update(i)
@@ -69,10 +69,10 @@ WRITER = textwrap.dedent(
     import sys
     sys.path.insert(0, {root!r})
     sys.path.insert(0, {tests!r})
-    import predictor
-    from predictor.adapt.store import LearnedFile
+    import foretype
+    from foretype.adapt.store import LearnedFile
     from test_adapt_store import update
-    base = predictor.build([{corpus!r}])
+    base = foretype.build([{corpus!r}])
     with LearnedFile({path!r}, base, compact_every=4) as learned:
         print("ready", flush=True)
         i = 0
@@ -220,7 +220,7 @@ def test_save_replaces_the_whole_state_in_one_step(base, tmp_path):
 
 
 # ------------------------------------------------------------------ damage
-def refused(path: Path, base: predictor.LanguageModel, pattern: str) -> None:
+def refused(path: Path, base: foretype.LanguageModel, pattern: str) -> None:
     """Loading, reading the facts and opening for writing all refuse the file with one line (exit code 5)."""
     for attempt in (lambda: load_learned(path, base), lambda: LearnedFile(path, base).close()):
         with pytest.raises(ModelFileError, match=pattern) as caught:
@@ -293,8 +293,8 @@ def format_1_copy(tmp_path: Path) -> Path:
 
 
 @pytest.fixture(scope="module")
-def format_1_base() -> predictor.LanguageModel:
-    return predictor.build([FORMAT_1 / "corpus.txt"])
+def format_1_base() -> foretype.LanguageModel:
+    return foretype.build([FORMAT_1 / "corpus.txt"])
 
 
 def as_expected(model: AdaptedModel) -> dict:

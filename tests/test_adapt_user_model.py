@@ -9,9 +9,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from nltk.lm import WittenBellInterpolated
 
-from predictor.adapt import AdaptSettings, UserModel
-from predictor.errors import OptionError
-from predictor.vocabulary import END, START
+from foretype.adapt import AdaptSettings, UserModel
+from foretype.errors import OptionError
+from foretype.query.vocabulary import END, START
 
 # The three-sentence corpus of Jurafsky & Martin, Speech and Language Processing, 3rd ed., ch. 3 (from memory).
 SENTENCES = [["I", "am", "Sam"], ["Sam", "I", "am"], ["I", "do", "not", "like", "green", "eggs", "and", "ham"]]

@@ -18,9 +18,9 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor import modelfile
-from predictor.cli import INTERRUPTED
+import foretype
+from foretype.modelfile import format as modelfile
+from foretype.cli import INTERRUPTED
 from public_text import kjv_split, write_lines
 
 
@@ -33,7 +33,7 @@ def verses_file(tmp_path_factory) -> Path:
 @pytest.fixture(scope="module")
 def model_bytes(verses_file, tmp_path_factory) -> bytes:
     path = tmp_path_factory.mktemp("model") / "good.model"
-    predictor.build([verses_file], vocab_size=2000).save(path)
+    foretype.build([verses_file], vocab_size=2000).save(path)
     return path.read_bytes()
 
 
@@ -54,7 +54,7 @@ def assert_one_line_failure(result, error_class) -> None:
 
 
 def test_error_classes_have_distinct_nonzero_exit_codes():
-    classes = [predictor.OptionError, predictor.CorpusError, predictor.EncodingError, predictor.ModelFileError, predictor.ModelVersionError, predictor.CapacityError, predictor.OutputError]
+    classes = [foretype.OptionError, foretype.CorpusError, foretype.EncodingError, foretype.ModelFileError, foretype.ModelVersionError, foretype.CapacityError, foretype.OutputError]
     codes = [c.exit_code for c in classes] + [INTERRUPTED]
     assert len(set(codes)) == len(codes) and 0 not in codes
 
@@ -62,14 +62,14 @@ def test_error_classes_have_distinct_nonzero_exit_codes():
 # ------------------------------------------------------------------ build failures keep -o intact
 
 BAD_BUILDS = {
-    "empty corpus": (lambda d: [d.write("", "empty.txt")], predictor.CorpusError),
-    "corpus with no words": (lambda d: [d.write("... !!! ,,,\n\n;;\n", "nowords.txt")], predictor.CorpusError),
-    "missing file": (lambda d: [d.root / "missing.txt"], predictor.CorpusError),
-    "folder with no text": (lambda d: [d.folder("empty-folder")], predictor.CorpusError),
-    "folder of binary files": (lambda d: [d.folder("binaries", {"a.bin": b"\x00\x01\x02", "b.dat": b"PK\x03\x04\x00\x00"})], predictor.CorpusError),
-    "binary file": (lambda d: [d.write(b"\x7fELF\x02\x01\x01\x00\x00\x00", "program")], predictor.CorpusError),
-    "the model itself as corpus": (lambda d: [d.root / "good.model"], predictor.CorpusError),
-    "invalid UTF-8": (lambda d: [d.write(b"In the beginning\nGod \xe9 created\n", "latin1.txt")], predictor.EncodingError),
+    "empty corpus": (lambda d: [d.write("", "empty.txt")], foretype.CorpusError),
+    "corpus with no words": (lambda d: [d.write("... !!! ,,,\n\n;;\n", "nowords.txt")], foretype.CorpusError),
+    "missing file": (lambda d: [d.root / "missing.txt"], foretype.CorpusError),
+    "folder with no text": (lambda d: [d.folder("empty-folder")], foretype.CorpusError),
+    "folder of binary files": (lambda d: [d.folder("binaries", {"a.bin": b"\x00\x01\x02", "b.dat": b"PK\x03\x04\x00\x00"})], foretype.CorpusError),
+    "binary file": (lambda d: [d.write(b"\x7fELF\x02\x01\x01\x00\x00\x00", "program")], foretype.CorpusError),
+    "the model itself as corpus": (lambda d: [d.root / "good.model"], foretype.CorpusError),
+    "invalid UTF-8": (lambda d: [d.write(b"In the beginning\nGod \xe9 created\n", "latin1.txt")], foretype.EncodingError),
 }
 
 
@@ -112,7 +112,7 @@ def test_invalid_utf8_names_the_file_and_line_and_replace_bad_bytes_builds(good_
     assert f"{corpus}:2:" in result.err
     result = run_cli("build", corpus, "-o", good_model, "--replace-bad-bytes", "--json")
     assert result.code == 0, result.err
-    assert predictor.load(good_model).vocab_size == 5
+    assert foretype.load(good_model).vocab_size == 5
 
 
 @pytest.mark.parametrize(
@@ -122,13 +122,13 @@ def test_invalid_utf8_names_the_file_and_line_and_replace_bad_bytes_builds(good_
 def test_bad_build_options_are_usage_errors_that_leave_the_model_untouched(options, good_model, verses_file, run_cli):
     before = good_model.read_bytes()
     result = run_cli("build", verses_file, "-o", good_model, *options)
-    assert_one_line_failure(result, predictor.OptionError)
+    assert_one_line_failure(result, foretype.OptionError)
     assert good_model.read_bytes() == before
 
 
 def test_an_unwritable_output_is_an_output_error(verses_file, tmp_path, run_cli):
     result = run_cli("build", verses_file, "-o", tmp_path / "no-such-folder" / "x.model")
-    assert_one_line_failure(result, predictor.OutputError)
+    assert_one_line_failure(result, foretype.OutputError)
 
 
 def test_an_interrupted_write_keeps_the_existing_model_and_leaves_no_temporary_file(good_model, verses_file, run_cli, monkeypatch):
@@ -163,7 +163,7 @@ def damaged(good_model: Path, how: str) -> Path:
         data = bytearray()
     elif how == "newer-version":
         # The format version is the u32 after the 8-byte magic (predictor/modelfile.py).
-        struct.pack_into("<I", data, 8, predictor.FORMAT_VERSION + 1)
+        struct.pack_into("<I", data, 8, foretype.FORMAT_VERSION + 1)
     target.write_bytes(bytes(data))
     return target
 
@@ -174,7 +174,7 @@ def test_a_damaged_model_file_is_one_line_with_the_model_file_exit_code(how, com
     model = damaged(good_model, how)
     args = [a.format(model=model, text=verses_file) for a in command]
     result = run_cli(*args)
-    assert_one_line_failure(result, predictor.ModelFileError)
+    assert_one_line_failure(result, foretype.ModelFileError)
     assert str(model) in result.err
 
 
@@ -182,32 +182,32 @@ def test_a_damaged_model_file_is_one_line_with_the_model_file_exit_code(how, com
 def test_a_model_of_a_newer_format_version_says_so(command, good_model, run_cli):
     model = damaged(good_model, "newer-version")
     result = run_cli(*[a.format(model=model) for a in command])
-    assert_one_line_failure(result, predictor.ModelVersionError)
-    assert "newer" in result.err and str(predictor.FORMAT_VERSION + 1) in result.err
+    assert_one_line_failure(result, foretype.ModelVersionError)
+    assert "newer" in result.err and str(foretype.FORMAT_VERSION + 1) in result.err
 
 
 def test_a_missing_model_file_and_a_folder_as_model_are_model_file_errors(tmp_path, run_cli):
-    assert_one_line_failure(run_cli("info", tmp_path / "missing.model"), predictor.ModelFileError)
-    assert_one_line_failure(run_cli("suggest", tmp_path, "and the "), predictor.ModelFileError)
+    assert_one_line_failure(run_cli("info", tmp_path / "missing.model"), foretype.ModelFileError)
+    assert_one_line_failure(run_cli("suggest", tmp_path, "and the "), foretype.ModelFileError)
 
 
 def test_k_zero_and_bad_arguments_are_usage_errors(good_model, run_cli):
-    assert_one_line_failure(run_cli("suggest", good_model, "and the ", "-k", "0"), predictor.OptionError)
-    assert_one_line_failure(run_cli("suggest", good_model, "and", "the", "extra"), predictor.OptionError)
-    assert_one_line_failure(run_cli("frobnicate"), predictor.OptionError)
+    assert_one_line_failure(run_cli("suggest", good_model, "and the ", "-k", "0"), foretype.OptionError)
+    assert_one_line_failure(run_cli("suggest", good_model, "and", "the", "extra"), foretype.OptionError)
+    assert_one_line_failure(run_cli("frobnicate"), foretype.OptionError)
 
 
 def test_scoring_a_missing_or_binary_text_is_a_corpus_error(good_model, tmp_path, run_cli):
-    assert_one_line_failure(run_cli("score", good_model, tmp_path / "missing.txt"), predictor.CorpusError)
+    assert_one_line_failure(run_cli("score", good_model, tmp_path / "missing.txt"), foretype.CorpusError)
     binary = tmp_path / "data.bin"
     binary.write_bytes(b"\x00\x01\x02\x03")
-    assert_one_line_failure(run_cli("score", good_model, binary), predictor.CorpusError)
+    assert_one_line_failure(run_cli("score", good_model, binary), foretype.CorpusError)
 
 
 def test_the_installed_command_prints_no_traceback_on_bad_input(tmp_path):
     # The console script path, in a fresh interpreter.
-    done = subprocess.run([sys.executable, "-m", "predictor", "build", str(tmp_path / "missing.txt"), "-o", str(tmp_path / "x.model")], capture_output=True, text=True, timeout=60)
-    assert done.returncode == predictor.CorpusError.exit_code
+    done = subprocess.run([sys.executable, "-m", "foretype", "build", str(tmp_path / "missing.txt"), "-o", str(tmp_path / "x.model")], capture_output=True, text=True, timeout=60)
+    assert done.returncode == foretype.CorpusError.exit_code
     assert done.stderr.count("\n") == 1 and "Traceback" not in done.stderr
     assert not (tmp_path / "x.model").exists()
 
@@ -234,7 +234,7 @@ def test_build_suggest_score_and_info_print_the_documented_json(verses_file, tmp
     scored = json.loads(run_cli("score", model, text, "--json").out)
     assert set(scored) == {"sentences", "tokens", "oov", "oov_rate", "cross_entropy_bits", "perplexity"}
     assert scored["perplexity"] == pytest.approx(2 ** scored["cross_entropy_bits"])
-    direct = predictor.load(model).score(text.read_text(encoding="utf-8"))
+    direct = foretype.load(model).score(text.read_text(encoding="utf-8"))
     assert scored["tokens"] == direct.tokens and scored["perplexity"] == pytest.approx(direct.perplexity)
 
     info = json.loads(run_cli("info", model, "--json").out)

@@ -16,10 +16,10 @@ import numpy as np
 import pytest
 from nltk.util import ngrams
 
-import predictor
-from predictor import counting
-from predictor.corpus import iter_chunks
-from predictor.memory import MemoryBudget
+import foretype
+from foretype.counting import counter as counting
+from foretype.counting.corpus import iter_chunks
+from foretype.counting.memory import MemoryBudget
 from public_text import kjv_split, model_sentences, write_lines
 
 VERSES = 800
@@ -37,8 +37,8 @@ def corpus(verses, tmp_path_factory) -> Path:
 
 
 @pytest.fixture(scope="module")
-def counts(corpus) -> predictor.CorpusCounts:
-    return predictor.count_corpus([corpus])
+def counts(corpus) -> foretype.CorpusCounts:
+    return foretype.count_corpus([corpus])
 
 
 def padded_trigrams(sentences) -> Counter:
@@ -81,7 +81,7 @@ def test_counting_in_tiny_chunks_and_merges_gives_the_same_tables(corpus, counts
     # The counts must not depend on how the corpus is cut into chunks or when tables are merged.
     monkeypatch.setattr(counting, "iter_chunks", lambda path, **kw: iter_chunks(path, chunk_bytes=700, **kw))
     monkeypatch.setattr(counting.CorpusCounter, "MERGE_ROWS", 300)
-    chunked = predictor.count_corpus([corpus])
+    chunked = foretype.count_corpus([corpus])
     assert table_as_counter(chunked.table, chunked.types) == table_as_counter(counts.table, counts.types)
     assert table_as_counter(chunked.heldout, chunked.types) == table_as_counter(counts.heldout, counts.types)
     assert chunked.corpus_tokens == counts.corpus_tokens and chunked.sentences == counts.sentences
@@ -90,20 +90,20 @@ def test_counting_in_tiny_chunks_and_merges_gives_the_same_tables(corpus, counts
 def test_a_sentence_never_runs_across_files_and_a_missing_final_newline_still_ends_one(write_file):
     first = write_file("In the beginning God", "a.txt")
     second = write_file("created the heaven\n", "b.txt")
-    found = predictor.count_corpus([first, second])
+    found = foretype.count_corpus([first, second])
     assert table_as_counter(found.table, found.types) == padded_trigrams([["in", "the", "beginning", "god"], ["created", "the", "heaven"]])
     assert found.files == 2
 
 
 def test_empty_sentences_are_not_counted(write_file):
-    found = predictor.count_corpus([write_file("...\n\n  \nAnd it was so.  !?\n\n")])
+    found = foretype.count_corpus([write_file("...\n\n  \nAnd it was so.  !?\n\n")])
     assert found.sentences == 1
     assert table_as_counter(found.table, found.types) == padded_trigrams([["and", "it", "was", "so"]])
 
 
 def test_a_corpus_without_words_is_an_error(write_file):
-    with pytest.raises(predictor.CorpusError, match="no words"):
-        predictor.count_corpus([write_file("... !!! ,,, \n\n")])
+    with pytest.raises(foretype.CorpusError, match="no words"):
+        foretype.count_corpus([write_file("... !!! ,,, \n\n")])
 
 
 def test_vocabulary_keeps_the_most_frequent_words_with_ties_going_to_the_word_that_sorts_first(verses, counts):
@@ -118,11 +118,11 @@ def test_vocabulary_keeps_the_most_frequent_words_with_ties_going_to_the_word_th
 
 
 def test_vocabulary_limits_must_be_positive(counts):
-    with pytest.raises(predictor.OptionError):
+    with pytest.raises(foretype.OptionError):
         counts.select_vocabulary(0)
-    with pytest.raises(predictor.OptionError):
+    with pytest.raises(foretype.OptionError):
         counts.select_vocabulary(None, 0)
-    with pytest.raises(predictor.CorpusError):
+    with pytest.raises(foretype.CorpusError):
         counts.select_vocabulary(None, 10**9)
 
 
@@ -130,8 +130,8 @@ def test_vocabulary_limits_must_be_positive(counts):
 def test_one_count_builds_the_same_models_as_building_from_the_corpus(corpus, counts, method):
     # Issue 2, "Counting": counting once must serve several vocabulary sizes.
     for size in (60, 600, None):
-        direct = predictor.build([corpus], vocab_size=size, method=method)
-        reused = predictor.build_from_counts(counts, vocab_size=size, method=method)
+        direct = foretype.build([corpus], vocab_size=size, method=method)
+        reused = foretype.build_from_counts(counts, vocab_size=size, method=method)
         assert direct.vocabulary == reused.vocabulary
         for context in [(), ("the",), ("of", "the"), ("and", "god"), ("zzz", "said")]:
             assert np.array_equal(direct.distribution(context), reused.distribution(context))
@@ -139,7 +139,7 @@ def test_one_count_builds_the_same_models_as_building_from_the_corpus(corpus, co
 
 def test_words_outside_the_vocabulary_are_counted_as_the_unknown_token(verses, counts):
     # Standard practice (issue 2, "Vocabulary"): every other word maps to one unknown token.
-    model = predictor.build_from_counts(counts, vocab_size=50, method="mle", encoding="float32")
+    model = foretype.build_from_counts(counts, vocab_size=50, method="mle", encoding="float32")
     kept = set(model.vocabulary)
     sentences = [[w if w in kept else "<unk>" for w in s] for s in model_sentences(verses)]
     trigrams = padded_trigrams(sentences)
@@ -149,14 +149,14 @@ def test_words_outside_the_vocabulary_are_counted_as_the_unknown_token(verses, c
     for (u, v, w), n in list(trigrams.items())[:300]:
         if "<unk>" in (u, v, w):
             expected = n / after[(u, v)]
-            word = predictor.UNKNOWN if w == "<unk>" else (predictor.END if w == "</s>" else w)
-            context = tuple(predictor.UNKNOWN if x == "<unk>" else x for x in (u, v) if x != "<s>")
+            word = foretype.UNKNOWN if w == "<unk>" else (foretype.END if w == "</s>" else w)
+            context = tuple(foretype.UNKNOWN if x == "<unk>" else x for x in (u, v) if x != "<s>")
             assert model.prob(word, context) == pytest.approx(expected, rel=1e-6)
 
 
 def test_counting_with_tokenising_workers_gives_exactly_the_sequential_counts(tmp_path, monkeypatch):
     # Exact equality with the single-process count is the reference (a property of the design).
-    import predictor.counting as counting
+    import foretype.counting.counter as counting
 
     lines = []
     for i in range(4000):
@@ -171,7 +171,7 @@ def test_counting_with_tokenising_workers_gives_exactly_the_sequential_counts(tm
     assert_same_counts(parallel, sequential)
 
 
-def assert_same_counts(ours: predictor.CorpusCounts, theirs: predictor.CorpusCounts) -> None:
+def assert_same_counts(ours: foretype.CorpusCounts, theirs: foretype.CorpusCounts) -> None:
     """Every count, type and display form equal, to the last trigram."""
     assert ours.types == theirs.types
     assert ours.display == theirs.display
@@ -185,7 +185,7 @@ def assert_same_counts(ours: predictor.CorpusCounts, theirs: predictor.CorpusCou
 def test_workers_restarting_their_form_dictionaries_against_a_full_dictionary_count_as_one_process(corpus, monkeypatch):
     # Exact equality with the single-process count is the reference (a property of the design):
     # the workers' dictionaries start afresh every few chunks and the build's own dictionary fills up.
-    import predictor.tokenisers as tokenisers
+    import foretype.counting.tokenisers as tokenisers
 
     monkeypatch.setattr(MemoryBudget, "dictionary_bytes", property(lambda self: 150_000))
     sequential = counting.count_corpus([corpus])

@@ -43,10 +43,10 @@ from hypothesis import strategies as st
 from nltk.lm import MLE, Lidstone
 from nltk.lm.preprocessing import padded_everygram_pipeline
 
-import predictor
-from predictor.estimate import model_counts
-from predictor.estimate.kneser_ney import modified_kn_discounts
-from predictor.estimate.simple import estimate_mle
+import foretype
+from foretype.estimate import model_counts
+from foretype.estimate.kneser_ney import modified_kn_discounts
+from foretype.estimate.simple import estimate_mle
 from public_text import kjv_split, model_sentences, write_lines
 
 NLTK_VERSES = 150
@@ -69,10 +69,10 @@ def nltk_model(kind, sentences: list[list[str]], *args, unk_cutoff: int = 1):
 
 def engine_word(token: str) -> str:
     """nltk's special tokens in the engine's spelling."""
-    return {"<UNK>": predictor.UNKNOWN, "</s>": predictor.END}.get(token, token)
+    return {"<UNK>": foretype.UNKNOWN, "</s>": foretype.END}.get(token, token)
 
 
-def outcomes_for_nltk(model: predictor.LanguageModel) -> list[str]:
+def outcomes_for_nltk(model: foretype.LanguageModel) -> list[str]:
     """The engine's outcome ids 0 .. V + 1 as nltk tokens: the words, then <UNK>, then </s>."""
     return list(model.vocabulary) + ["<UNK>", "</s>"]
 
@@ -102,7 +102,7 @@ def test_mle_trigram_probabilities_equal_nltk_mle_on_shared_contexts(kjv_opening
     # min_count 2 matches nltk's Vocabulary(unk_cutoff=2): rarer words become <UNK> on both sides.
     sentences = model_sentences(kjv_opening)
     lm = nltk_model(MLE, sentences, unk_cutoff=min_count)
-    model = predictor.build([corpus_file], method="mle", encoding="float32", min_count=min_count)
+    model = foretype.build([corpus_file], method="mle", encoding="float32", min_count=min_count)
     # Convention: nltk's vocabulary holds the V words plus <s>, </s> and <UNK>.
     assert set(model.vocabulary) == set(lm.vocab) - {"<s>", "</s>", "<UNK>"}
     assert len(lm.vocab) == model.vocab_size + 3
@@ -119,7 +119,7 @@ def test_mle_with_an_unseen_trigram_context_equals_nltk_bigram_mle(kjv_opening, 
     # MLE falls back to when (u, v) was never seen (predictor/estimate/simple.py).  For a word v,
     # nltk's bigrams after v are the same under both paddings (the next word or the first </s>).
     lm = nltk_model(MLE, model_sentences(kjv_opening))
-    model = predictor.build([corpus_file], method="mle", encoding="float32")
+    model = foretype.build([corpus_file], method="mle", encoding="float32")
     seen_pairs = set(lm.counts[3].keys())
     rng = random.Random(7)
     words = sorted(model.vocabulary)
@@ -141,7 +141,7 @@ def test_add_k_probabilities_equal_nltk_lidstone_after_converting_the_denominato
     # with len(vocab) = V + 3; the engine's add-k uses |O| = V + 2 outcomes.  From nltk's score we
     # recover c(u v w) + k and divide by the engine's denominator c(u v .) + k (V + 2).
     lm = nltk_model(Lidstone, model_sentences(kjv_opening), LIDSTONE_K, unk_cutoff=min_count)
-    model = predictor.build([corpus_file], method="additive", add=LIDSTONE_K, encoding="float32", min_count=min_count)
+    model = foretype.build([corpus_file], method="additive", add=LIDSTONE_K, encoding="float32", min_count=min_count)
     outcomes = model.vocab_size + 2
     assert len(lm.vocab) == outcomes + 1
     tokens = outcomes_for_nltk(model)
@@ -157,7 +157,7 @@ def test_add_k_on_an_unseen_context_is_uniform_as_in_nltk_lidstone(kjv_opening, 
     # Source: nltk.lm.Lidstone with c(u v .) = 0 gives k / (k len(vocab)) = 1 / (V + 3) to every
     # token; the engine's formula with zero counts gives 1 / (V + 2) over its outcomes.
     lm = nltk_model(Lidstone, model_sentences(kjv_opening), LIDSTONE_K)
-    model = predictor.build([corpus_file], method="additive", add=LIDSTONE_K, encoding="float32")
+    model = foretype.build([corpus_file], method="additive", add=LIDSTONE_K, encoding="float32")
     u, v = "firmament", "creeping"
     assert (u, v) not in set(lm.counts[3].keys())
     theirs = lm.score("the", [u, v])
@@ -171,7 +171,7 @@ def test_log16_mle_values_stay_within_the_documented_relative_error(kjv_opening,
     # relative error is below 2^(1/2048) - 1).  MLE keeps no lower-order weight, so every
     # probability is one stored value.
     lm = nltk_model(MLE, model_sentences(kjv_opening))
-    model = predictor.build([corpus_file], method="mle", encoding="log16")
+    model = foretype.build([corpus_file], method="mle", encoding="log16")
     assert model.info()["value_encoding"] == "log16"
     tokens = outcomes_for_nltk(model)
     worst = 0.0
@@ -192,7 +192,7 @@ def test_log16_add_k_stays_within_the_bound_derived_from_the_encoding(kjv_openin
     # a + g / |O| is then off by at most e (a + C / (C + k|O|) / |O|).  Checked against
     # nltk.lm.Lidstone converted as above.
     lm = nltk_model(Lidstone, model_sentences(kjv_opening), LIDSTONE_K)
-    model = predictor.build([corpus_file], method="additive", add=LIDSTONE_K)
+    model = foretype.build([corpus_file], method="additive", add=LIDSTONE_K)
     outcomes = model.vocab_size + 2
     tokens = outcomes_for_nltk(model)
     for u, v in comparable_contexts(lm, random.Random(4), 40):
@@ -212,10 +212,10 @@ SAM_CORPUS = "I am Sam\nSam I am\nI do not like green eggs and ham\n"
 
 
 @pytest.fixture(scope="module")
-def sam_model(tmp_path_factory) -> predictor.LanguageModel:
+def sam_model(tmp_path_factory) -> foretype.LanguageModel:
     path = tmp_path_factory.mktemp("sam") / "sam.txt"
     path.write_text(SAM_CORPUS, encoding="utf-8")
-    return predictor.build([path], method="mle", encoding="float32")
+    return foretype.build([path], method="mle", encoding="float32")
 
 
 def test_sentence_start_probabilities_equal_the_textbook_bigram_values(sam_model):
@@ -233,7 +233,7 @@ def test_bigram_values_are_reached_from_an_unseen_trigram_context(sam_model):
     # ("green I", "eggs Sam" and "ham am" never occur), which is exactly the bigram MLE.
     assert sam_model.prob("am", ("green", "I")) == pytest.approx(2 / 3, rel=1e-6)
     assert sam_model.prob("do", ("green", "I")) == pytest.approx(1 / 3, rel=1e-6)
-    assert sam_model.prob(predictor.END, ("eggs", "Sam")) == pytest.approx(1 / 2, rel=1e-6)
+    assert sam_model.prob(foretype.END, ("eggs", "Sam")) == pytest.approx(1 / 2, rel=1e-6)
     assert sam_model.prob("Sam", ("ham", "am")) == pytest.approx(1 / 2, rel=1e-6)
 
 
@@ -244,15 +244,15 @@ def test_trigram_contexts_after_the_start_differ_from_the_bigram_values_as_count
     assert sam_model.prob("am", ("I",)) == pytest.approx(1 / 2, rel=1e-6)
     assert sam_model.prob("do", ("I",)) == pytest.approx(1 / 2, rel=1e-6)
     assert sam_model.prob("Sam", ("I", "am")) == pytest.approx(1 / 2, rel=1e-6)
-    assert sam_model.prob(predictor.END, ("I", "am")) == pytest.approx(1 / 2, rel=1e-6)
+    assert sam_model.prob(foretype.END, ("I", "am")) == pytest.approx(1 / 2, rel=1e-6)
 
 
 def test_the_estimators_bigram_level_holds_the_textbook_values(tmp_path):
     # Jurafsky & Martin ch. 3 (from memory), read straight from the bigram level of the MLE
-    # estimate (predictor.estimate internals: Layout bigram entries and Estimate.a2).
+    # estimate (foretype.estimate internals: Layout bigram entries and Estimate.a2).
     path = tmp_path / "sam.txt"
     path.write_text(SAM_CORPUS, encoding="utf-8")
-    counts = predictor.count_corpus([path])
+    counts = foretype.count_corpus([path])
     chosen = counts.select_vocabulary()
     vocabulary = model_counts(counts, chosen)
     estimate = estimate_mle(vocabulary)
@@ -334,7 +334,7 @@ def test_built_model_records_the_discounts_of_its_own_counts_of_counts(kjv_openi
             raw_after_start[(v, w)] += c
         else:
             continuation[(v, w)] += 1
-    model = predictor.build([corpus_file])
+    model = foretype.build([corpus_file])
     recorded = model.meta["estimator"]["discounts"]
     assert tuple(recorded["3"]) == pytest.approx(formula(trigrams.values()), rel=1e-12)
     assert tuple(recorded["2"]) == pytest.approx(formula(list(continuation.values()) + list(raw_after_start.values())), rel=1e-12)
@@ -348,7 +348,7 @@ def test_kneser_ney_gives_unseen_words_probability_even_after_a_context_seen_ten
     path = tmp_path / "repeated.txt"
     path.write_text("and it was so\n" * 10_000 + "and it came to pass\n", encoding="utf-8")
     for encoding in ("log16", "float32"):
-        model = predictor.build([path], encoding=encoding)
+        model = foretype.build([path], encoding=encoding)
         distribution = model.distribution(("it", "was"))
         assert np.all(distribution > 0), encoding
         assert distribution.sum() == pytest.approx(1.0, abs=1e-6)
@@ -381,8 +381,8 @@ def test_small_repetitive_corpora_still_give_every_outcome_a_probability_and_sum
     # outcome gets probability 0.
     path = tmp_path / "corpus.txt"
     path.write_text(text, encoding="utf-8")
-    model = predictor.build([path], method=method)
-    for context in [(), ("a",), ("a", "a"), ("zzz", "a"), ("ab", "a"), (predictor.UNKNOWN,)]:
+    model = foretype.build([path], method=method)
+    for context in [(), ("a",), ("a", "a"), ("zzz", "a"), ("ab", "a"), (foretype.UNKNOWN,)]:
         distribution = model.distribution(context)
         assert np.all(distribution > 0), context
         assert distribution.sum() == pytest.approx(1.0, abs=1e-7), context
@@ -395,17 +395,17 @@ METHOD_OPTIONS = st.sampled_from([("kneser-ney", None), ("linear", None), ("katz
 sentences_strategy = st.lists(st.lists(st.sampled_from(WORDS), min_size=1, max_size=7), min_size=1, max_size=30)
 
 
-def build_text(text: str, **options) -> predictor.LanguageModel:
+def build_text(text: str, **options) -> foretype.LanguageModel:
     with tempfile.TemporaryDirectory() as folder:
         path = Path(folder) / "corpus.txt"
         path.write_text(text, encoding="utf-8")
-        return predictor.build([path], **options)
+        return foretype.build([path], **options)
 
 
 def probe_contexts(sentences: list[list[str]]) -> list[tuple[str, ...]]:
     """Seen, unseen, unknown and start contexts for a corpus."""
     seen = [tuple(s[i - 2 : i]) for s in sentences for i in range(2, len(s))]
-    contexts = [(), (sentences[0][0],), ("zzz",), ("zzz", "yyy"), (predictor.UNKNOWN, predictor.UNKNOWN), ("d", "d"), ("cab", "zzz")]
+    contexts = [(), (sentences[0][0],), ("zzz",), ("zzz", "yyy"), (foretype.UNKNOWN, foretype.UNKNOWN), ("d", "d"), ("cab", "zzz")]
     contexts += [(w, x) for w in WORDS[:4] for x in WORDS[:4]]
     return contexts + seen[:10]
 

@@ -18,7 +18,7 @@ from pathlib import Path
 
 import pytest
 
-import predictor
+import foretype
 from public_text import kjv_split, write_lines
 
 THREADS = 8
@@ -30,11 +30,11 @@ def model_path(tmp_path_factory) -> Path:
     folder = tmp_path_factory.mktemp("kjv-shared")
     corpus = write_lines(train[:3000], folder / "train.txt")
     path = folder / "kjv.model"
-    predictor.build([corpus], vocab_size=2500).save(path)
+    foretype.build([corpus], vocab_size=2500).save(path)
     return path
 
 
-def queries(model: predictor.LanguageModel, count: int = 150) -> list[tuple[tuple[str, ...], str]]:
+def queries(model: foretype.LanguageModel, count: int = 150) -> list[tuple[tuple[str, ...], str]]:
     rng = random.Random(5)
     words = model.vocabulary
     found = []
@@ -45,19 +45,19 @@ def queries(model: predictor.LanguageModel, count: int = 150) -> list[tuple[tupl
     return found
 
 
-def answer(model: predictor.LanguageModel, query: tuple[tuple[str, ...], str]) -> list:
+def answer(model: foretype.LanguageModel, query: tuple[tuple[str, ...], str]) -> list:
     context, prefix = query
     return [(s.word, s.prob, s.order, s.id) for s in model.suggest(context, prefix, 5)]
 
 
 def test_eight_threads_on_one_model_get_exactly_what_one_thread_gets(model_path):
-    reference_model = predictor.load(model_path)
+    reference_model = foretype.load(model_path)
     asked = queries(reference_model)
     expected = [answer(reference_model, q) for q in asked]
     texts = [" ".join(c) + " " + p for c, p in asked]
     expected_text = [reference_model.suggest_text(t, 5) for t in texts]
     expected_score = reference_model.score("\n".join(texts)).log2_prob
-    shared = predictor.load(model_path)  # cold caches, filled by the threads at once
+    shared = foretype.load(model_path)  # cold caches, filled by the threads at once
     results: dict[int, tuple] = {}
     errors: list[BaseException] = []
     barrier = threading.Barrier(THREADS)
@@ -91,15 +91,15 @@ def test_eight_threads_on_one_model_get_exactly_what_one_thread_gets(model_path)
 
 READER = """
 import json, sys
-import predictor
-model = predictor.load(sys.argv[1])
+import foretype
+model = foretype.load(sys.argv[1])
 queries = json.loads(sys.stdin.read())
 print(json.dumps([[(s.word, s.prob, s.order, s.id) for s in model.suggest(c, p, 5)] for c, p in queries]))
 """
 
 
 def test_several_processes_map_the_same_model_file_at_once_and_agree(model_path):
-    model = predictor.load(model_path)
+    model = foretype.load(model_path)
     asked = queries(model, 60)
     expected = json.loads(json.dumps([answer(model, q) for q in asked]))
     payload = json.dumps([[list(c), p] for c, p in asked])
@@ -116,11 +116,11 @@ def test_several_processes_map_the_same_model_file_at_once_and_agree(model_path)
 def test_a_loaded_model_keeps_answering_from_its_file_when_a_new_model_replaces_it(model_path, tmp_path):
     path = tmp_path / "live.model"
     path.write_bytes(model_path.read_bytes())
-    live = predictor.load(path)
+    live = foretype.load(path)
     asked = queries(live, 40)
     before = [answer(live, q) for q in asked]
     train, _ = kjv_split()
-    replacement = predictor.build([write_lines(train[5000:6000], tmp_path / "other.txt")], vocab_size=300)
+    replacement = foretype.build([write_lines(train[5000:6000], tmp_path / "other.txt")], vocab_size=300)
     replacement.save(path)  # renamed over the old file, whose mapping stays valid
     assert [answer(live, q) for q in asked] == before
-    assert predictor.load(path).vocab_size == 300
+    assert foretype.load(path).vocab_size == 300

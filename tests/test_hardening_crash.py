@@ -23,17 +23,18 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-import predictor
-from predictor import modelfile, scratch
-from predictor.integrity import verify_model
-from predictor.modelfile import read_model_file, write_model_file
-from predictor.scratch import TEMP_PREFIX, remove_stale
+import foretype
+from foretype.counting import scratch
+from foretype.modelfile import format as modelfile
+from foretype.query.verify import verify_model
+from foretype.modelfile.format import read_model_file, write_model_file
+from foretype.counting.scratch import TEMP_PREFIX, remove_stale
 from public_text import kjv_split, write_lines
 
 WRITER = """
 import os, signal, sys
 import numpy as np
-from predictor import modelfile
+from foretype.modelfile import format as modelfile
 point = sys.argv[2]
 def die():
     os.kill(os.getpid(), signal.SIGKILL)
@@ -63,7 +64,7 @@ modelfile.write_model_file(sys.argv[1], {"generation": "new"}, {"big": np.arange
 
 def children_env() -> dict[str, str]:
     env = dict(os.environ)
-    env["PYTHONPATH"] = os.pathsep.join([str(Path(predictor.__file__).resolve().parent.parent), env.get("PYTHONPATH", "")])
+    env["PYTHONPATH"] = os.pathsep.join([str(Path(foretype.__file__).resolve().parent.parent), env.get("PYTHONPATH", "")])
     return env
 
 
@@ -90,7 +91,7 @@ def test_a_write_killed_at_any_step_leaves_the_old_or_the_new_model_and_the_next
         assert loaded.meta == {"generation": "new"} and np.array_equal(loaded.sections["big"], np.arange(2_000_000, dtype=np.int32))
     # The next write is a new process, started after the killed one ended (and clear of clock ticks).
     time.sleep(0.1)
-    subprocess.run([sys.executable, "-c", "import sys, numpy as np; from predictor import modelfile; modelfile.write_model_file(sys.argv[1], {'generation': 'next'}, {'x': np.zeros(3)})", str(target)], env=children_env(), check=True, timeout=120)
+    subprocess.run([sys.executable, "-c", "import sys, numpy as np; from foretype.modelfile.format import write_model_file; write_model_file(sys.argv[1], {'generation': 'next'}, {'x': np.zeros(3)})", str(target)], env=children_env(), check=True, timeout=120)
     assert litter(tmp_path) == []
     assert read_model_file(target).meta == {"generation": "next"}
 
@@ -103,7 +104,7 @@ def test_a_build_killed_at_moments_spread_over_its_run_never_damages_the_target(
     target = out / "kjv.model"
     before = old_model(target)
     # A memory limit low enough that the counts spill to disk beside the target.
-    command = [sys.executable, "-m", "predictor", "build", str(corpus), "-o", str(target), "--max-memory", "80M", "--vocab-size", "1000", "--json"]
+    command = [sys.executable, "-m", "foretype", "build", str(corpus), "-o", str(target), "--max-memory", "80M", "--vocab-size", "1000", "--json"]
     started = time.monotonic()
     finished = subprocess.run(command, env=children_env(), check=True, capture_output=True, text=True, timeout=300)
     whole = time.monotonic() - started
@@ -139,26 +140,27 @@ def test_a_failing_disk_leaves_the_previous_model_and_no_temporary_file(tmp_path
                 raise OSError(errno.ENOSPC, "No space left on device")
 
             patch.setattr(modelfile.os, name, fail)
-            with pytest.raises(predictor.OutputError, match="No space left on device"):
+            with pytest.raises(foretype.OutputError, match="No space left on device"):
                 write_model_file(target, {"generation": "new"}, {"big": np.arange(1000)})
         assert target.read_bytes() == before and litter(tmp_path) == []
 
 
 def test_counts_that_cannot_be_spilled_fail_cleanly_and_leave_no_spill_folder(tmp_path, monkeypatch):
-    from predictor import counting, spill
-    from predictor.memory import MemoryBudget
+    from foretype.counting import counter as counting
+    from foretype.counting import spill
+    from foretype.counting.memory import MemoryBudget
 
     train, _ = kjv_split()
     corpus = write_lines(train[:1000], tmp_path / "train.txt")
     monkeypatch.setattr(MemoryBudget, "table_rows", property(lambda self: 500))
 
     def full_disk(*args, **kwargs):
-        raise predictor.OutputError(f"{tmp_path}: cannot write counts to disk (No space left on device)")
+        raise foretype.OutputError(f"{tmp_path}: cannot write counts to disk (No space left on device)")
 
     monkeypatch.setattr(spill, "write_run", full_disk)
     spill_root = tmp_path / "spill"
     spill_root.mkdir()
-    with pytest.raises(predictor.OutputError, match="No space left"):
+    with pytest.raises(foretype.OutputError, match="No space left"):
         counting.count_corpus([corpus], spill_dir=spill_root)
     gc.collect()
     assert list(spill_root.iterdir()) == []
@@ -213,7 +215,7 @@ def test_the_spill_folder_of_a_live_count_is_locked_against_other_cleaners(tmp_p
     folder = scratch.SpillFolder(tmp_path)
     past = time.time() - 3600
     os.utime(folder.path, (past, past))
-    checker = "import sys; from predictor.scratch import remove_stale; print(remove_stale(sys.argv[1]))"
+    checker = "import sys; from foretype.counting.scratch import remove_stale; print(remove_stale(sys.argv[1]))"
     result = subprocess.run([sys.executable, "-c", checker, str(tmp_path)], env=children_env(), capture_output=True, text=True, check=True, timeout=60)
     assert result.stdout.strip() == "0" and folder.path.exists()
     folder.close()

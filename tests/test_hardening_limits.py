@@ -15,11 +15,14 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-import predictor
-from predictor import counting
-from predictor.arrays import aggregate_rows, offsets_dtype, stable_argsort, word_id_dtype
-from predictor.counting import ID_BITS, MAX_RAW_TYPES, MAX_VOCABULARY, pack_trigrams, unpack_trigrams
-from predictor.modelfile import read_model_file, write_model_file
+import foretype
+import foretype.builder
+from foretype.counting import counter as counting
+from foretype.arrays import offsets_dtype, stable_argsort, word_id_dtype
+from foretype.counting.tables import aggregate_rows
+from foretype.counting.counter import ID_BITS, MAX_RAW_TYPES, pack_trigrams, unpack_trigrams
+from foretype.modelfile.limits import MAX_VOCABULARY
+from foretype.modelfile.format import read_model_file, write_model_file
 from public_text import kjv_split, write_lines
 
 
@@ -98,15 +101,15 @@ def test_the_packed_argsort_is_numpys_stable_argsort(key_bits):
 
 def test_a_vocabulary_beyond_the_format_is_refused_before_the_corpus_is_read(tmp_path, run_cli):
     absent = tmp_path / "not-read.txt"
-    with pytest.raises(predictor.CapacityError, match="2,000,000"):
-        predictor.build([absent], vocab_size=MAX_VOCABULARY + 1)
+    with pytest.raises(foretype.CapacityError, match="2,000,000"):
+        foretype.build([absent], vocab_size=MAX_VOCABULARY + 1)
     result = run_cli("build", absent, "-o", tmp_path / "m.model", "--vocab-size", str(MAX_VOCABULARY + 1))
-    assert result.code == predictor.CapacityError.exit_code and result.err.count("\n") == 1
-    assert predictor.build([write_lines(["In the beginning"], tmp_path / "tiny.txt")], vocab_size=MAX_VOCABULARY).vocab_size == 3
+    assert result.code == foretype.CapacityError.exit_code and result.err.count("\n") == 1
+    assert foretype.build([write_lines(["In the beginning"], tmp_path / "tiny.txt")], vocab_size=MAX_VOCABULARY).vocab_size == 3
 
 
 def test_too_many_words_for_the_format_stop_the_count_at_the_first_file_that_shows_it(corpus, tmp_path, monkeypatch):
-    monkeypatch.setattr(counting, "MAX_VOCABULARY", 100)
+    monkeypatch.setattr(foretype.builder, "MAX_VOCABULARY", 100)  # the format limit the build passes to the count
     read: list[Path] = []
     real = counting.iter_chunks
 
@@ -116,28 +119,28 @@ def test_too_many_words_for_the_format_stop_the_count_at_the_first_file_that_sho
 
     monkeypatch.setattr(counting, "iter_chunks", recording)
     later = write_lines(["and the earth was without form"] * 10, tmp_path / "later.txt")
-    with pytest.raises(predictor.CapacityError, match="more than 100 distinct words occur at least 2 times"):
-        predictor.build([corpus, later], min_count=2)
+    with pytest.raises(foretype.CapacityError, match="more than 100 distinct words occur at least 2 times"):
+        foretype.build([corpus, later], min_count=2)
     assert read == [corpus]
 
 
 def test_counts_past_ten_billion_keep_maximum_likelihood_exact_and_smoothed_models_normalised(corpus):
     # Scaling every count by the same factor leaves c(u v w) / c(u v) unchanged
     # (REFERENCES: q_ML = c(u,v,w) / c(u,v)), so the MLE model must be identical.
-    counts = predictor.count_corpus([corpus])
+    counts = foretype.count_corpus([corpus])
     factor = 10**10 // counts.corpus_tokens + 1
-    scaled = predictor.count_corpus([corpus])
+    scaled = foretype.count_corpus([corpus])
     for table in (scaled.table, scaled.heldout):
         table.n = table.n * factor
     scaled.type_counts = scaled.type_counts * factor
     scaled.corpus_tokens *= factor
     assert int(scaled.table.n.sum()) > 10**10
-    plain = predictor.build_from_counts(counts, method="mle")
-    big = predictor.build_from_counts(scaled, method="mle")
+    plain = foretype.build_from_counts(counts, method="mle")
+    big = foretype.build_from_counts(scaled, method="mle")
     for context in [(), ("the",), ("of", "the"), ("and", "god")]:
         assert np.array_equal(plain.distribution(context), big.distribution(context))
     for method in ("kneser-ney", "katz", "linear", "additive"):
-        model = predictor.build_from_counts(scaled, method=method, vocab_size=500)
+        model = foretype.build_from_counts(scaled, method=method, vocab_size=500)
         for context in [(), ("the",), ("of", "the")]:
             distribution = model.distribution(context)
             assert np.all(np.isfinite(distribution)) and distribution.sum() == pytest.approx(1.0, abs=2e-3)
@@ -147,7 +150,7 @@ def test_a_model_with_uint64_offsets_and_int32_word_ids_answers_exactly_as_the_n
     # Models with 2^32 or more entries store uint64 offsets and those with more than
     # 65,533 words int32 ids; the query code must give the same answers with either.
     path = tmp_path / "narrow.model"
-    predictor.build([corpus]).save(path)
+    foretype.build([corpus]).save(path)
     loaded = read_model_file(path)
     wide = {}
     for name, array in loaded.sections.items():
@@ -159,7 +162,7 @@ def test_a_model_with_uint64_offsets_and_int32_word_ids_answers_exactly_as_the_n
         wide[name] = array
     assert any(a.dtype == np.uint64 for a in wide.values()) and wide["l3.word"].dtype == np.int32
     write_model_file(tmp_path / "wide.model", loaded.meta, wide)
-    narrow, widened = predictor.load(path), predictor.load(tmp_path / "wide.model")
+    narrow, widened = foretype.load(path), foretype.load(tmp_path / "wide.model")
     assert widened.sections["l3.off"].dtype == np.uint64
     for context in [(), ("the",), ("of", "the"), ("and", "god"), ("zzz", "the")]:
         assert np.array_equal(narrow.distribution(context), widened.distribution(context))

@@ -17,10 +17,11 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-import predictor
-from predictor import counting, spill
-from predictor.memory import MemoryBudget, parse_size
-from predictor.text import iter_sentences, model_form
+import foretype
+from foretype.counting import counter as counting
+from foretype.counting import spill
+from foretype.counting.memory import MemoryBudget, parse_size
+from foretype.text import iter_sentences, model_form
 from public_text import kjv_split, write_lines
 
 
@@ -45,12 +46,12 @@ def as_counter(table, types) -> Counter:
 
 
 def test_counts_spilled_to_many_runs_and_merged_in_rounds_equal_counts_kept_in_memory(corpus, tmp_path, monkeypatch):
-    whole = predictor.count_corpus([corpus])
+    whole = foretype.count_corpus([corpus])
     assert whole.spilled_rows == 0
     # A table limit of a few hundred rows: dozens of runs, merged FAN_IN = 3 at a time.
     monkeypatch.setattr(MemoryBudget, "table_rows", property(lambda self: 600))
     monkeypatch.setattr(spill, "FAN_IN", 3)
-    spilled = predictor.count_corpus([corpus], spill_dir=tmp_path)
+    spilled = foretype.count_corpus([corpus], spill_dir=tmp_path)
     assert spilled.spilled_rows > 20 * 600
     assert isinstance(spilled.table, counting.SpilledTrigrams) and isinstance(spilled.heldout, counting.SpilledTrigrams)
     assert spilled.types == whole.types and spilled.display == whole.display
@@ -58,8 +59,8 @@ def test_counts_spilled_to_many_runs_and_merged_in_rounds_equal_counts_kept_in_m
     assert as_counter(spilled.table, spilled.types) == as_counter(whole.table, whole.types)
     assert as_counter(spilled.heldout, spilled.types) == as_counter(whole.heldout, whole.types)
     for method in ("kneser-ney", "linear"):
-        on_disk = predictor.build_from_counts(spilled, vocab_size=700, method=method)
-        in_memory = predictor.build_from_counts(whole, vocab_size=700, method=method)
+        on_disk = foretype.build_from_counts(spilled, vocab_size=700, method=method)
+        in_memory = foretype.build_from_counts(whole, vocab_size=700, method=method)
         assert on_disk.vocabulary == in_memory.vocabulary
         for context in [(), ("the",), ("of", "the"), ("and", "he"), ("zzz", "said")]:
             assert np.array_equal(on_disk.distribution(context), in_memory.distribution(context))
@@ -71,7 +72,7 @@ def test_words_first_seen_after_the_type_table_is_full_count_as_one_unlisted_typ
     # Reference: collections.Counter over the engine's own sentences, in reading order.
     limit = 400
     counter = counting.CorpusCounter(max_types=limit)
-    for chunk in predictor.corpus.iter_chunks(corpus):
+    for chunk in foretype.counting.corpus.iter_chunks(corpus):
         counter.add_text(chunk)
     counter.end_document()
     counts = counter.finish()
@@ -88,9 +89,9 @@ def test_words_first_seen_after_the_type_table_is_full_count_as_one_unlisted_typ
 
 
 def test_the_word_dictionaries_stop_growing_at_their_share_of_the_budget(corpus, monkeypatch):
-    unbounded = predictor.count_corpus([corpus])
+    unbounded = foretype.count_corpus([corpus])
     monkeypatch.setattr(MemoryBudget, "dictionary_bytes", property(lambda self: 300_000))
-    counts = predictor.count_corpus([corpus])
+    counts = foretype.count_corpus([corpus])
     assert counts.dictionary_bytes <= 300_000 < unbounded.dictionary_bytes
     assert counts.unlisted_tokens > 0 and len(counts.types) < 0.5 * len(unbounded.types)
 
@@ -102,21 +103,21 @@ def test_memory_sizes_parse_as_people_write_them():
     assert parse_size("1.5GB") == 1_500_000_000
     assert parse_size("800mb") == 800_000_000 and parse_size("4096") == 4096
     for bad in ("", "lots", "-1G", "1.2.3M", "5 parsecs"):
-        with pytest.raises(predictor.OptionError):
+        with pytest.raises(foretype.OptionError):
             parse_size(bad)
 
 
 def test_a_budget_below_what_the_process_needs_is_refused_before_reading(tmp_path, run_cli):
     result = run_cli("build", tmp_path / "absent.txt", "-o", tmp_path / "m.model", "--max-memory", "8M")
-    assert result.code == predictor.OptionError.exit_code and "too small" in result.err
+    assert result.code == foretype.OptionError.exit_code and "too small" in result.err
 
 
 def test_a_model_too_large_to_estimate_in_the_budget_is_a_capacity_error_with_its_figures(corpus, monkeypatch):
-    counts = predictor.count_corpus([corpus])
+    counts = foretype.count_corpus([corpus])
     counts.budget = MemoryBudget(limit=counts.budget.baseline + 40 * 2**20, baseline=counts.budget.baseline)
-    monkeypatch.setattr(predictor.memory, "ESTIMATE_BYTES_PER_TRIGRAM", 10**6)
-    with pytest.raises(predictor.CapacityError, match="trigrams over .* words needs about .* --max-memory"):
-        predictor.build_from_counts(counts)
+    monkeypatch.setattr(foretype.counting.memory, "ESTIMATE_BYTES_PER_TRIGRAM", 10**6)
+    with pytest.raises(foretype.CapacityError, match="trigrams over .* words needs about .* --max-memory"):
+        foretype.build_from_counts(counts)
 
 
 def kjv_copies(path: Path, copies: int) -> int:
@@ -136,13 +137,13 @@ def test_a_build_from_a_corpus_larger_than_the_memory_limit_stays_under_it(tmp_p
     size = kjv_copies(corpus, 27)
     assert size > limit
     model = tmp_path / "kjv.model"
-    command = [sys.executable, "-m", "predictor", "build", str(corpus), "-o", str(model), "--vocab-size", "500", "--max-memory", "96M", "--json"]
+    command = [sys.executable, "-m", "foretype", "build", str(corpus), "-o", str(model), "--vocab-size", "500", "--max-memory", "96M", "--json"]
     child = subprocess.run(command, capture_output=True, text=True, timeout=600)
     assert child.returncode == 0, child.stderr
     summary = json.loads(child.stdout)
     assert summary["spilled_rows"] > 0 and summary["unlisted_tokens"] > 0
     assert summary["peak_memory_bytes"] < limit
-    assert predictor.load(model).vocab_size == 500
+    assert foretype.load(model).vocab_size == 500
     assert [p.name for p in tmp_path.iterdir() if p.name.startswith(".foretype-")] == []
 
 
@@ -157,6 +158,6 @@ def test_binary_files_in_a_corpus_folder_are_skipped_and_counted_or_rejected(tmp
     summary = json.loads(result.out)
     assert summary["corpus_files"] == 1 and summary["skipped_files"] == 2
     result = run_cli("build", folder, "-o", tmp_path / "m.model", "--reject-binary")
-    assert result.code == predictor.CorpusError.exit_code and ("photo.jpg" in result.err or "notes-utf16" in result.err)
+    assert result.code == foretype.CorpusError.exit_code and ("photo.jpg" in result.err or "notes-utf16" in result.err)
     result = run_cli("build", folder / "notes-utf16.txt", "-o", tmp_path / "m.model")
-    assert result.code == predictor.CorpusError.exit_code and "UTF-16" in result.err and result.err.count("\n") == 1
+    assert result.code == foretype.CorpusError.exit_code and "UTF-16" in result.err and result.err.count("\n") == 1

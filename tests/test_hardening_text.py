@@ -18,11 +18,11 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-import predictor
-from predictor.demo import demo_model
-from predictor.simulate import TypistSettings, simulate
-from predictor.model import capitalise
-from predictor.text import TOKEN_RE, WORD_RE, is_sentence_end, model_form, split_before_cursor, tokens
+import foretype
+from foretype.demo import demo_model
+from foretype.simulate import TypistSettings, simulate
+from foretype.text import capitalise
+from foretype.text import TOKEN_RE, WORD_RE, is_sentence_end, model_form, split_before_cursor, tokens
 
 SPECIALS = [
     "\u0301", "\u0308", "\u0327",  # combining acute, diaeresis, cedilla
@@ -35,7 +35,7 @@ SPECIALS = [
 
 
 @pytest.fixture(scope="module")
-def model() -> predictor.LanguageModel:
+def model() -> foretype.LanguageModel:
     return demo_model()
 
 
@@ -51,7 +51,7 @@ def any_text(words: list[str]) -> st.SearchStrategy[str]:
     return st.lists(pieces, max_size=25).map("".join)
 
 
-def assert_sound(model: predictor.LanguageModel, context: list[str] | tuple[str, ...], prefix: str, found: list, k: int, *, sentence_start: bool = False) -> None:
+def assert_sound(model: foretype.LanguageModel, context: list[str] | tuple[str, ...], prefix: str, found: list, k: int, *, sentence_start: bool = False) -> None:
     """Every suggestion is a vocabulary word with the prefix, probabilities lie in (0, 1], and the list is the brute-force top k."""
     words = model.vocabulary
     wanted = model_form(prefix)
@@ -114,7 +114,7 @@ def test_the_simulated_typist_types_any_unicode_text_or_reports_that_it_holds_no
     mode = data.draw(st.sampled_from(["full", "words"]))
     try:
         report = simulate(model, text, TypistSettings(k=3, text_mode=mode), keep_traces=False)
-    except predictor.CorpusError:
+    except foretype.CorpusError:
         assert not [t for t in tokens(text) if not is_sentence_end(t)]
         return
     assert report.words > 0 and report.characters > 0 and report.keystrokes >= 0
@@ -133,24 +133,24 @@ def test_a_ten_megabyte_line_is_tokenised_suggested_after_and_counted_like_its_t
     assert model.suggest_text(line + typed, 5) == model.suggest_text(tail + typed, 5) != []
     corpus = tmp_path / "one-line.txt"
     corpus.write_text(line, encoding="utf-8")
-    counts = predictor.count_corpus([corpus])
+    counts = foretype.count_corpus([corpus])
     assert counts.corpus_tokens == count and counts.sentences == 1
 
 
 def test_a_ten_thousand_character_prefix_or_context_word_is_answered_not_refused(model):
     assert model.suggest_text("see you at the " + "s" * 10_000, 5) == []
-    assert model.suggest(("x" * 10_000, "the"), "", 5) == model.suggest((predictor.UNKNOWN, "the"), "", 5)
-    assert 0 < model.prob("y" * 10_000, ("at", "the")) == model.prob(predictor.UNKNOWN, ("at", "the"))
+    assert model.suggest(("x" * 10_000, "the"), "", 5) == model.suggest((foretype.UNKNOWN, "the"), "", 5)
+    assert 0 < model.prob("y" * 10_000, ("at", "the")) == model.prob(foretype.UNKNOWN, ("at", "the"))
 
 
 def test_words_holding_lone_surrogates_are_unknown_words():
     model = demo_model()
     assert model.suggest(("\ud800",), "a\udfff", 5) == []
-    assert model.prob("\ud800", ()) == model.prob(predictor.UNKNOWN, ())
+    assert model.prob("\ud800", ()) == model.prob(foretype.UNKNOWN, ())
 
 
 def test_a_line_longer_than_a_chunk_and_its_extension_is_cut_before_a_word_or_at_a_character(tmp_path):
-    from predictor.corpus import LINE_EXTENSION_BYTES, iter_chunks
+    from foretype.counting.corpus import LINE_EXTENSION_BYTES, iter_chunks
 
     spaced = " ".join(["ångström", "fjord", "日本語", "🙂x"] * 150_000) + "\nlast line\n"
     unspaced = "ж" * 1_500_000 + "\n"

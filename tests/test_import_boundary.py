@@ -2,7 +2,7 @@
 
 Common practice for a library with an optional interface: importing the
 engine, or running any command other than the typing pad, must not import
-Textual or the ``tui`` package (checked in a fresh interpreter, where
+Textual or the pad (``foretype.tui``) (checked in a fresh interpreter, where
 sys.modules shows exactly what was loaded).
 """
 
@@ -13,12 +13,12 @@ import subprocess
 import sys
 from pathlib import Path
 
-import predictor
+import foretype
 
 PROBE = """
 import json, sys
 {body}
-loaded = sorted(m for m in sys.modules if m.split(".")[0] in ("textual", "tui"))
+loaded = sorted(m for m in sys.modules if m.split(".")[0] == "textual" or m == "foretype.tui" or m.startswith("foretype.tui."))
 print(json.dumps(loaded))
 """
 
@@ -30,7 +30,7 @@ def loaded_interface_modules(body: str) -> list[str]:
 
 
 def test_importing_the_engine_loads_neither_textual_nor_tui():
-    assert loaded_interface_modules("import predictor, predictor.cli") == []
+    assert loaded_interface_modules("import foretype, foretype.cli") == []
 
 
 def test_running_engine_commands_loads_neither_textual_nor_tui(tmp_path: Path):
@@ -38,7 +38,7 @@ def test_running_engine_commands_loads_neither_textual_nor_tui(tmp_path: Path):
     corpus.write_text("In the beginning God created the heaven and the earth.\nAnd the earth was without form.\n", encoding="utf-8")
     model = tmp_path / "tiny.model"
     body = f"""
-from predictor.cli import main
+from foretype.cli import main
 import contextlib, io
 with contextlib.redirect_stdout(io.StringIO()):
     for args in (["build", {str(corpus)!r}, "-o", {str(model)!r}], ["suggest", {str(model)!r}, "and the "],
@@ -46,7 +46,7 @@ with contextlib.redirect_stdout(io.StringIO()):
         assert main(args) == 0, args
 """
     assert loaded_interface_modules(body) == []
-    assert predictor.load(model).vocab_size > 0
+    assert foretype.load(model).vocab_size > 0
 
 
 def test_the_probe_would_see_textual_if_it_were_imported():

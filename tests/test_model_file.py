@@ -16,10 +16,10 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-import predictor
+import foretype
 from public_text import kjv_split, write_lines
 
-PROBES = [(), ("the",), ("of", "the"), ("and", "god"), ("said", "unto"), ("zzz",), ("zzz", "the"), (predictor.UNKNOWN, predictor.UNKNOWN)]
+PROBES = [(), ("the",), ("of", "the"), ("and", "god"), ("said", "unto"), ("zzz",), ("zzz", "the"), (foretype.UNKNOWN, foretype.UNKNOWN)]
 
 
 @pytest.fixture(scope="module")
@@ -30,11 +30,11 @@ def corpus(tmp_path_factory) -> Path:
 
 @pytest.mark.parametrize("method,encoding", [("kneser-ney", None), ("linear", None), ("katz", None), ("additive", None), ("mle", None), ("kneser-ney", "float32")])
 def test_a_saved_and_loaded_model_answers_exactly_as_the_built_one(corpus, tmp_path, method, encoding):
-    built = predictor.build([corpus], method=method, encoding=encoding, vocab_size=1500)
+    built = foretype.build([corpus], method=method, encoding=encoding, vocab_size=1500)
     path = tmp_path / "kjv.model"
     size = built.save(path)
     assert size == path.stat().st_size
-    loaded = predictor.load(path)
+    loaded = foretype.load(path)
     assert loaded.vocabulary == built.vocabulary
     assert loaded.method == method
     for context in PROBES:
@@ -50,17 +50,17 @@ def test_a_saved_and_loaded_model_answers_exactly_as_the_built_one(corpus, tmp_p
 def test_a_loaded_models_arrays_are_read_only_views_of_the_file(corpus, tmp_path):
     # Issue 2, "Model file": memory-mapped on load, nothing executed.
     path = tmp_path / "kjv.model"
-    predictor.build([corpus], vocab_size=500).save(path)
-    loaded = predictor.load(path)
+    foretype.build([corpus], vocab_size=500).save(path)
+    loaded = foretype.load(path)
     assert all(not array.flags.writeable for array in loaded.sections.values())
-    assert predictor.verify(path).file_bytes == path.stat().st_size
+    assert foretype.verify(path).file_bytes == path.stat().st_size
 
 
 def test_saving_over_an_existing_model_replaces_it_whole(corpus, tmp_path):
     path = tmp_path / "kjv.model"
-    predictor.build([corpus], vocab_size=100).save(path)
-    predictor.build([corpus], vocab_size=300).save(path)
-    assert predictor.load(path).vocab_size == 300
+    foretype.build([corpus], vocab_size=100).save(path)
+    foretype.build([corpus], vocab_size=300).save(path)
+    assert foretype.load(path).vocab_size == 300
     assert [p.name for p in tmp_path.iterdir()] == ["kjv.model"]  # no temporary file left behind
 
 
@@ -72,10 +72,10 @@ def test_saving_over_an_existing_model_replaces_it_whole(corpus, tmp_path):
 def test_round_trip_keeps_every_distribution_identical(tmp_path, sentences, method):
     source = tmp_path / "corpus.txt"
     source.write_text("\n".join(" ".join(s) for s in sentences) + "\n", encoding="utf-8")
-    built = predictor.build([source], method=method)
+    built = foretype.build([source], method=method)
     path = tmp_path / "round.model"
     built.save(path)
-    loaded = predictor.load(path)
+    loaded = foretype.load(path)
     for context in [(), ("a",), ("a", "b"), ("zzz", "a"), ("ba", "bab")]:
         assert np.array_equal(loaded.distribution(context), built.distribution(context))
 
@@ -83,7 +83,7 @@ def test_round_trip_keeps_every_distribution_identical(tmp_path, sentences, meth
 def test_info_reports_the_n_cubed_possible_trigrams_and_how_few_are_stored(corpus, tmp_path):
     # Fact of the trade (common practice): a trigram model over N words has about N^3 parameters,
     # 20,000 words giving 8 x 10^12.  info reports (V + 2)^3 over the V words, UNKNOWN and END.
-    model = predictor.build([corpus])
+    model = foretype.build([corpus])
     info = model.info()
     size = info["vocab_size"]
     assert info["possible_trigrams"] == (size + 2) ** 3
@@ -99,13 +99,13 @@ def test_info_reports_the_n_cubed_possible_trigrams_and_how_few_are_stored(corpu
 def test_info_json_has_the_documented_keys(corpus, tmp_path, run_cli):
     # Issue 2, "JSON shapes": info.
     path = tmp_path / "kjv.model"
-    predictor.build([corpus], vocab_size=800).save(path)
+    foretype.build([corpus], vocab_size=800).save(path)
     result = run_cli("info", path, "--json")
     assert result.code == 0 and result.err == ""
     info = json.loads(result.out)
     for key in ("format_version", "method", "vocab_size", "ngrams", "file_bytes", "bytes_per_ngram", "corpus_tokens"):
         assert key in info
-    assert info["format_version"] == predictor.FORMAT_VERSION
+    assert info["format_version"] == foretype.FORMAT_VERSION
     assert info["vocab_size"] == 800
     assert set(info["ngrams"]) == {"1", "2", "3"}
     assert info["file_bytes"] == path.stat().st_size

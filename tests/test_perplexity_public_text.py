@@ -37,7 +37,7 @@ import pytest
 from nltk.lm import KneserNeyInterpolated, Vocabulary
 from nltk.lm.preprocessing import padded_everygram_pipeline
 
-import predictor
+import foretype
 from public_text import kjv_split, model_sentences, write_lines
 
 TRAIN_VERSES = 3000
@@ -130,7 +130,7 @@ def test_default_model_has_lower_perplexity_than_nltk_interpolated_kneser_ney(sp
     # (the usual absolute discount); the engine's default: interpolated modified Kneser-Ney
     # (Chen & Goodman 1998) with the log16 value encoding.
     data, path = split
-    model = predictor.build([path], min_count=2)
+    model = foretype.build([path], min_count=2)
     ours = model.score(data.heldout_text)
     assert ours.tokens == sum(len(s) + 1 for s in data.heldout)
     assert ours.oov > 0
@@ -157,10 +157,10 @@ def test_with_every_training_word_in_the_vocabulary_nltk_gives_unknown_tokens_ze
     # never seen in training when unk_cutoff=1, has probability 0 in every context.  The
     # engine interpolates its unigram level with the uniform distribution (Chen & Goodman).
     data, path = split
-    model = predictor.build([path])
+    model = foretype.build([path])
     lm = nltk_kn(data.train, unk_cutoff=1)
     assert lm.score("<UNK>", ["of", "the"]) == 0.0
-    assert model.prob(predictor.UNKNOWN, ("of", "the")) > 0
+    assert model.prob(foretype.UNKNOWN, ("of", "the")) > 0
     assert math.isfinite(model.score(data.heldout_text).perplexity)
     assert perplexity(nltk_token_probabilities(lm, data.heldout)) == math.inf
     # On the held-out sentences with no unknown word, both are finite; compare there.

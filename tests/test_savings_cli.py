@@ -7,15 +7,15 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor.simulate import REPORT_KEYS
+import foretype
+from foretype.simulate import REPORT_KEYS
 
 DATA = Path(__file__).parent / "data" / "savings"
 
 
 def run_main(capsys: pytest.CaptureFixture[str], *args: object) -> tuple[int, str]:
     """Run the command line in-process, counting argparse's exit as an exit code; returns (code, stderr)."""
-    from predictor.cli import main
+    from foretype.cli import main
 
     capsys.readouterr()
     try:
@@ -28,7 +28,7 @@ def run_main(capsys: pytest.CaptureFixture[str], *args: object) -> tuple[int, st
 @pytest.fixture(scope="module")
 def worked_model_file(tmp_path_factory: pytest.TempPathFactory) -> Path:
     path = tmp_path_factory.mktemp("model") / "worked.model"
-    predictor.build([DATA / "worked-corpus.txt"], method="mle").save(path)
+    foretype.build([DATA / "worked-corpus.txt"], method="mle").save(path)
     return path
 
 
@@ -84,25 +84,25 @@ def test_savings_rejects_bad_options_in_one_line(capsys, worked_model_file: Path
 def test_savings_rejects_a_test_file_without_words(run_cli, worked_model_file: Path, write_file, content: str) -> None:
     empty = write_file(content, "empty.txt")
     result = run_cli("savings", worked_model_file, empty)
-    assert result.code == predictor.CorpusError.exit_code
+    assert result.code == foretype.CorpusError.exit_code
     assert result.err.strip() == f"foretype: {empty}: holds no words to type"
 
 
 def test_savings_rejects_an_unwritable_trace_before_simulating(run_cli, worked_model_file: Path, tmp_path: Path) -> None:
     result = run_cli("savings", worked_model_file, DATA / "worked-text.txt", "--trace", tmp_path / "missing" / "t.jsonl")
-    assert result.code == predictor.OutputError.exit_code
+    assert result.code == foretype.OutputError.exit_code
     assert "cannot write" in result.err and len(result.err.strip().splitlines()) == 1
 
 
 def test_savings_names_a_missing_test_file(run_cli, worked_model_file: Path, tmp_path: Path) -> None:
     result = run_cli("savings", worked_model_file, tmp_path / "nope.txt")
-    assert result.code == predictor.CorpusError.exit_code
+    assert result.code == foretype.CorpusError.exit_code
     assert "nope.txt" in result.err and len(result.err.strip().splitlines()) == 1
 
 
 def test_sweep_rejects_an_unknown_method(run_cli, tmp_path: Path) -> None:
     result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--methods", "kneser-ney,guesswork", "--out", tmp_path / "out")
-    assert result.code == predictor.OptionError.exit_code
+    assert result.code == foretype.OptionError.exit_code
     assert "unknown method 'guesswork'" in result.err and len(result.err.strip().splitlines()) == 1
     assert not (tmp_path / "out").exists()
 
@@ -110,7 +110,7 @@ def test_sweep_rejects_an_unknown_method(run_cli, tmp_path: Path) -> None:
 @pytest.mark.parametrize("sizes", ["0,100", "100,ten", ","])
 def test_sweep_rejects_bad_vocabulary_sizes(run_cli, tmp_path: Path, sizes: str) -> None:
     result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", sizes, "--out", tmp_path / "out")
-    assert result.code == predictor.OptionError.exit_code
+    assert result.code == foretype.OptionError.exit_code
     assert "--vocab-sizes" in result.err and len(result.err.strip().splitlines()) == 1
 
 
@@ -118,14 +118,14 @@ def test_sweep_rejects_an_unwritable_output_folder(run_cli, tmp_path: Path) -> N
     blocker = tmp_path / "a-file"
     blocker.write_text("not a folder\n", encoding="utf-8")
     result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", "5", "--out", blocker / "out")
-    assert result.code == predictor.OutputError.exit_code
+    assert result.code == foretype.OutputError.exit_code
     assert "cannot create the output folder" in result.err and len(result.err.strip().splitlines()) == 1
 
 
 def test_sweep_rejects_a_test_file_without_words(run_cli, write_file, tmp_path: Path) -> None:
     empty = write_file("?!\n", "empty.txt")
     result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", empty, "--out", tmp_path / "out")
-    assert result.code == predictor.CorpusError.exit_code
+    assert result.code == foretype.CorpusError.exit_code
     assert result.err.strip() == f"foretype: {empty}: holds no words to type"
 
 

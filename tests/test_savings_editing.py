@@ -10,8 +10,8 @@ from __future__ import annotations
 
 import pytest
 
-from predictor.simulate import gap_keystrokes, replaces_automatic_space
-from predictor.simulate.editing import latest_useful_pick
+from foretype.simulate import gap_keystrokes, replaces_automatic_space
+from foretype.simulate.editing import latest_useful_pick
 
 
 @pytest.mark.parametrize(

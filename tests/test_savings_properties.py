@@ -21,10 +21,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-import predictor
-from predictor.model import Suggestion
-from predictor.simulate import TypistSettings, simulate
-from predictor.text import iter_sentences, model_form
+import foretype
+from foretype.query.model import Suggestion
+from foretype.simulate import TypistSettings, simulate
+from foretype.text import iter_sentences, model_form
 
 CORPUS = """the ferry to fennick isle leaves at eight.
 the gannet's wake is late again, sorry!
@@ -43,12 +43,12 @@ MARKS = [" ", " ", " ", ", ", ". ", "! ", "\n", "? ", " (", '" ', " - ", "\n\n",
 
 
 @pytest.fixture(scope="module")
-def small_model() -> predictor.LanguageModel:
-    return predictor.build_from_counts(_counts(CORPUS), method="kneser-ney")
+def small_model() -> foretype.LanguageModel:
+    return foretype.build_from_counts(_counts(CORPUS), method="kneser-ney")
 
 
-def _counts(text: str) -> predictor.CorpusCounts:
-    from predictor.counting import CorpusCounter
+def _counts(text: str) -> foretype.CorpusCounts:
+    from foretype.counting.counter import CorpusCounter
 
     counter = CorpusCounter()
     counter.add_text(text)
@@ -59,7 +59,7 @@ def _counts(text: str) -> predictor.CorpusCounts:
 class EveryWordSource:
     """Offers every vocabulary word that matches the prefix, ignoring k: the intended word is always offered."""
 
-    def __init__(self, model: predictor.LanguageModel) -> None:
+    def __init__(self, model: foretype.LanguageModel) -> None:
         self.words = model.vocab.words()
         self.display = [model.vocab.display(i) for i in range(len(self.words))]
 
@@ -84,7 +84,7 @@ class NothingSource:
 class FrequencyListSource:
     """The k most probable words under the unigram array that match the prefix, by brute force over all words."""
 
-    def __init__(self, model: predictor.LanguageModel) -> None:
+    def __init__(self, model: foretype.LanguageModel) -> None:
         size = model.vocab_size
         p1 = np.asarray(model.sections["p1"][:size], dtype=np.float64)
         self.ranked = [int(i) for i in sorted(range(size), key=lambda i: (-p1[i], i))]
@@ -115,7 +115,7 @@ typists = st.builds(
 
 @settings(max_examples=60, deadline=None)
 @given(text=texts, typist=typists)
-def test_a_source_that_always_offers_the_word_reaches_the_oracle_exactly(small_model: predictor.LanguageModel, text: str, typist: TypistSettings) -> None:
+def test_a_source_that_always_offers_the_word_reaches_the_oracle_exactly(small_model: foretype.LanguageModel, text: str, typist: TypistSettings) -> None:
     report = simulate(small_model, text, typist, source=EveryWordSource(small_model))
     assert report.keystrokes == report.oracle_keystrokes
     assert report.ksr == report.oracle_ksr
@@ -123,14 +123,14 @@ def test_a_source_that_always_offers_the_word_reaches_the_oracle_exactly(small_m
 
 @settings(max_examples=60, deadline=None)
 @given(text=texts, typist=typists)
-def test_a_context_free_frequency_list_through_the_typist_equals_the_baseline(small_model: predictor.LanguageModel, text: str, typist: TypistSettings) -> None:
+def test_a_context_free_frequency_list_through_the_typist_equals_the_baseline(small_model: foretype.LanguageModel, text: str, typist: TypistSettings) -> None:
     report = simulate(small_model, text, typist, source=FrequencyListSource(small_model))
     assert report.keystrokes == report.baseline_keystrokes
 
 
 @settings(max_examples=40, deadline=None)
 @given(text=texts, typist=typists)
-def test_ksr_never_falls_as_k_grows(small_model: predictor.LanguageModel, text: str, typist: TypistSettings) -> None:
+def test_ksr_never_falls_as_k_grows(small_model: foretype.LanguageModel, text: str, typist: TypistSettings) -> None:
     from dataclasses import replace
 
     ksrs = [simulate(small_model, text, replace(typist, k=k), keep_traces=False).ksr for k in (1, 2, 3, 5, 8)]
@@ -139,7 +139,7 @@ def test_ksr_never_falls_as_k_grows(small_model: predictor.LanguageModel, text: 
 
 @settings(max_examples=40, deadline=None)
 @given(text=texts, typist=typists)
-def test_no_model_beats_the_oracle_and_none_costs_more_than_typing(small_model: predictor.LanguageModel, text: str, typist: TypistSettings) -> None:
+def test_no_model_beats_the_oracle_and_none_costs_more_than_typing(small_model: foretype.LanguageModel, text: str, typist: TypistSettings) -> None:
     report = simulate(small_model, text, typist)
     assert 0.0 <= report.ksr <= report.oracle_ksr
     assert 0.0 <= report.baseline_ksr <= report.oracle_ksr
@@ -150,7 +150,7 @@ def test_no_model_beats_the_oracle_and_none_costs_more_than_typing(small_model: 
 @settings(max_examples=60, deadline=None)
 @given(text=texts, wrapped=st.booleans())
 def test_sentence_starts_and_contexts_follow_the_tokenizer(text: str, wrapped: bool) -> None:
-    from predictor.simulate import read_passage
+    from foretype.simulate import read_passage
 
     passage = read_passage(text, wrapped=wrapped)
     sentences: list[list[str]] = []
@@ -164,7 +164,7 @@ def test_sentence_starts_and_contexts_follow_the_tokenizer(text: str, wrapped: b
 
 
 def test_k_of_one_with_a_model_that_knows_none_of_the_words_saves_nothing() -> None:
-    model = predictor.build_from_counts(_counts("zzyzx.\n"))
+    model = foretype.build_from_counts(_counts("zzyzx.\n"))
     report = simulate(model, "The ferry is late, Maren.\nSee you at the slipway!\n", TypistSettings(k=1))
     assert report.ksr == 0.0
     assert report.keystrokes == report.characters
@@ -172,7 +172,7 @@ def test_k_of_one_with_a_model_that_knows_none_of_the_words_saves_nothing() -> N
     assert report.oracle_ksr == 0.0 and report.ksr_of_oracle is None
 
 
-def test_k_of_one_with_a_source_that_offers_nothing_saves_nothing(small_model: predictor.LanguageModel) -> None:
+def test_k_of_one_with_a_source_that_offers_nothing_saves_nothing(small_model: foretype.LanguageModel) -> None:
     text = "the ferry is late.\nsee you at the slipway!\n"
     for mode in ("full", "words"):
         report = simulate(small_model, text, TypistSettings(k=1, text_mode=mode), source=NothingSource())
@@ -181,7 +181,7 @@ def test_k_of_one_with_a_source_that_offers_nothing_saves_nothing(small_model: p
         assert report.hit_before_first_letter == 0.0
 
 
-def test_a_word_written_differently_from_every_offer_is_typed_in_full(small_model: predictor.LanguageModel) -> None:
+def test_a_word_written_differently_from_every_offer_is_typed_in_full(small_model: foretype.LanguageModel) -> None:
     # "FERRY" matches "ferry" case-insensitively, but picking would write "ferry": the typist types it.
     report = simulate(small_model, "the FERRY\n", TypistSettings(k=5))
     ferry = report.trace[1]
@@ -190,7 +190,7 @@ def test_a_word_written_differently_from_every_offer_is_typed_in_full(small_mode
     assert any("ferry" in shown for shown in ferry.shown)
 
 
-def test_a_sentence_start_is_offered_with_a_capital(small_model: predictor.LanguageModel) -> None:
+def test_a_sentence_start_is_offered_with_a_capital(small_model: foretype.LanguageModel) -> None:
     report = simulate(small_model, "The ferry.\n", TypistSettings(k=5))
     assert all(form[:1].isupper() for form in report.trace[0].shown[0])
     assert report.trace[0].picked_at == ""

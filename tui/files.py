@@ -9,7 +9,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from predictor.errors import CorpusError, OutputError
+from foretype.errors import CorpusError, OutputError
 
 
 def save_new_text(path: str | Path, text: str) -> Path:

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from predictor.model import LanguageModel
+from foretype.query.model import LanguageModel
 
 from .app import PadApp
 from .learning import learning_sources

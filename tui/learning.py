@@ -7,7 +7,7 @@ learned (the person did not type it), though a word a paste left unfinished
 is learned when a typed key finishes it.
 
 The learned file holds personal text: it stays on this machine, beside the
-model (see :mod:`predictor.adapt.store`), and the pad's learned-words screen
+model (see :mod:`foretype.adapt.store`), and the pad's learned-words screen
 shows, forgets and blocks what is in it.  Nothing here imports Textual, and
 the engine's objects are used from one thread (the interface's).
 """
@@ -18,10 +18,10 @@ from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
 
-from predictor.adapt import AdaptedModel, LearnedFile, LearnedWord, load_learned
-from predictor.errors import ForetypeError
-from predictor.model import LanguageModel, Suggestion
-from predictor.text import model_form, split_before_cursor
+from foretype.adapt import AdaptedModel, LearnedFile, LearnedWord, load_learned
+from foretype.errors import ForetypeError
+from foretype.query.model import LanguageModel, Suggestion
+from foretype.text import model_form, split_before_cursor
 
 
 @dataclass(frozen=True)

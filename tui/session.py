@@ -7,7 +7,7 @@ of the last query.  The widgets only render it and forward keys to it, so the
 rules here are testable without a terminal.
 
 Counting convention (README "The typing pad" restates it; the simulated typist
-of :mod:`predictor.simulate` counts the same way): every key press
+of :mod:`foretype.simulate` counts the same way): every key press
 that changes the text costs one keystroke (a typed character, Enter,
 Backspace, Delete), a pasted text costs one keystroke per character, and
 accepting a suggestion costs one keystroke whatever its rank.  Cursor moves and
@@ -18,49 +18,15 @@ the composed text, so keystroke savings = 1 - keystrokes / characters.
 from __future__ import annotations
 
 import time
-from collections.abc import Callable, Sequence
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Protocol
 
-from predictor.model import Suggestion, capitalise
-from predictor.text import model_form
+from foretype.query.model import Suggestion
+from foretype.query.source import SuggestionSource
+from foretype.text import capitalise, model_form
 
 MARKS_BEFORE_SPACE = ".,;:!?…"
 """Marks after which an accepted word gets a space in front (when none was typed)."""
-
-
-class WordIndex(Protocol):
-    """The part of a vocabulary the pad needs: is a word known?"""
-
-    def id(self, word: str) -> int | None:
-        """Return the id of a word in model form, or None if it is unknown."""
-        ...
-
-
-class SuggestionSource(Protocol):
-    """Where the pad's suggestions come from.
-
-    A :class:`predictor.LanguageModel` is one; a wrapper that mixes in what the
-    person has typed (a learning source) can stand in for it as long as it
-    answers these four members the same way.
-    """
-
-    @property
-    def vocab(self) -> WordIndex:
-        """The vocabulary whose unknown words are marked in the context."""
-        ...
-
-    def parse_cursor_text(self, text: str) -> tuple[list[str], str]:
-        """Return (up to two context words, partial word) for the text before a cursor."""
-        ...
-
-    def context_ids(self, context: Sequence[str]) -> tuple[int, int]:
-        """Map up to two context words to the ids :meth:`suggest_ids` takes."""
-        ...
-
-    def suggest_ids(self, u: int, v: int, prefix: str, k: int) -> list[Suggestion]:
-        """The k most probable words after context ids (u, v) that start with prefix."""
-        ...
 
 
 @dataclass(frozen=True)

@@ -1,6 +1,6 @@
 """Learning from the person's own text: a user model combined with the base model.
 
-    from predictor.adapt import AdaptedModel, LearnedFile
+    from foretype.adapt import AdaptedModel, LearnedFile
     adapted = AdaptedModel(base_model)            # in memory: empty user model, nothing blocked
     adapted.learn(["Saltmarrow", "ferry"], after=["the"])
     adapted.suggest(("the",), prefix="sal", k=5)  # exact top-k under the combined model

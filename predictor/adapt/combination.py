@@ -1,6 +1,6 @@
 """The combination arithmetic: how base and user probabilities make the combined one.
 
-Every query of :class:`~predictor.adapt.combined.AdaptedModel` goes through
+Every query of :class:`~foretype.adapt.combined.AdaptedModel` goes through
 these few functions, so the distribution, the exact top k and the bounds of
 its search use the same IEEE double operations in the same order.
 """
@@ -11,7 +11,7 @@ import math
 
 import numpy as np
 
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 
 
 def combine(mu: float, base: np.ndarray, user: np.ndarray) -> np.ndarray:

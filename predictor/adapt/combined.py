@@ -5,7 +5,7 @@ The combined probability of an outcome w after the context (u, v) is::
     P(w | u v) = (1 - mu) * P_base(w | u' v') + mu * P_user(w | u v)
     mu = worth_b * n_b / (n_b + beta),   worth_b = (R_b + prior_worth * beta) / (n_b + beta)
 
-P_user is the Witten-Bell trigram of :mod:`predictor.adapt.user_model`; u' v'
+P_user is the Witten-Bell trigram of :mod:`foretype.adapt.user_model`; u' v'
 is the context as the base model sees it (a word only the user model knows
 reads as UNKNOWN there).  The share mu depends on the context only through
 its evidence bucket b (has the user written (u, v) before, only v, or
@@ -55,11 +55,11 @@ the never-suggest list.
    when the k-th score is 0 or fewer than k words score at all (ties go by
    word).
 
-The code is split along these seams: :mod:`predictor.adapt.combination` (the
-arithmetic), :mod:`predictor.adapt.suggestable` (what may be suggested under
+The code is split along these seams: :mod:`foretype.adapt.combination` (the
+arithmetic), :mod:`foretype.adapt.suggestable` (what may be suggested under
 one version of the user model and the never-suggest list: an immutable
-snapshot), :mod:`predictor.adapt.top_k` (the walk above) and
-:mod:`predictor.adapt.listings`.
+snapshot), :mod:`foretype.adapt.top_k` (the walk above) and
+:mod:`foretype.adapt.listings`.
 
 The arithmetic is the one :meth:`AdaptedModel.distribution` uses, every
 bound is computed with the same operations in the same order (each one
@@ -73,14 +73,13 @@ every suggestion is the base model's own.
 from __future__ import annotations
 
 from collections.abc import Sequence
-from typing import NamedTuple
 
 import numpy as np
 
 from ..errors import OptionError
-from ..model import LanguageModel, capitalise
-from ..text import split_before_cursor
-from ..vocabulary import END, START, Vocabulary
+from ..query.model import LanguageModel, Suggestion
+from ..query.vocabulary import END, START, Vocabulary
+from ..text import capitalise, split_before_cursor
 from .combination import base_context, base_probabilities, combine, responsibility
 from .listings import LearnedWord, learned_words
 from .never_list import NeverList
@@ -89,27 +88,10 @@ from .suggestable import Suggestable, derive
 from .top_k import Candidate, PreparedContext, exact_top, prepare
 from .user_model import UserModel
 
-
-class AdaptedSuggestion(NamedTuple):
-    """A suggestion from the combined model: the fields of :class:`~predictor.model.Suggestion`, then two marks.
-
-    Attributes:
-        word: the word in display form.
-        prob: its combined probability after the context.
-        order: the n-gram order (1, 2 or 3) that supplied most of the probability
-            (the user model's order when ``learned``, else the base model's).
-        id: the word's id (base id, or V + 3 + j for a word only the user model knows).
-        learned: the user model supplied more of the probability than the base model
-            (the interface marks these).
-        new_word: the word is not in the base vocabulary; it exists only because it was learned.
-    """
-
-    word: str
-    prob: float
-    order: int
-    id: int
-    learned: bool = False
-    new_word: bool = False
+AdaptedSuggestion = Suggestion
+"""The combined model's suggestions are the engine's one :class:`~foretype.query.model.Suggestion` type,
+with ``learned`` (the user model supplied more of the probability than the base model; its order is then
+the user model's) and ``new_word`` (the base vocabulary lacks the word) set; the old name is kept."""
 
 
 class AdaptedModel:
@@ -285,7 +267,7 @@ class AdaptedModel:
         return float(self.distribution(context, np.array([target]))[0])
 
     # ------------------------------------------------------------ suggestions
-    def suggest(self, context: Sequence[str] = (), prefix: str = "", k: int = 5) -> list[AdaptedSuggestion]:
+    def suggest(self, context: Sequence[str] = (), prefix: str = "", k: int = 5) -> list[Suggestion]:
         """The exact k most probable suggestable words after a context that start with a prefix.
 
         Args:
@@ -302,7 +284,7 @@ class AdaptedModel:
         u, v = self.context_ids(context)
         return self.suggest_ids(u, v, prefix, k)
 
-    def suggest_text(self, text: str, k: int = 5) -> list[AdaptedSuggestion]:
+    def suggest_text(self, text: str, k: int = 5) -> list[Suggestion]:
         """Suggestions for the text before a cursor (as :meth:`LanguageModel.suggest_text`)."""
         words, prefix = split_before_cursor(text)
         found = self.suggest(words[-2:], prefix, k)
@@ -315,21 +297,21 @@ class AdaptedModel:
         words, prefix = split_before_cursor(text)
         return words[-2:], prefix
 
-    def suggest_ids(self, u: int, v: int, prefix: str, k: int) -> list[AdaptedSuggestion]:
+    def suggest_ids(self, u: int, v: int, prefix: str, k: int) -> list[Suggestion]:
         """:meth:`suggest` with a context already mapped by :meth:`context_ids` (see the module docstring)."""
         if k < 1:
             raise OptionError(f"k must be at least 1, not {k}")
         view = self._snapshot()
         prepared = self._prepared_in(view, u, v)
         if prepared.user is None and not self.never and not view.any_new_word:
-            return [AdaptedSuggestion(s[0], s[1], s[2], s[3]) for s in self.base.suggest_ids(prepared.ub, prepared.vb, prefix, k)]
+            return self.base.suggest_ids(prepared.ub, prepared.vb, prefix, k)
         span, key_range = view.ranges_of(prefix, self.base.vocab)
         if key_range is None:
             return []
         chosen, base_orders = exact_top(self.base, view, prepared, span, key_range, k)
         return self._results(prepared, chosen, base_orders)
 
-    def _results(self, prepared: PreparedContext, chosen: list[Candidate], base_orders: dict[int, int]) -> list[AdaptedSuggestion]:
+    def _results(self, prepared: PreparedContext, chosen: list[Candidate], base_orders: dict[int, int]) -> list[Suggestion]:
         """Suggestions from the chosen candidates, with their orders and marks."""
         user = self.user
         mu = prepared.mu
@@ -348,7 +330,7 @@ class AdaptedModel:
                 order_of = base_orders[i]
             else:
                 order_of = user.order_of(i, uctx) if uctx is not None else 1
-            results.append(AdaptedSuggestion(display(i), float(-row.neg_score), int(order_of), int(i), own, i >= first_new))
+            results.append(Suggestion(display(i), float(-row.neg_score), int(order_of), int(i), own, i >= first_new))
         return results
 
 

@@ -6,7 +6,7 @@ import json
 import os
 from typing import BinaryIO
 
-from ..atomic import replace_atomically
+from ..modelfile.atomic import replace_atomically
 from .combined import AdaptedModel
 
 PRIVACY_NOTE = (
@@ -37,9 +37,7 @@ def export_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> dict[st
     ]
     grams = {}
     for order in (2, 3):
-        grams[order] = [
-            {"words": [user.form(i) for i in ids], "count": count, "uses": uses, "last_seen": seen} for ids, count, uses, seen in user.ngram_rows(order)
-        ]
+        grams[order] = [{"words": [user.form(i) for i in ids], "count": count, "uses": uses, "last_seen": seen} for ids, count, uses, seen in user.ngram_rows(order)]
     payload = {
         "format": "foretype-learned-export",
         "version": 1,
@@ -52,6 +50,7 @@ def export_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> dict[st
         "trigrams": grams[3],
     }
     data = (json.dumps(payload, ensure_ascii=False, indent=1) + "\n").encode("utf-8")
+
     def write(out: BinaryIO) -> None:
         out.write(data)
 

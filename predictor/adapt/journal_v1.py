@@ -9,7 +9,7 @@ text, one record per line::
     ...
 
 ``<crc32>`` is the CRC-32 of the JSON text after it, as 8 lower-case hex
-digits; the records are those of :mod:`predictor.adapt.records`.  A last line
+digits; the records are those of :mod:`foretype.adapt.records`.  A last line
 that is incomplete or fails its checksum is a torn final write and is dropped;
 a bad line anywhere else means the file was damaged.  Only reading is kept:
 a writer converts such a file to the SQLite format on opening it.

@@ -21,7 +21,7 @@ writer.  Its tables, readable with any SQLite tool:
     the counts (decayed to the last compaction), raw uses and last-seen time (Unix seconds), by word id.
 ``change``
     the changes made since the last compaction, one JSON record per row (see
-    :mod:`predictor.adapt.records`), replayed in order on load.
+    :mod:`foretype.adapt.records`), replayed in order on load.
 
 Counts are kept by word, never by base-model id, so a learned file survives a
 rebuilt base model.  Nothing in the file is executed on load: a file whose

@@ -17,8 +17,8 @@ from collections.abc import Iterable
 import numpy as np
 
 from ..errors import OptionError
+from ..query.vocabulary import Vocabulary
 from ..text import model_form
-from ..vocabulary import Vocabulary
 
 _WILDCARDS = re.compile(r"[*?\[]")
 

@@ -6,7 +6,7 @@ object replayed in order on load.  Change records:
 
 * ``learn``: ``words``, ``after`` (the preceding words of the sentence), ``end``,
   ``at`` (Unix seconds) and ``credit`` (each token's responsibility, see
-  :mod:`predictor.adapt.user_model`);
+  :mod:`foretype.adapt.user_model`);
 * ``sentences``: ``sentences`` (lists of words, each a whole sentence), ``at`` and
   ``credit`` (one list per sentence): a text learned at once, kept or lost as a whole;
 * ``settings``: ``settings`` (every learning setting);
@@ -20,14 +20,14 @@ forgetting and pruning, and nothing in a record is executed.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
 
 from ..errors import OptionError
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from .combined import AdaptedModel
 from .settings import AdaptSettings
 
@@ -100,37 +100,64 @@ def apply_record(model: AdaptedModel, record: dict[str, Any]) -> None:
         KeyError, TypeError, ValueError, OptionError: the record is malformed.
     """
     kind = record["kind"]
-    user = model.user
-    if kind == "learn":
-        credit = record.get("credit")
-        user.learn(
-            [str(w) for w in record["words"]],
-            after=[str(w) for w in record["after"]],
-            end=bool(record["end"]),
-            when=int(record["at"]),
-            credit=None if credit is None else [float(r) for r in credit],
-        )
-    elif kind == "sentences":
-        credits = record.get("credit") or [None] * len(record["sentences"])
-        if len(credits) != len(record["sentences"]):
-            raise ValueError("one credit list per sentence expected")
-        for sentence, credit in zip(record["sentences"], credits):
-            user.learn([str(w) for w in sentence], end=True, when=int(record["at"]), credit=None if credit is None else [float(r) for r in credit])
-    elif kind == "settings":
-        user.set_settings(AdaptSettings.from_json(record["settings"]))
-    elif kind == "never":
-        for entry in record.get("add", []):
-            model.never.add(str(entry))
-        for entry in record.get("remove", []):
-            model.never.remove(str(entry))
-    elif kind == "forget":
-        user.forget(str(record["word"]))
-    elif kind == "prune":
-        below = record.get("below")
-        before = record.get("seen_before")
-        user.prune(below=None if below is None else float(below), seen_before=None if before is None else int(before))
-    else:
+    replay = _REPLAY.get(kind) if isinstance(kind, str) else None
+    if replay is None:
         raise ValueError(f"unknown record kind {kind!r}")
+    replay(model, record)
+
+
+def _credit(values: Any) -> list[float] | None:
+    return None if values is None else [float(r) for r in values]
+
+
+def _learn(model: AdaptedModel, record: dict[str, Any]) -> None:
+    model.user.learn(
+        [str(w) for w in record["words"]],
+        after=[str(w) for w in record["after"]],
+        end=bool(record["end"]),
+        when=int(record["at"]),
+        credit=_credit(record.get("credit")),
+    )
+
+
+def _sentences(model: AdaptedModel, record: dict[str, Any]) -> None:
+    credits = record.get("credit") or [None] * len(record["sentences"])
+    if len(credits) != len(record["sentences"]):
+        raise ValueError("one credit list per sentence expected")
+    for sentence, credit in zip(record["sentences"], credits):
+        model.user.learn([str(w) for w in sentence], end=True, when=int(record["at"]), credit=_credit(credit))
+
+
+def _settings(model: AdaptedModel, record: dict[str, Any]) -> None:
+    model.user.set_settings(AdaptSettings.from_json(record["settings"]))
+
+
+def _never(model: AdaptedModel, record: dict[str, Any]) -> None:
+    for entry in record.get("add", []):
+        model.never.add(str(entry))
+    for entry in record.get("remove", []):
+        model.never.remove(str(entry))
+
+
+def _forget(model: AdaptedModel, record: dict[str, Any]) -> None:
+    model.user.forget(str(record["word"]))
+
+
+def _prune(model: AdaptedModel, record: dict[str, Any]) -> None:
+    below = record.get("below")
+    before = record.get("seen_before")
+    model.user.prune(below=None if below is None else float(below), seen_before=None if before is None else int(before))
+
+
+_REPLAY: dict[str, Callable[[AdaptedModel, dict[str, Any]], None]] = {
+    "learn": _learn,
+    "sentences": _sentences,
+    "settings": _settings,
+    "never": _never,
+    "forget": _forget,
+    "prune": _prune,
+}
+"""How each kind of change record is replayed (the kinds are :data:`CHANGE_KINDS`)."""
 
 
 __all__ = ["LearnedState", "rebuild", "apply_state", "apply_record", "CHANGE_KINDS", "RECORD_ERRORS"]

@@ -26,7 +26,7 @@ class AdaptSettings:
             this many further tokens (None: no decay).
 
     The combined probability (README "Learning from your own text" and
-    :mod:`predictor.adapt.combined`)::
+    :mod:`foretype.adapt.combined`)::
 
         P(w | u v) = (1 - mu) * P_base(w | u' v') + mu * P_user(w | u v)
         mu = worth_b * n_b / (n_b + beta)

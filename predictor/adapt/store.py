@@ -1,6 +1,6 @@
 """The learned file: a user model kept beside its base model, durable at every change.
 
-The file is an SQLite database (schema in :mod:`predictor.adapt.learned_db`) in
+The file is an SQLite database (schema in :mod:`foretype.adapt.learned_db`) in
 WAL mode: the learned state as of its last compaction (settings,
 never-suggest list, counts), then one row per change made since.
 
@@ -16,7 +16,7 @@ number may read at once, and WAL mode lets them read while the writer writes:
 a reader sees the file as of its last commit.  A file damaged in any way
 SQLite or our schema check can see is refused with one clear line.
 
-Files of format 1 (journalled text, :mod:`predictor.adapt.journal_v1`) are
+Files of format 1 (journalled text, :mod:`foretype.adapt.journal_v1`) are
 read as they are; the first writer to open one converts it and keeps the old
 file beside it as ``<file>.format-1``.
 """
@@ -33,11 +33,12 @@ from collections.abc import Callable, Sequence
 from pathlib import Path
 from typing import Any, BinaryIO
 
-from ..atomic import remove_quietly as _remove_quietly
-from ..atomic import replace_atomically
-from ..atomic import sync_directory as _sync_directory
+from ..demo import cache_folder
 from ..errors import ModelFileError, OptionError, OutputError
-from ..model import LanguageModel
+from ..modelfile.atomic import remove_quietly as _remove_quietly
+from ..modelfile.atomic import replace_atomically
+from ..modelfile.atomic import sync_directory as _sync_directory
+from ..query.model import LanguageModel
 from ..text import WORD_RE
 from . import learned_db
 from .combined import AdaptedModel
@@ -63,8 +64,6 @@ def default_learned_path(model_path: str | os.PathLike[str] | None) -> Path:
     The demo model's file is ``demo.learned`` in the demo cache folder, so it
     survives rebuilds of the cached demo model.
     """
-    from ..demo import cache_folder
-
     if model_path is None:
         return cache_folder() / f"demo{SUFFIX}"
     path = Path(model_path)

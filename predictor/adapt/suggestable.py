@@ -22,8 +22,8 @@ from typing import Any
 
 import numpy as np
 
+from ..query.vocabulary import PrefixRange, Vocabulary
 from ..text import model_form
-from ..vocabulary import PrefixRange, Vocabulary
 from .never_list import NeverList
 from .user_model import UserModel
 

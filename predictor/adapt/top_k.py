@@ -1,6 +1,6 @@
 """The exact top-k search of the combined model: the threshold walk over list A and the pool.
 
-See :mod:`predictor.adapt.combined` for why it is exact.  :func:`prepare`
+See :mod:`foretype.adapt.combined` for why it is exact.  :func:`prepare`
 gathers what one context needs for every prefix typed after it (the share mu,
 the pool's user probabilities after the context, their floors);
 :func:`exact_top` walks list A (the base model's own ranking, read deeper
@@ -18,8 +18,8 @@ from typing import NamedTuple
 
 import numpy as np
 
-from ..model import LanguageModel
-from ..vocabulary import PrefixRange
+from ..query.model import LanguageModel
+from ..query.vocabulary import PrefixRange
 from .combination import base_context, base_probabilities, no_merge
 from .suggestable import BASE_KEY_LOW, KEY_SHIFT, Suggestable
 from .user_model import UserContext, UserModel
@@ -107,7 +107,9 @@ def prepare(view: Suggestable, u: int, v: int) -> PreparedContext:
     return PreparedContext(u, v, mu, uctx, ub, vb, keys, ids, p_user, mu * p_user)
 
 
-def _with_followers(view: Suggestable, user: UserModel, uctx: UserContext, keys: np.ndarray, ids: np.ndarray, p_user: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
+def _with_followers(
+    view: Suggestable, user: UserModel, uctx: UserContext, keys: np.ndarray, ids: np.ndarray, p_user: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
     """Write the exact P_user of the words seen after (u, v) or after v into ``p_user``.
 
     Those words are counted, so they are normally in the pool already and
@@ -137,10 +139,12 @@ def _with_followers(view: Suggestable, user: UserModel, uctx: UserContext, keys:
     return keys[order], ids[order], p_user[order]
 
 
-def exact_top(base: LanguageModel, view: Suggestable, prepared: PreparedContext, span: PrefixRange | None, key_range: tuple[int, int], k: int) -> tuple[list[Candidate], dict[int, int]]:
+def exact_top(
+    base: LanguageModel, view: Suggestable, prepared: PreparedContext, span: PrefixRange | None, key_range: tuple[int, int], k: int
+) -> tuple[list[Candidate], dict[int, int]]:
     """The threshold walk: the k best suggestable words of a prefix's range, exactly.
 
-    Scores use the arithmetic of :func:`~predictor.adapt.combination.combine`,
+    Scores use the arithmetic of :func:`~foretype.adapt.combination.combine`,
     one IEEE double operation at a time in the same order (numpy's elementwise
     operations round as Python's do).
 

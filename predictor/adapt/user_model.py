@@ -23,7 +23,7 @@ count is divided by s once.  Ratios such as c(uvw) / c(uv.) need no correction;
 only the evidence counts in g(h) and the share mu are divided by s.
 
 **Share.** How much the combined model trusts these counts is learned from
-the person's text too (see :class:`~predictor.adapt.settings.AdaptSettings`):
+the person's text too (see :class:`~foretype.adapt.settings.AdaptSettings`):
 before each token is counted, the share of its probability the user model
 would have supplied at the current worth estimate (the EM responsibility of
 Jelinek & Mercer's interpolation-weight estimation) is added to R_b, and the
@@ -50,8 +50,8 @@ from typing import Any
 import numpy as np
 
 from ..errors import OptionError
+from ..query.vocabulary import END, START, UNKNOWN, Vocabulary
 from ..text import WORD_RE, model_form
-from ..vocabulary import END, START, UNKNOWN, Vocabulary
 from . import user_snapshot
 from .followers import Followers
 from .listings import NgramRow, WordRow
@@ -60,6 +60,33 @@ from .witten_bell import EMPTY_IDS, EMPTY_WEIGHTS, UserContext, interpolate, lev
 
 _RESCALE_AT = 2.0**200
 """When the inflation factor passes this, every stored count is divided by it."""
+
+
+def _credit_reader(
+    words: Sequence[str], end: bool, credit: Sequence[float] | Callable[[int, int, int], float] | None
+) -> tuple[Callable[[int, int, int], float | None], list[float]]:
+    """Check the words and credits of a :meth:`UserModel.learn` call; returns the per-token reader and its log.
+
+    Raises:
+        OptionError: an entry of ``words`` is not a single word, or the credits do not match the tokens.
+    """
+    for word in words:
+        if not isinstance(word, str) or WORD_RE.fullmatch(word) is None:
+            raise OptionError(f"cannot learn {word!r}: not a single word")
+    tokens = len(words) + (1 if end else 0)
+    given = None if credit is None or callable(credit) else [float(r) for r in credit]
+    if given is not None and (len(given) != tokens or not all(0.0 <= r <= 1.0 for r in given)):
+        raise OptionError(f"expected {tokens} responsibilities between 0 and 1, got {given}")
+    used: list[float] = []
+
+    def credit_for(u: int, v: int, w: int) -> float | None:
+        if credit is None:
+            return None
+        r = given[len(used)] if given is not None else float(credit(u, v, w))  # type: ignore[operator]
+        used.append(r)
+        return r
+
+    return credit_for, used
 
 
 class UserModel:
@@ -206,29 +233,9 @@ class UserModel:
             OptionError: an entry of ``words`` is not a single word, or the
                 credits do not match the tokens.
         """
-        for word in words:
-            if not isinstance(word, str) or WORD_RE.fullmatch(word) is None:
-                raise OptionError(f"cannot learn {word!r}: not a single word")
-        tokens = len(words) + (1 if end else 0)
-        given = None if credit is None or callable(credit) else [float(r) for r in credit]
-        if given is not None and (len(given) != tokens or not all(0.0 <= r <= 1.0 for r in given)):
-            raise OptionError(f"expected {tokens} responsibilities between 0 and 1, got {given}")
-        used: list[float] = []
-
-        def credit_for(u: int, v: int, w: int) -> float | None:
-            if credit is None:
-                return None
-            r = given[len(used)] if given is not None else float(credit(u, v, w))  # type: ignore[operator]
-            used.append(r)
-            return r
-
+        credit_for, used = _credit_reader(words, end, credit)
         stamp = int(time.time()) if when is None else int(when)
-        context = [self._context_id(w) for w in list(after)[-2:]]
-        while len(context) < 2:
-            context.insert(0, self.start_id)
-        u, v = context
-        if v == self.start_id:
-            u = self.start_id
+        u, v = self._start_context(after)
         sentence_start = v == self.start_id
         for word in words:
             form = model_form(word)
@@ -243,6 +250,16 @@ class UserModel:
         if end:
             self._count(u, v, self.end_id, stamp, credit_for(u, v, self.end_id))
         return used
+
+    def _start_context(self, after: Sequence[str]) -> tuple[int, int]:
+        """The ids of the last two words of ``after`` (START padding; only START before a sentence start)."""
+        context = [self._context_id(w) for w in list(after)[-2:]]
+        while len(context) < 2:
+            context.insert(0, self.start_id)
+        u, v = context
+        if v == self.start_id:
+            u = self.start_id
+        return u, v
 
     def _context_id(self, word: str) -> int:
         found = self.id_of(word)
@@ -608,11 +625,11 @@ class UserModel:
 
     # ------------------------------------------------------------- snapshot
     def snapshot(self) -> dict[str, Any]:
-        """The whole state as plain data (see :func:`predictor.adapt.user_snapshot.snapshot`)."""
+        """The whole state as plain data (see :func:`foretype.adapt.user_snapshot.snapshot`)."""
         return user_snapshot.snapshot(self)
 
     def restore(self, state: dict[str, Any]) -> None:
-        """Replace the counts with a :meth:`snapshot` (see :func:`predictor.adapt.user_snapshot.restore`).
+        """Replace the counts with a :meth:`snapshot` (see :func:`foretype.adapt.user_snapshot.restore`).
 
         Raises:
             ValueError: the state is inconsistent (index out of range, columns of unequal length).

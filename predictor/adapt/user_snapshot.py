@@ -13,8 +13,8 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from ..query.vocabulary import END, START, UNKNOWN
 from ..text import model_form
-from ..vocabulary import END, START, UNKNOWN
 from .followers import Followers
 
 if TYPE_CHECKING:
@@ -51,6 +51,7 @@ def _restore_table(table: dict[Any, Followers], order: int, heads: list[np.ndarr
             followers.slot = {w: i for i, w in enumerate(followers.ids)}
             followers.total = math.fsum(followers.weights)
         table[key] = followers
+
 
 def snapshot(user: UserModel) -> dict[str, Any]:
     """The whole state as plain data (words by model form, counts decayed to now).
@@ -113,6 +114,7 @@ def snapshot(user: UserModel) -> dict[str, Any]:
         "bigrams": tables[0],
         "trigrams": tables[1],
     }
+
 
 def restore(user: UserModel, state: dict[str, Any]) -> None:
     """Replace the counts with a :meth:`snapshot` (words mapped through this model's vocabulary).

@@ -1,6 +1,6 @@
 """The Witten-Bell arithmetic of the user model: one context's counts ready for scoring, and the interpolation.
 
-See :mod:`predictor.adapt.user_model` for the model; every user probability,
+See :mod:`foretype.adapt.user_model` for the model; every user probability,
 and every bound of the exact top-k search, goes through :func:`interpolate` or
 the same operations in the same order.
 """

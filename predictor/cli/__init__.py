@@ -2,7 +2,7 @@
 
 Each command module registers its subcommands with :func:`register`; a handler
 takes the parsed arguments and returns an exit code.  Every
-:class:`~predictor.errors.ForetypeError` becomes one line on stderr and the
+:class:`~foretype.errors.ForetypeError` becomes one line on stderr and the
 error class's exit code (README lists them).
 """
 

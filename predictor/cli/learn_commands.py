@@ -13,7 +13,7 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import OptionError
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from ..text import iter_sentences
 from .output import add_json_option, open_model, positive_int, print_json, progress_bar, read_text_file
 

@@ -7,14 +7,15 @@ import time
 from pathlib import Path
 from typing import Any
 
-from ..build import build
-from ..counting import CorpusCounts
+from ..builder import build
+from ..counting.counter import CorpusCounts
 from ..errors import OptionError
-from ..estimate import ENCODINGS, METHODS
-from ..integrity import verify_model
-from ..memory import parse_size, peak_resident_bytes
-from ..model import load
-from ..modelfile import check_target
+from ..estimate import METHODS
+from ..modelfile.encoding import ENCODINGS
+from ..query.verify import verify_model
+from ..counting.memory import parse_size, peak_resident_bytes
+from ..query.model import load
+from ..modelfile.format import check_target
 from .output import (
     add_json_option,
     open_model,

@@ -11,8 +11,8 @@ from pathlib import Path
 from typing import Any
 
 from ..errors import OptionError
-from ..model import LanguageModel, load
-from ..modelfile import MAGIC
+from ..query.model import LanguageModel, load
+from ..modelfile.format import MAGIC
 
 
 def add_json_option(parser: argparse.ArgumentParser) -> None:
@@ -110,7 +110,7 @@ def read_text_file(path: str) -> str:
     Raises:
         CorpusError / EncodingError: missing, binary or invalid UTF-8.
     """
-    from ..corpus import iter_chunks, resolve_corpus
+    from ..counting.corpus import iter_chunks, resolve_corpus
 
     found = resolve_corpus([path])
     return "".join(chunk for file in found.files for chunk in iter_chunks(Path(file)))

@@ -33,6 +33,6 @@ def run_pad(args: argparse.Namespace) -> int:
         raise OptionError(f"-k must be 1 to 9 (one chord per rank, alt+1 to alt+9), not {args.k}")
     model = open_model(args.model)
     # The interface is imported only here, so every other command runs without Textual.
-    from tui.launch import run_pad as launch
+    from ..tui.launch import run_pad as launch  # type: ignore[import-not-found]  # installed as foretype.tui
 
     return launch(model, k=args.k, learning=getattr(args, "learning", None))

@@ -10,7 +10,7 @@ import numpy as np
 
 @dataclass
 class Estimate:
-    """Smoothed values for the three levels of a :class:`~predictor.estimate.layout.Layout`.
+    """Smoothed values for the three levels of a :class:`~foretype.estimate.layout.Layout`.
 
     For an *interpolated* estimate the probability of w after (u, v) is
     ``a3 + g3 * P2(w | v)`` where ``a3`` is the stored value (0 if (u, v, w) is

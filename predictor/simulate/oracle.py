@@ -9,7 +9,7 @@
   practice: the k vocabulary words with the typed prefix that rank highest in
   the model's unigram distribution, whatever the context.
 
-Both use the typist's editing rules (:mod:`predictor.simulate.editing`) and its
+Both use the typist's editing rules (:mod:`foretype.simulate.editing`) and its
 rule for when a pick pays, so they differ from the typist only in which words
 are offered.  They read the vocabulary's word list, display forms and the
 unigram array, and find prefix ranges by bisection over the sorted word list,
@@ -23,7 +23,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..model import LanguageModel, capitalise
+from ..query.model import LanguageModel
+from ..text import capitalise
 from ..text import model_form
 from .editing import gap_keystrokes, latest_useful_pick
 from .passage import Passage, PassageWord

@@ -1,7 +1,7 @@
 """The test text as the simulated typist sees it: words, what lies between them, sentence starts.
 
 The text is parsed once, with the tokenizer's own regular expressions
-(:data:`predictor.text.TOKEN_RE`), so words and sentence boundaries are exactly
+(:data:`foretype.text.TOKEN_RE`), so words and sentence boundaries are exactly
 the ones the model was trained on: a sentence ends at a run of ``.``, ``!``,
 ``?`` or ``…`` and at every line break (in *wrapped* mode only at a blank line).
 

@@ -56,7 +56,7 @@ class SavingsReport:
         ksr_of_oracle: ksr / oracle_ksr (None when the oracle saves nothing).
         baseline_ksr: the KSR of frequency-list completion without context.
         latency_us: ``p50``, ``p95``, ``p99``, ``max`` over every suggestion query, in microseconds (None if none was made).
-        entry_rate: the time estimate (see :func:`predictor.simulate.entry_rate.entry_rate`).
+        entry_rate: the time estimate (see :func:`foretype.simulate.entry_rate.entry_rate`).
         trace: one :class:`WordTrace` per word (empty when traces were not kept).
         queries: suggestion queries made.
         picked: words picked from a list.

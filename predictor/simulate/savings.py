@@ -5,7 +5,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from dataclasses import asdict
 
-from ..model import LanguageModel
+from ..query.model import LanguageModel
 from .entry_rate import entry_rate
 from .oracle import VocabularyView, baseline_keystrokes, oracle_keystrokes
 from .passage import read_passage

@@ -7,39 +7,27 @@ to write is offered (in full mode its written form must equal the offered form,
 so case matters; at a sentence start the offers carry a capital first letter,
 as the engine shows them), it picks it at ``select_cost`` keystrokes; otherwise
 it types the next letter.  A word never offered is typed in full.  What follows
-each word costs what :mod:`predictor.simulate.editing` says.
+each word costs what :mod:`foretype.simulate.editing` says.
 
 The source is anything with ``context_ids`` and ``suggest_ids`` (a
-:class:`~predictor.model.LanguageModel`, or a model combined with a user model).
+:class:`~foretype.query.model.LanguageModel`, or a model combined with a user model).
 """
 
 from __future__ import annotations
 
 import math
 import time
-from collections.abc import Callable, Sequence
+from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import Any, Protocol
+from typing import Any
 
 import numpy as np
 
 from ..errors import OptionError
-from ..model import Suggestion, capitalise
-from ..text import model_form
+from ..query.source import SuggestionSource
+from ..text import capitalise, model_form
 from .editing import gap_keystrokes, latest_useful_pick
 from .passage import TEXT_MODES, Passage, PassageWord
-
-
-class SuggestionSource(Protocol):
-    """What the typist asks for suggestions (LanguageModel has both methods)."""
-
-    def context_ids(self, context: Sequence[str]) -> tuple[int, int]:
-        """Map up to two context words (as written) to the ids ``suggest_ids`` takes."""
-        ...
-
-    def suggest_ids(self, u: int, v: int, prefix: str, k: int) -> list[Suggestion]:
-        """The top k words after context (u, v) that start with ``prefix`` (display forms, best first)."""
-        ...
 
 
 @dataclass(frozen=True)
@@ -176,7 +164,7 @@ class Typist:
         """Type a whole passage.
 
         Args:
-            passage: the text, parsed by :func:`~predictor.simulate.passage.read_passage`.
+            passage: the text, parsed by :func:`~foretype.simulate.passage.read_passage`.
             progress: called with (words done, words in all) now and then.
             keep_traces: keep a :class:`WordTrace` per word.
             after_word: called after each word (see :data:`WordObserver`).

@@ -6,7 +6,7 @@ import os
 import tempfile
 from pathlib import Path
 
-from ..atomic import replace_atomically
+from ..modelfile.atomic import replace_atomically
 from ..errors import OutputError
 
 

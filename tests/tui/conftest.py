@@ -22,8 +22,8 @@ from pathlib import Path
 
 import pytest
 
-import predictor
-from predictor.model import LanguageModel
+import foretype
+from foretype.query.model import LanguageModel
 
 CORPUS = """\
 the ferry leaves at noon
@@ -74,7 +74,7 @@ def tiny_corpus(tmp_path_factory: pytest.TempPathFactory) -> Path:
 @pytest.fixture(scope="session")
 def tiny_model(tiny_corpus: Path) -> LanguageModel:
     """The maximum-likelihood model of CORPUS, in memory."""
-    return predictor.build([tiny_corpus], method="mle", encoding="float32")
+    return foretype.build([tiny_corpus], method="mle", encoding="float32")
 
 
 @pytest.fixture(scope="session")
@@ -90,7 +90,7 @@ def model_copy(tiny_model_file: Path, tmp_path: Path) -> LanguageModel:
     """The tiny model copied into this test's tmp folder and loaded: its learned file goes beside the copy."""
     copy = tmp_path / "tiny.model"
     shutil.copy(tiny_model_file, copy)
-    return predictor.load(copy)
+    return foretype.load(copy)
 
 
 @pytest.fixture
@@ -103,7 +103,7 @@ def in_data_folder(monkeypatch: pytest.MonkeyPatch) -> Path:
 @pytest.fixture
 def make_app(tiny_model: LanguageModel, in_data_folder: Path) -> Iterator[Callable[..., object]]:
     """Return ``make(**options)``: a PadApp on the tiny model with a fake clock and no blinking."""
-    from tui.app import PadApp
+    from foretype.tui.app import PadApp
 
     def make(**options: object) -> PadApp:
         settings: dict[str, object] = {"clock": FakeClock(), "cursor_blink": False, "folder": Path(".")}

@@ -5,8 +5,8 @@ from __future__ import annotations
 from textual import events
 from textual.pilot import Pilot
 
-from predictor.adapt import LearnedFile
-from predictor.model import LanguageModel
+from foretype.adapt import LearnedFile
+from foretype.query.model import LanguageModel
 
 
 async def paste(pilot: Pilot, text: str) -> None:

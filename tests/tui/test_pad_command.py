@@ -46,7 +46,7 @@ def test_learn_and_no_learn_together_are_refused(run_cli, launched, tiny_model_f
 
 def test_no_command_at_all_opens_the_pad_on_the_demo_model(run_cli, launched, monkeypatch: pytest.MonkeyPatch, tiny_model) -> None:
     opened: list[object] = []
-    monkeypatch.setattr("predictor.cli.run_commands.open_model", lambda path: opened.append(path) or tiny_model)
+    monkeypatch.setattr("foretype.cli.run_commands.open_model", lambda path: opened.append(path) or tiny_model)
     assert run_cli().code == 0
     assert opened == [None] and launched == [(tiny_model, 5)]
 

@@ -3,7 +3,7 @@
 Every test types with a copy of the tiny maximum-likelihood model (conftest.py)
 in its own tmp folder, so the learned file beside it is the test's own; what
 the pad wrote is then read back from that file with the engine's reader
-(predictor.adapt.load_learned), independently of the pad's open file.
+(foretype.adapt.load_learned), independently of the pad's open file.
 Expected counts are the words typed, counted by hand.  Under maximum
 likelihood a word never seen after a context has base probability 0 there
 (REFERENCES.md, "Trigram model (standard definition)"), so whatever the
@@ -18,16 +18,16 @@ import pytest
 from textual.widgets import DataTable, Input
 
 from pilot_steps import finish, learn_beforehand, paste
-from predictor.adapt import LearnedFile, load_learned
-from predictor.model import LanguageModel
+from foretype.adapt import LearnedFile, load_learned
+from foretype.query.model import LanguageModel
 
-from tui.learning import Finished, finished_by_typing, learning_sources, open_learning
-from tui.screens.learned import LearnedWordsScreen
-from tui.screens.pad import PadScreen
-from tui.screens.replay import ReplayScreen
-from tui.widgets.compose_area import ComposeArea
-from tui.widgets.suggestion_table import LEARNED_MARK, NEW_WORD_MARK, SuggestionTable
-from tui.widgets.word_table import WordTable
+from foretype.tui.learning import Finished, finished_by_typing, learning_sources, open_learning
+from foretype.tui.screens.learned import LearnedWordsScreen
+from foretype.tui.screens.pad import PadScreen
+from foretype.tui.screens.replay import ReplayScreen
+from foretype.tui.widgets.compose_area import ComposeArea
+from foretype.tui.widgets.suggestion_table import LEARNED_MARK, NEW_WORD_MARK, SuggestionTable
+from foretype.tui.widgets.word_table import WordTable
 
 
 @pytest.fixture

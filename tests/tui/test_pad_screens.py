@@ -14,16 +14,16 @@ from textual.widgets import DataTable, Input, Static
 
 from pilot_steps import finish, paste
 
-from tui.app import PadApp
-from tui.screens.confirm_quit import ConfirmQuitDialog
-from tui.screens.help import HelpScreen, help_text
-from tui.screens.model import ModelScreen
-from tui.screens.pad import PadScreen
-from tui.screens.replay import ReplayScreen
-from tui.screens.save_dialog import SaveDialog
-from tui.screens.sweep import SweepScreen
-from tui.widgets.compose_area import ComposeArea
-from tui.widgets.word_table import WordTable
+from foretype.tui.app import PadApp
+from foretype.tui.screens.confirm_quit import ConfirmQuitDialog
+from foretype.tui.screens.help import HelpScreen, help_text
+from foretype.tui.screens.model import ModelScreen
+from foretype.tui.screens.pad import PadScreen
+from foretype.tui.screens.replay import ReplayScreen
+from foretype.tui.screens.save_dialog import SaveDialog
+from foretype.tui.screens.sweep import SweepScreen
+from foretype.tui.widgets.compose_area import ComposeArea
+from foretype.tui.widgets.word_table import WordTable
 
 
 def status_of(screen, selector: str) -> str:  # noqa: ANN001
@@ -196,8 +196,8 @@ async def test_the_sweep_screen_lists_every_row_and_charts_them(make_app) -> Non
 
 
 async def test_a_sweep_with_learning_shows_its_learning_column(make_app, tmp_path: Path) -> None:
-    from predictor.simulate import TypistSettings
-    from predictor.sweep import run_sweep
+    from foretype.simulate import TypistSettings
+    from foretype.sweep import run_sweep
 
     worked = Path(__file__).parents[1] / "data" / "savings"
     text = (worked / "worked-text.txt").read_text(encoding="utf-8")

@@ -12,7 +12,7 @@ from fractions import Fraction
 
 import pytest
 
-from tui.session import PadSession, Tally, plan_acceptance, written_form
+from foretype.tui.session import PadSession, Tally, plan_acceptance, written_form
 
 
 def test_the_written_form_keeps_the_display_form_and_the_capitals_the_person_typed() -> None:
@@ -61,6 +61,6 @@ def test_savings_is_one_minus_keystrokes_over_characters(characters: int, keystr
 
 def test_the_engine_and_the_session_rules_load_without_textual() -> None:
     # The engine never imports the interface (RULES.md); the pad's session rules need no terminal either.
-    code = "import sys, predictor, predictor.simulate, tui.session; print('textual' in sys.modules)"
+    code = "import sys, foretype, foretype.simulate, foretype.tui.session; print('textual' in sys.modules)"
     result = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert result.stdout.strip() == "False"

@@ -17,10 +17,10 @@ import pytest
 
 from pilot_steps import finish, learn_beforehand, paste
 
-from tui.learning import learning_sources
-from tui.screens.model import ModelScreen
-from tui.screens.replay import ReplayScreen
-from tui.screens.sweep import SweepScreen
+from foretype.tui.learning import learning_sources
+from foretype.tui.screens.model import ModelScreen
+from foretype.tui.screens.replay import ReplayScreen
+from foretype.tui.screens.sweep import SweepScreen
 
 SIZES = [pytest.param((80, 24), id="80x24"), pytest.param((120, 40), id="120x40")]
 """The two terminal sizes every screen must read well at."""

@@ -16,9 +16,9 @@ from pilot_steps import paste
 
 from textual import events
 
-from tui.keys import CHORDS_FROM_ESCAPE_DIGITS
-from tui.screens.pad import PadScreen
-from tui.widgets.compose_area import ComposeArea
+from foretype.tui.keys import CHORDS_FROM_ESCAPE_DIGITS
+from foretype.tui.screens.pad import PadScreen
+from foretype.tui.widgets.compose_area import ComposeArea
 
 
 def pad_of(app) -> PadScreen:  # noqa: ANN001 - a PadApp

@@ -17,9 +17,9 @@ from textual.containers import Vertical
 from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Header, Input, Static
 
-from predictor.adapt import PRIVACY_NOTE, LearnedWord
-from predictor.errors import ForetypeError
-from predictor.text import model_form
+from foretype.adapt import PRIVACY_NOTE, LearnedWord
+from foretype.errors import ForetypeError
+from foretype.text import model_form
 
 from ..files import shown_path
 from ..formatting import count as count_text

@@ -18,8 +18,8 @@ from textual.containers import Vertical
 from textual.screen import Screen
 from textual.widgets import Footer, Header, Static
 
-from predictor.errors import ForetypeError
-from predictor.model import LanguageModel, load
+from foretype.errors import ForetypeError
+from foretype.query.model import LanguageModel, load
 
 from ..formatting import count, file_size
 from ..widgets.file_picker import FilePicker

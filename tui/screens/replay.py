@@ -21,9 +21,9 @@ from textual.screen import Screen
 from textual.widgets import Footer, Header, ProgressBar, Static
 from textual.worker import get_current_worker
 
-from predictor.cli.output import read_text_file
-from predictor.errors import ForetypeError
-from predictor.simulate import SavingsReport, TypistSettings, WordTrace, simulate
+from foretype.cli.output import read_text_file
+from foretype.errors import ForetypeError
+from foretype.simulate import SavingsReport, TypistSettings, WordTrace, simulate
 
 from ..formatting import LatencyFormatter, count, signed_percent
 from ..learning import LearningSource

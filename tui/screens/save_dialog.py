@@ -10,7 +10,7 @@ from textual.containers import Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Input, Static
 
-from predictor.errors import OutputError
+from foretype.errors import OutputError
 
 from ..files import save_new_text
 

@@ -19,8 +19,8 @@ from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Header, Static
 from textual_plotext import PlotextPlot
 
-from predictor.chart import has_learning
-from predictor.errors import ForetypeError
+from foretype.chart import has_learning
+from foretype.errors import ForetypeError
 
 from ..files import SweepFile, read_sweep
 from ..formatting import count, file_size, signed_percent

@@ -14,7 +14,7 @@ from textual.binding import Binding
 from textual.message import Message
 from textual.widgets import TextArea
 
-from predictor.simulate.editing import replaces_automatic_space
+from foretype.simulate.editing import replaces_automatic_space
 
 from ..keys import CHORDS_FROM_ESCAPE_DIGITS, OPTION_DIGIT_KEYS
 from ..learning import Finished, finished_by_taking, finished_by_typing
@@ -131,7 +131,7 @@ class ComposeArea(TextArea, inherit_bindings=False):
         A mark that attaches to the word before it (``. , ; : ! ? …``, closing
         brackets and quotes, a line break), typed right after an accepted word,
         replaces the space the acceptance wrote, as in the simulated typist's
-        editor (:func:`predictor.simulate.editing.replaces_automatic_space`).
+        editor (:func:`foretype.simulate.editing.replaces_automatic_space`).
         """
         if not text or self.read_only:
             return

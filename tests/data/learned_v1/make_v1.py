@@ -11,8 +11,8 @@ import json
 import sys
 from pathlib import Path
 
-import predictor
-from predictor.adapt.store import LearnedFile, load_learned
+import foretype
+from foretype.adapt.store import LearnedFile, load_learned
 
 HERE = Path(__file__).resolve().parent
 CORPUS = "the tide is high\nthe ferry sails at dawn\nthe nets are dry\nthe ferry is late\n"
@@ -21,7 +21,7 @@ CORPUS = "the tide is high\nthe ferry sails at dawn\nthe nets are dry\nthe ferry
 def main() -> None:
     corpus = HERE / "corpus.txt"
     corpus.write_text(CORPUS, encoding="utf-8")
-    base = predictor.build([corpus])
+    base = foretype.build([corpus])
     path = HERE / "chat.model.learned"
     path.unlink(missing_ok=True)
     with LearnedFile(path, base, compact_every=6) as learned:

@@ -10,7 +10,7 @@ measured and subtracted; the rest, less a margin for allocator overhead, is the
 * word dictionaries: 30%; once full, words never seen before are counted as
   one "unlisted" word type (they cannot enter the vocabulary);
 * trigram counts: 45%; a full table is written to disk as a sorted run and
-  the runs are merged at the end (see :mod:`predictor.spill`);
+  the runs are merged at the end (see :mod:`foretype.counting.spill`);
 * estimation: the model's own arrays cost about :data:`ESTIMATE_BYTES_PER_TRIGRAM`
   per stored trigram and :data:`ESTIMATE_BYTES_PER_WORD` per vocabulary word;
   a vocabulary whose model would not fit is refused with a CapacityError.
@@ -23,7 +23,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from .errors import CapacityError, OptionError
+from ..errors import CapacityError, OptionError
 
 DEFAULT_SHARE = 0.5
 """The default budget: this share of the memory available when a build starts."""

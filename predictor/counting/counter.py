@@ -10,11 +10,11 @@ table serves every estimator and every vocabulary size.
 Every 20th sentence is also counted in a separate held-out table, which the
 linear-interpolation estimator fits its weights on.
 
-Memory stays within a :class:`~predictor.memory.MemoryBudget`:
+Memory stays within a :class:`~foretype.counting.memory.MemoryBudget`:
 
 * A trigram is one int64 key of three 21-bit raw type ids.  Tables live in
   memory up to the budget's row limit, then go to disk as sorted runs that are
-  merged at the end (:mod:`predictor.spill`); the result is a
+  merged at the end (:mod:`foretype.counting.spill`); the result is a
   :class:`SpilledTrigrams` that streams from disk.
 * The word dictionaries (written forms and model forms) grow until they hold
   the budget's share or :data:`MAX_RAW_TYPES` types.  A word first seen after
@@ -37,13 +37,13 @@ from typing import Any
 
 import numpy as np
 
-from .arrays import aggregate_rows
+from .tables import aggregate_rows
 from .corpus import CHUNK_BYTES, iter_chunks, resolve_corpus
-from .errors import CapacityError, CorpusError, OptionError, OutputError
+from ..errors import CapacityError, CorpusError, OptionError, OutputError
 from .memory import MemoryBudget
 from .scratch import SpillFolder
 from .spill import KeyCounter, Run, merge_tables, sum_duplicates
-from .text import are_words, is_sentence_end, model_form, tokens
+from ..text import are_words, is_sentence_end, model_form, tokens
 from .tokenisers import TokenisedPart, tokenise_part, tokeniser_pool
 
 RAW_START = 0
@@ -56,9 +56,6 @@ UNLISTED = "<unlisted>"
 
 HELDOUT_EVERY = 20
 """Every HELDOUT_EVERY-th sentence (the last of each run) also goes to the held-out table."""
-
-MAX_VOCABULARY = 2_000_000
-"""The largest vocabulary the model format supports (ids of V + 3 symbols fit 21 bits)."""
 
 ID_BITS = 21
 """Bits per raw type id in a packed trigram key (three ids fill 63 bits)."""
@@ -162,7 +159,7 @@ def _pack(table: TrigramTable, bits: int) -> np.ndarray:
 
 
 class SpilledTrigrams:
-    """A trigram table too large for memory: one sorted run on disk (see :mod:`predictor.spill`).
+    """A trigram table too large for memory: one sorted run on disk (see :mod:`foretype.counting.spill`).
 
     It offers what estimation needs of a corpus table: its length and
     :meth:`remap`, which streams the run and keeps only the (much smaller)
@@ -249,7 +246,7 @@ class CorpusCounts:
     dictionary_bytes: int = 0
     budget: MemoryBudget | None = field(default=None, repr=False)
 
-    def select_vocabulary(self, vocab_size: int | None = None, min_count: int = 1) -> list[int]:
+    def select_vocabulary(self, vocab_size: int | None = None, min_count: int = 1, *, max_words: int | None = None) -> list[int]:
         """Choose the vocabulary: the most frequent raw types, ties by model form.
 
         Args:
@@ -284,9 +281,9 @@ class CorpusCounts:
         chosen = candidates[order]
         if vocab_size is not None:
             chosen = chosen[:vocab_size]
-        if len(chosen) > MAX_VOCABULARY:
+        if max_words is not None and len(chosen) > max_words:
             raise CapacityError(
-                f"a vocabulary of {len(chosen):,} words exceeds the format's limit of {MAX_VOCABULARY:,}; "
+                f"a vocabulary of {len(chosen):,} words exceeds the format's limit of {max_words:,}; "
                 "pass --vocab-size or --min-count"
             )
         return [int(t) for t in chosen]
@@ -295,7 +292,7 @@ class CorpusCounts:
         """Refuse to estimate a model that would not fit in the count's memory budget.
 
         Raises:
-            CapacityError: see :meth:`predictor.memory.MemoryBudget.require_estimate`.
+            CapacityError: see :meth:`foretype.counting.memory.MemoryBudget.require_estimate`.
         """
         if self.budget is not None:
             self.budget.require_estimate(trigrams, words, self.dictionary_bytes)
@@ -365,7 +362,7 @@ class CorpusCounter:
         """Start an empty count.
 
         Args:
-            wrapped: treat single line breaks as spaces (see :mod:`predictor.text`).
+            wrapped: treat single line breaks as spaces (see :mod:`foretype.text`).
             budget: the memory budget (None: the default share of the machine).
             spill_dir: where tables that outgrow memory go (None: the system's
                 temporary folder); a ``.foretype-spill-*`` folder is made there.
@@ -422,7 +419,7 @@ class CorpusCounter:
         self._add_ids(fids, tids)
 
     def add_tokenized(self, part: TokenisedPart) -> None:
-        """Count a chunk tokenised by a worker process (see :mod:`predictor.tokenisers`).
+        """Count a chunk tokenised by a worker process (see :mod:`foretype.counting.tokenisers`).
 
         The chunks of each worker must come in the order it tokenised them; the
         result is the same as :meth:`add_text` on the chunk's text.
@@ -619,22 +616,22 @@ class CorpusCounter:
             self._heldout.add(*sum_duplicates(keys[held]))
         self._table.add(*sum_duplicates(keys))
 
-    def check_vocabulary_limit(self, min_count: int) -> None:
+    def check_vocabulary_limit(self, min_count: int, max_words: int) -> None:
         """Fail early when more words than the format supports already reach ``min_count``.
 
         Counts only grow, so once too many words have ``min_count`` occurrences no
         choice of ``min_count`` alone can make the vocabulary fit.
 
         Raises:
-            CapacityError: more than :data:`MAX_VOCABULARY` words reach ``min_count``.
+            CapacityError: more than ``max_words`` words reach ``min_count``.
         """
         reaching = int(np.count_nonzero(self._type_counts[2 : len(self._types)] >= min_count))
         if self._unlisted >= 0 and self._type_counts[self._unlisted] >= min_count:
             reaching -= 1
-        if reaching > MAX_VOCABULARY:
+        if reaching > max_words:
             raise CapacityError(
-                f"more than {MAX_VOCABULARY:,} distinct words occur at least {min_count} times, "
-                f"the format's vocabulary limit; pass --vocab-size (at most {MAX_VOCABULARY:,}) or a higher --min-count"
+                f"more than {max_words:,} distinct words occur at least {min_count} times, "
+                f"the format's vocabulary limit; pass --vocab-size (at most {max_words:,}) or a higher --min-count"
             )
 
     def finish(self) -> CorpusCounts:
@@ -721,6 +718,7 @@ def count_corpus(
     budget: MemoryBudget | None = None,
     spill_dir: str | os.PathLike[str] | None = None,
     min_count: int | None = None,
+    max_vocabulary: int | None = None,
 ) -> CorpusCounts:
     """Read and count corpus files or folders.
 
@@ -732,8 +730,9 @@ def count_corpus(
         progress: called with (bytes done, bytes in all) after each chunk.
         budget: the memory budget (None: the default share of the machine).
         spill_dir: where counts that outgrow memory go (None: the system's temporary folder).
-        min_count: when the whole vocabulary above this count will be kept, fail as
-            soon as it exceeds the format's limit instead of after reading everything.
+        min_count: with ``max_vocabulary``: when the whole vocabulary above this count will be
+            kept, fail as soon as it exceeds ``max_vocabulary`` instead of after reading everything.
+        max_vocabulary: the largest vocabulary the caller can store (the model format's limit).
 
     Returns:
         The counts.
@@ -741,7 +740,7 @@ def count_corpus(
     Raises:
         CorpusError: missing, unreadable or non-text input, or no words at all.
         EncodingError: invalid UTF-8 (names the file and line).
-        CapacityError: with ``min_count``, too many words for the format.
+        CapacityError: with ``min_count``, more than ``max_vocabulary`` words.
         OutputError: counts that outgrow memory cannot be written to ``spill_dir``.
     """
     if spill_dir is not None and not (os.path.isdir(spill_dir) and os.access(spill_dir, os.W_OK | os.X_OK)):
@@ -770,14 +769,14 @@ def count_corpus(
                     else:
                         pending.append(pool.apply_async(tokenise_part, (part, wrapped)))
                         drain(TOKENISERS_AHEAD)
-                if min_count is not None and pool is None:
-                    counter.check_vocabulary_limit(min_count)
+                if min_count is not None and max_vocabulary is not None and pool is None:
+                    counter.check_vocabulary_limit(min_count, max_vocabulary)
                 done += len(chunk)  # characters, close enough to bytes for a progress bar
                 if progress:
                     progress(min(done, total), total)
             drain(0)
-            if min_count is not None:
-                counter.check_vocabulary_limit(min_count)
+            if min_count is not None and max_vocabulary is not None:
+                counter.check_vocabulary_limit(min_count, max_vocabulary)
             counter.end_document()
     return counter.finish()
 
@@ -787,7 +786,7 @@ PARALLEL_MIN_BYTES = 16 << 20
 
 PARALLEL_MIN_BUDGET = 4 << 30
 """Workers hold a chunk of text and its tokens each (about 100 MB), and their dictionaries of
-written forms (see :data:`predictor.tokenisers.WORKER_FORM_BYTES`), outside the build's own
+written forms (see :data:`foretype.counting.tokenisers.WORKER_FORM_BYTES`), outside the build's own
 memory, so they are used only with a budget this large; below it the build tokenises itself."""
 
 TOKENISERS_AHEAD = 4

@@ -27,7 +27,7 @@ milliseconds for a 50 MB model, so no load ever works on bytes that differ from
 what was written.
 
 Files are written to a locked temporary file beside the target (named with
-:data:`~predictor.scratch.TEMP_PREFIX`), flushed to disk and renamed over it, so
+:data:`~foretype.counting.scratch.TEMP_PREFIX`), flushed to disk and renamed over it, so
 a failed or killed write never leaves a half-written model or destroys the
 previous one; the next write into the same folder removes what a killed one
 left behind.
@@ -52,8 +52,8 @@ import numpy as np
 
 from .atomic import remove_quietly as _remove_quietly
 from .atomic import sync_directory as _sync_directory
-from .errors import ModelFileError, ModelVersionError, OutputError
-from .scratch import TEMP_PREFIX, lock_exclusively, remove_stale
+from ..errors import ModelFileError, ModelVersionError, OutputError
+from ..counting.scratch import TEMP_PREFIX, lock_exclusively, remove_stale
 
 MAGIC = b"FTMODEL\x00"
 FORMAT_VERSION = 1
@@ -385,7 +385,7 @@ def verify(path: str | os.PathLike[str]) -> ModelFile:
     """Read a model file and check the header and every section's checksum.
 
     Loading already does this; the model-level checks of
-    :func:`predictor.integrity.verify_model` go further.
+    :func:`foretype.query.verify.verify_model` go further.
 
     Raises:
         ModelFileError: as :func:`read_model_file`.

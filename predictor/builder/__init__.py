@@ -5,13 +5,16 @@ from __future__ import annotations
 import os
 from collections.abc import Callable, Iterable
 
-from .counting import MAX_VOCABULARY, CorpusCounts, ProgressCallback, count_corpus
-from .errors import CapacityError, OptionError
-from .estimate import ENCODINGS, METHODS, fit_levels, model_counts
-from .memory import MemoryBudget
-from .model import LanguageModel
+from ..counting import CorpusCounts, ProgressCallback, count_corpus
+from ..errors import CapacityError, OptionError
+from ..estimate import METHODS, model_counts
+from ..modelfile.encoding import ENCODINGS
+from ..modelfile.levels import fit_levels
+from ..modelfile.limits import MAX_VOCABULARY
+from ..counting.memory import MemoryBudget
+from ..query.model import LanguageModel
 from .ranking import rank_sections
-from .vocabulary import vocabulary_sections
+from ..query.vocabulary import vocabulary_sections
 
 
 def check_build_options(*, vocab_size: int | None, min_count: int, method: str, add: float, encoding: str | None) -> None:
@@ -57,7 +60,7 @@ def build(
         paths: the corpus.
         vocab_size: keep the N most frequent words (None: all).
         min_count: drop words seen fewer times.
-        method: one of :data:`predictor.METHODS`.
+        method: one of :data:`foretype.METHODS`.
         add: k for the ``additive`` method.
         wrapped: treat single line breaks as spaces (hard-wrapped prose).
         replace_bad_bytes: replace invalid UTF-8 instead of failing.
@@ -65,7 +68,7 @@ def build(
         encoding: stored value encoding, ``log16`` (default) or ``float32``.
         progress: called with (bytes done, bytes in all) while reading.
         max_memory: ceiling on the build's peak resident memory in bytes (None: half
-            of the memory available; see :mod:`predictor.memory`).
+            of the memory available; see :mod:`foretype.counting.memory`).
         spill_dir: where counts that outgrow memory go (None: the system's temporary folder).
         on_counted: called with the counts once the corpus is read (for build summaries).
 
@@ -83,6 +86,7 @@ def build(
         budget=budget,
         spill_dir=spill_dir,
         min_count=min_count if vocab_size is None else None,
+        max_vocabulary=MAX_VOCABULARY,
     )
     if on_counted is not None:
         on_counted(counts)
@@ -109,7 +113,7 @@ def build_from_counts(
         OptionError, CorpusError, CapacityError.
     """
     check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
-    chosen = counts.select_vocabulary(vocab_size, min_count)
+    chosen = counts.select_vocabulary(vocab_size, min_count, max_words=MAX_VOCABULARY)
     vocabulary_counts = model_counts(counts, chosen)
     counts.require_estimate(len(vocabulary_counts.table), vocabulary_counts.vocab_size)
     sections, meta = fit_levels(vocabulary_counts, method, add=add, encoding=encoding)

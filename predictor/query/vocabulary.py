@@ -20,8 +20,8 @@ from dataclasses import dataclass
 import marisa_trie
 import numpy as np
 
-from .arrays import offsets_dtype, pack_strings, unpack_string, word_id_dtype
-from .text import model_form
+from ..arrays import offsets_dtype, pack_strings, unpack_string, word_id_dtype
+from ..text import model_form
 
 START = "<s>"
 """The sentence-start symbol: pads the context, never predicted."""

@@ -12,7 +12,7 @@ from collections.abc import Callable
 from pathlib import Path
 from typing import BinaryIO
 
-from .errors import OutputError
+from ..errors import OutputError
 
 
 def replace_atomically(path: str | os.PathLike[str], write: Callable[[BinaryIO], None], *, prefix: str | None = None) -> int:

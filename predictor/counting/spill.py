@@ -4,7 +4,7 @@ A *table* is a pair of int64 arrays: keys, sorted and unique, and their counts.
 :class:`KeyCounter` sums the counts of keys fed to it in batches; while its
 table stays below a row limit it lives in memory, and each time it reaches the
 limit it is written to disk as a *run* (two raw ``.bin`` files in a
-:class:`~predictor.scratch.SpillFolder`).  At the end the runs are merged in
+:class:`~foretype.counting.scratch.SpillFolder`).  At the end the runs are merged in
 one pass, k at a time: each round takes from every run's buffered block the
 keys up to the smallest last-buffered key of the runs still being read, so no
 key can appear again in a later block, sums equal keys and appends them to the
@@ -20,7 +20,7 @@ from pathlib import Path
 
 import numpy as np
 
-from .errors import OutputError
+from ..errors import OutputError
 from .scratch import SpillFolder
 
 ROW_BYTES = 16

@@ -1,6 +1,6 @@
 """Model-level checks of a loaded model file: cheap ones on every load, the rest on demand.
 
-Loading (:func:`predictor.modelfile.read_model_file`) has already checked the
+Loading (:func:`foretype.modelfile.format.read_model_file`) has already checked the
 header and every section's CRC-32, so a file damaged on disk or in transit
 never gets this far.  What remains are files whose checksums match but whose
 content is wrong: written by a buggy or foreign tool, or crafted.
@@ -20,20 +20,20 @@ entry or a walk of the trie: each context's word list is strictly increasing
 (queries binary-search it), the vocabulary is sorted and unique, every trie key
 restores to the prefix whose id range it records, every listed prefix range is
 ordered by unigram probability, every ranked list is a permutation of its
-context's words in probability order, and sampled distributions sum to 1.
+context's words in probability order. :func:`foretype.query.verify.verify_model`
+adds that sampled distributions sum to 1.
 """
 
 from __future__ import annotations
 
-import os
 from typing import Any
 
 import marisa_trie
 import numpy as np
 
-from .counting import MAX_VOCABULARY
-from .errors import ModelFileError
-from .modelfile import ModelFile, read_model_file
+from ..errors import ModelFileError
+from .format import ModelFile, read_model_file
+from .limits import MAX_VOCABULARY
 
 _WORD_TYPES = {"uint16", "int32"}
 _OFFSET_TYPES = {"uint32", "uint64"}
@@ -77,7 +77,7 @@ def check_structure(model: ModelFile) -> None:
     """Raise ModelFileError unless the model's arrays are mutually consistent (cheap; every load).
 
     Args:
-        model: a model file as read by :func:`predictor.modelfile.read_model_file`.
+        model: a model file as read by :func:`foretype.modelfile.format.read_model_file`.
     """
     name = model.path
     size = _check_meta(name, model.meta)
@@ -238,26 +238,7 @@ def _strings(name: object, section: str, blob: np.ndarray, offsets: np.ndarray) 
         raise ModelFileError(f"{name}: corrupt (section {section}_off cuts a character)")
 
 
-# ---------------------------------------------------------------- full check
-def verify_model(path: str | os.PathLike[str]) -> ModelFile:
-    """Fully verify a model file: checksums, structure and every thorough check.
-
-    Args:
-        path: the model file.
-
-    Returns:
-        The verified model file.
-
-    Raises:
-        ModelFileError: the first problem found (the message names file and problem).
-        ModelVersionError: a format version this engine cannot read.
-    """
-    loaded = read_model_file(path, checksums=True)
-    check_structure(loaded)
-    check_thoroughly(loaded)
-    return loaded
-
-
+# ---------------------------------------------------------------- full check (structure; query.verify adds the sums)
 def check_thoroughly(model: ModelFile) -> None:
     """The checks too slow for every load (run after :func:`check_structure`).
 
@@ -278,7 +259,6 @@ def check_thoroughly(model: ModelFile) -> None:
     _check_unigram_lists(name, s, size)
     if "rank2.off" in s:
         _check_ranked_lists(name, model)
-    _check_sums(name, model)
 
 
 def _sorted_within(name: object, section: str, words: np.ndarray, offsets: np.ndarray) -> None:
@@ -366,27 +346,3 @@ def _check_ranked_lists(name: object, model: ModelFile) -> None:
         listed = s["rank3.ids"][rank3[index] : rank3[index + 1]]
         if not np.array_equal(np.sort(listed), stored[stored < size]):
             raise ModelFileError(f"{name}: corrupt (the ranked list of context slot {slot} is not its words)")
-
-
-def _check_sums(name: object, model: ModelFile, samples: int = 48) -> None:
-    """The distribution after the sentence start and after sampled contexts sums to 1."""
-    from .model import LanguageModel
-
-    lm = LanguageModel(model.sections, model.meta, path=model.path, file_bytes=model.file_bytes)
-    size = lm.vocab_size
-    start = size + 2
-    w2 = model.sections["l2.word"]
-    off2 = model.sections["l2.off"].astype(np.int64)
-    rng = np.random.default_rng(0)
-    contexts = [(start, start)]
-    if len(w2):
-        for position in rng.integers(0, len(w2), size=samples):
-            v = int(np.searchsorted(off2, position, side="right") - 1)
-            contexts.append((v, int(w2[position])))
-    outcomes = np.arange(size + 2, dtype=np.int64)
-    for u, v in contexts:
-        if v == size + 1:
-            continue  # END is never a context
-        total = float(lm.prob_triples(np.full(len(outcomes), u), np.full(len(outcomes), v), outcomes).sum())
-        if not abs(total - 1.0) <= SUM_TOLERANCE:
-            raise ModelFileError(f"{name}: corrupt (the distribution after context ids ({u}, {v}) sums to {total:.6f}, not 1)")

@@ -14,7 +14,7 @@ from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from .errors import CorpusError, EncodingError
+from ..errors import CorpusError, EncodingError
 
 CHUNK_BYTES = 1 << 22
 """How many bytes one chunk holds before it is extended to the next line break (4 MiB)."""

@@ -1,7 +1,7 @@
 """Tokenising worker processes, each numbering the written forms it meets.
 
 Large corpora are tokenised in worker processes while the build process
-counts (:func:`predictor.counting.count_corpus`).  Each worker keeps its own
+counts (:func:`foretype.counting.count_corpus`).  Each worker keeps its own
 dictionary of the written forms it has met and sends, with each chunk, only
 the forms new to it and every token's number in its dictionary
 (:class:`TokenisedPart`).  The build process keeps, per worker, what each
@@ -24,7 +24,7 @@ from typing import Any, NamedTuple
 
 import numpy as np
 
-from .text import tokens
+from ..text import tokens
 
 WORKER_FORM_BYTES = 64 << 20
 """A worker's dictionary of written forms starts afresh once it holds more than this (64 MiB)."""
@@ -37,7 +37,7 @@ WORKERS = 2
 
 
 class TokenisedPart(NamedTuple):
-    """A chunk tokenised in a worker, as :meth:`predictor.counting.CorpusCounter.add_tokenized` takes it.
+    """A chunk tokenised in a worker, as :meth:`foretype.counting.CorpusCounter.add_tokenized` takes it.
 
     Attributes:
         worker: the worker's id (its process id).
@@ -83,7 +83,7 @@ def tokenise_part(text: str, wrapped: bool) -> TokenisedPart:
     """Tokenise a chunk in a worker process, numbering its forms in the worker's dictionary.
 
     Args:
-        text: the chunk (whole lines, see :func:`predictor.text.tokens`).
+        text: the chunk (whole lines, see :func:`foretype.text.tokens`).
         wrapped: treat single line breaks as spaces.
 
     Returns:

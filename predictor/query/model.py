@@ -27,11 +27,13 @@ from typing import Any, NamedTuple
 
 import numpy as np
 
-from .errors import OptionError
-from .estimate.encoding import DECODE_TABLE, decode
-from .modelfile import FORMAT_VERSION, read_model_file, write_model_file
-from .text import iter_sentences, model_form, split_before_cursor
-from .ranking import RANKED_MIN, RankLists
+from ..errors import OptionError
+from ..modelfile.encoding import decode
+from ..modelfile.format import FORMAT_VERSION, read_model_file, write_model_file
+from ..modelfile.integrity import check_structure
+from ..text import capitalise, iter_sentences, model_form, split_before_cursor
+from .ranked import RANKED_MIN, RankLists
+from .scoring import ScoringCore, Slots
 from .vocabulary import END, START, UNKNOWN, PrefixRange, Vocabulary
 
 _SCORE_ALL = RANKED_MIN
@@ -51,19 +53,26 @@ def _without(ids: np.ndarray, exclude: np.ndarray) -> np.ndarray:
 
 
 class Suggestion(NamedTuple):
-    """One suggested word.
+    """One suggested word, from a model alone or from a model combined with what a person typed.
 
     Attributes:
         word: the word in display form.
         prob: its probability after the context.
         order: the n-gram order (1, 2 or 3) that supplied most of the probability.
-        id: the word's id in the model's vocabulary.
+        id: the word's id in the model's vocabulary (a combined model numbers the
+            words only the person's model knows from V + 3 on).
+        learned: the person's model supplied more of the probability than the base
+            model (always False for a model alone).
+        new_word: the word is not in the base vocabulary; it exists only because it
+            was learned (always False for a model alone).
     """
 
     word: str
     prob: float
     order: int
     id: int
+    learned: bool = False
+    new_word: bool = False
 
 
 @dataclass(frozen=True)
@@ -89,26 +98,14 @@ class TextScore:
     perplexity: float
 
 
-class _Slots(NamedTuple):
-    """Where the entries of one context live."""
-
-    v: int
-    lo2: int
-    hi2: int
-    slot: int
-    lo3: int
-    hi3: int
-    has3: bool
-
-
 class LanguageModel:
     """A smoothed trigram model over a fixed vocabulary (built in memory or loaded from a file)."""
 
     def __init__(self, sections: dict[str, np.ndarray], meta: dict[str, Any], *, path: Path | None = None, file_bytes: int | None = None) -> None:
-        """Wrap model arrays; use :func:`predictor.build` or :func:`predictor.load` to get one.
+        """Wrap model arrays; use :func:`foretype.builder` or :func:`foretype.load` to get one.
 
         Args:
-            sections: the model's named arrays (see :mod:`predictor.modelfile`).
+            sections: the model's named arrays (see :mod:`foretype.modelfile.format`).
             meta: the header fields.
             path: the file the arrays are mapped from, if any.
             file_bytes: that file's size.
@@ -118,23 +115,20 @@ class LanguageModel:
         self.path = path
         self.file_bytes = file_bytes
         self.vocab = Vocabulary(sections)
-        self._p1 = sections["p1"].astype(np.float64)
-        self._off2 = sections["l2.off"].astype(np.int64)
-        self._w2 = sections["l2.word"]
-        self._a2 = sections["l2.value"]
-        self._g2 = sections["l2.gamma"].astype(np.float64)
-        self._off3 = sections["l3.off"]
-        self._w3 = sections["l3.word"]
-        self._a3 = sections["l3.value"]
-        self._g3 = sections["l3.gamma"]
-        self._interpolated = bool(meta["interpolated"])
-        self._n2 = len(self._w2)
         self._size = self.vocab.size
+        core = ScoringCore(sections, meta, self._size)
+        self._core = core
+        # The core's arrays and arithmetic, bound once: queries call them many times each.
+        self._p1, self._off2, self._w2, self._a2, self._g2 = core._p1, core._off2, core._w2, core._a2, core._g2
+        self._off3, self._w3, self._a3, self._g3 = core._off3, core._w3, core._a3, core._g3
+        self._interpolated, self._n2, self._table = core._interpolated, core._n2, core._table
+        self._slots, self._gamma3, self._scores = core.slots, core.gamma3, core.scores
+        self._unstored_scores, self._stored, self._orders = core.unstored_scores, core.stored, core.orders
+        self._class_b_score = core.class_b_score
         self._keys: tuple[np.ndarray, np.ndarray] | None = None
         self._ranks = RankLists(sections)
         self._root_values: np.ndarray | None = None
-        self._table = DECODE_TABLE if self._a2.dtype == np.uint16 else None
-        self._last_context: tuple[int, int, _Slots, float] = (-1, -1, _Slots(-1, 0, 0, -1, 0, 0, False), 1.0)
+        self._last_context: tuple[int, int, Slots, float] = (-1, -1, Slots(-1, 0, 0, -1, 0, 0, False), 1.0)
 
     # ----------------------------------------------------------------- facts
     @property
@@ -186,26 +180,7 @@ class LanguageModel:
             u = start
         return u, v
 
-    def _slots(self, u: int, v: int) -> _Slots:
-        item2 = self._off2.item
-        lo2, hi2 = item2(v), item2(v + 1)
-        slot = -1
-        if v == self.vocab.start_id:
-            slot = self._n2
-        else:
-            ulo, uhi = item2(u), item2(u + 1)
-            if uhi > ulo:
-                words = self._w2
-                pos = ulo + int(words[ulo:uhi].searchsorted(words.dtype.type(v)))
-                if pos < uhi and words.item(pos) == v:
-                    slot = pos
-        if slot >= 0:
-            lo3, hi3 = self._off3.item(slot), self._off3.item(slot + 1)
-            if hi3 > lo3:
-                return _Slots(v, lo2, hi2, slot, lo3, hi3, True)
-        return _Slots(v, lo2, hi2, -1, 0, 0, False)
-
-    def _context(self, u: int, v: int) -> tuple[_Slots, float]:
+    def _context(self, u: int, v: int) -> tuple[Slots, float]:
         """The slots and level-3 weight of a context; the last one is kept, since queries come in runs per context."""
         last = self._last_context  # one read: other threads may replace it meanwhile
         if last[0] == u and last[1] == v:
@@ -220,84 +195,6 @@ class LanguageModel:
         if self._root_values is None:
             self._root_values = -self._p1[self.vocab.ranked_range(PrefixRange(0, self._size, 0))]
         return self._root_values
-
-    def _gamma3(self, slots: _Slots) -> float:
-        return float(self._g3[slots.slot]) if slots.has3 else 1.0
-
-    def _scores(self, ids: np.ndarray, slots: _Slots, gamma3: float, bigram_run: int = -1) -> tuple[np.ndarray, np.ndarray | None, np.ndarray | None]:
-        """Probabilities of outcome ids after one context (the arithmetic every query shares).
-
-        Args:
-            ids: outcome ids.
-            slots: the context.
-            gamma3: the context's level-3 weight.
-            bigram_run: when ``ids`` are exactly the context's bigram words from
-                this position on (a contiguous run), their values are read
-                directly instead of searched for; the result is the same.
-
-        Returns:
-            ``(p3, a2, a3)``: float64 probabilities, and the stored bigram and
-            trigram values that went into them (None where the level is absent).
-        """
-        p = self._p1[ids]
-        # Searching with the stored dtype keeps numpy from converting the stored slice.
-        ids = ids.astype(self._w2.dtype, copy=False)
-        a2 = a3 = None
-        if slots.hi2 > slots.lo2:
-            if bigram_run >= 0:
-                start = slots.lo2 + bigram_run
-                codes = self._a2[start : start + len(ids)]
-                a2 = self._table.take(codes) if self._table is not None else codes.astype(np.float64)
-                hit2 = None
-            else:
-                hit2, a2 = self._stored(self._w2[slots.lo2 : slots.hi2], self._a2[slots.lo2 : slots.hi2], ids)
-            lower = self._g2[slots.v] * p
-            if self._interpolated:
-                p2 = a2 + lower
-            else:
-                p2 = a2 if hit2 is None else np.where(hit2, a2, lower)  # a run is all stored words
-        else:
-            p2 = p
-        if slots.has3:
-            hit3, a3 = self._stored(self._w3[slots.lo3 : slots.hi3], self._a3[slots.lo3 : slots.hi3], ids)
-            lower = gamma3 * p2
-            p3 = a3 + lower if self._interpolated else np.where(hit3, a3, lower)
-        else:
-            p3 = p2
-        return p3, a2, a3
-
-    def _unstored_scores(self, ids: np.ndarray, slots: _Slots, gamma3: float) -> np.ndarray:
-        """:meth:`_scores` of ids stored at neither level of the context (class C).
-
-        The same operations :meth:`_scores` performs for such ids, without the
-        lookups: adding a stored value of 0.0 leaves a float unchanged.
-        """
-        p = self._p1[ids]
-        if slots.hi2 > slots.lo2:
-            p = self._g2[slots.v] * p
-        return gamma3 * p if slots.has3 else p
-
-    def _stored(self, words: np.ndarray, codes: np.ndarray, ids: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """Which ids one context stores, and their decoded values (0 where not stored)."""
-        at = words.searchsorted(ids)
-        hit = words.take(at, mode="clip") == ids
-        raw = codes.take(at, mode="clip")
-        values = self._table.take(raw) if self._table is not None else raw.astype(np.float64)
-        values *= hit  # stored values are finite and non-negative: times 0 is 0.0, times 1 unchanged
-        return hit, values
-
-    def _orders(self, probs: list[float], a2: list[float] | None, a3: list[float] | None, gamma3: float) -> list[int]:
-        """Which order (1, 2 or 3) supplied most of each probability (ties go to the higher order)."""
-        orders = []
-        for index, total in enumerate(probs):
-            from3 = a3[index] if a3 is not None else 0.0
-            from2 = 0.0 if a2 is None else (gamma3 * a2[index] if a3 is not None else a2[index])
-            if not self._interpolated:
-                orders.append(3 if from3 > 0 else 2 if from2 > 0 else 1)
-                continue
-            from1 = total - from3 - from2
-            orders.append(3 if from3 >= from2 and from3 >= from1 else 2 if from2 >= from1 else 1)
-        return orders
 
     # ---------------------------------------------------------------- queries
     def prob(self, word: str, context: Sequence[str] = ()) -> float:
@@ -360,7 +257,7 @@ class LanguageModel:
         """The exact k most probable words of an id range after a context, without their display forms.
 
         This is :meth:`suggest_ids` for callers that combine the answer with
-        another source (:mod:`predictor.adapt.combined`) and need ids and
+        another source (:mod:`foretype.adapt.combined`) and need ids and
         probabilities, not strings.
 
         Args:
@@ -412,7 +309,7 @@ class LanguageModel:
         probs, a2, a3 = self._scores(ids, slots, gamma3)
         return self._orders(probs.tolist(), None if a2 is None else a2.tolist(), None if a3 is None else a3.tolist(), gamma3)
 
-    def _explicit_candidates(self, slots: _Slots, gamma3: float, found: PrefixRange, k: int) -> tuple[np.ndarray, np.ndarray, int]:
+    def _explicit_candidates(self, slots: Slots, gamma3: float, found: PrefixRange, k: int) -> tuple[np.ndarray, np.ndarray, int]:
         """Classes A and B: distinct candidate ids among the words stored after the context.
 
         Every word stored after (u, v) is also stored after v (each trigram's
@@ -469,7 +366,7 @@ class LanguageModel:
         *,
         rivals: np.ndarray | None = None,
         top_k: int = 0,
-        slots: _Slots | None = None,
+        slots: Slots | None = None,
         gamma3: float = 1.0,
     ) -> np.ndarray:
         """The words of ``in_range`` a class contributes: all of them, or the best of a ranked list.
@@ -513,17 +410,6 @@ class LanguageModel:
         if position >= len(ranked):
             return np.concatenate(taken) if taken else _NO_IDS
         return _without(in_range, exclude)
-
-    def _class_b_score(self, word: int, slots: _Slots, gamma3: float) -> float:
-        """gamma3 * P2(word | v) for a word stored after v: the score it has if not stored after (u, v).
-
-        The same float64 operations :meth:`_scores` performs, on Python floats.
-        """
-        words = self._w2[slots.lo2 : slots.hi2]
-        code = self._a2.item(slots.lo2 + int(words.searchsorted(words.dtype.type(word))))
-        value = self._table.item(code) if self._table is not None else float(np.float64(np.float32(code)))
-        p2 = value + self._g2.item(slots.v) * self._p1.item(word) if self._interpolated else value
-        return (gamma3 * p2) if slots.has3 else p2
 
     def _unigram_candidates(self, found: PrefixRange, exclude: np.ndarray, k: int, factor: float, explicit_scores: np.ndarray) -> np.ndarray:
         """Class C: the first k words of the range not in ``exclude``, in unigram order.
@@ -722,11 +608,6 @@ class LanguageModel:
         return size
 
 
-def capitalise(word: str) -> str:
-    """The word with its first letter in upper case (as at a sentence start)."""
-    return word[:1].upper() + word[1:]
-
-
 def load(path: str | Path) -> LanguageModel:
     """Load a model file (memory-mapped; nothing in it is executed).
 
@@ -734,11 +615,9 @@ def load(path: str | Path) -> LanguageModel:
         ModelFileError: missing, corrupt or not a model file.
         ModelVersionError: a format version this engine cannot read.
     """
-    from .integrity import check_structure
-
     loaded = read_model_file(path)
     check_structure(loaded)
     return LanguageModel(loaded.sections, loaded.meta, path=loaded.path, file_bytes=loaded.file_bytes)
 
 
-__all__ = ["LanguageModel", "Suggestion", "TextScore", "load", "capitalise", "START", "END", "UNKNOWN"]
+__all__ = ["LanguageModel", "Suggestion", "TextScore", "load", "START", "END", "UNKNOWN"]

@@ -1,0 +1,170 @@
+"""The scoring core: the arithmetic every query shares, over a model's level arrays.
+
+Every probability a model reports, whether for one word, a whole distribution,
+a suggestion list or a ranked list written by a build, comes from
+:meth:`ScoringCore.scores`, so results agree to the last bit wherever they are
+computed.  Level 1 is a dense unigram array; level 2 lists, per context word v,
+the words stored after it (sorted by id) with a value each and one lower-order
+weight per context; level 3 lists, per bigram entry (u, v) (plus one slot for
+``START START``), the words stored after the pair.  Interpolated estimators
+store ``P = a + gamma * P_lower``; back-off estimators store the value that
+replaces the lower order.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from typing import Any, NamedTuple
+
+import numpy as np
+
+from ..modelfile.encoding import DECODE_TABLE
+
+
+class Slots(NamedTuple):
+    """Where the entries of one context (u, v) live: v's bigram entries lo2:hi2, the pair's slot and trigram entries lo3:hi3."""
+
+    v: int
+    lo2: int
+    hi2: int
+    slot: int
+    lo3: int
+    hi3: int
+    has3: bool
+
+
+class ScoringCore:
+    """The level arrays of one model and the arithmetic over them."""
+
+    def __init__(self, sections: Mapping[str, np.ndarray], meta: Mapping[str, Any], vocab_size: int) -> None:
+        """Take a model's sections and header fields.
+
+        Args:
+            sections: the ``p1``, ``l2.*`` and ``l3.*`` arrays.
+            meta: the header fields (``interpolated`` is read).
+            vocab_size: V, the number of suggestable words; START is V + 2.
+        """
+        self.size = vocab_size
+        self.start_id = vocab_size + 2
+        self._p1 = sections["p1"].astype(np.float64)
+        self._off2 = sections["l2.off"].astype(np.int64)
+        self._w2 = sections["l2.word"]
+        self._a2 = sections["l2.value"]
+        self._g2 = sections["l2.gamma"].astype(np.float64)
+        self._off3 = sections["l3.off"]
+        self._w3 = sections["l3.word"]
+        self._a3 = sections["l3.value"]
+        self._g3 = sections["l3.gamma"]
+        self._interpolated = bool(meta["interpolated"])
+        self._n2 = len(self._w2)
+        self._table = DECODE_TABLE if self._a2.dtype == np.uint16 else None
+
+    def slots(self, u: int, v: int) -> Slots:
+        """Where the entries of context (u, v) live (v = START means the sentence start)."""
+        item2 = self._off2.item
+        lo2, hi2 = item2(v), item2(v + 1)
+        slot = -1
+        if v == self.start_id:
+            slot = self._n2
+        else:
+            ulo, uhi = item2(u), item2(u + 1)
+            if uhi > ulo:
+                words = self._w2
+                pos = ulo + int(words[ulo:uhi].searchsorted(words.dtype.type(v)))
+                if pos < uhi and words.item(pos) == v:
+                    slot = pos
+        if slot >= 0:
+            lo3, hi3 = self._off3.item(slot), self._off3.item(slot + 1)
+            if hi3 > lo3:
+                return Slots(v, lo2, hi2, slot, lo3, hi3, True)
+        return Slots(v, lo2, hi2, -1, 0, 0, False)
+
+    def gamma3(self, slots: Slots) -> float:
+        """The level-3 weight of a context (1.0 where the pair stores nothing)."""
+        return float(self._g3[slots.slot]) if slots.has3 else 1.0
+
+    def scores(self, ids: np.ndarray, slots: Slots, gamma3: float, bigram_run: int = -1) -> tuple[np.ndarray, np.ndarray | None, np.ndarray | None]:
+        """Probabilities of outcome ids after one context (the arithmetic every query shares).
+
+        Args:
+            ids: outcome ids.
+            slots: the context.
+            gamma3: the context's level-3 weight.
+            bigram_run: when ``ids`` are exactly the context's bigram words from
+                this position on (a contiguous run), their values are read
+                directly instead of searched for; the result is the same.
+
+        Returns:
+            ``(p3, a2, a3)``: float64 probabilities, and the stored bigram and
+            trigram values that went into them (None where the level is absent).
+        """
+        p = self._p1[ids]
+        # Searching with the stored dtype keeps numpy from converting the stored slice.
+        ids = ids.astype(self._w2.dtype, copy=False)
+        a2 = a3 = None
+        if slots.hi2 > slots.lo2:
+            if bigram_run >= 0:
+                start = slots.lo2 + bigram_run
+                codes = self._a2[start : start + len(ids)]
+                a2 = self._table.take(codes) if self._table is not None else codes.astype(np.float64)
+                hit2 = None
+            else:
+                hit2, a2 = self.stored(self._w2[slots.lo2 : slots.hi2], self._a2[slots.lo2 : slots.hi2], ids)
+            lower = self._g2[slots.v] * p
+            if self._interpolated:
+                p2 = a2 + lower
+            else:
+                p2 = a2 if hit2 is None else np.where(hit2, a2, lower)  # a run is all stored words
+        else:
+            p2 = p
+        if slots.has3:
+            hit3, a3 = self.stored(self._w3[slots.lo3 : slots.hi3], self._a3[slots.lo3 : slots.hi3], ids)
+            lower = gamma3 * p2
+            p3 = a3 + lower if self._interpolated else np.where(hit3, a3, lower)
+        else:
+            p3 = p2
+        return p3, a2, a3
+
+    def unstored_scores(self, ids: np.ndarray, slots: Slots, gamma3: float) -> np.ndarray:
+        """:meth:`scores` of ids stored at neither level of the context (class C).
+
+        The same operations :meth:`scores` performs for such ids, without the
+        lookups: adding a stored value of 0.0 leaves a float unchanged.
+        """
+        p = self._p1[ids]
+        if slots.hi2 > slots.lo2:
+            p = self._g2[slots.v] * p
+        return gamma3 * p if slots.has3 else p
+
+    def stored(self, words: np.ndarray, codes: np.ndarray, ids: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """Which ids one context stores, and their decoded values (0 where not stored)."""
+        at = words.searchsorted(ids)
+        hit = words.take(at, mode="clip") == ids
+        raw = codes.take(at, mode="clip")
+        values = self._table.take(raw) if self._table is not None else raw.astype(np.float64)
+        values *= hit  # stored values are finite and non-negative: times 0 is 0.0, times 1 unchanged
+        return hit, values
+
+    def orders(self, probs: list[float], a2: list[float] | None, a3: list[float] | None, gamma3: float) -> list[int]:
+        """Which order (1, 2 or 3) supplied most of each probability (ties go to the higher order)."""
+        orders = []
+        for index, total in enumerate(probs):
+            from3 = a3[index] if a3 is not None else 0.0
+            from2 = 0.0 if a2 is None else (gamma3 * a2[index] if a3 is not None else a2[index])
+            if not self._interpolated:
+                orders.append(3 if from3 > 0 else 2 if from2 > 0 else 1)
+                continue
+            from1 = total - from3 - from2
+            orders.append(3 if from3 >= from2 and from3 >= from1 else 2 if from2 >= from1 else 1)
+        return orders
+
+    def class_b_score(self, word: int, slots: Slots, gamma3: float) -> float:
+        """gamma3 * P2(word | v) for a word stored after v: the score it has if not stored after (u, v).
+
+        The same float64 operations :meth:`scores` performs, on Python floats.
+        """
+        words = self._w2[slots.lo2 : slots.hi2]
+        code = self._a2.item(slots.lo2 + int(words.searchsorted(words.dtype.type(word))))
+        value = self._table.item(code) if self._table is not None else float(np.float64(np.float32(code)))
+        p2 = value + self._g2.item(slots.v) * self._p1.item(word) if self._interpolated else value
+        return (gamma3 * p2) if slots.has3 else p2
