@@ -85,7 +85,7 @@ from .listings import LearnedWord, learned_words
 from .never_list import NeverList
 from .settings import AdaptSettings
 from .suggestable import Suggestable, derive
-from .top_k import Candidate, PreparedContext, exact_top, prepare
+from .top_k import PreparedContext, Row, exact_top, prepare
 from .user_model import UserModel
 
 AdaptedSuggestion = Suggestion
@@ -205,24 +205,21 @@ class AdaptedModel:
             u = user.start_id
         return u, v
 
-    def _snapshot(self) -> Suggestable:
-        """The snapshot for the current versions of the user model and the never-suggest list."""
+    def _current(self, u: int, v: int) -> tuple[Suggestable, PreparedContext]:
+        """The snapshot for the current versions of the user model and the never-suggest list, and the
+        per-context data for (u, v) under it (the last context asked about is kept in the snapshot's memo)."""
         view = self._view
         user = self.user
         if view is None or view.user is not user or view.version != (user.version, self.never.version):
             view = self._view = derive(view, user, self.never, self.base.vocab)
-        return view
-
-    def _prepared(self, u: int, v: int) -> PreparedContext:
-        """The per-context data for (u, v) under the current snapshot (the last context is kept with it)."""
-        return self._prepared_in(self._snapshot(), u, v)
-
-    @staticmethod
-    def _prepared_in(view: Suggestable, u: int, v: int) -> PreparedContext:
         prepared = view.memo.get("context")
         if prepared is None or prepared.u != u or prepared.v != v:
             prepared = view.memo["context"] = prepare(view, u, v)
-        return prepared
+        return view, prepared
+
+    def _prepared(self, u: int, v: int) -> PreparedContext:
+        """The per-context data for (u, v) (see :meth:`_current`)."""
+        return self._current(u, v)[1]
 
     # ------------------------------------------------------------ scoring
     def distribution(self, context: Sequence[str] = (), ids: np.ndarray | None = None) -> np.ndarray:
@@ -301,9 +298,8 @@ class AdaptedModel:
         """:meth:`suggest` with a context already mapped by :meth:`context_ids` (see the module docstring)."""
         if k < 1:
             raise OptionError(f"k must be at least 1, not {k}")
-        view = self._snapshot()
-        prepared = self._prepared_in(view, u, v)
-        if prepared.user is None and not self.never and not view.any_new_word:
+        view, prepared = self._current(u, v)
+        if prepared.user is None and not self.never and not (view.ready_forms and self.user.settings.learning):
             return self.base.suggest_ids(prepared.ub, prepared.vb, prefix, k)
         span, key_range = view.ranges_of(prefix, self.base.vocab)
         if key_range is None:
@@ -311,26 +307,26 @@ class AdaptedModel:
         chosen, base_orders = exact_top(self.base, view, prepared, span, key_range, k)
         return self._results(prepared, chosen, base_orders)
 
-    def _results(self, prepared: PreparedContext, chosen: list[Candidate], base_orders: dict[int, int]) -> list[Suggestion]:
-        """Suggestions from the chosen candidates, with their orders and marks."""
+    def _results(self, prepared: PreparedContext, chosen: list[Row], base_orders: dict[int, int]) -> list[Suggestion]:
+        """Suggestions from the chosen candidates (rows with :class:`~foretype.adapt.top_k.Candidate`'s fields), with their orders and marks."""
         user = self.user
         mu = prepared.mu
         m = 1.0 - mu
         uctx = prepared.user
-        mine = [mu * row.p_user > m * row.p_base for row in chosen]
-        missing = [row.id for row, own in zip(chosen, mine) if not own and row.id not in base_orders and row.id < user.base_size]
+        # Each row unpacked once into its fields, by name: (neg_score, key, id, p_base, p_user).
+        rows = [(neg_score, word_id, mu * p_user > m * p_base) for neg_score, _, word_id, p_base, p_user in chosen]
+        missing = [word_id for _, word_id, own in rows if not own and word_id not in base_orders and word_id < user.base_size]
         if missing:
             base_orders = {**base_orders, **dict(zip(missing, self.base.orders_of(prepared.ub, prepared.vb, np.array(missing, dtype=np.int64))))}
         first_new = user.first_learned_id
         display = user.display
         results = []
-        for row, own in zip(chosen, mine):
-            i = row.id
-            if not own and i in base_orders:
-                order_of = base_orders[i]
+        for neg_score, word_id, own in rows:
+            if not own and word_id in base_orders:
+                order_of = base_orders[word_id]
             else:
-                order_of = user.order_of(i, uctx) if uctx is not None else 1
-            results.append(Suggestion(display(i), float(-row.neg_score), int(order_of), int(i), own, i >= first_new))
+                order_of = user.order_of(word_id, uctx) if uctx is not None else 1
+            results.append(Suggestion(display(word_id), float(-neg_score), int(order_of), int(word_id), own, word_id >= first_new))
         return results
 
 

@@ -6,8 +6,11 @@ the pool's user probabilities after the context, their floors);
 :func:`exact_top` walks list A (the base model's own ranking, read deeper
 until the k-th score is final) and the pool's slice of the typed prefix.
 
-Candidates are :class:`Candidate` rows, sorted as tuples: by score descending
-(``neg_score`` ascending), then sort key, that is by word.
+Candidates are rows with the fields of :class:`Candidate`, sorted as tuples: by
+score descending (``neg_score`` ascending), then sort key, that is by word.  In
+the walk they are plain tuples (building and sorting them is most of its
+Python work, and naming each one cost 2% of a query), and every row read is
+unpacked into the field names; ``Candidate._make(row)`` names one.
 """
 
 from __future__ import annotations
@@ -33,6 +36,10 @@ _SMALL_SLICE = 24
 """A prefix's part of the pool with at most this many words is bounded in plain Python."""
 _NO_IDS = np.zeros(0, dtype=np.int64)
 _NO_PROBS = np.zeros(0, dtype=np.float64)
+
+
+Row = tuple[float, int, int, float, float]
+"""A candidate as the walk keeps it: the fields of :class:`Candidate`, in order."""
 
 
 class Candidate(NamedTuple):
@@ -139,9 +146,7 @@ def _with_followers(
     return keys[order], ids[order], p_user[order]
 
 
-def exact_top(
-    base: LanguageModel, view: Suggestable, prepared: PreparedContext, span: PrefixRange | None, key_range: tuple[int, int], k: int
-) -> tuple[list[Candidate], dict[int, int]]:
+def exact_top(base: LanguageModel, view: Suggestable, prepared: PreparedContext, span: PrefixRange | None, key_range: tuple[int, int], k: int) -> tuple[list[Row], dict[int, int]]:
     """The threshold walk: the k best suggestable words of a prefix's range, exactly.
 
     Scores use the arithmetic of :func:`~foretype.adapt.combination.combine`,
@@ -157,7 +162,8 @@ def exact_top(
         k: how many.
 
     Returns:
-        The chosen candidates, best first, and the base orders list A reported (by id).
+        The chosen candidates (rows with :class:`Candidate`'s fields), best first, and the base orders
+        list A reported (by id).
     """
     mu = prepared.mu
     m = 1.0 - mu
@@ -167,7 +173,6 @@ def exact_top(
     where_item = view.pool_where.item if prepared.ids is view.pool_ids else None
     p_user_item = prepared.p_user.item
     blocked = view.blocked
-    row = tuple.__new__  # Candidate rows built without the named tuple's Python-level constructor
     a_depth = k + GUARD
     while True:
         # List A: the base model's own exact ranking of the range's base words.
@@ -182,24 +187,28 @@ def exact_top(
             a_user = [p_user_item(at) if at >= 0 else 0.0 for at in map(where_item, a_ids)]
         else:
             a_user = pool.p_user_of(found).tolist()
-        rows = [row(Candidate, (-(m * pb + mu * pu), (i << KEY_SHIFT) | BASE_KEY_LOW, i, pb, pu)) for i, pb, pu in zip(a_ids, a_base, a_user) if i not in blocked]
+        rows: list[Row] = [(-(m * pb + mu * pu), (i << KEY_SHIFT) | BASE_KEY_LOW, i, pb, pu) for i, pb, pu in zip(a_ids, a_base, a_user) if i not in blocked]
         rows.sort()
         # Every unread word of the range scores at most m * a_last + mu * P_user (its own P_user).
-        c_ids, c_user, c_keys = pool.reaching(m * a_last, mu, -rows[k - 1].neg_score if len(rows) >= k else -math.inf, set(a_ids), k)
+        threshold = -math.inf
+        if len(rows) >= k:
+            kth_neg_score, _, _, _, _ = rows[k - 1]
+            threshold = -kth_neg_score
+        c_ids, c_user, c_keys = pool.reaching(m * a_last, mu, threshold, set(a_ids), k)
         if c_ids:
             c_base = base_probabilities(base, np.array(c_ids, dtype=np.int64), prepared.ub, prepared.vb, view.user.end_id).tolist()
-            rows.extend(row(Candidate, (-(m * pb + mu * pu), key, i, pb, pu)) for i, pb, pu, key in zip(c_ids, c_base, c_user, c_keys))
+            rows.extend((-(m * pb + mu * pu), key, i, pb, pu) for i, pb, pu, key in zip(c_ids, c_base, c_user, c_keys))
             rows.sort()
         if a_done:
             break
         if len(rows) >= k:
-            kth = rows[k - 1]
-            kth_score = -kth.neg_score
+            kth_neg_score, kth_key, _, _, _ = rows[k - 1]
+            kth_score = -kth_neg_score
             z_bound = m * a_last + mu * 0.0
             if kth_score > z_bound:
                 break
             # Unread words outside the pool score at most the bound and, when equal, sort after A's last word.
-            if kth_score == z_bound and no_merge(m, a_last) and kth.key <= (a_ids[-1] << KEY_SHIFT) | BASE_KEY_LOW:
+            if kth_score == z_bound and no_merge(m, a_last) and kth_key <= (a_ids[-1] << KEY_SHIFT) | BASE_KEY_LOW:
                 break
         a_depth *= 4
     return rows[:k], dict(zip(a_ids, found_orders))
@@ -270,4 +279,4 @@ class _Slice:
         return ids, self.p_user[at].tolist(), self.keys[at].tolist()
 
 
-__all__ = ["Candidate", "PreparedContext", "prepare", "exact_top", "GUARD"]
+__all__ = ["Candidate", "Row", "PreparedContext", "prepare", "exact_top", "GUARD"]
