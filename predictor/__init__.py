@@ -16,7 +16,7 @@ completions, and score held-out text::
 from __future__ import annotations
 
 from .builder import build, build_from_counts
-from .counting.counter import CorpusCounts, count_corpus
+from .counting import CorpusCounts, count_corpus
 from .errors import (
     CapacityError,
     CorpusError,
@@ -28,9 +28,9 @@ from .errors import (
     OutputError,
 )
 from .estimate import METHODS
+from .modelfile.format import FORMAT_VERSION
 from .query.model import LanguageModel, Suggestion, TextScore, load
 from .query.verify import verify_model as verify
-from .modelfile.format import FORMAT_VERSION
 from .query.vocabulary import END, START, UNKNOWN
 
 __all__ = [

@@ -7,7 +7,6 @@ from collections.abc import Sequence
 import numpy as np
 
 
-
 def offsets_dtype(largest: int) -> np.dtype:
     """Return the narrowest unsigned dtype (uint32 or uint64) that holds offsets up to ``largest``."""
     return np.dtype(np.uint32) if largest < 2**32 else np.dtype(np.uint64)

@@ -12,12 +12,12 @@ import hashlib
 import os
 from pathlib import Path
 
-from .builder import build
-from .counting.counter import ProgressCallback
-from .errors import CorpusError, ModelFileError
-from .query.model import LanguageModel, load
-from .modelfile.format import FORMAT_VERSION
 from . import demo_vocab  # type: ignore[attr-defined]  # installed as foretype.demo_vocab
+from .builder import build
+from .counting import ProgressCallback
+from .errors import CorpusError, ModelFileError
+from .modelfile.format import FORMAT_VERSION
+from .query.model import LanguageModel, load
 from .version import __version__
 
 DEMO_BUILD = {"vocab_size": None, "min_count": 1, "method": "kneser-ney"}

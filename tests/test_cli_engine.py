@@ -17,11 +17,11 @@ import sys
 from pathlib import Path
 
 import pytest
+from public_text import kjv_split, write_lines
 
 import foretype
-from foretype.modelfile import format as modelfile
 from foretype.cli import INTERRUPTED
-from public_text import kjv_split, write_lines
+from foretype.modelfile import format as modelfile
 
 
 @pytest.fixture(scope="module")

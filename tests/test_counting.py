@@ -15,12 +15,13 @@ from pathlib import Path
 import numpy as np
 import pytest
 from nltk.util import ngrams
+from public_text import kjv_split, model_sentences, write_lines
 
 import foretype
-from foretype.counting import counter as counting
+from foretype import counting
 from foretype.counting.corpus import iter_chunks
+from foretype.counting.counter import HELDOUT_EVERY
 from foretype.counting.memory import MemoryBudget
-from public_text import kjv_split, model_sentences, write_lines
 
 VERSES = 800
 
@@ -71,15 +72,15 @@ def test_token_sentence_and_type_counts_equal_a_direct_count(verses, counts):
 
 
 def test_every_twentieth_sentence_is_counted_again_as_held_out(verses, counts):
-    # predictor/counting.py: sentence i (0-based) is held out when i % 20 == 19.
+    # predictor/counting/counter.py: sentence i (0-based) is held out when i % 20 == 19.
     sentences = model_sentences(verses)
-    held = [s for i, s in enumerate(sentences) if i % counting.HELDOUT_EVERY == counting.HELDOUT_EVERY - 1]
+    held = [s for i, s in enumerate(sentences) if i % HELDOUT_EVERY == HELDOUT_EVERY - 1]
     assert table_as_counter(counts.heldout, counts.types) == padded_trigrams(held)
 
 
 def test_counting_in_tiny_chunks_and_merges_gives_the_same_tables(corpus, counts, monkeypatch):
     # The counts must not depend on how the corpus is cut into chunks or when tables are merged.
-    monkeypatch.setattr(counting, "iter_chunks", lambda path, **kw: iter_chunks(path, chunk_bytes=700, **kw))
+    monkeypatch.setattr(counting.run, "iter_chunks", lambda path, **kw: iter_chunks(path, chunk_bytes=700, **kw))
     monkeypatch.setattr(counting.CorpusCounter, "MERGE_ROWS", 300)
     chunked = foretype.count_corpus([corpus])
     assert table_as_counter(chunked.table, chunked.types) == table_as_counter(counts.table, counts.types)
@@ -156,7 +157,7 @@ def test_words_outside_the_vocabulary_are_counted_as_the_unknown_token(verses, c
 
 def test_counting_with_tokenising_workers_gives_exactly_the_sequential_counts(tmp_path, monkeypatch):
     # Exact equality with the single-process count is the reference (a property of the design).
-    import foretype.counting.counter as counting
+    from foretype import counting
 
     lines = []
     for i in range(4000):
@@ -164,8 +165,8 @@ def test_counting_with_tokenising_workers_gives_exactly_the_sequential_counts(tm
     corpus = tmp_path / "corpus.txt"
     corpus.write_text("\n".join(lines) + "\n", encoding="utf-8")
     sequential = counting.count_corpus([corpus])
-    monkeypatch.setattr(counting, "PARALLEL_MIN_BYTES", 0)
-    monkeypatch.setattr(counting, "PARALLEL_MIN_BUDGET", 0)
+    monkeypatch.setattr(counting.run, "PARALLEL_MIN_BYTES", 0)
+    monkeypatch.setattr(counting.run, "PARALLEL_MIN_BUDGET", 0)
     monkeypatch.setattr(MemoryBudget, "chunk_bytes", property(lambda self: 1 << 14))  # several chunks
     parallel = counting.count_corpus([corpus], budget=None)
     assert_same_counts(parallel, sequential)
@@ -190,8 +191,8 @@ def test_workers_restarting_their_form_dictionaries_against_a_full_dictionary_co
     monkeypatch.setattr(MemoryBudget, "dictionary_bytes", property(lambda self: 150_000))
     sequential = counting.count_corpus([corpus])
     assert sequential.unlisted_tokens > 0
-    monkeypatch.setattr(counting, "PARALLEL_MIN_BYTES", 0)
-    monkeypatch.setattr(counting, "PARALLEL_MIN_BUDGET", 0)
+    monkeypatch.setattr(counting.run, "PARALLEL_MIN_BYTES", 0)
+    monkeypatch.setattr(counting.run, "PARALLEL_MIN_BUDGET", 0)
     monkeypatch.setattr(MemoryBudget, "chunk_bytes", property(lambda self: 1 << 13))
     monkeypatch.setattr(tokenisers, "WORKER_FORM_BYTES", 100_000)
     fresh_starts = []

@@ -42,12 +42,12 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from nltk.lm import MLE, Lidstone
 from nltk.lm.preprocessing import padded_everygram_pipeline
+from public_text import kjv_split, model_sentences, write_lines
 
 import foretype
 from foretype.estimate import model_counts
 from foretype.estimate.kneser_ney import modified_kn_discounts
 from foretype.estimate.simple import estimate_mle
-from public_text import kjv_split, model_sentences, write_lines
 
 NLTK_VERSES = 150
 """Training verses for the nltk comparisons (the opening of Genesis in the KJV)."""

@@ -17,9 +17,9 @@ import threading
 from pathlib import Path
 
 import pytest
+from public_text import kjv_split, write_lines
 
 import foretype
-from public_text import kjv_split, write_lines
 
 THREADS = 8
 

@@ -22,14 +22,14 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from public_text import kjv_split, write_lines
 
 import foretype
 from foretype.counting import scratch
-from foretype.modelfile import format as modelfile
-from foretype.query.verify import verify_model
-from foretype.modelfile.format import read_model_file, write_model_file
 from foretype.counting.scratch import TEMP_PREFIX, remove_stale
-from public_text import kjv_split, write_lines
+from foretype.modelfile import format as modelfile
+from foretype.modelfile.format import read_model_file, write_model_file
+from foretype.query.verify import verify_model
 
 WRITER = """
 import os, signal, sys
@@ -146,7 +146,7 @@ def test_a_failing_disk_leaves_the_previous_model_and_no_temporary_file(tmp_path
 
 
 def test_counts_that_cannot_be_spilled_fail_cleanly_and_leave_no_spill_folder(tmp_path, monkeypatch):
-    from foretype.counting import counter as counting
+    from foretype import counting
     from foretype.counting import spill
     from foretype.counting.memory import MemoryBudget
 

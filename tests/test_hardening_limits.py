@@ -14,16 +14,15 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from public_text import kjv_split, write_lines
 
 import foretype
 import foretype.builder
-from foretype.counting import counter as counting
 from foretype.arrays import offsets_dtype, stable_argsort, word_id_dtype
-from foretype.counting.tables import aggregate_rows
-from foretype.counting.counter import ID_BITS, MAX_RAW_TYPES, pack_trigrams, unpack_trigrams
-from foretype.modelfile.limits import MAX_VOCABULARY
+from foretype.counting import run as counting
+from foretype.counting.tables import ID_BITS, MAX_RAW_TYPES, aggregate_rows, pack_trigrams, unpack_trigrams
 from foretype.modelfile.format import read_model_file, write_model_file
-from public_text import kjv_split, write_lines
+from foretype.modelfile.limits import MAX_VOCABULARY
 
 
 @pytest.fixture(scope="module")

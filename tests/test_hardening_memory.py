@@ -16,13 +16,14 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from public_text import kjv_split, write_lines
 
 import foretype
-from foretype.counting import counter as counting
+from foretype import counting
 from foretype.counting import spill
 from foretype.counting.memory import MemoryBudget, parse_size
+from foretype.counting.tables import SpilledTrigrams, unpack_trigrams
 from foretype.text import iter_sentences, model_form
-from public_text import kjv_split, write_lines
 
 
 @pytest.fixture(scope="module")
@@ -36,10 +37,10 @@ def corpus(verses, tmp_path_factory) -> Path:
 
 
 def as_counter(table, types) -> Counter:
-    if isinstance(table, counting.SpilledTrigrams):
+    if isinstance(table, SpilledTrigrams):
         found: Counter = Counter()
         for keys, counts in table.blocks():
-            u, v, w = counting.unpack_trigrams(keys)
+            u, v, w = unpack_trigrams(keys)
             found.update({(types[a], types[b], types[c]): int(n) for a, b, c, n in zip(u, v, w, counts)})
         return found
     return Counter({(types[a], types[b], types[c]): int(n) for a, b, c, n in zip(table.u, table.v, table.w, table.n)})
@@ -53,7 +54,7 @@ def test_counts_spilled_to_many_runs_and_merged_in_rounds_equal_counts_kept_in_m
     monkeypatch.setattr(spill, "FAN_IN", 3)
     spilled = foretype.count_corpus([corpus], spill_dir=tmp_path)
     assert spilled.spilled_rows > 20 * 600
-    assert isinstance(spilled.table, counting.SpilledTrigrams) and isinstance(spilled.heldout, counting.SpilledTrigrams)
+    assert isinstance(spilled.table, SpilledTrigrams) and isinstance(spilled.heldout, SpilledTrigrams)
     assert spilled.types == whole.types and spilled.display == whole.display
     assert np.array_equal(spilled.type_counts, whole.type_counts)
     assert as_counter(spilled.table, spilled.types) == as_counter(whole.table, whole.types)

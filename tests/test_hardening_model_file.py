@@ -22,12 +22,12 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from public_text import kjv_split, write_lines
 
 import foretype
 from foretype.errors import ForetypeError, ModelFileError, ModelVersionError
-from foretype.query.verify import verify_model
 from foretype.modelfile.format import crc32
-from public_text import kjv_split, write_lines
+from foretype.query.verify import verify_model
 
 PREAMBLE = struct.Struct("<8sIIII")
 CONTEXTS = [(), ("the",), ("of", "the"), ("and", "god"), ("zzz", "the"), ("said", "unto")]
@@ -142,7 +142,8 @@ def test_damaged_or_foreign_files_are_refused_with_a_message_naming_the_file(ori
 
 def test_a_newer_format_version_is_a_version_error_and_an_unknown_older_one_too(original, tmp_path):
     data = original[0]
-    assert_refused(tmp_path, data[:8] + struct.pack("<I", 2) + data[12:], "version 2, newer", error=ModelVersionError)
+    newer = foretype.FORMAT_VERSION + 1
+    assert_refused(tmp_path, data[:8] + struct.pack("<I", newer) + data[12:], f"version {newer}, newer", error=ModelVersionError)
     assert_refused(tmp_path, data[:8] + struct.pack("<I", 0) + data[12:], "version 0", error=ModelVersionError)
 
 

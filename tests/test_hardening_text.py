@@ -21,8 +21,7 @@ from hypothesis import strategies as st
 import foretype
 from foretype.demo import demo_model
 from foretype.simulate import TypistSettings, simulate
-from foretype.text import capitalise
-from foretype.text import TOKEN_RE, WORD_RE, is_sentence_end, model_form, split_before_cursor, tokens
+from foretype.text import TOKEN_RE, WORD_RE, capitalise, is_sentence_end, model_form, split_before_cursor, tokens
 
 SPECIALS = [
     "\u0301", "\u0308", "\u0327",  # combining acute, diaeresis, cedilla

@@ -15,9 +15,9 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from public_text import kjv_split, write_lines
 
 import foretype
-from public_text import kjv_split, write_lines
 
 PROBES = [(), ("the",), ("of", "the"), ("and", "god"), ("said", "unto"), ("zzz",), ("zzz", "the"), (foretype.UNKNOWN, foretype.UNKNOWN)]
 

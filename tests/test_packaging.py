@@ -7,8 +7,9 @@ top-level import name, so it cannot collide with another installed package.
 from __future__ import annotations
 
 import importlib.metadata
-import tomllib
 from pathlib import Path
+
+import tomllib
 
 import foretype
 import foretype.version

@@ -36,9 +36,9 @@ from dataclasses import dataclass
 import pytest
 from nltk.lm import KneserNeyInterpolated, Vocabulary
 from nltk.lm.preprocessing import padded_everygram_pipeline
+from public_text import kjv_split, model_sentences, write_lines
 
 import foretype
-from public_text import kjv_split, model_sentences, write_lines
 
 TRAIN_VERSES = 3000
 HELDOUT_VERSES = 300

@@ -48,7 +48,7 @@ def small_model() -> foretype.LanguageModel:
 
 
 def _counts(text: str) -> foretype.CorpusCounts:
-    from foretype.counting.counter import CorpusCounter
+    from foretype.counting import CorpusCounter
 
     counter = CorpusCounter()
     counter.add_text(text)

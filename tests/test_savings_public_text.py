@@ -7,11 +7,11 @@ Trnka & McCoy, ACL 2008: lower-cased words, one space each).
 from __future__ import annotations
 
 import pytest
+from public_text import kjv_split, write_lines
 
 import foretype
 from foretype.simulate import TypistSettings, simulate
 from foretype.text import iter_sentences, model_form
-from public_text import kjv_split, write_lines
 
 
 @pytest.fixture(scope="module")

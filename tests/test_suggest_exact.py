@@ -18,10 +18,10 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from public_text import kjv_split, write_lines
 
 import foretype
 from foretype.text import model_form, split_before_cursor
-from public_text import kjv_split, write_lines
 
 WORDS = ["a", "ab", "abc", "abd", "b", "ba", "bab", "c", "ca", "cab", "d", "dab", "Ab", "B", "don't", "half-past"]
 """Words that share prefixes, with capitalised forms to exercise case folding."""

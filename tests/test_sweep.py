@@ -14,11 +14,11 @@ import xml.etree.ElementTree as ET
 from pathlib import Path
 
 import pytest
+from public_text import kjv_split, write_lines
 
 from foretype.chart import sweep_chart
 from foretype.simulate import TypistSettings
 from foretype.sweep import COLUMNS, run_sweep
-from public_text import kjv_split, write_lines
 
 SVG = "{http://www.w3.org/2000/svg}"
 

@@ -13,11 +13,11 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
+from public_text import kjv_split, write_lines
 
 import foretype
 from foretype.counting.corpus import iter_chunks
 from foretype.text import iter_sentences, model_form, split_before_cursor, tokens
-from public_text import kjv_split, write_lines
 
 
 def sentences(text: str, **options) -> list[list[str]]:

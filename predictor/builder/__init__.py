@@ -3,21 +3,23 @@
 from __future__ import annotations
 
 import os
-from collections.abc import Callable, Iterable
+from collections.abc import Callable, Iterable, Mapping
+from typing import Any
 
 from ..counting import CorpusCounts, ProgressCallback, count_corpus
+from ..counting.memory import MemoryBudget
 from ..errors import CapacityError, OptionError
 from ..estimate import METHODS, model_counts
-from ..modelfile.encoding import ENCODINGS
+from ..modelfile.encoding import CODEBOOK8, ENCODINGS
 from ..modelfile.levels import fit_levels
 from ..modelfile.limits import MAX_VOCABULARY
-from ..counting.memory import MemoryBudget
 from ..query.model import LanguageModel
-from .ranking import rank_sections
 from ..query.vocabulary import vocabulary_sections
+from .ranking import rank_sections
+from .shrink import shrink
 
 
-def check_build_options(*, vocab_size: int | None, min_count: int, method: str, add: float, encoding: str | None) -> None:
+def check_build_options(*, vocab_size: int | None, min_count: int, method: str, add: float, encoding: str | None, cutoffs: tuple[int, int] | None = None) -> None:
     """Reject build options before any corpus is read.
 
     Raises:
@@ -34,8 +36,12 @@ def check_build_options(*, vocab_size: int | None, min_count: int, method: str, 
         raise OptionError(f"--min-count must be at least 1, not {min_count}")
     if method == "additive" and not add > 0:
         raise OptionError(f"--add must be a positive number, not {add}")
-    if encoding is not None and encoding not in ENCODINGS:
-        raise OptionError(f"unknown value encoding {encoding!r}; choose one of {', '.join(ENCODINGS)}")
+    if encoding is not None and encoding not in (*ENCODINGS, CODEBOOK8):
+        raise OptionError(f"unknown value encoding {encoding!r}; choose one of {', '.join((*ENCODINGS, CODEBOOK8))}")
+    if cutoffs is not None and method == "mle":
+        raise OptionError("--cutoffs cannot apply to --method mle: every removed n-gram would get probability 0")
+    if cutoffs is not None and min(cutoffs) < 1:
+        raise OptionError(f"--cutoffs must be at least 1, not {cutoffs}")
 
 
 def build(
@@ -53,6 +59,7 @@ def build(
     max_memory: int | None = None,
     spill_dir: str | os.PathLike[str] | None = None,
     on_counted: Callable[[CorpusCounts], None] | None = None,
+    cutoffs: tuple[int, int] | None = None,
 ) -> LanguageModel:
     """Build a model from corpus files or folders.
 
@@ -71,11 +78,13 @@ def build(
             of the memory available; see :mod:`foretype.counting.memory`).
         spill_dir: where counts that outgrow memory go (None: the system's temporary folder).
         on_counted: called with the counts once the corpus is read (for build summaries).
+        cutoffs: (C2, C3): store only bigrams seen at least C2 times and trigrams
+            seen at least C3 times (estimated from all counts; back-off form).
 
     Raises:
         OptionError, CorpusError, EncodingError, CapacityError, OutputError.
     """
-    check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+    check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding, cutoffs=cutoffs)
     budget = MemoryBudget.of(max_memory)
     counts = count_corpus(
         paths,
@@ -91,7 +100,8 @@ def build(
     if on_counted is not None:
         on_counted(counts)
     try:
-        model = build_from_counts(counts, vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+        pruning = None if cutoffs is None else {"criterion": "count", "cutoffs": cutoffs}
+        model = build_from_counts(counts, vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding, shrink_options=pruning)
     finally:
         counts.close()
     model.meta["wrapped"] = wrapped
@@ -106,17 +116,25 @@ def build_from_counts(
     method: str = "kneser-ney",
     add: float = 0.1,
     encoding: str | None = None,
+    shrink_options: Mapping[str, Any] | None = None,
 ) -> LanguageModel:
     """Build a model from counts already taken (several vocabularies from one count).
+
+    With ``shrink_options`` (keyword arguments of :func:`predictor.shrink.shrink`,
+    which then has the n-grams' counts for the ``count`` criterion) or the
+    ``codebook8`` encoding, the model is estimated from every count with float32
+    values, then shrunk.
 
     Raises:
         OptionError, CorpusError, CapacityError.
     """
-    check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding)
+    cutoffs = None if shrink_options is None else shrink_options.get("cutoffs")
+    check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding, cutoffs=cutoffs)
+    shrinking = shrink_options is not None or encoding == CODEBOOK8
     chosen = counts.select_vocabulary(vocab_size, min_count, max_words=MAX_VOCABULARY)
     vocabulary_counts = model_counts(counts, chosen)
     counts.require_estimate(len(vocabulary_counts.table), vocabulary_counts.vocab_size)
-    sections, meta = fit_levels(vocabulary_counts, method, add=add, encoding=encoding)
+    sections, meta = fit_levels(vocabulary_counts, method, add=add, encoding="float32" if shrinking else encoding)
     size = vocabulary_counts.vocab_size
     sections.update(vocabulary_sections(vocabulary_counts.words, vocabulary_counts.display, sections["p1"][:size]))
     meta.update(
@@ -133,5 +151,11 @@ def build_from_counts(
             "wrapped": False,
         }
     )
+    if shrinking:
+        target = encoding or ("float32" if method in ("mle", "katz") else "log16")
+        counts_of_entries = (vocabulary_counts.layout.bigram_n, vocabulary_counts.table.n)
+        options = dict(shrink_options or {})
+        options["encoding"] = options.get("encoding") or target
+        return shrink(LanguageModel(sections, meta), counts=counts_of_entries, **options)
     sections.update(rank_sections(LanguageModel(sections, meta)))
     return LanguageModel(sections, meta)

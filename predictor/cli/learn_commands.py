@@ -12,10 +12,11 @@ import time
 from pathlib import Path
 from typing import Any
 
+from ..counting.corpus import read_text_file
 from ..errors import OptionError
 from ..query.model import LanguageModel
 from ..text import iter_sentences
-from .output import add_json_option, open_model, positive_int, print_json, progress_bar, read_text_file
+from .output import add_json_option, open_model, positive_int, print_json, progress_bar
 
 SECONDS_PER_DAY = 86_400
 

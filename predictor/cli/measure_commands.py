@@ -9,11 +9,13 @@ from contextlib import AbstractContextManager
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from ..errors import CorpusError
+from ..counting.corpus import read_text_file
+from ..errors import CorpusError, OptionError
 from ..estimate import METHODS
 from ..simulate import TEXT_MODES, TypistSettings, format_report, simulate, write_trace
 from ..simulate.writing import check_writable_file
 from ..text import WORD_RE
+from .access_options import add_access_options, run_scanning_savings, scanning_settings
 from .learn_commands import add_adapt_options, check_adapt_options, run_adaptive_savings
 from .output import (
     add_json_option,
@@ -21,7 +23,6 @@ from .output import (
     positive_int,
     print_json,
     progress_bar,
-    read_text_file,
     split_model_argument,
 )
 
@@ -85,6 +86,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--key-seconds", type=_number, default=1.0, metavar="S", help="seconds per keystroke in the time estimate (default 1.0)")
     p.add_argument("--scan-seconds", type=_number, default=0.5, metavar="S", help="seconds to read a changed suggestion list (default 0.5)")
     p.add_argument("--trace", metavar="FILE", help="write one JSON line per word: keystrokes, where it was picked, the lists shown")
+    add_access_options(p)
     add_adapt_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_savings)
@@ -107,7 +109,24 @@ def register(commands: argparse._SubParsersAction) -> None:
         action="store_true",
         help="also type the test text with learning: a user model that starts empty learns each word (adds the learning KSR and latency columns)",
     )
+    p.add_argument(
+        "--ksr-interval",
+        type=_whole,
+        default=0,
+        metavar="RESAMPLES",
+        help="add each row's 95%% KSR interval by the bootstrap over test sentences with this many resamples (default 0: none)",
+    )
+    p.add_argument("--seed", type=_whole, default=0, metavar="N", help="seed of the --ksr-interval bootstrap (default 0)")
+    p.add_argument("--prune", default="", metavar="C,C,...", help="the size axis: pruning criteria from entropy, prediction, count (with --keep-bytes)")
+    p.add_argument(
+        "--keep-bytes",
+        default="",
+        metavar="F,F,...",
+        help="shares of each full model's file bytes the shrunk models must fit, e.g. 0.5,0.2,0.05 (1: every n-gram, only --values changes); writes DIR/size.svg",
+    )
+    p.add_argument("--values", default="", metavar="E,E,...", help="value encodings of the shrunk models, from log16, float32, codebook8 (default: the model's)")
     _add_typist_options(p)
+    add_access_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_sweep_command)
 
@@ -125,10 +144,15 @@ def run_savings(args: argparse.Namespace) -> int:
     settings = _settings(args)
     check_adapt_options(args)
     model_path, (text_path,) = split_model_argument(args.args, 1, "savings")
+    scanning = scanning_settings(args)
+    if scanning is not None and (args.adapt or args.trace):
+        raise OptionError("--access scanning takes neither --adapt nor --trace")
     if args.trace:
         check_writable_file(args.trace)
     text = _read_test_text(text_path)
     model = open_model(model_path)
+    if scanning is not None:
+        return run_scanning_savings(args, model, text, settings, scanning)
     if args.adapt:
         return run_adaptive_savings(args, model, text, settings)
     with progress_bar("typing the test text") as update:
@@ -169,17 +193,24 @@ class _Stages:
 
 def run_sweep_command(args: argparse.Namespace) -> int:
     """foretype sweep."""
-    from ..sweep import format_table, parse_methods, parse_vocab_sizes, run_sweep
+    from ..builder.shrink import parse_encodings
+    from ..sweep import ExtraMeasures, format_table, parse_methods, parse_shares, parse_vocab_sizes, run_sweep
 
     settings = _settings(args)
     sizes = parse_vocab_sizes(args.vocab_sizes)
     methods = parse_methods(args.methods)
+    scanning = scanning_settings(args)
+    criteria = [c.strip() for c in args.prune.split(",") if c.strip()]
+    shares = parse_shares(args.keep_bytes) if args.keep_bytes.strip() else []
+    encodings = parse_encodings(args.values) if args.values.strip() else []
     text = _read_test_text(args.test)
     stages = _Stages()
 
     def finished(row: SweepRow) -> None:
         stages.close()
         learning = "" if row.adapted_ksr is None else f", learning {100 * row.adapted_ksr:.1f}%"
+        if row.keep_bytes is not None:
+            learning += f"; {row.criterion} to {row.keep_bytes:g} of the bytes, {row.value_encoding} values"
         print(
             f"{row.method}, {row.vocab_size:,} words: KSR {100 * row.ksr:.1f}% (oracle {100 * row.oracle_ksr:.1f}%{learning}), "
             f"p99 {row.latency_p99_us or 0:,.0f} µs, {row.file_bytes / 1e6:.1f} MB",
@@ -198,6 +229,10 @@ def run_sweep_command(args: argparse.Namespace) -> int:
             progress=stages,
             on_row=finished,
             adapt=args.adapt,
+            shrink_criteria=criteria,
+            keep_bytes=shares,
+            value_encodings=encodings,
+            extra=ExtraMeasures(args.ksr_interval, args.seed, scanning),
         )
     finally:
         stages.close()
@@ -207,7 +242,8 @@ def run_sweep_command(args: argparse.Namespace) -> int:
     print(f"corpus: {result.corpus_tokens:,} tokens, counted once in {result.counting_seconds:.1f} s; test: {args.test}; k={settings.k}, {settings.text_mode} mode")
     print(format_table(result.rows))
     out = Path(args.out)
-    print(f"wrote {out / 'sweep.csv'}, {out / 'sweep.json'}, {out / 'sweep.svg'}")
+    size_chart = f", {out / 'size.svg'}" if shares else ""
+    print(f"wrote {out / 'sweep.csv'}, {out / 'sweep.json'}, {out / 'sweep.svg'}{size_chart}")
     print("RSS = resident memory the model costs: RSS growth across loading it plus the mapped file pages its queries touched (psutil; approximate).")
     print("Simulated savings are estimates for comparing models, not a clinical assessment of anyone's needs.")
     return 0

@@ -8,23 +8,24 @@ from pathlib import Path
 from typing import Any
 
 from ..builder import build
-from ..counting.counter import CorpusCounts
+from ..counting import CorpusCounts
+from ..counting.corpus import read_text_file
+from ..counting.memory import parse_size, peak_resident_bytes
 from ..errors import OptionError
 from ..estimate import METHODS
 from ..modelfile.encoding import ENCODINGS
-from ..query.verify import verify_model
-from ..counting.memory import parse_size, peak_resident_bytes
-from ..query.model import load
 from ..modelfile.format import check_target
+from ..query.model import load
+from ..query.verify import verify_model
 from .output import (
     add_json_option,
     open_model,
     positive_int,
     print_json,
     progress_bar,
-    read_text_file,
     split_model_argument,
 )
+from .shrink_commands import describe_shrink
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -44,7 +45,8 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces, blank lines end sentences")
     p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
     p.add_argument("--reject-binary", action="store_true", help="fail on binary files inside folders instead of skipping them")
-    p.add_argument("--values", choices=ENCODINGS, default=None, help="stored value encoding (default log16; float32 for katz and mle)")
+    p.add_argument("--values", choices=(*ENCODINGS, "codebook8"), default=None, help="stored value encoding (default log16; float32 for katz and mle; codebook8: one byte per value)")
+    p.add_argument("--cutoffs", type=_cutoffs, default=None, metavar="C2,C3", help="store only bigrams seen at least C2 times and trigrams at least C3 times (back-off form)")
     p.add_argument(
         "--max-memory",
         type=_memory_size,
@@ -92,6 +94,16 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.set_defaults(handler=run_check)
 
 
+def _cutoffs(text: str) -> tuple[int, int]:
+    """argparse type: count cutoffs such as 2,3."""
+    from ..builder.shrink import parse_cutoffs
+
+    try:
+        return parse_cutoffs(text)
+    except OptionError as error:
+        raise argparse.ArgumentTypeError(str(error)) from None
+
+
 def _memory_size(text: str) -> int:
     """argparse type: a memory size such as 512M or 2G."""
     try:
@@ -125,6 +137,7 @@ def run_build(args: argparse.Namespace) -> int:
             max_memory=args.max_memory,
             spill_dir=spill_dir,
             on_counted=note_counts,
+            cutoffs=args.cutoffs,
         )
     size = model.save(args.output)
     seconds = time.perf_counter() - started
@@ -231,6 +244,7 @@ def run_info(args: argparse.Namespace) -> int:
     model = open_model(model_path)
     info = model.info()
     info["model"] = str(model.path) if model.path else None
+    info["shrink"] = model.meta.get("shrink")
     if args.json:
         print_json(info)
         return 0
@@ -245,6 +259,9 @@ def run_info(args: argparse.Namespace) -> int:
         f"  file             {info['file_bytes']:,} bytes, {info['bytes_per_ngram']:.2f} bytes per stored n-gram\n"
         f"  corpus           {info['corpus_tokens']:,} tokens"
     )
+    shrunk = describe_shrink(model)
+    if shrunk:
+        print(f"  shrunk           {shrunk}")
     return 0
 
 

@@ -7,12 +7,11 @@ import json
 import sys
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
-from pathlib import Path
 from typing import Any
 
 from ..errors import OptionError
-from ..query.model import LanguageModel, load
 from ..modelfile.format import MAGIC
+from ..query.model import LanguageModel, load
 
 
 def add_json_option(parser: argparse.ArgumentParser) -> None:
@@ -74,8 +73,8 @@ def progress_bar(label: str) -> Iterator[Callable[[int, int], None]]:
     if not sys.stderr.isatty():
         yield lambda done, total: None
         return
-    from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeRemainingColumn
     from rich.console import Console
+    from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeRemainingColumn
 
     with Progress(
         TextColumn("{task.description}"),
@@ -102,15 +101,3 @@ def positive_int(text: str) -> int:
     if value < 1:
         raise argparse.ArgumentTypeError(f"must be at least 1, got {value}")
     return value
-
-
-def read_text_file(path: str) -> str:
-    """Read a UTF-8 text file for scoring or simulation.
-
-    Raises:
-        CorpusError / EncodingError: missing, binary or invalid UTF-8.
-    """
-    from ..counting.corpus import iter_chunks, resolve_corpus
-
-    found = resolve_corpus([path])
-    return "".join(chunk for file in found.files for chunk in iter_chunks(Path(file)))

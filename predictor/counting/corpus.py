@@ -178,3 +178,13 @@ def _cut_long_line(data: bytes) -> int:
     while cut > 0 and data[cut] & 0xC0 == 0x80:  # a UTF-8 continuation byte
         cut -= 1
     return cut if cut > 0 else len(data)
+
+
+def read_text_file(path: str) -> str:
+    """Read a UTF-8 text file for scoring or simulation.
+
+    Raises:
+        CorpusError / EncodingError: missing, binary or invalid UTF-8.
+    """
+    found = resolve_corpus([path])
+    return "".join(chunk for file in found.files for chunk in iter_chunks(Path(file)))

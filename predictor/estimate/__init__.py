@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-
 from ..errors import OptionError
 from .katz import estimate_katz
 from .kneser_ney import estimate_kneser_ney

@@ -14,7 +14,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..arrays import group_starts, stable_argsort
-from ..counting.counter import RAW_END, RAW_START, CorpusCounts, TrigramTable
+from ..counting import RAW_END, RAW_START, CorpusCounts, TrigramTable
 
 
 @dataclass

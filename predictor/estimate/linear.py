@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..counting.counter import TrigramTable
+from ..counting import TrigramTable
 from .layout import Layout, ModelCounts, context_totals
 from .result import Estimate
 

@@ -16,10 +16,15 @@ distribution still sums to 1.
 
 from __future__ import annotations
 
+from collections.abc import Mapping
+
 import numpy as np
 
 LOG16 = "log16"
 FLOAT32 = "float32"
+CODEBOOK8 = "codebook8"
+"""One byte per value: the code of one of 256 levels fitted per order (sections ``l2.codebook``,
+``l3.codebook``); written by shrinking a model (:mod:`foretype.shrink.quantise`)."""
 ENCODINGS = (LOG16, FLOAT32)
 _STEPS_PER_OCTAVE = 2048
 _ZERO_CODE = 65535
@@ -56,3 +61,19 @@ def decode_one(stored: np.ndarray, index: int) -> float:
     if stored.dtype == np.uint16:
         return float(_TABLE[value])
     return float(value)
+
+
+def value_table(sections: Mapping[str, np.ndarray], level: str) -> np.ndarray | None:
+    """The float64 value of every code of a level's stored values, or None for float32 values.
+
+    Args:
+        sections: a model's sections.
+        level: ``"l2"`` or ``"l3"``.
+
+    16-bit codes use the fixed logarithmic table; 8-bit codes the level's own
+    codebook (:data:`CODEBOOK8`).
+    """
+    stored = sections[f"{level}.value"]
+    if stored.dtype == np.uint8:
+        return np.asarray(sections[f"{level}.codebook"], dtype=np.float64)
+    return DECODE_TABLE if stored.dtype == np.uint16 else None

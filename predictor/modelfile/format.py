@@ -50,14 +50,18 @@ from typing import Any
 
 import numpy as np
 
+from ..counting.scratch import TEMP_PREFIX, lock_exclusively, remove_stale
+from ..errors import ModelFileError, ModelVersionError, OutputError
 from .atomic import remove_quietly as _remove_quietly
 from .atomic import sync_directory as _sync_directory
-from ..errors import ModelFileError, ModelVersionError, OutputError
-from ..counting.scratch import TEMP_PREFIX, lock_exclusively, remove_stale
 
 MAGIC = b"FTMODEL\x00"
-FORMAT_VERSION = 1
-"""The model-file format version this engine writes and reads."""
+FORMAT_VERSION = 2
+"""The model-file format version this engine writes.  Version 2 adds 8-bit values
+(``value_encoding`` ``codebook8``: uint8 ``l2.value``/``l3.value`` and float64
+``l2.codebook``/``l3.codebook``) and the header's ``shrink`` record."""
+READABLE_VERSIONS = (1, 2)
+"""Versions this engine reads: a version-1 file is a version-2 file without codebooks."""
 
 MAX_HEADER_BYTES = 1 << 24
 """A header longer than this (16 MiB) is taken as corrupt; real ones hold a few KiB."""
@@ -249,7 +253,7 @@ def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> 
     magic, version, header_length, header_crc, _ = _PREAMBLE.unpack_from(mapped, 0)
     if magic != MAGIC:
         raise ModelFileError(f"{source}: not a foretype model ({_what_it_looks_like(mapped)})")
-    if version != FORMAT_VERSION:
+    if version not in READABLE_VERSIONS:
         if version > FORMAT_VERSION:
             raise ModelVersionError(
                 f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} "

@@ -32,22 +32,23 @@ import marisa_trie
 import numpy as np
 
 from ..errors import ModelFileError
-from .format import ModelFile, read_model_file
+from .format import ModelFile
 from .limits import MAX_VOCABULARY
 
 _WORD_TYPES = {"uint16", "int32"}
 _OFFSET_TYPES = {"uint32", "uint64"}
 _FLOAT_TYPES = {"float32", "float64"}
-_VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}}
+_VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
+_CODEBOOK_LEVELS = 256
 _SECTION_TYPES = {
     "p1": _FLOAT_TYPES,
     "l2.off": _OFFSET_TYPES,
     "l2.word": _WORD_TYPES,
-    "l2.value": {"uint16", "float32"},
+    "l2.value": {"uint8", "uint16", "float32"},
     "l2.gamma": _FLOAT_TYPES,
     "l3.off": _OFFSET_TYPES,
     "l3.word": _WORD_TYPES,
-    "l3.value": {"uint16", "float32"},
+    "l3.value": {"uint8", "uint16", "float32"},
     "l3.gamma": _FLOAT_TYPES,
     "vocab.trie": {"uint8"},
     "vocab.key_lo": {"int32"},
@@ -95,6 +96,7 @@ def check_structure(model: ModelFile) -> None:
     for section in ("l2.value", "l3.value"):
         if s[section].dtype.name not in _VALUE_TYPES[encoding]:
             raise ModelFileError(f"{name}: corrupt (section {section} does not hold {encoding} values)")
+    _check_codebooks(name, s, encoding)
     for section in ("l2.word", "l3.word", "vocab.order", "rank2.ids", "rank3.ids"):
         if section in s and s[section].dtype == np.uint16 and size + 3 > 2**16:
             raise ModelFileError(f"{name}: corrupt (section {section} is too narrow for {size:,} words)")
@@ -139,6 +141,19 @@ def check_structure(model: ModelFile) -> None:
         _ids(name, "rank3.slot", s["rank3.slot"], n2)
         _increasing(name, "rank3.slot", s["rank3.slot"])
     _check_vocabulary(name, s, size)
+
+
+def _check_codebooks(name: object, s: dict[str, np.ndarray], encoding: str) -> None:
+    """8-bit values need both codebooks: 256 float64 levels in [0, 1] each."""
+    if encoding != "codebook8":
+        return
+    for section in ("l2.codebook", "l3.codebook"):
+        if section not in s:
+            raise ModelFileError(f"{name}: corrupt (missing section {section})")
+        _check_type(name, section, s[section], {"float64"})
+        if len(s[section]) != _CODEBOOK_LEVELS:
+            raise ModelFileError(f"{name}: corrupt (section {section} has {len(s[section]):,} entries, expected {_CODEBOOK_LEVELS})")
+        _probabilities(name, section, s[section], upper=1.0)
 
 
 def _check_meta(name: object, meta: dict[str, Any]) -> int:

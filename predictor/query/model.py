@@ -500,9 +500,11 @@ class LanguageModel:
         key2, key3 = self._global_keys()
         p = self._p1[w]
         has2 = self._off2[v + 1] > self._off2[v]
+        if not len(key2):  # a pruned model may store no bigram at all
+            return p
         pos2 = np.minimum(np.searchsorted(key2, v * base + w), len(key2) - 1)
         hit2 = key2[pos2] == v * base + w
-        a2 = np.where(hit2, decode(self._a2[pos2]), 0.0)
+        a2 = np.where(hit2, _decoded(self._a2[pos2], self._core._table), 0.0)
         lower = self._g2[v] * p
         p2 = a2 + lower if self._interpolated else np.where(hit2, a2, lower)
         p2 = np.where(has2, p2, p)
@@ -511,9 +513,11 @@ class LanguageModel:
         off3 = self._off3
         safe = np.maximum(slot, 0)
         has3 = (slot >= 0) & (off3[safe + 1] > off3[safe])
+        if not len(key3):
+            return p2
         pos3 = np.minimum(np.searchsorted(key3, safe * base + w), len(key3) - 1)
         hit3 = has3 & (key3[pos3] == safe * base + w)
-        a3 = np.where(hit3, decode(self._a3[pos3]), 0.0)
+        a3 = np.where(hit3, _decoded(self._a3[pos3], self._core._table3), 0.0)
         gamma3 = self._g3[safe].astype(np.float64)
         lower3 = gamma3 * p2
         p3 = a3 + lower3 if self._interpolated else np.where(hit3, a3, lower3)
@@ -606,6 +610,11 @@ class LanguageModel:
         """Write the model to a file atomically; returns the file size in bytes."""
         size = write_model_file(path, self.meta, self.sections)
         return size
+
+
+def _decoded(codes: np.ndarray, table: np.ndarray | None) -> np.ndarray:
+    """Decode stored values with a level's code table (float32 values have none)."""
+    return table[codes] if table is not None else decode(codes)
 
 
 def load(path: str | Path) -> LanguageModel:

@@ -13,7 +13,6 @@ from __future__ import annotations
 
 import numpy as np
 
-
 RANKED_MIN = 96
 """Contexts with more continuations than this get a ranked list."""
 

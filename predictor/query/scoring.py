@@ -18,7 +18,7 @@ from typing import Any, NamedTuple
 
 import numpy as np
 
-from ..modelfile.encoding import DECODE_TABLE
+from ..modelfile.encoding import value_table
 
 
 class Slots(NamedTuple):
@@ -57,7 +57,8 @@ class ScoringCore:
         self._g3 = sections["l3.gamma"]
         self._interpolated = bool(meta["interpolated"])
         self._n2 = len(self._w2)
-        self._table = DECODE_TABLE if self._a2.dtype == np.uint16 else None
+        self._table = value_table(sections, "l2")
+        self._table3 = value_table(sections, "l3")
 
     def slots(self, u: int, v: int) -> Slots:
         """Where the entries of context (u, v) live (v = START means the sentence start)."""
@@ -118,7 +119,7 @@ class ScoringCore:
         else:
             p2 = p
         if slots.has3:
-            hit3, a3 = self.stored(self._w3[slots.lo3 : slots.hi3], self._a3[slots.lo3 : slots.hi3], ids)
+            hit3, a3 = self.stored(self._w3[slots.lo3 : slots.hi3], self._a3[slots.lo3 : slots.hi3], ids, level=3)
             lower = gamma3 * p2
             p3 = a3 + lower if self._interpolated else np.where(hit3, a3, lower)
         else:
@@ -136,12 +137,13 @@ class ScoringCore:
             p = self._g2[slots.v] * p
         return gamma3 * p if slots.has3 else p
 
-    def stored(self, words: np.ndarray, codes: np.ndarray, ids: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """Which ids one context stores, and their decoded values (0 where not stored)."""
+    def stored(self, words: np.ndarray, codes: np.ndarray, ids: np.ndarray, level: int = 2) -> tuple[np.ndarray, np.ndarray]:
+        """Which ids one context stores, and their decoded values (0 where not stored; ``level`` 2 or 3 picks the codes' table)."""
         at = words.searchsorted(ids)
         hit = words.take(at, mode="clip") == ids
         raw = codes.take(at, mode="clip")
-        values = self._table.take(raw) if self._table is not None else raw.astype(np.float64)
+        table = self._table3 if level == 3 else self._table
+        values = table.take(raw) if table is not None else raw.astype(np.float64)
         values *= hit  # stored values are finite and non-negative: times 0 is 0.0, times 1 unchanged
         return hit, values
 

@@ -36,7 +36,7 @@ UNKNOWN = "<unk>"
 SHORT_RANGE = 12
 """Prefixes shared by at most this many words keep no stored list; it is sorted when asked."""
 
-UNLISTED = -1
+NO_ORDER_LIST = -1
 """``PrefixRange.order_start`` of a range without a stored list."""
 
 
@@ -48,7 +48,7 @@ class PrefixRange:
         lo: first word id with the prefix.
         hi: one past the last word id with the prefix.
         order_start: where the range's words, most probable first, start in the
-            order list, or :data:`UNLISTED`.
+            order list, or :data:`NO_ORDER_LIST`.
     """
 
     lo: int
@@ -161,7 +161,7 @@ class Vocabulary:
             return None
         lo = self._key_lo.item(key)
         start = self._key_order.item(key)
-        return PrefixRange(lo if lo >= 0 else -lo - 1, self._key_hi.item(key), UNLISTED if start == self._unlisted else start)
+        return PrefixRange(lo if lo >= 0 else -lo - 1, self._key_hi.item(key), NO_ORDER_LIST if start == self._unlisted else start)
 
     def ranked_range(self, found: PrefixRange) -> np.ndarray:
         """The word ids of a prefix range, most probable (unigram) first, ties by id.
@@ -170,7 +170,7 @@ class Vocabulary:
             int array of shape (hi - lo,).
         """
         span = found.hi - found.lo
-        if found.order_start != UNLISTED:
+        if found.order_start != NO_ORDER_LIST:
             return self.order[found.order_start : found.order_start + span]
         ids = np.arange(found.lo, found.hi)
         return ids[np.lexsort((ids, -self._unigram[found.lo : found.hi]))]

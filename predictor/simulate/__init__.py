@@ -18,7 +18,7 @@ from .oracle import VocabularyView, baseline_keystrokes, oracle_keystrokes
 from .passage import TEXT_MODES, Passage, PassageWord, read_passage
 from .report import ESTIMATE_NOTE, REPORT_KEYS, SavingsReport, format_report, write_trace
 from .savings import simulate
-from .typist import SuggestionSource, Typist, TypistSettings, TypingRun, WordTrace
+from .typist import SuggestionSource, TypingRun, Typist, TypistSettings, WordTrace
 
 __all__ = [
     "simulate",

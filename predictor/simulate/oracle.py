@@ -24,8 +24,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..query.model import LanguageModel
-from ..text import capitalise
-from ..text import model_form
+from ..text import capitalise, model_form
 from .editing import gap_keystrokes, latest_useful_pick
 from .passage import Passage, PassageWord
 from .typist import TypistSettings

@@ -6,8 +6,8 @@ import os
 import tempfile
 from pathlib import Path
 
-from ..modelfile.atomic import replace_atomically
 from ..errors import OutputError
+from ..modelfile.atomic import replace_atomically
 
 
 def write_text_atomic(path: str | Path, text: str) -> None:

@@ -15,12 +15,11 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
+from pilot_steps import finish, learn_beforehand, paste
 from textual.widgets import DataTable, Input
 
-from pilot_steps import finish, learn_beforehand, paste
 from foretype.adapt import LearnedFile, load_learned
 from foretype.query.model import LanguageModel
-
 from foretype.tui.learning import Finished, finished_by_typing, learning_sources, open_learning
 from foretype.tui.screens.learned import LearnedWordsScreen
 from foretype.tui.screens.pad import PadScreen

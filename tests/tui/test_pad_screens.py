@@ -8,11 +8,10 @@ import re
 from pathlib import Path
 
 import pytest
+from pilot_steps import finish, paste
 from rich.console import Console
 from textual.binding import Binding
 from textual.widgets import DataTable, Input, Static
-
-from pilot_steps import finish, paste
 
 from foretype.tui.app import PadApp
 from foretype.tui.screens.confirm_quit import ConfirmQuitDialog
@@ -242,3 +241,25 @@ def test_every_key_the_footer_shows_is_explained_in_the_help(owner: type) -> Non
     for binding in shown:
         key = binding.key.split(",")[0]
         assert f"`{key}`" in text, f"{key} ({binding.description}) is not in help.md"
+
+
+async def test_a_size_sweep_shows_how_each_model_was_shrunk(make_app, tmp_path: Path) -> None:
+    # A size axis of value encodings only (the worked corpus is too small for byte budgets).
+    from foretype.simulate import TypistSettings
+    from foretype.sweep import run_sweep
+
+    worked = Path(__file__).parents[1] / "data" / "savings"
+    text = (worked / "worked-text.txt").read_text(encoding="utf-8")
+    result = run_sweep(
+        [worked / "worked-corpus.txt"], text, out=tmp_path, vocab_sizes=[13], settings=TypistSettings(k=2), keep_bytes=[1.0], value_encodings=["codebook8"], methods=["katz"]
+    )
+    assert [row.keep_bytes for row in result.rows] == [None, 1.0]
+    app = make_app()
+    async with app.run_test(size=(140, 40)) as pilot:
+        app.push_screen(SweepScreen(tmp_path / "sweep.json"))
+        await pilot.pause()
+        table = app.screen.query_one(DataTable)
+        headers = [str(column.label) for column in table.columns.values()]
+        assert headers[-1] == "shrunk"
+        assert table.get_row_at(0)[-1] == "full"
+        assert table.get_row_at(1)[-1] == "values only, codebook8"

@@ -14,7 +14,6 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
-
 from pilot_steps import finish, learn_beforehand, paste
 
 from foretype.tui.learning import learning_sources

@@ -11,9 +11,7 @@ from __future__ import annotations
 from fractions import Fraction
 
 import pytest
-
 from pilot_steps import paste
-
 from textual import events
 
 from foretype.tui.keys import CHORDS_FROM_ESCAPE_DIGITS

@@ -21,7 +21,7 @@ from textual.screen import Screen
 from textual.widgets import Footer, Header, ProgressBar, Static
 from textual.worker import get_current_worker
 
-from foretype.cli.output import read_text_file
+from foretype.counting.corpus import read_text_file
 from foretype.errors import ForetypeError
 from foretype.simulate import SavingsReport, TypistSettings, WordTrace, simulate
 

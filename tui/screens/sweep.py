@@ -3,7 +3,9 @@
 The chart draws keystroke savings (left axis, percent) and p99 suggestion
 latency (right axis, microseconds) against vocabulary size, one pair of lines
 per method; the vocabulary axis is logarithmic when the sizes span a factor of
-four or more.  The table lists every row.
+four or more.  A sweep with a size axis (``--keep-bytes``) is drawn as savings
+against model bytes instead (log scale), one line per method, pruning
+criterion and value encoding.  The table lists every row.
 """
 
 from __future__ import annotations
@@ -21,6 +23,7 @@ from textual_plotext import PlotextPlot
 
 from foretype.chart import has_learning
 from foretype.errors import ForetypeError
+from foretype.size_chart import size_lines
 
 from ..files import SweepFile, read_sweep
 from ..formatting import count, file_size, signed_percent
@@ -32,6 +35,8 @@ if TYPE_CHECKING:
 COLUMNS = ("method", "vocabulary", "KSR", "oracle", "baseline", "p50 µs", "p99 µs", "perplexity", "OOV", "file", "memory")
 """The table's columns."""
 LEARNING_COLUMNS = COLUMNS[:4] + ("learning",) + COLUMNS[4:]
+SIZE_COLUMNS = ("shrunk",)
+"""Added for a sweep with a size axis: how the model was shrunk (criterion, share of the full model's bytes, values)."""
 """The columns of a sweep run with ``--adapt``: the KSR of a typist whose user model learns as they go comes after the oracle."""
 
 
@@ -49,8 +54,16 @@ def _bytes(value: Any) -> str:
     return "n/a" if value is None else file_size(int(value))
 
 
-def table_row(row: dict[str, Any], learning: bool = False) -> tuple[str, ...]:
-    """One sweep row as table cells (missing values read "n/a"), with the learning cell when asked."""
+def shrunk_cell(row: dict[str, Any]) -> str:
+    """How a size-sweep row's model was shrunk ("full" for the full model)."""
+    if row.get("keep_bytes") is None:
+        return "full"
+    how = "values only" if row.get("criterion") in (None, "none") else f"{row['criterion']} to {float(row['keep_bytes']):g}"
+    return f"{how}, {row.get('value_encoding', '')}"
+
+
+def table_row(row: dict[str, Any], learning: bool = False, sized: bool = False) -> tuple[str, ...]:
+    """One sweep row as table cells (missing values read "n/a"), with the learning and shrunk cells when asked."""
     return (
         str(row.get("method", "")),
         count(int(row["vocab_size"])),
@@ -64,7 +77,25 @@ def table_row(row: dict[str, Any], learning: bool = False) -> tuple[str, ...]:
         _share(row.get("oov_rate")),
         _bytes(row.get("file_bytes")),
         _bytes(row.get("rss_bytes")),
+        *((shrunk_cell(row),) if sized else ()),
     )
+
+
+def draw_size_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
+    """Draw savings against model bytes (log scale), one line per method, criterion and value encoding."""
+    plt = plot.plt
+    plt.clear_figure()
+    sizes = []
+    for key, members in size_lines(sweep.rows).items():
+        sizes.extend(float(r["file_bytes"]) for r in members)
+        plt.plot([float(r["file_bytes"]) for r in members], [100 * float(r["ksr"]) for r in members], marker="braille", label=", ".join(key))
+    if sizes:
+        plt.xscale("log")
+        ticks = sorted(set(sizes))
+        plt.xticks(ticks, [file_size(int(t)) for t in ticks])
+    plt.xlabel("model file bytes (log scale)")
+    plt.title("keystroke savings (%) by model size")
+    plot.refresh()
 
 
 def draw_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
@@ -176,9 +207,10 @@ class SweepScreen(Screen[None]):
         self.sweep = sweep
         table = self.query_one(DataTable)
         learning = has_learning(sweep.rows)
+        sized = any(r.get("keep_bytes") is not None for r in sweep.rows)
         table.clear(columns=True)
-        table.add_columns(*(LEARNING_COLUMNS if learning else COLUMNS))
-        table.add_rows(table_row(r, learning) for r in sweep.rows)
+        table.add_columns(*(LEARNING_COLUMNS if learning else COLUMNS), *(SIZE_COLUMNS if sized else ()))
+        table.add_rows(table_row(r, learning, sized) for r in sweep.rows)
         notes = [f"{path.name}: {len(sweep.rows)} rows"]
         if sweep.test:
             notes.append(f"test {Path(sweep.test).name}")
@@ -190,5 +222,8 @@ class SweepScreen(Screen[None]):
         self.query_one("#sweep-note", Static).update(" · ".join(notes))
         self.query_one("#sweep-choose").display = False
         self.query_one("#sweep-results").display = True
-        draw_chart(self.query_one(PlotextPlot), sweep)
+        if sized:
+            draw_size_chart(self.query_one(PlotextPlot), sweep)
+        else:
+            draw_chart(self.query_one(PlotextPlot), sweep)
         table.focus()

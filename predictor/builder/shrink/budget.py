@@ -1,0 +1,92 @@
+"""Model bytes before writing, and the search for the pruning strength that fits a byte budget."""
+
+from __future__ import annotations
+
+import json
+from collections.abc import Callable, Mapping
+from typing import Any
+
+import numpy as np
+
+from ...arrays import offsets_dtype, word_id_dtype
+from .quantise import CODEBOOK8, LEVELS
+from .tables import BackoffTables
+
+_ALIGN = 64
+_PREAMBLE = 24
+_ENTRY_BYTES = 150
+"""An upper bound on one section's entry in the JSON header (name, dtype, shape, offset, size, checksum)."""
+
+
+def _aligned(n: int) -> int:
+    return (n + _ALIGN - 1) // _ALIGN * _ALIGN
+
+
+def file_bytes_of(meta: Mapping[str, Any], section_bytes: Mapping[str, int]) -> int:
+    """An upper bound, within a few hundred bytes, on the size of the model file these sections make.
+
+    Args:
+        meta: the header fields.
+        section_bytes: name -> bytes of each section.
+    """
+    header = len(json.dumps(dict(meta), sort_keys=True, separators=(",", ":")).encode("utf-8")) + _ENTRY_BYTES * len(section_bytes) + 64
+    return _aligned(_PREAMBLE + header) + sum(_aligned(n) for n in section_bytes.values())
+
+
+def level_bytes(tables: BackoffTables, encoding: str, ranked_min: int) -> dict[str, int]:
+    """Bytes of the sections that depend on which n-grams are stored (levels, codebooks, ranked lists)."""
+    size = tables.size
+    word = word_id_dtype(size).itemsize
+    value = {"float32": 4, "log16": 2, CODEBOOK8: 1}[encoding]
+    n2, n3 = tables.n2, tables.n3
+    counts2 = np.diff(tables.off2)
+    counts3 = np.diff(tables.off3)
+    big2 = np.flatnonzero(counts2 > ranked_min)
+    big3 = np.flatnonzero(counts3 > ranked_min)
+    listed2 = _suggestable(tables.w2, tables.off2, big2, size)
+    listed3 = _suggestable(tables.w3, tables.off3, big3, size)
+    out = {
+        "p1": 4 * (size + 2),
+        "l2.off": offsets_dtype(n2).itemsize * (size + 4),
+        "l2.word": word * n2,
+        "l2.value": value * n2,
+        "l2.gamma": 4 * (size + 3),
+        "l3.off": offsets_dtype(n3).itemsize * (n2 + 2),
+        "l3.word": word * n3,
+        "l3.value": value * n3,
+        "l3.gamma": 4 * (n2 + 1),
+        "rank2.off": offsets_dtype(listed2).itemsize * (size + 4),
+        "rank2.ids": word * listed2,
+        "rank3.slot": offsets_dtype(n2 + 1).itemsize * len(big3),
+        "rank3.off": offsets_dtype(listed3).itemsize * (len(big3) + 1),
+        "rank3.ids": word * listed3,
+    }
+    if encoding == CODEBOOK8:
+        out["l2.codebook"] = out["l3.codebook"] = 8 * LEVELS
+    return out
+
+
+def _suggestable(words: np.ndarray, offsets: np.ndarray, contexts: np.ndarray, size: int) -> int:
+    """How many ids below V the given contexts store (what their ranked lists hold)."""
+    if not len(contexts):
+        return 0
+    below = np.concatenate(([0], np.cumsum(words < size)))
+    return int((below[offsets[contexts + 1]] - below[offsets[contexts]]).sum())
+
+
+def search_removals(total: int, size_after: Callable[[int], int], budget: int) -> int:
+    """The fewest removals m in [0, total] with ``size_after(m) <= budget`` (binary search; size falls as m grows).
+
+    Returns:
+        m, or -1 when even ``size_after(total)`` exceeds the budget.
+    """
+    if size_after(total) > budget:
+        return -1
+    low, high = 0, total
+    while low < high:
+        middle = (low + high) // 2
+        if size_after(middle) <= budget:
+            high = middle
+        else:
+            low = middle + 1
+    return low
