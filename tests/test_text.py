@@ -82,7 +82,7 @@ def test_case_is_folded_for_modelling():
 
 
 def test_the_cursor_rule_splits_complete_words_from_the_partial_word():
-    # Issue 2: text ending inside a word completes it; after whitespace the prefix is empty;
+    # docs/models.md: text ending inside a word completes it; after whitespace the prefix is empty;
     # after a sentence end the context starts afresh.
     assert split_before_cursor("see you at the sta") == (["see", "you", "at", "the"], "sta")
     assert split_before_cursor("see you at the ") == (["see", "you", "at", "the"], "")
@@ -105,7 +105,7 @@ def display(model: foretype.LanguageModel, word: str) -> str:
 
 
 def test_display_forms_keep_the_capitals_of_i_names_and_places(kjv_model):
-    # Issue 2: each word keeps its most frequent written form ("I", place names).
+    # docs/models.md: each word keeps its most frequent written form ("I", place names).
     assert display(kjv_model, "i") == "I"
     assert display(kjv_model, "god") == "God"
     assert display(kjv_model, "israel") == "Israel"
@@ -117,7 +117,7 @@ def test_display_forms_keep_the_capitals_of_i_names_and_places(kjv_model):
 
 
 def test_sentence_initial_capitals_do_not_count_as_a_words_own_form(kjv_model):
-    # Issue 2: "Moreover" opens 16 sentences here and "moreover" appears 6 times elsewhere: the
+    # docs/models.md: "Moreover" opens 16 sentences here and "moreover" appears 6 times elsewhere: the
     # display form is the non-initial one.  "Notwithstanding" appears only at sentence starts,
     # so it is shown in lower case; "And" starts 3,198 sentences but "and" is its form.
     assert display(kjv_model, "moreover") == "moreover"

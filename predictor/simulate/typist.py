@@ -26,6 +26,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import OptionError
+from ..query.model import Suggestion
 from ..query.source import SuggestionSource
 from ..text import capitalise, model_form
 from .editing import gap_keystrokes, latest_useful_pick
