@@ -209,7 +209,7 @@ def _check_meta(name: object, meta: dict[str, Any]) -> int:
         raise ModelFileError(f"{name}: corrupt header (bad corpus_tokens)")
     if not isinstance(meta["interpolated"], bool) or not isinstance(meta["method"], str):
         raise ModelFileError(f"{name}: corrupt header (bad method)")
-    if meta["value_encoding"] not in _VALUE_TYPES:
+    if not isinstance(meta["value_encoding"], str) or meta["value_encoding"] not in _VALUE_TYPES:
         raise ModelFileError(f"{name}: corrupt header (unknown value encoding {meta['value_encoding']!r})")
     return int(size)
 
