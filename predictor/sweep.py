@@ -49,7 +49,7 @@ from .errors import CapacityError, OptionError
 from .estimate import METHODS
 from .query.model import load
 from .simulate import TypistSettings, read_passage, simulate
-from .simulate.writing import prepare_folder, write_text_atomic
+from .outputs import prepare_folder, write_text_atomic
 from .size_chart import size_chart
 
 DEFAULT_VOCAB_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)

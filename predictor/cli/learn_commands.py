@@ -8,6 +8,8 @@ from __future__ import annotations
 
 import argparse
 import math
+from contextlib import nullcontext, redirect_stdout
+import sys
 import time
 from pathlib import Path
 from typing import Any
@@ -16,7 +18,8 @@ from ..counting.corpus import read_text_file
 from ..errors import OptionError
 from ..query.model import LanguageModel
 from ..text import iter_sentences
-from .output import add_json_option, open_model, positive_int, print_json, progress_bar
+from ..outputs import check_output, is_stdout
+from .output import add_force_option, add_json_option, is_learned_export, is_learned_file, open_model, positive_int, print_json, progress_bar
 
 SECONDS_PER_DAY = 86_400
 
@@ -62,7 +65,8 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--learning", choices=("on", "off"), help="switch learning on or off (kept in the learned file)")
     p.add_argument("--min-uses", type=positive_int, metavar="N", help="uses before a word new to the model is suggested")
     p.add_argument("--half-life", type=_half_life, default=argparse.SUPPRESS, metavar="TOKENS", help="let counts halve after TOKENS more learned tokens ('none': never)")
-    p.add_argument("--export", metavar="FILE", help="write everything learned to a plain JSON file")
+    p.add_argument("--export", metavar="FILE", help="write everything learned to a plain JSON file ('-': standard output)")
+    add_force_option(p, "the --export file")
     p.add_argument("--wipe", action="store_true", help="delete the learned file")
     add_json_option(p)
     p.set_defaults(handler=run_learned)
@@ -96,6 +100,8 @@ def run_learned(args: argparse.Namespace) -> int:
         else:
             print(f"removed {path}: everything learned is gone" if removed else f"no learned file at {path}: nothing to remove")
         return 0
+    if args.export:
+        check_output(args.export, inputs=[args.model, path, args.learn], kind=is_learned_export, kind_name="learned export", force=args.force, option="--export")
     base = open_model(args.model)
     changes: list[str] = []
     if _changes_asked(args):
@@ -110,18 +116,19 @@ def run_learned(args: argparse.Namespace) -> int:
         changes.append(f"exported to {args.export}: {exported['words']:,} words, {exported['bigrams']:,} bigrams, {exported['trigrams']:,} trigrams")
     facts = learned_file_facts(path)
     summary = _summary(model, base, path, facts, args.words)
-    if args.json:
+    if args.json and not (args.export and is_stdout(args.export)):
         summary["changes"] = changes
         summary["note"] = PRIVACY_NOTE
         print_json(summary)
         return 0
+    stream = sys.stderr if args.export and is_stdout(args.export) else sys.stdout
     for line in changes:
-        print(line)
+        print(line, file=stream)
     if changes:
-        print()
-    print(_format_summary(summary))
-    print()
-    print(PRIVACY_NOTE)
+        print(file=stream)
+    print(_format_summary(summary), file=stream)
+    print(file=stream)
+    print(PRIVACY_NOTE, file=stream)
     return 0
 
 
@@ -222,6 +229,7 @@ def add_adapt_options(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--adapt", action="store_true", help="the typist's words feed a user model as they go; reports KSR with and without, and a curve")
     parser.add_argument("--user", metavar="FILE", help="with --adapt: start from this learned file (read only; never changed)")
     parser.add_argument("--save-user", metavar="FILE", help="with --adapt: write what the simulated typist's user model learned to FILE")
+    add_force_option(parser, "the --trace and --save-user files")
     parser.add_argument("--block", type=positive_int, default=500, metavar="N", help="with --adapt: words per block of the savings curve (default 500)")
 
 
@@ -241,10 +249,10 @@ def run_adaptive_savings(args: argparse.Namespace, model: LanguageModel, text: s
     from ..adapt.simulation import format_adaptation, simulate_adaptive
     from ..adapt.store import load_learned, save_learned
     from ..simulate import format_report, write_trace
-    from ..simulate.writing import check_writable_file
 
     if args.save_user:
-        check_writable_file(args.save_user)
+        model_path = getattr(args, "model_path", None)
+        check_output(args.save_user, inputs=[model_path, getattr(args, "text_path", None), args.user, args.trace], kind=is_learned_file, kind_name="learned file", force=args.force, option="--save-user")
     start = load_learned(args.user, model, must_exist=True) if args.user else AdaptedModel(model)
     with progress_bar("typing the test text, learning as it goes") as update:
         result = simulate_adaptive(model, text, settings, update, start=start, block_words=args.block)
@@ -252,16 +260,17 @@ def run_adaptive_savings(args: argparse.Namespace, model: LanguageModel, text: s
         write_trace(args.trace, result.adapted.trace)
     if args.save_user:
         save_learned(start, args.save_user)
-    if args.json:
-        payload = result.adapted.to_json()
-        payload["adaptation"] = result.to_json()
-        print_json(payload)
-        return 0
-    print(format_report(result.adapted))
-    print()
-    print(format_adaptation(result))
-    if args.trace:
-        print(f"trace: {args.trace} ({len(result.adapted.trace):,} lines)")
-    if args.save_user:
-        print(f"wrote what the simulated typist learned to {args.save_user}")
+    with redirect_stdout(sys.stderr) if args.trace and is_stdout(args.trace) else nullcontext():
+        if args.json:
+            payload = result.adapted.to_json()
+            payload["adaptation"] = result.to_json()
+            print_json(payload)
+            return 0
+        print(format_report(result.adapted))
+        print()
+        print(format_adaptation(result))
+        if args.trace:
+            print(f"trace: {args.trace} ({len(result.adapted.trace):,} lines)")
+        if args.save_user:
+            print(f"wrote what the simulated typist learned to {args.save_user}")
     return 0

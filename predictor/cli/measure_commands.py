@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 import sys
 from collections.abc import Callable
-from contextlib import AbstractContextManager
+from contextlib import AbstractContextManager, nullcontext, redirect_stdout
 from pathlib import Path
 from typing import TYPE_CHECKING
 
@@ -13,11 +13,14 @@ from ..counting.corpus import read_text_file
 from ..errors import CorpusError
 from ..estimate import METHODS
 from ..simulate import TEXT_MODES, TypistSettings, format_report, simulate, write_trace
-from ..simulate.writing import check_writable_file
+from ..outputs import check_output, check_output_folder, is_stdout
+from ..simulate.report import is_trace_file
 from ..text import WORD_RE
 from .learn_commands import add_adapt_options, check_adapt_options, run_adaptive_savings
 from .output import (
+    add_force_option,
     add_json_option,
+    is_learned_file,
     open_model,
     positive_int,
     print_json,
@@ -95,13 +98,14 @@ def register(commands: argparse._SubParsersAction) -> None:
         description="Count the corpus once, then for each vocabulary size and method build a model and measure its size, "
         "memory, build and load time, perplexity, OOV rate, keystroke savings and suggestion latency on TESTFILE. "
         "Writes DIR/sweep.csv, DIR/sweep.json and the chart DIR/sweep.svg as each row finishes, and the models as "
-        "DIR/METHOD-vSIZE.model. Example: foretype sweep corpus/ --test heldout.txt --vocab-sizes 1000,5000,20000 --out sweep/",
+        "DIR/METHOD-vSIZE.model. Example: foretype sweep corpus/ --test heldout.txt --vocab-sizes 1000,5000,20000 -o sweep/",
     )
     p.add_argument("corpus", nargs="+", help="text files or folders of them")
     p.add_argument("--test", required=True, metavar="TESTFILE", help="the held-out text to type and score")
     p.add_argument("--vocab-sizes", default="1000,2000,5000,10000,20000,50000", metavar="N,N,...", help="vocabulary sizes (default 1000,2000,5000,10000,20000,50000)")
     p.add_argument("--methods", default="kneser-ney", metavar="M,M,...", help=f"estimators, comma-separated, from {', '.join(METHODS)} (default kneser-ney)")
-    p.add_argument("--out", required=True, metavar="DIR", help="folder for the results and models (created if needed)")
+    p.add_argument("-o", "--output", required=True, metavar="DIR", help="folder for the results and models (created if needed; its parent must exist)")
+    add_force_option(p, "the output folder's contents")
     p.add_argument(
         "--adapt",
         action="store_true",
@@ -120,6 +124,11 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.set_defaults(handler=run_sweep_command)
 
 
+def is_sweep_folder(folder: Path) -> bool:
+    """Tell whether a folder holds an earlier sweep's results (so a new sweep may write into it)."""
+    return (folder / "sweep.json").is_file()
+
+
 def _read_test_text(path: str) -> str:
     """Read the text to type, failing with the file's name when it holds no words."""
     text = read_text_file(path)
@@ -133,8 +142,11 @@ def run_savings(args: argparse.Namespace) -> int:
     settings = _settings(args)
     check_adapt_options(args)
     model_path, (text_path,) = split_model_argument(args.args, 1, "savings")
+    args.model_path, args.text_path = model_path, text_path
     if args.trace:
-        check_writable_file(args.trace)
+        check_output(args.trace, inputs=[model_path, text_path, args.user, args.save_user], kind=is_trace_file, kind_name="trace", force=args.force, option="--trace")
+    if args.save_user:
+        check_output(args.save_user, inputs=[model_path, text_path, args.user], kind=is_learned_file, kind_name="learned file", force=args.force, option="--save-user")
     text = _read_test_text(text_path)
     model = open_model(model_path)
     if args.adapt:
@@ -143,13 +155,21 @@ def run_savings(args: argparse.Namespace) -> int:
         report = simulate(model, text, settings, update)
     if args.trace:
         write_trace(args.trace, report.trace)
-    if args.json:
-        print_json(report.to_json())
-    else:
-        print(format_report(report))
-        if args.trace:
-            print(f"trace: {args.trace} ({len(report.trace):,} lines)")
+    with report_stream(args.trace):
+        if args.json:
+            print_json(report.to_json())
+        else:
+            print(format_report(report))
+            if args.trace:
+                print(f"trace: {args.trace} ({len(report.trace):,} lines)")
     return 0
+
+
+def report_stream(trace: str | None) -> AbstractContextManager[object]:
+    """Where the report goes: stdout, or stderr when the trace is written to stdout."""
+    if trace and is_stdout(trace):
+        return redirect_stdout(sys.stderr)
+    return nullcontext()
 
 
 class _Stages:
@@ -186,6 +206,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
     criteria = [c.strip() for c in args.prune.split(",") if c.strip()]
     shares = parse_shares(args.keep_bytes) if args.keep_bytes.strip() else []
     encodings = parse_encodings(args.values) if args.values.strip() else []
+    check_output_folder(args.output, inputs=[*args.corpus, args.test], kind=is_sweep_folder, kind_name="sweep results", force=args.force)
     text = _read_test_text(args.test)
     stages = _Stages()
 
@@ -204,7 +225,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
         result = run_sweep(
             args.corpus,
             text,
-            out=args.out,
+            out=args.output,
             vocab_sizes=sizes,
             methods=methods,
             settings=settings,
@@ -223,7 +244,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
         return 0
     print(f"corpus: {result.corpus_tokens:,} tokens, counted once in {result.counting_seconds:.1f} s; test: {args.test}; k={settings.k}, {settings.text_mode} mode")
     print(format_table(result.rows))
-    out = Path(args.out)
+    out = Path(args.output)
     size_chart = f", {out / 'size.svg'}" if shares else ""
     print(f"wrote {out / 'sweep.csv'}, {out / 'sweep.json'}, {out / 'sweep.svg'}{size_chart}")
     print("RSS = resident memory the model costs: RSS growth across loading it plus the mapped file pages its queries touched (psutil; approximate).")

@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 import argparse
+import json
+import sys
 import time
 from pathlib import Path
 from typing import Any
@@ -15,6 +17,7 @@ from ..errors import OptionError
 from ..estimate import METHODS
 from ..modelfile.encoding import ENCODINGS
 from ..modelfile.format import check_target
+from ..outputs import is_stdout
 from ..query.model import load
 from ..query.verify import verify_model
 from .output import (
@@ -37,7 +40,8 @@ def register(commands: argparse._SubParsersAction) -> None:
         "Example: foretype build corpus/*.txt -o chat.model --vocab-size 20000",
     )
     p.add_argument("corpus", nargs="+", help="text files or folders of them")
-    p.add_argument("-o", "--output", required=True, help="the model file to write (replaced only when the build succeeds)")
+    p.add_argument("-o", "--output", required=True, help="the model file to write ('-': standard output; an existing model is replaced only when the build succeeds)")
+    p.add_argument("--force", action="store_true", help="replace the output even when it is an existing file that is not a model")
     p.add_argument("--vocab-size", type=positive_int, default=None, metavar="N", help="keep the N most frequent words")
     p.add_argument("--min-count", type=positive_int, default=1, metavar="C", help="drop words seen fewer than C times (default 1)")
     p.add_argument("--method", choices=METHODS, default="kneser-ney", help="estimator (default kneser-ney)")
@@ -115,8 +119,9 @@ def _memory_size(text: str) -> int:
 def run_build(args: argparse.Namespace) -> int:
     """foretype build."""
     started = time.perf_counter()
-    check_target(args.output)  # fail before reading a corpus, not after
-    spill_dir = args.spill_dir if args.spill_dir is not None else (str(Path(args.output).parent) or ".")
+    check_target(args.output, inputs=args.corpus, force=args.force)  # fail before reading a corpus, not after
+    to_stdout = is_stdout(args.output)
+    spill_dir = args.spill_dir if args.spill_dir is not None else (("." if to_stdout else str(Path(args.output).parent)) or ".")
     counted: dict[str, int] = {}
 
     def note_counts(counts: CorpusCounts) -> None:
@@ -139,9 +144,9 @@ def run_build(args: argparse.Namespace) -> int:
             on_counted=note_counts,
             cutoffs=args.cutoffs,
         )
-    size = model.save(args.output)
+    size = model.save(args.output, force=args.force)
     seconds = time.perf_counter() - started
-    info = load(args.output).info()
+    info = model.info()
     tokens = info["corpus_tokens"]
     summary = {
         "model": str(Path(args.output)),
@@ -158,7 +163,9 @@ def run_build(args: argparse.Namespace) -> int:
         "seconds": round(seconds, 3),
         "tokens_per_second": round(tokens / seconds) if seconds > 0 else None,
     }
-    if args.json:
+    if to_stdout:  # the model went to stdout: the summary goes to stderr
+        print(json.dumps(summary) if args.json else f"wrote a model to standard output: {size:,} bytes", file=sys.stderr)
+    elif args.json:
         print_json(summary)
     else:
         n = info["ngrams"]

@@ -7,6 +7,7 @@ import json
 import sys
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
+from pathlib import Path
 from typing import Any
 
 from ..errors import OptionError
@@ -101,3 +102,32 @@ def positive_int(text: str) -> int:
     if value < 1:
         raise argparse.ArgumentTypeError(f"must be at least 1, got {value}")
     return value
+
+
+def add_force_option(parser: argparse.ArgumentParser, what: str) -> None:
+    """Add ``--force``: replace an existing file at an output path even when it is not of the kind written."""
+    parser.add_argument("--force", action="store_true", help=f"replace {what} even when the path holds a file of another kind")
+
+
+LEARNED_FILE_STARTS = (b"foretype-learned", b"SQLite format 3\x00")
+"""How a learned file starts (the line-based store, or an SQLite database)."""
+
+
+def is_learned_file(path: Path) -> bool:
+    """Tell whether a file looks like a learned file (so ``--save-user`` may replace it)."""
+    try:
+        with open(path, "rb") as handle:
+            start = handle.read(32)
+    except OSError:
+        return False
+    return start.startswith(LEARNED_FILE_STARTS)
+
+
+def is_learned_export(path: Path) -> bool:
+    """Tell whether a file is a learned export (JSON with ``"format": "foretype-learned-export"``)."""
+    try:
+        with open(path, "rb") as handle:
+            payload = json.loads(handle.read())
+    except (OSError, ValueError):
+        return False
+    return isinstance(payload, dict) and payload.get("format") == "foretype-learned-export"
