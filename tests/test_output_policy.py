@@ -225,3 +225,28 @@ def test_sweep_rewrites_its_own_earlier_folder(run_cli, tmp_path: Path) -> None:
     assert run_cli("sweep", CORPUS, "--test", TEXT, "--vocab-sizes", "5,5", "-o", out).code == 0
     assert run_cli("sweep", CORPUS, "--test", TEXT, "--vocab-sizes", "4", "-o", out).code == 0
     assert json.loads((out / "sweep.json").read_text(encoding="utf-8"))["rows"][0]["vocab_size"] == 4
+
+
+# ------------------------------------------------------------ the pad's save dialog
+def test_the_pads_save_writes_into_a_fifo_and_never_replaces_a_file(tmp_path: Path) -> None:
+    from foretype.tui.files import save_new_text
+
+    fifo = tmp_path / "pipe"
+    os.mkfifo(fifo)
+    received: list[bytes] = []
+    reader = threading.Thread(target=lambda: received.append(fifo.read_bytes()))
+    reader.start()
+    save_new_text(fifo, "ferry at noon\n")
+    reader.join(timeout=30)
+    assert received == [b"ferry at noon\n"] and stat.S_ISFIFO(fifo.lstat().st_mode)
+    kept = tmp_path / "kept.txt"
+    kept.write_text("mine\n", encoding="utf-8")
+    with pytest.raises(foretype.OutputError, match="already exists"):
+        save_new_text(kept, "other\n")
+    assert kept.read_text(encoding="utf-8") == "mine\n"
+    old = os.umask(0o022)
+    try:
+        fresh = save_new_text(tmp_path / "new.txt", "x\n")
+    finally:
+        os.umask(old)
+    assert stat.S_IMODE(fresh.stat().st_mode) == 0o644  # 0666 & ~022, common practice
