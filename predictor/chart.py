@@ -68,6 +68,8 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
         subtitle = "solid: keystroke savings; dash-dot: learning as it goes; dotted: oracle; dashed: p99 latency (right axis)"
     else:
         subtitle = "solid: keystroke savings; dotted: oracle (vocabulary-limited best); dashed: p99 latency (right axis)"
+    if any(r.get("ksr_low") is not None for r in points):
+        subtitle += "; bars: 95% interval"
     if k is not None:
         subtitle = f"k = {k}. " + subtitle
     parts.append(f'<text x="{LEFT}" y="40" fill="#555555">{escape(subtitle)}</text>')
@@ -89,7 +91,7 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
         value = math.log10(size) if logarithmic else size
         return LEFT + (value - x_lo) / (x_hi - x_lo) * plot_w
 
-    savings = [100 * float(r[key]) for r in points for key in ("ksr", "oracle_ksr", "adapted_ksr") if r.get(key) is not None]
+    savings = [100 * float(r[key]) for r in points for key in ("ksr", "oracle_ksr", "adapted_ksr", "ksr_low", "ksr_high") if r.get(key) is not None]
     step = _nice_step(max(savings) - min(savings) if len(savings) > 1 else 10.0)
     y_lo = max(0.0, math.floor(min(savings) / step) * step - step)
     y_hi = min(100.0, math.ceil(max(savings) / step) * step + step)
@@ -156,6 +158,11 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
                     marker = f'<rect x="{x - 2.5:.1f}" y="{y - 2.5:.1f}" width="5" height="5" fill="{colour}"/>'
                 if marker:
                     parts.append(marker)
+        for r in mine:
+            if r.get("ksr_low") is not None and r.get("ksr_high") is not None:
+                x = x_of(float(r["vocab_size"]))
+                low, high = y_of(100 * float(r["ksr_low"])), y_of(100 * float(r["ksr_high"]))
+                parts.append(f'<path d="M{x - 4:.1f},{low:.1f}H{x + 4:.1f}M{x:.1f},{low:.1f}V{high:.1f}M{x - 4:.1f},{high:.1f}H{x + 4:.1f}" stroke="{colour}" stroke-width="1.5" fill="none"/>')
         legend_y = TOP + 16 + 16 * index
         parts.append(f'<line x1="{LEFT + 12}" y1="{legend_y - 4}" x2="{LEFT + 36}" y2="{legend_y - 4}" stroke="{colour}" stroke-width="2"/>')
         parts.append(f'<text x="{LEFT + 42}" y="{legend_y}">{escape(method)}</text>')

@@ -20,6 +20,13 @@ counts, saves it in the output folder, loads it back and measures it:
 * with adaptation, ``adapted_ksr`` and ``adapted_latency_p50_us`` /
   ``adapted_latency_p99_us``: the same typist again, each word feeding a user
   model that starts empty (:func:`foretype.adapt.simulation.simulate_adaptive`);
+  empty otherwise;
+* with ``ExtraMeasures.interval_resamples``, ``ksr_low`` / ``ksr_high``: the
+  95% interval of ``ksr`` by the bootstrap over test sentences (one bootstrap
+  per row, :func:`foretype.compare.ksr_interval`); empty otherwise;
+* with a scanning typist (``ExtraMeasures.scanning``), ``scan_steps_per_char``
+  and ``scan_wpm`` with prediction and ``scan_steps_per_char_unaided`` /
+  ``scan_wpm_unaided`` without (:func:`foretype.simulate.scanning.simulate_scanning`);
   empty otherwise.
 
 Rows are written to ``sweep.csv``, ``sweep.json`` and the chart ``sweep.svg``
@@ -44,12 +51,14 @@ from .adapt.simulation import simulate_adaptive
 from .builder import build_from_counts, check_build_options
 from .builder.shrink import CRITERIA, VALUE_ENCODINGS, shrink
 from .chart import sweep_chart
+from .compare import ksr_interval
 from .counting import count_corpus
 from .errors import CapacityError, OptionError
 from .estimate import METHODS
+from .outputs import prepare_folder, write_text_atomic
 from .query.model import load
 from .simulate import TypistSettings, read_passage, simulate
-from .outputs import prepare_folder, write_text_atomic
+from .simulate.scanning import ScanningSettings, simulate_scanning
 from .size_chart import size_chart
 
 DEFAULT_VOCAB_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)
@@ -79,6 +88,12 @@ COLUMNS = (
     "criterion",
     "value_encoding",
     "keep_bytes",
+    "ksr_low",
+    "ksr_high",
+    "scan_steps_per_char",
+    "scan_steps_per_char_unaided",
+    "scan_wpm",
+    "scan_wpm_unaided",
 )
 """The columns of ``sweep.csv`` (and the keys of each row in ``sweep.json``)."""
 
@@ -119,6 +134,12 @@ class SweepRow:
     criterion: str = "none"
     value_encoding: str = ""
     keep_bytes: float | None = None
+    ksr_low: float | None = None
+    ksr_high: float | None = None
+    scan_steps_per_char: float | None = None
+    scan_steps_per_char_unaided: float | None = None
+    scan_wpm: float | None = None
+    scan_wpm_unaided: float | None = None
 
     def to_json(self) -> dict[str, Any]:
         """The row as a JSON object with the :data:`COLUMNS` as keys."""
@@ -221,6 +242,55 @@ def _finite(value: float) -> float | None:
     return value if math.isfinite(value) else None
 
 
+@dataclass(frozen=True)
+class ExtraMeasures:
+    """Optional measurements each row of a sweep can add.
+
+    Attributes:
+        interval_resamples: bootstrap resamples for the KSR interval (0: none).
+        seed: the bootstrap's seed.
+        scanning: also simulate a scanning typist with these settings.
+    """
+
+    interval_resamples: int = 0
+    seed: int = 0
+    scanning: ScanningSettings | None = None
+
+    def __post_init__(self) -> None:
+        if self.interval_resamples < 0:
+            raise OptionError(f"interval resamples must be 0 or more, not {self.interval_resamples}")
+
+    def to_json(self) -> dict[str, Any]:
+        """What sweep.json's settings record of them (nothing when none is asked for)."""
+        found: dict[str, Any] = {}
+        if self.interval_resamples:
+            found.update(interval_resamples=self.interval_resamples, seed=self.seed)
+        if self.scanning is not None:
+            found["scanning"] = self.scanning.to_json()
+        return found
+
+    def columns(self, model: Any, test_text: str, settings: TypistSettings, report: Any) -> dict[str, Any]:
+        """The extra columns of one row, from its loaded model and its savings report (kept with traces)."""
+        found: dict[str, Any] = {}
+        if self.interval_resamples > 0:
+            interval = ksr_interval(test_text, settings, report.trace, resamples=self.interval_resamples, seed=self.seed)
+            if interval is not None:
+                found.update(ksr_low=interval[0], ksr_high=interval[1])
+        if self.scanning is not None:
+            scanned = simulate_scanning(model, test_text, settings, self.scanning).to_json()
+            found.update(
+                scan_steps_per_char=scanned["scan_steps_per_char"],
+                scan_steps_per_char_unaided=scanned["scan_steps_per_char_unaided"],
+                scan_wpm=scanned["wpm"],
+                scan_wpm_unaided=scanned["wpm_unaided"],
+            )
+        return found
+
+
+NO_EXTRAS = ExtraMeasures()
+"""A sweep row with none of the optional measurements."""
+
+
 def measure_model(
     counts: Any,
     *,
@@ -231,6 +301,7 @@ def measure_model(
     folder: Path,
     progress: Callable[[int, int], None] | None = None,
     adapt: bool = False,
+    extra: ExtraMeasures = NO_EXTRAS,
 ) -> SweepRow:
     """Build, save, load and measure one model of the sweep.
 
@@ -243,6 +314,7 @@ def measure_model(
         folder: where the model file is saved.
         progress: simulation progress, (words done, words in all).
         adapt: also simulate the typist with learning, from an empty user model.
+        extra: optional measurements (KSR interval, scanning).
 
     Returns:
         The row.
@@ -253,7 +325,7 @@ def measure_model(
     build_seconds = time.perf_counter() - started
     path = folder / f"{method}-v{vocab_size}.model"
     return measure_saved(
-        built, path, method=method, vocab_size=vocab_size, build_seconds=build_seconds, test_text=test_text, settings=settings, progress=progress, adapt=adapt
+        built, path, method=method, vocab_size=vocab_size, build_seconds=build_seconds, test_text=test_text, settings=settings, progress=progress, adapt=adapt, extra=extra
     )
 
 
@@ -269,6 +341,7 @@ def measure_saved(
     progress: Callable[[int, int], None] | None = None,
     adapt: bool = False,
     keep_bytes: float | None = None,
+    extra: ExtraMeasures = NO_EXTRAS,
 ) -> SweepRow:
     """Save a model built in memory, load it back and measure it (see :func:`measure_model`).
 
@@ -276,6 +349,7 @@ def measure_saved(
         built: the model (:class:`predictor.LanguageModel`); released once saved.
         path: where it is saved.
         keep_bytes: for a shrunk model, the share of the full model's bytes it was asked to fit.
+        extra: optional measurements (KSR interval, scanning).
     """
     file_bytes = built.save(path)
     ngrams = built.ngram_counts()
@@ -300,7 +374,7 @@ def measure_saved(
         if progress is not None:
             progress(total + done, runs * total)
 
-    report = simulate(model, test_text, settings, first_run, keep_traces=False)
+    report = simulate(model, test_text, settings, first_run, keep_traces=extra.interval_resamples > 0)
     mapped_after = _mapped_resident(path)
     if mapped_at_load is None or mapped_after is None:
         rss_bytes = max(0, _rss() - before)
@@ -332,6 +406,7 @@ def measure_saved(
         criterion=criterion,
         value_encoding=encoding,
         keep_bytes=keep_bytes,
+        **extra.columns(model, test_text, settings, report),
     )
 
 
@@ -364,6 +439,7 @@ def measure_shrunk(
     folder: Path,
     progress: Callable[[int, int], None] | None = None,
     adapt: bool = False,
+    extra: ExtraMeasures = NO_EXTRAS,
 ) -> SweepRow:
     """Shrink a sweep's full model to a share of its bytes, save it and measure it.
 
@@ -394,6 +470,7 @@ def measure_shrunk(
         progress=progress,
         adapt=adapt,
         keep_bytes=share,
+        extra=extra,
     )
 
 
@@ -432,6 +509,7 @@ def run_sweep(
     shrink_criteria: Sequence[str] = (),
     keep_bytes: Sequence[float] = (),
     value_encodings: Sequence[str] = (),
+    extra: ExtraMeasures = NO_EXTRAS,
 ) -> SweepResult:
     """Count a corpus once, then build and measure a model per method and vocabulary size.
 
@@ -453,6 +531,7 @@ def run_sweep(
         keep_bytes: shares of the full model's file bytes each shrunk model must
             fit (1 keeps every n-gram and changes only the value encoding).
         value_encodings: value encodings of the shrunk models (default: each model's own).
+        extra: optional measurements every row adds (KSR interval, scanning columns).
 
     Returns:
         The result, with ``complete`` set once every row finished.
@@ -474,7 +553,7 @@ def run_sweep(
     _check_size_axis(methods, shrink_criteria, keep_bytes, value_encodings)
     read_passage(test_text, settings.text_mode, wrapped=settings.wrapped)  # reject a word-less test text before counting
     folder = prepare_folder(out)
-    result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), "adapt": adapt})
+    result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), "adapt": adapt, **extra.to_json()})
     report = progress or (lambda stage, done, total: None)
     started = time.perf_counter()
     counts = count_corpus(corpus, wrapped=settings.wrapped, progress=lambda done, total: report("counting the corpus", done, total))
@@ -488,7 +567,7 @@ def run_sweep(
         label = _row_label(number, len(plan), method, size, step)
         report(label, 0, 0)
         moving = lambda done, total, label=label: report(label, done, total)  # noqa: E731
-        common = {"method": method, "vocab_size": size, "test_text": test_text, "settings": settings, "folder": folder, "progress": moving, "adapt": adapt}
+        common = {"method": method, "vocab_size": size, "test_text": test_text, "settings": settings, "folder": folder, "progress": moving, "adapt": adapt, "extra": extra}
         row = _measure_planned(counts, step, full, common)
         if row is None:
             report(f"{label}: skipped (below the smallest model this vocabulary allows)", 0, 0)
@@ -572,6 +651,7 @@ def format_table(rows: Sequence[SweepRow]) -> str:
     sized = any(row.keep_bytes is not None for row in rows)
     if sized:
         headers += ("shrunk", "values")
+    headers += _extra_headers(rows)
     lines = []
     for row in rows:
         line = (
@@ -598,9 +678,28 @@ def format_table(rows: Sequence[SweepRow]) -> str:
             )
         if sized:
             line += ("full" if row.keep_bytes is None else f"{row.criterion} to {row.keep_bytes:g}", row.value_encoding)
+        line += _extra_cells(row, rows)
         lines.append(line)
     widths = [max(len(h), *(len(line[i]) for line in lines)) if lines else len(h) for i, h in enumerate(headers)]
     out = ["  ".join(h.ljust(w) if i == 0 else h.rjust(w) for i, (h, w) in enumerate(zip(headers, widths)))]
     for line in lines:
         out.append("  ".join(v.ljust(w) if i == 0 else v.rjust(w) for i, (v, w) in enumerate(zip(line, widths))))
     return "\n".join(out)
+
+
+def _extra_headers(rows: Sequence[SweepRow]) -> tuple[str, ...]:
+    headers: tuple[str, ...] = ()
+    if any(row.ksr_low is not None for row in rows):
+        headers += ("KSR 95%",)
+    if any(row.scan_steps_per_char is not None for row in rows):
+        headers += ("scan steps/char", "unaided", "scan wpm", "unaided wpm")
+    return headers
+
+
+def _extra_cells(row: SweepRow, rows: Sequence[SweepRow]) -> tuple[str, ...]:
+    cells: tuple[str, ...] = ()
+    if any(r.ksr_low is not None for r in rows):
+        cells += ("" if row.ksr_low is None or row.ksr_high is None else f"{100 * row.ksr_low:.1f}-{100 * row.ksr_high:.1f}%",)
+    if any(r.scan_steps_per_char is not None for r in rows):
+        cells += tuple("" if v is None else f"{v:.2f}" for v in (row.scan_steps_per_char, row.scan_steps_per_char_unaided, row.scan_wpm, row.scan_wpm_unaided))
+    return cells

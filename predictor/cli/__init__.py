@@ -16,7 +16,17 @@ from collections.abc import Sequence
 
 from ..errors import ForetypeError, OptionError
 
-COMMAND_MODULES = ("model_commands", "measure_commands", "learn_commands", "run_commands", "shrink_commands")
+COMMAND_MODULES = (
+    "model_commands",
+    "measure_commands",
+    "compare_commands",
+    "learn_commands",
+    "run_commands",
+    "shrink_commands",
+    "arpa_commands",
+    "serve_commands",
+    "study_commands",
+)
 """The modules whose ``register(subparsers)`` adds commands, in help order."""
 
 INTERNAL_ERROR = 70

@@ -10,12 +10,13 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from ..counting.corpus import read_text_file
-from ..errors import CorpusError
+from ..errors import CorpusError, OptionError
 from ..estimate import METHODS
-from ..simulate import TEXT_MODES, TypistSettings, format_report, simulate, write_trace
 from ..outputs import check_output, check_output_folder, is_stdout
+from ..simulate import TEXT_MODES, TypistSettings, format_report, simulate, write_trace
 from ..simulate.report import is_trace_file
 from ..text import WORD_RE
+from .access_options import add_access_options, run_scanning_savings, scanning_settings
 from .learn_commands import add_adapt_options, check_adapt_options, run_adaptive_savings
 from .output import (
     add_force_option,
@@ -88,6 +89,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--key-seconds", type=_number, default=1.0, metavar="S", help="seconds per keystroke in the time estimate (default 1.0)")
     p.add_argument("--scan-seconds", type=_number, default=0.5, metavar="S", help="seconds to read a changed suggestion list (default 0.5)")
     p.add_argument("--trace", metavar="FILE", help="write one JSON line per word: keystrokes, where it was picked, the lists shown")
+    add_access_options(p)
     add_adapt_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_savings)
@@ -111,6 +113,14 @@ def register(commands: argparse._SubParsersAction) -> None:
         action="store_true",
         help="also type the test text with learning: a user model that starts empty learns each word (adds the learning KSR and latency columns)",
     )
+    p.add_argument(
+        "--ksr-interval",
+        type=_whole,
+        default=0,
+        metavar="RESAMPLES",
+        help="add each row's 95%% KSR interval by the bootstrap over test sentences with this many resamples (default 0: none)",
+    )
+    p.add_argument("--seed", type=_whole, default=0, metavar="N", help="seed of the --ksr-interval bootstrap (default 0)")
     p.add_argument("--prune", default="", metavar="C,C,...", help="the size axis: pruning criteria from entropy, prediction, count (with --keep-bytes)")
     p.add_argument(
         "--keep-bytes",
@@ -120,6 +130,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     )
     p.add_argument("--values", default="", metavar="E,E,...", help="value encodings of the shrunk models, from log16, float32, codebook8 (default: the model's)")
     _add_typist_options(p)
+    add_access_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_sweep_command)
 
@@ -143,12 +154,17 @@ def run_savings(args: argparse.Namespace) -> int:
     check_adapt_options(args)
     model_path, (text_path,) = split_model_argument(args.args, 1, "savings")
     args.model_path, args.text_path = model_path, text_path
+    scanning = scanning_settings(args)
+    if scanning is not None and (args.adapt or args.trace):
+        raise OptionError("--access scanning takes neither --adapt nor --trace")
     if args.trace:
         check_output(args.trace, inputs=[model_path, text_path, args.user, args.save_user], kind=is_trace_file, kind_name="trace", force=args.force, option="--trace")
     if args.save_user:
         check_output(args.save_user, inputs=[model_path, text_path, args.user], kind=is_learned_file, kind_name="learned file", force=args.force, option="--save-user")
     text = _read_test_text(text_path)
     model = open_model(model_path)
+    if scanning is not None:
+        return run_scanning_savings(args, model, text, settings, scanning)
     if args.adapt:
         return run_adaptive_savings(args, model, text, settings)
     with progress_bar("typing the test text") as update:
@@ -198,11 +214,12 @@ class _Stages:
 def run_sweep_command(args: argparse.Namespace) -> int:
     """foretype sweep."""
     from ..builder.shrink import parse_encodings
-    from ..sweep import format_table, parse_methods, parse_shares, parse_vocab_sizes, run_sweep
+    from ..sweep import ExtraMeasures, format_table, parse_methods, parse_shares, parse_vocab_sizes, run_sweep
 
     settings = _settings(args)
     sizes = parse_vocab_sizes(args.vocab_sizes)
     methods = parse_methods(args.methods)
+    scanning = scanning_settings(args)
     criteria = [c.strip() for c in args.prune.split(",") if c.strip()]
     shares = parse_shares(args.keep_bytes) if args.keep_bytes.strip() else []
     encodings = parse_encodings(args.values) if args.values.strip() else []
@@ -236,6 +253,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
             shrink_criteria=criteria,
             keep_bytes=shares,
             value_encodings=encodings,
+            extra=ExtraMeasures(args.ksr_interval, args.seed, scanning),
         )
     finally:
         stages.close()
