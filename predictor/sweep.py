@@ -202,7 +202,7 @@ def parse_vocab_sizes(text: str) -> list[int]:
         sizes.append(value)
     if not sizes:
         raise OptionError("--vocab-sizes is empty")
-    return sizes
+    return list(dict.fromkeys(sizes))  # a size given twice is built once
 
 
 def parse_methods(text: str) -> list[str]:

@@ -232,7 +232,7 @@ def test_build_suggest_score_and_info_print_the_documented_json(verses_file, tmp
     _, heldout = kjv_split()
     text = write_lines(heldout[:100], tmp_path / "heldout.txt")
     scored = json.loads(run_cli("score", model, text, "--json").out)
-    assert set(scored) == {"sentences", "tokens", "oov", "oov_rate", "cross_entropy_bits", "perplexity"}
+    assert set(scored) == {"wrapped", "sentences", "tokens", "oov", "oov_rate", "cross_entropy_bits", "perplexity"}
     assert scored["perplexity"] == pytest.approx(2 ** scored["cross_entropy_bits"])
     direct = foretype.load(model).score(text.read_text(encoding="utf-8"))
     assert scored["tokens"] == direct.tokens and scored["perplexity"] == pytest.approx(direct.perplexity)

@@ -85,7 +85,7 @@ def test_savings_rejects_a_test_file_without_words(run_cli, worked_model_file: P
     empty = write_file(content, "empty.txt")
     result = run_cli("savings", worked_model_file, empty)
     assert result.code == foretype.CorpusError.exit_code
-    assert result.err.strip() == f"foretype: {empty}: holds no words to type"
+    assert result.err.strip() == f"foretype: {empty}: holds no words"
 
 
 def test_savings_rejects_an_unwritable_trace_before_simulating(run_cli, worked_model_file: Path, tmp_path: Path) -> None:
@@ -126,7 +126,7 @@ def test_sweep_rejects_a_test_file_without_words(run_cli, write_file, tmp_path: 
     empty = write_file("?!\n", "empty.txt")
     result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", empty, "-o", tmp_path / "out")
     assert result.code == foretype.CorpusError.exit_code
-    assert result.err.strip() == f"foretype: {empty}: holds no words to type"
+    assert result.err.strip() == f"foretype: {empty}: holds no words"
 
 
 def test_sweep_prints_the_table_and_writes_its_files(run_cli, tmp_path: Path) -> None:

@@ -15,6 +15,7 @@ import sys
 from collections.abc import Sequence
 
 from ..errors import ForetypeError, OptionError
+from ..version import __version__
 
 COMMAND_MODULES = (
     "model_commands",
@@ -37,7 +38,8 @@ class _Parser(argparse.ArgumentParser):
     """An argument parser whose usage errors are one line and exit code 2."""
 
     def error(self, message: str) -> None:  # type: ignore[override]
-        print(f"foretype: {message} (see 'foretype {self._command()} --help')", file=sys.stderr)
+        command = " ".join(["foretype", self._command()]).strip()
+        print(f"foretype: {message} (see '{command} --help')", file=sys.stderr)
         raise SystemExit(OptionError.exit_code)
 
     def _command(self) -> str:
@@ -51,6 +53,7 @@ def make_parser() -> argparse.ArgumentParser:
         description="Train trigram models for predictive text entry and measure what they save. "
         "With no command, opens the typing pad on the demo model.",
     )
+    parser.add_argument("--version", action="version", version=f"foretype {__version__}")
     commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     for name in COMMAND_MODULES:
         importlib.import_module(f"{__name__}.{name}").register(commands)

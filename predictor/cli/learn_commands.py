@@ -14,12 +14,11 @@ import time
 from pathlib import Path
 from typing import Any
 
-from ..counting.corpus import read_text_file
 from ..errors import OptionError
 from ..query.model import LanguageModel
 from ..text import iter_sentences
 from ..outputs import check_output, is_stdout
-from .output import add_force_option, add_json_option, is_learned_export, is_learned_file, open_model, positive_int, print_json, progress_bar
+from .output import add_force_option, add_json_option, is_learned_export, is_learned_file, open_model, positive_int, print_json, progress_bar, read_words
 
 SECONDS_PER_DAY = 86_400
 
@@ -56,7 +55,8 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("model", nargs="?", help="model file (default: the demo model)")
     p.add_argument("--user", metavar="FILE", help="the learned file (default: MODEL.learned beside the model)")
     p.add_argument("--words", type=positive_int, default=12, metavar="N", help="list the N most used words and new words (default 12)")
-    p.add_argument("--learn", metavar="TEXTFILE", help="learn from a text file of your own writing (kept whole or not at all)")
+    p.add_argument("--learn", metavar="TEXTFILE", help="learn from a text file of your own writing (kept whole or not at all; '-': standard input)")
+    p.add_argument("--replace-bad-bytes", action="store_true", help="with --learn: replace invalid UTF-8 instead of failing")
     p.add_argument("--never-suggest", action="append", default=[], metavar="ENTRY", help="never suggest this word, or any word matching a pattern such as 'dam*' (repeatable)")
     p.add_argument("--allow", action="append", default=[], metavar="ENTRY", help="take a word or pattern off the never-suggest list (repeatable)")
     p.add_argument("--forget", action="append", default=[], metavar="WORD", help="remove every count of a word (repeatable)")
@@ -148,7 +148,7 @@ def _apply_changes(args: argparse.Namespace, learned: Any, changes: list[str]) -
     if args.learn:
         if not learned.model.settings.learning:
             raise OptionError("learning is off for this model; switch it on with --learning on to learn from a file")
-        sentences = list(iter_sentences(read_text_file(args.learn)))
+        sentences = list(iter_sentences(read_words(args.learn, replace_bad_bytes=args.replace_bad_bytes)))
         with progress_bar(f"learning from {args.learn}") as update:
             tokens = learned.learn_sentences(sentences, progress=update)
         changes.append(f"learned {tokens:,} tokens ({len(sentences):,} sentences) from {args.learn}")

@@ -6,26 +6,29 @@ import argparse
 import sys
 from collections.abc import Callable
 from contextlib import AbstractContextManager, nullcontext, redirect_stdout
+from dataclasses import replace
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from ..counting.corpus import read_text_file
-from ..errors import CorpusError, OptionError
+from ..errors import OptionError
 from ..estimate import METHODS
 from ..outputs import check_output, check_output_folder, is_stdout
 from ..simulate import TEXT_MODES, TypistSettings, format_report, simulate, write_trace
 from ..simulate.report import is_trace_file
-from ..text import WORD_RE
 from .access_options import add_access_options, run_scanning_savings, scanning_settings
 from .learn_commands import add_adapt_options, check_adapt_options, run_adaptive_savings
 from .output import (
     add_force_option,
     add_json_option,
+    add_text_options,
+    describe_rule,
     is_learned_file,
     open_model,
     positive_int,
     print_json,
     progress_bar,
+    read_words,
+    sentence_rule,
     split_model_argument,
 )
 
@@ -58,7 +61,7 @@ def _add_typist_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--select-cost", type=_number, default=1.0, metavar="KEYS", help="keystrokes one pick costs (default 1)")
     p.add_argument("--no-autospace", dest="autospace", action="store_false", help="a pick does not write the space after the word")
     p.add_argument("--min-prefix", type=_whole, default=0, metavar="N", help="letters typed before the typist looks at suggestions (default 0)")
-    p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces (as for a model built with --wrapped)")
+    add_text_options(p)
 
 
 def _settings(args: argparse.Namespace) -> TypistSettings:
@@ -70,7 +73,7 @@ def _settings(args: argparse.Namespace) -> TypistSettings:
         min_prefix=args.min_prefix,
         key_seconds=getattr(args, "key_seconds", 1.0),
         scan_seconds=getattr(args, "scan_seconds", 0.5),
-        wrapped=args.wrapped,
+        wrapped=bool(args.wrapped),
     )
 
 
@@ -140,14 +143,6 @@ def is_sweep_folder(folder: Path) -> bool:
     return (folder / "sweep.json").is_file()
 
 
-def _read_test_text(path: str) -> str:
-    """Read the text to type, failing with the file's name when it holds no words."""
-    text = read_text_file(path)
-    if not WORD_RE.search(text):
-        raise CorpusError(f"{path}: holds no words to type")
-    return text
-
-
 def run_savings(args: argparse.Namespace) -> int:
     """foretype savings."""
     settings = _settings(args)
@@ -161,8 +156,9 @@ def run_savings(args: argparse.Namespace) -> int:
         check_output(args.trace, inputs=[model_path, text_path, args.user, args.save_user], kind=is_trace_file, kind_name="trace", force=args.force, option="--trace")
     if args.save_user:
         check_output(args.save_user, inputs=[model_path, text_path, args.user], kind=is_learned_file, kind_name="learned file", force=args.force, option="--save-user")
-    text = _read_test_text(text_path)
+    text = read_words(text_path, replace_bad_bytes=args.replace_bad_bytes)
     model = open_model(model_path)
+    settings = replace(settings, wrapped=sentence_rule(args.wrapped, model))
     if scanning is not None:
         return run_scanning_savings(args, model, text, settings, scanning)
     if args.adapt:
@@ -176,6 +172,7 @@ def run_savings(args: argparse.Namespace) -> int:
             print_json(report.to_json())
         else:
             print(format_report(report))
+            print(f"sentences read as {describe_rule(settings.wrapped)}")
             if args.trace:
                 print(f"trace: {args.trace} ({len(report.trace):,} lines)")
     return 0
@@ -224,7 +221,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
     shares = parse_shares(args.keep_bytes) if args.keep_bytes.strip() else []
     encodings = parse_encodings(args.values) if args.values.strip() else []
     check_output_folder(args.output, inputs=[*args.corpus, args.test], kind=is_sweep_folder, kind_name="sweep results", force=args.force)
-    text = _read_test_text(args.test)
+    text = read_words(args.test, replace_bad_bytes=args.replace_bad_bytes)
     stages = _Stages()
 
     def finished(row: SweepRow) -> None:

@@ -11,7 +11,6 @@ from typing import Any
 
 from ..builder import build
 from ..counting import CorpusCounts
-from ..counting.corpus import read_text_file
 from ..counting.memory import parse_size, peak_resident_bytes
 from ..errors import OptionError
 from ..estimate import METHODS
@@ -22,6 +21,10 @@ from ..query.model import load
 from ..query.verify import verify_model
 from .output import (
     add_json_option,
+    add_text_options,
+    describe_rule,
+    read_words,
+    sentence_rule,
     open_model,
     positive_int,
     print_json,
@@ -82,8 +85,8 @@ def register(commands: argparse._SubParsersAction) -> None:
         description="Score a text file: cross-entropy in bits per token (words plus one end symbol per sentence), "
         "perplexity and out-of-vocabulary rate. Example: foretype score chat.model heldout.txt",
     )
-    p.add_argument("args", nargs="+", metavar="[MODEL] TEXTFILE")
-    p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces")
+    p.add_argument("args", nargs="+", metavar="[MODEL] TEXTFILE", help="model file (default: the demo model) and the text to score ('-': standard input)")
+    add_text_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_score)
 
@@ -224,9 +227,12 @@ def run_suggest(args: argparse.Namespace) -> int:
 def run_score(args: argparse.Namespace) -> int:
     """foretype score."""
     model_path, (text_path,) = split_model_argument(args.args, 1, "score")
+    text = read_words(text_path, replace_bad_bytes=args.replace_bad_bytes)
     model = open_model(model_path)
-    result = model.score(read_text_file(text_path), wrapped=args.wrapped)
+    wrapped = sentence_rule(args.wrapped, model)
+    result = model.score(text, wrapped=wrapped)
     payload = {
+        "wrapped": wrapped,
         "sentences": result.sentences,
         "tokens": result.tokens,
         "oov": result.oov,
@@ -240,7 +246,8 @@ def run_score(args: argparse.Namespace) -> int:
     print(
         f"{result.sentences:,} sentences, {result.tokens:,} tokens (words + one end per sentence), "
         f"OOV {result.oov:,} ({result.oov_rate:.2%})\n"
-        f"cross-entropy {result.cross_entropy_bits:.4f} bits/token, perplexity {result.perplexity:.2f}"
+        f"cross-entropy {result.cross_entropy_bits:.4f} bits/token, perplexity {result.perplexity:.2f}\n"
+        f"sentences read as {describe_rule(wrapped)}"
     )
     return 0
 

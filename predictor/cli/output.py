@@ -10,9 +10,11 @@ from contextlib import contextmanager
 from pathlib import Path
 from typing import Any
 
-from ..errors import OptionError
+from ..counting.corpus import read_text_file
+from ..errors import CorpusError, OptionError
 from ..modelfile.format import MAGIC
 from ..query.model import LanguageModel, load
+from ..text import WORD_RE
 
 
 def add_json_option(parser: argparse.ArgumentParser) -> None:
@@ -131,3 +133,36 @@ def is_learned_export(path: Path) -> bool:
     except (OSError, ValueError):
         return False
     return isinstance(payload, dict) and payload.get("format") == "foretype-learned-export"
+
+
+def add_text_options(parser: argparse.ArgumentParser) -> None:
+    """Add ``--replace-bad-bytes`` and ``--wrapped/--no-wrapped`` to a command that reads text for a model."""
+    parser.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
+    parser.add_argument(
+        "--wrapped",
+        action=argparse.BooleanOptionalAction,
+        default=None,
+        help="hard-wrapped prose: single line breaks are spaces (default: the rule the model was built with)",
+    )
+
+
+def read_words(path: str, *, replace_bad_bytes: bool = False) -> str:
+    """Read a text to score or type (``-``: standard input), failing with its name when it holds no words.
+
+    Raises:
+        CorpusError: missing, binary or without words (exit 3); EncodingError: invalid UTF-8.
+    """
+    text = read_text_file(path, replace_bad_bytes=replace_bad_bytes)
+    if not WORD_RE.search(text):
+        raise CorpusError(f"{'standard input' if path == '-' else path}: holds no words")
+    return text
+
+
+def sentence_rule(wrapped: bool | None, model: LanguageModel) -> bool:
+    """The sentence rule to read text with: the explicit option, else the one the model was built with."""
+    return bool(model.meta.get("wrapped", False)) if wrapped is None else wrapped
+
+
+def describe_rule(wrapped: bool) -> str:
+    """The sentence rule in words, for reports."""
+    return "wrapped (single line breaks are spaces; blank lines end sentences)" if wrapped else "lines (each line break ends a sentence)"
