@@ -56,10 +56,10 @@ from .counting import count_corpus
 from .counting.store import open_count_store, store_wrapped
 from .errors import CapacityError, OptionError
 from .estimate import METHODS
+from .outputs import prepare_folder, write_text_atomic
 from .query.model import load
 from .simulate import TypistSettings, read_passage, simulate
 from .simulate.scanning import ScanningSettings, simulate_scanning
-from .simulate.writing import prepare_folder, write_text_atomic
 from .size_chart import size_chart
 
 DEFAULT_VOCAB_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)
@@ -203,7 +203,7 @@ def parse_vocab_sizes(text: str) -> list[int]:
         sizes.append(value)
     if not sizes:
         raise OptionError("--vocab-sizes is empty")
-    return sizes
+    return list(dict.fromkeys(sizes))  # a size given twice is built once
 
 
 def parse_methods(text: str) -> list[str]:

@@ -10,6 +10,7 @@ bytes are to be replaced.
 from __future__ import annotations
 
 import os
+import sys
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -188,11 +189,22 @@ def _cut_long_line(data: bytes) -> int:
     return cut if cut > 0 else len(data)
 
 
-def read_text_file(path: str) -> str:
-    """Read a UTF-8 text file for scoring or simulation.
+def read_text_file(path: str, *, replace_bad_bytes: bool = False) -> str:
+    """Read a UTF-8 text file for scoring or simulation (``-``: standard input).
+
+    Args:
+        path: the file, or ``-`` for standard input.
+        replace_bad_bytes: replace invalid UTF-8 with U+FFFD instead of failing.
 
     Raises:
         CorpusError / EncodingError: missing, binary or invalid UTF-8.
     """
+    if str(path) == "-":
+        data = sys.stdin.buffer.read()
+        try:
+            return data.decode("utf-8", "replace" if replace_bad_bytes else "strict")
+        except UnicodeDecodeError as error:
+            line = data[: error.start].count(b"\n") + 1
+            raise EncodingError(f"standard input: not valid UTF-8 at line {line} (add --replace-bad-bytes to read it anyway)") from None
     found = resolve_corpus([path])
-    return "".join(chunk for file in found.files for chunk in iter_chunks(Path(file)))
+    return "".join(chunk for file in found.files for chunk in iter_chunks(Path(file), replace_bad_bytes=replace_bad_bytes))

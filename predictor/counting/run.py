@@ -129,8 +129,9 @@ class _Feeder:
         self.counter.end_document()
 
 
-PARALLEL_MIN_BYTES = 16 << 20
-"""Corpora at least this large are tokenised by worker processes (when the machine has two cores or more)."""
+PARALLEL_MIN_BYTES = int(os.environ.get("FORETYPE_PARALLEL_MIN_BYTES", 16 << 20))
+"""Corpora at least this large are tokenised by worker processes (when the machine has two cores or more).
+The environment variable ``FORETYPE_PARALLEL_MIN_BYTES`` lowers it (tests use it to reach the workers cheaply)."""
 
 PARALLEL_MIN_BUDGET = 4 << 30
 """Workers hold a chunk of text and its tokens each (about 100 MB), and their dictionaries of
