@@ -161,7 +161,7 @@ def current_umask() -> int:
     return mask
 
 
-def write_output(path: str | os.PathLike[str], write: Callable[[BinaryIO], None], *, on_temp: Callable[[int], None] | None = None, temp_prefix: str | None = None) -> int:
+def write_output(path: str | os.PathLike[str], write: Callable[[BinaryIO], object], *, on_temp: Callable[[int], None] | None = None, temp_prefix: str | None = None) -> int:
     """Write a result through ``write`` following the output policy (see the module docstring).
 
     Args:
@@ -227,7 +227,7 @@ class _CountingWriter:
 
 def replace_atomically(
     path: str | os.PathLike[str],
-    write: Callable[[BinaryIO], None],
+    write: Callable[[BinaryIO], object],
     *,
     prefix: str | None = None,
     on_temp: Callable[[int], None] | None = None,
