@@ -82,37 +82,43 @@ def check_output(
     if is_stdout(path):
         return
     target = Path(path)
-    named = f" ({option})" if option else ""
-    for source in inputs:
-        if source is None or is_stdout(source):
-            continue
-        if _same_file(target, Path(source)):
-            raise OutputError(f"{target}: is also an input of this command; choose another output{named}")
+    _refuse_an_input(target, inputs, f" ({option})" if option else "")
     try:
         info = target.stat()
     except FileNotFoundError:
-        info = None
+        _require_writable_folder(target)
+        return
     except OSError as error:
         raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
-    if info is None:
-        real = resolved_target(target)
-        directory = _folder_of(real)
-        if not directory.is_dir():
-            raise OutputError(f"{target}: cannot write (folder {directory} does not exist)")
-        if not os.access(directory, os.W_OK | os.X_OK):
-            raise OutputError(f"{target}: cannot write (folder {directory} is not writable)")
-        return
     if stat.S_ISDIR(info.st_mode):
         raise OutputError(f"{target}: is a folder; give a file name for the {kind_name}")
     if not stat.S_ISREG(info.st_mode):
         if not os.access(target, os.W_OK):
             raise OutputError(f"{target}: cannot write (permission denied)")
-        return
+        return  # a device or FIFO is written into, never replaced
     if not os.access(target, os.W_OK) or not os.access(_folder_of(resolved_target(target)), os.W_OK | os.X_OK):
         raise OutputError(f"{target}: cannot write (permission denied)")
     if force or info.st_size == 0 or (kind is not None and kind(target)):
         return
     raise OutputError(f"{target}: exists and is not a {kind_name}; not replacing it (choose another name, or add --force to replace it)")
+
+
+def _refuse_an_input(target: Path, inputs: Iterable[str | os.PathLike[str] | None], named: str) -> None:
+    """Raise OutputError when the output is the same file as one of the command's inputs."""
+    for source in inputs:
+        if source is None or is_stdout(source):
+            continue
+        if _same_file(target, Path(source)):
+            raise OutputError(f"{target}: is also an input of this command; choose another output{named}")
+
+
+def _require_writable_folder(target: Path) -> None:
+    """Raise OutputError unless the folder a new file would go in exists and is writable."""
+    directory = _folder_of(resolved_target(target))
+    if not directory.is_dir():
+        raise OutputError(f"{target}: cannot write (folder {directory} does not exist)")
+    if not os.access(directory, os.W_OK | os.X_OK):
+        raise OutputError(f"{target}: cannot write (folder {directory} is not writable)")
 
 
 def check_output_folder(path: str | os.PathLike[str], *, inputs: Iterable[str | os.PathLike[str] | None] = (), kind: KindCheck | None = None, kind_name: str = "results", force: bool = False) -> None:
