@@ -23,11 +23,11 @@ from foretype.query.model import LanguageModel
 from .files import free_name, shown_path
 from .formatting import LatencyFormatter, format_micros
 from .learning import Finished, LearningSource, why_unavailable
-from .session import PadSession, SuggestionSource
 from .screens.confirm_quit import ConfirmQuitDialog, QuitChoice
 from .screens.help import HelpScreen
 from .screens.pad import PadScreen
 from .screens.save_dialog import SaveDialog
+from .session import PadSession, SuggestionSource
 
 SourceFactory = Callable[[LanguageModel], SuggestionSource]
 """Makes the suggestion source for a model (the default returns the model)."""

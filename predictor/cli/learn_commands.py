@@ -8,16 +8,16 @@ from __future__ import annotations
 
 import argparse
 import math
-from contextlib import nullcontext, redirect_stdout
 import sys
 import time
+from contextlib import nullcontext, redirect_stdout
 from pathlib import Path
 from typing import Any
 
 from ..errors import OptionError
+from ..outputs import check_output, is_stdout
 from ..query.model import LanguageModel
 from ..text import iter_sentences
-from ..outputs import check_output, is_stdout
 from .output import add_force_option, add_json_option, is_learned_export, is_learned_file, open_model, positive_int, print_json, progress_bar, read_words
 
 SECONDS_PER_DAY = 86_400
@@ -136,7 +136,20 @@ def run_learned(args: argparse.Namespace) -> int:
 
 def _apply_changes(args: argparse.Namespace, learned: Any, changes: list[str]) -> None:
     """Apply the asked changes in a fixed order: settings, learn, never list, forget, prune."""
-    settings = learned.model.settings
+    _apply_settings(args, learned, changes)
+    if args.learn:
+        _learn_from_file(args, learned, changes)
+    _apply_never_list(args, learned, changes)
+    for word in args.forget:
+        changes.append(f"forgot {word!r}" if learned.forget(word) else f"nothing learned about {word!r}")
+    if args.prune_below is not None or args.prune_older_than is not None:
+        before = None if args.prune_older_than is None else int(time.time() - args.prune_older_than * SECONDS_PER_DAY)
+        dropped = learned.prune(below=args.prune_below, seen_before=before)
+        changes.append(f"pruned {dropped:,} counts")
+
+
+def _apply_settings(args: argparse.Namespace, learned: Any, changes: list[str]) -> None:
+    """Learning on or off, min uses and half-life, as asked."""
     updates: dict[str, Any] = {}
     if args.learning:
         updates["learning"] = args.learning == "on"
@@ -145,27 +158,28 @@ def _apply_changes(args: argparse.Namespace, learned: Any, changes: list[str]) -
     if hasattr(args, "half_life"):
         updates["half_life"] = args.half_life
     if updates:
-        learned.set_settings(settings.changed(**updates))
+        learned.set_settings(learned.model.settings.changed(**updates))
         changes.append("settings: " + ", ".join(f"{key.replace('_', ' ')} {_setting_text(key, value)}" for key, value in updates.items()))
-    if args.learn:
-        if not learned.model.settings.learning:
-            raise OptionError("learning is off for this model; switch it on with --learning on to learn from a file")
-        sentences = list(iter_sentences(read_words(args.learn, replace_bad_bytes=args.replace_bad_bytes)))
-        with progress_bar(f"learning from {args.learn}") as update:
-            tokens = learned.learn_sentences(sentences, progress=update)
-        changes.append(f"learned {tokens:,} tokens ({len(sentences):,} sentences) from {args.learn}")
+
+
+def _learn_from_file(args: argparse.Namespace, learned: Any, changes: list[str]) -> None:
+    """Learn every sentence of a text file (learning must be on)."""
+    if not learned.model.settings.learning:
+        raise OptionError("learning is off for this model; switch it on with --learning on to learn from a file")
+    sentences = list(iter_sentences(read_words(args.learn, replace_bad_bytes=args.replace_bad_bytes)))
+    with progress_bar(f"learning from {args.learn}") as update:
+        tokens = learned.learn_sentences(sentences, progress=update)
+    changes.append(f"learned {tokens:,} tokens ({len(sentences):,} sentences) from {args.learn}")
+
+
+def _apply_never_list(args: argparse.Namespace, learned: Any, changes: list[str]) -> None:
+    """Add words or patterns to the never-suggest list, or allow them again."""
     if args.never_suggest:
         added = learned.add_never(args.never_suggest)
         changes.append(f"never suggest: added {', '.join(added)}" if added else "never suggest: already listed")
     if args.allow:
         removed = learned.remove_never(args.allow)
         changes.append(f"never suggest: removed {', '.join(removed)}" if removed else "never suggest: none of those was listed")
-    for word in args.forget:
-        changes.append(f"forgot {word!r}" if learned.forget(word) else f"nothing learned about {word!r}")
-    if args.prune_below is not None or args.prune_older_than is not None:
-        before = None if args.prune_older_than is None else int(time.time() - args.prune_older_than * SECONDS_PER_DAY)
-        dropped = learned.prune(below=args.prune_below, seen_before=before)
-        changes.append(f"pruned {dropped:,} counts")
 
 
 def _setting_text(key: str, value: Any) -> str:

@@ -212,9 +212,8 @@ class _Stages:
 def run_sweep_command(args: argparse.Namespace) -> int:
     """foretype sweep."""
     from ..builder.shrink import parse_encodings
-    from ..sweep import ExtraMeasures, format_table, parse_methods, parse_shares, parse_vocab_sizes, run_sweep
-
     from ..counting.store import require_corpus_free
+    from ..sweep import ExtraMeasures, format_table, parse_methods, parse_shares, parse_vocab_sizes, run_sweep
 
     require_corpus_free(args.corpus, args.counts)
     settings = _settings(args)

@@ -18,18 +18,17 @@ from ..estimate import METHODS
 from ..modelfile.encoding import ENCODINGS
 from ..modelfile.format import check_target
 from ..outputs import is_stdout
-from ..query.model import load
 from ..query.verify import verify_model
 from .output import (
     add_json_option,
     add_text_options,
     describe_rule,
-    read_words,
-    sentence_rule,
     open_model,
     positive_int,
     print_json,
     progress_bar,
+    read_words,
+    sentence_rule,
     split_model_argument,
 )
 from .shrink_commands import describe_shrink
