@@ -24,6 +24,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import OptionError
+from ..query.passed_over import suggest_without
 from ..query.source import SuggestionSource
 from ..text import capitalise, model_form
 from .editing import gap_keystrokes, latest_useful_pick
@@ -44,6 +45,8 @@ class TypistSettings:
         scan_seconds: seconds to read a changed suggestion list (entry-rate estimate).
         wrapped: the text is hard-wrapped prose (single line breaks are spaces),
             as for a model built with ``--wrapped``.
+        skip_passed: within one word, leave out the words already shown and
+            passed over (:mod:`foretype.query.passed_over`).
 
     Raises:
         OptionError: a value is out of range.
@@ -57,6 +60,7 @@ class TypistSettings:
     key_seconds: float = 1.0
     scan_seconds: float = 0.5
     wrapped: bool = False
+    skip_passed: bool = False
 
     def __post_init__(self) -> None:
         if not isinstance(self.k, int) or self.k < 1:
@@ -178,6 +182,7 @@ class Typist:
         select = settings.select_cost
         autospace = settings.autospace
         first_step = settings.min_prefix
+        skip_passed = settings.skip_passed
         full = passage.mode == "full"
         known = self.known
         clock = time.perf_counter_ns
@@ -197,10 +202,11 @@ class Typist:
             shown: list[list[str]] = []
             picked_at: str | None = None
             rank: int | None = None
+            passed: set[str] = set()
             for step in range(first_step, last_step + 1):
                 prefix = target[:step]
                 started = clock()
-                found = source.suggest_ids(u, v, prefix, k)
+                found = suggest_without(source, u, v, prefix, k, passed) if passed else source.suggest_ids(u, v, prefix, k)
                 latencies.append(clock() - started)
                 if capital:
                     forms = [capitalise(s.word) for s in found]
@@ -220,6 +226,8 @@ class Typist:
                 if place >= 0:
                     picked_at, rank = prefix, place + 1
                     break
+                if skip_passed:
+                    passed.update(model_form(form) for form in forms)
             if picked_at is None:
                 cost = length + gap_keystrokes(word.gap, picked=False, autospace=autospace)
             else:
