@@ -27,6 +27,9 @@ compared, each against the base model alone:
 * ``tuned``: the fixed share that did best on a separate tuning text of the same kind;
 * ``cache<w>``: the plain textbook cache (tests/cache_reference.py) at weight w.
 
+and, with the typist leaving out words passed over within a word
+(``skip_passed``), ``base+skip`` and ``guard+skip``.
+
 Also counted on typo text: how many suggestion lists offered a typo (a typed
 form that is no word of the typo-free text, offered while another word was meant).  The
 JSON (with the block curves) goes to bench/out/learning-<time>.json and
@@ -127,10 +130,10 @@ def adapted(base: foretype.LanguageModel, settings: AdaptSettings, fixed: float 
     return AdaptedModel(base, user)
 
 
-def run(base: foretype.LanguageModel, text: str, source: Any | None, typo_forms: set[str]) -> dict[str, Any]:
+def run(base: foretype.LanguageModel, text: str, source: Any | None, typo_forms: set[str], typist: TypistSettings = TYPIST) -> dict[str, Any]:
     """Type ``text``; learn into ``source`` (None: the base model alone).  KSR, block curve, typo offers."""
     observer = LearningObserver(source) if source is not None else None
-    report = simulate(base, text, TYPIST, source=source, after_word=observer)
+    report = simulate(base, text, typist, source=source, after_word=observer)
     if observer is not None:
         observer.finish()
     passage = read_passage(text, TYPIST.text_mode)
@@ -172,6 +175,7 @@ def main() -> int:
     parser.add_argument("--quick", action="store_true", help="120 verses or messages per text instead of 300")
     parser.add_argument("--pairs", default="demo>kjv,kjv>demo,demo>demo,kjv>kjv", help="model>text pairings")
     parser.add_argument("--no-tune", action="store_true", help="skip the tuned share")
+    parser.add_argument("--tag", default="latest", help="the JSON also goes to bench/out/learning-<tag>.json (default latest)")
     args = parser.parse_args()
     count = 120 if args.quick else 300
     facts = machine_facts()
@@ -195,6 +199,9 @@ def main() -> int:
             figures = {"base": run(base, text, None, typo_forms)}
             for name, source in sources(base, tuned).items():
                 figures[name] = run(base, text, source, typo_forms)
+            skipping = TypistSettings(k=TYPIST.k, text_mode=TYPIST.text_mode, skip_passed=True)
+            figures["base+skip"] = run(base, text, None, typo_forms, skipping)
+            figures["guard+skip"] = run(base, text, adapted(base, AdaptSettings(min_uses=1), guard=True), typo_forms, skipping)
             row[variant] = figures
             line = "  ".join(f"{name} {100 * f['ksr']:.2f}" for name, f in figures.items())
             console.print(f"{pair:10} {variant:5} {line}  ({time.perf_counter() - started:.0f} s)")
@@ -206,7 +213,7 @@ def main() -> int:
     stamp = time.strftime("%Y%m%d-%H%M%S")
     payload = json.dumps(results, indent=1)
     (OUT / f"learning-{stamp}.json").write_text(payload, encoding="utf-8")
-    (OUT / "learning-latest.json").write_text(payload, encoding="utf-8")
+    (OUT / f"learning-{args.tag}.json").write_text(payload, encoding="utf-8")
     return 0
 
 
