@@ -12,7 +12,10 @@ Figures (see bench/README.md for what each one means):
 * model file: bytes per stored n-gram; load time (median of repeated loads);
 * suggest: in-process latency of ``model.suggest(context, prefix, k=5)`` for
   next-word queries and 1-, 2- and 3-letter prefixes, the queries taken from
-  real positions of held-out text, at 50,000 and 200,000 words;
+  real positions of held-out text, at 50,000 and 200,000 words; each query is
+  answered by the compiled core and by the numpy path in turn (same queries,
+  interleaved, the first path alternating), so their ratio is measured side
+  by side;
 * side by side in one run: the same top-k query answered by brute force over
   nltk.lm scores, as a ratio.
 
@@ -48,10 +51,13 @@ from foretype.text import iter_sentences, model_form  # noqa: E402
 K = 5
 PREFIX_KINDS = {"next word": 0, "1 letter": 1, "2 letters": 2, "3 letters": 3}
 
+PATHS = ("compiled", "numpy")
+"""The two query paths timed side by side (the second is the fallback and reference)."""
+
 TARGETS = {
-    "suggest p50 us": 50,
-    "suggest p99 us": 300,
-    "p99 ratio 200k/50k": 2.0,
+    "suggest p50 us": 20,
+    "suggest p99 us": 100,
+    "p99 ratio 200k/50k": 1.5,
     "build tokens/s": 1_000_000,
     "bytes per n-gram": 10,
     "load ms": 100,
@@ -87,28 +93,48 @@ def queries_of(positions, letters: int, limit: int, seed: int = 5) -> list[tuple
     return chosen
 
 
-def time_suggest(model: foretype.LanguageModel, queries) -> dict[str, Any]:
-    """Latency of model.suggest over the queries (after one warm-up pass over a tenth of them).
+def twins(model: foretype.LanguageModel) -> dict[str, foretype.LanguageModel]:
+    """The same loaded arrays answered by each query path."""
+    return {
+        "compiled": foretype.LanguageModel(model.sections, model.meta, path=model.path, file_bytes=model.file_bytes, compiled=True),
+        "numpy": foretype.LanguageModel(model.sections, model.meta, path=model.path, file_bytes=model.file_bytes, compiled=False),
+    }
 
-    Returns wall-clock percentiles (what a caller waits) and, under ``cpu``, the
-    thread's CPU time per query (what the query costs; unlike wall time, it does
-    not grow when other processes take the cores).
+
+def time_suggest(models: dict[str, foretype.LanguageModel], queries) -> dict[str, Any]:
+    """Latency of model.suggest over the queries on each path, interleaved (after a warm-up over a tenth of them).
+
+    Each query is answered by every path in turn, the first path alternating,
+    so load on the machine falls on both alike.  Returns, per path, wall-clock
+    percentiles (what a caller waits) and, under ``cpu``, the thread's CPU time
+    per query (what the query costs; unlike wall time, it does not grow when
+    other processes take the cores); and the ratio of their medians.
     """
-    suggest = model.suggest
+    names = list(models)
+    calls = [models[name].suggest for name in names]
     for context, prefix in queries[: max(1, len(queries) // 10)]:
-        suggest(context, prefix, K)
-    wall = []
-    cpu = []
+        for suggest in calls:
+            suggest(context, prefix, K)
+    wall: list[list[int]] = [[] for _ in names]
+    cpu: list[list[int]] = [[] for _ in names]
     clock = time.perf_counter_ns
     cpu_clock = time.thread_time_ns
-    for context, prefix in queries:
-        started_cpu = cpu_clock()
-        started = clock()
-        suggest(context, prefix, K)
-        wall.append(clock() - started)
-        cpu.append(cpu_clock() - started_cpu)
-    figures: dict[str, Any] = percentiles(wall)
-    figures["cpu"] = percentiles(cpu)
+    for number, (context, prefix) in enumerate(queries):
+        turn = range(len(names)) if number % 2 == 0 else reversed(range(len(names)))
+        for index in turn:
+            suggest = calls[index]
+            started_cpu = cpu_clock()
+            started = clock()
+            suggest(context, prefix, K)
+            wall[index].append(clock() - started)
+            cpu[index].append(cpu_clock() - started_cpu)
+    figures: dict[str, Any] = {}
+    for index, name in enumerate(names):
+        figures[name] = percentiles(wall[index])
+        figures[name]["cpu"] = percentiles(cpu[index])
+    if len(names) == 2:
+        slow, fast = figures[names[1]], figures[names[0]]
+        figures["ratio"] = {"p50": slow["p50"] / fast["p50"], "p99": slow["p99"] / fast["p99"]}
     return figures
 
 
@@ -166,6 +192,7 @@ def build_phases(corpus: Path, vocab_size: int | None, out: Path) -> tuple[foret
 
 def model_figures(label: str, path: Path, positions, queries_per_kind: int, build: dict[str, Any] | None = None) -> dict[str, Any]:
     model = foretype.load(path)
+    models = twins(model)
     info = model.info()
     figures: dict[str, Any] = {
         "label": label,
@@ -179,9 +206,9 @@ def model_figures(label: str, path: Path, positions, queries_per_kind: int, buil
     if build:
         figures["build"] = build
     for kind, letters in PREFIX_KINDS.items():
-        figures["suggest"][kind] = time_suggest(model, queries_of(positions, letters, queries_per_kind))
+        figures["suggest"][kind] = time_suggest(models, queries_of(positions, letters, queries_per_kind))
     busy, most = busiest_contexts(model, positions)
-    figures["suggest"]["busiest contexts"] = time_suggest(model, busy * 5)
+    figures["suggest"]["busiest contexts"] = time_suggest(models, busy * 5)
     figures["busiest_context_continuations"] = most
     return figures
 
@@ -250,19 +277,22 @@ def print_table(results: dict[str, Any]) -> None:
         )
     print()
     header = (
-        f"{'model':<34} {'query':<17} {'n':>6} {'p50 us':>8} {'p90 us':>8} {'p99 us':>8} {'p99.9':>8} {'max us':>9}"
-        f"   {'cpu p50':>8} {'cpu p99':>8} {'cpu max':>9}"
+        f"{'model':<34} {'query':<17} {'path':<9} {'n':>6} {'p50 us':>8} {'p90 us':>8} {'p99 us':>8} {'p99.9':>8} {'max us':>9}"
+        f"   {'cpu p50':>8} {'cpu p99':>8} {'cpu max':>9}   {'numpy/compiled p50, p99':>24}"
     )
-    print("suggest latency, k=5: wall clock, then the thread's CPU time per query")
+    print("suggest latency, k=5: wall clock, then the thread's CPU time per query; both paths on the same queries, interleaved")
     print(header)
     print("-" * len(header))
     for figures in results["models"]:
-        for kind, f in figures["suggest"].items():
-            c = f["cpu"]
-            print(
-                f"{figures['label']:<34} {kind:<17} {f['n']:>6} {f['p50']:>8.1f} {f['p90']:>8.1f} {f['p99']:>8.1f} {f['p99.9']:>8.1f} {f['max']:>9.1f}"
-                f"   {c['p50']:>8.1f} {c['p99']:>8.1f} {c['max']:>9.1f}"
-            )
+        for kind, both in figures["suggest"].items():
+            for path in PATHS:
+                f = both[path]
+                c = f["cpu"]
+                ratio = f"{both['ratio']['p50']:>10.1f}x {both['ratio']['p99']:>10.1f}x" if path == PATHS[0] and "ratio" in both else ""
+                print(
+                    f"{figures['label']:<34} {kind:<17} {path:<9} {f['n']:>6} {f['p50']:>8.1f} {f['p90']:>8.1f} {f['p99']:>8.1f} {f['p99.9']:>8.1f} {f['max']:>9.1f}"
+                    f"   {c['p50']:>8.1f} {c['p99']:>8.1f} {c['max']:>9.1f}   {ratio:>24}"
+                )
         load = figures["load"]
         print(
             f"{'':<34} file {figures['file_bytes'] / 1e6:.1f} MB, {figures['bytes_per_ngram']:.2f} bytes/n-gram "
@@ -322,8 +352,10 @@ def main(argv: list[str] | None = None) -> int:
         m200["build_from_counts_seconds"] = reuse_seconds
         results["models"] += [m50, m200]
         for kind in PREFIX_KINDS:
-            results["ratios"][f"p99 200k/50k, {kind} (wall)"] = m200["suggest"][kind]["p99"] / m50["suggest"][kind]["p99"]
-            results["ratios"][f"p99 200k/50k, {kind} (cpu)"] = m200["suggest"][kind]["cpu"]["p99"] / m50["suggest"][kind]["cpu"]["p99"]
+            for path in PATHS:
+                big, small = m200["suggest"][kind][path], m50["suggest"][kind][path]
+                results["ratios"][f"p99 200k/50k, {kind}, {path} (wall)"] = big["p99"] / small["p99"]
+                results["ratios"][f"p99 200k/50k, {kind}, {path} (cpu)"] = big["cpu"]["p99"] / small["cpu"]["p99"]
         if not args.skip_kjv:
             print("King James Bible ...", flush=True)
             kjv_train, kjv_heldout = bench_corpus.public_corpus()

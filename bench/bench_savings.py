@@ -31,6 +31,7 @@ HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 
 from corpus import OUT, public_corpus, synthetic_corpus  # noqa: E402
+from machine import describe, reference_speed  # noqa: E402
 
 import foretype  # noqa: E402
 from foretype.demo import demo_heldout, demo_model  # noqa: E402
@@ -53,8 +54,13 @@ def first_words(text: str, words: int) -> str:
     return "".join(kept)
 
 
+def on_path(model: foretype.LanguageModel, compiled: bool) -> foretype.LanguageModel:
+    """The same arrays answered on the compiled core or the numpy path."""
+    return foretype.LanguageModel(model.sections, model.meta, path=model.path, file_bytes=model.file_bytes, compiled=compiled)
+
+
 def bench_simulation(repeat: int) -> None:
-    """Time simulate() on 20,000 words with k = 5."""
+    """Time simulate() on 20,000 words with k = 5, on both query paths (runs interleaved)."""
     train, heldout = public_corpus()
     started = time.perf_counter()
     kjv = foretype.build([train])
@@ -63,21 +69,28 @@ def bench_simulation(repeat: int) -> None:
         ("demo model", demo_model(), first_words(demo_heldout().read_text(encoding="utf-8"), WORDS)),
         ("King James model", kjv, first_words(heldout.read_text(encoding="utf-8"), WORDS)),
     ]
-    print(f"{'model':<18} {'mode':<6} {'words':>7} {'queries':>8} {'median s':>9} {'min s':>7} {'max s':>7} {'KSR':>6} {'p50 µs':>7} {'p99 µs':>7}")
+    print(
+        f"{'model':<18} {'mode':<6} {'path':<9} {'words':>7} {'queries':>8} {'median s':>9} {'min s':>7} {'max s':>7} {'KSR':>6} {'p50 µs':>7} {'p99 µs':>7} {'ratio':>6}"
+    )
     for name, model, text in cases:
+        models = {"compiled": on_path(model, True), "numpy": on_path(model, False)}
         for mode in ("full", "words"):
             settings = TypistSettings(k=5, text_mode=mode)
-            times = []
-            report = None
-            for _ in range(repeat):
-                started = time.perf_counter()
-                report = simulate(model, text, settings)
-                times.append(time.perf_counter() - started)
-            assert report is not None
-            print(
-                f"{name:<18} {mode:<6} {report.words:>7,} {report.queries:>8,} {statistics.median(times):>9.2f} {min(times):>7.2f} {max(times):>7.2f} "
-                f"{100 * report.ksr:>5.1f}% {report.latency_us['p50']:>7.0f} {report.latency_us['p99']:>7.0f}"
-            )
+            times: dict[str, list[float]] = {path: [] for path in models}
+            reports = {}
+            for run in range(repeat):
+                for path in models if run % 2 == 0 else reversed(list(models)):
+                    started = time.perf_counter()
+                    reports[path] = simulate(models[path], text, settings)
+                    times[path].append(time.perf_counter() - started)
+            assert reports["compiled"].ksr == reports["numpy"].ksr and reports["compiled"].keystrokes == reports["numpy"].keystrokes
+            ratio = statistics.median(times["numpy"]) / statistics.median(times["compiled"])
+            for path, report in reports.items():
+                print(
+                    f"{name:<18} {mode:<6} {path:<9} {report.words:>7,} {report.queries:>8,} {statistics.median(times[path]):>9.2f} {min(times[path]):>7.2f} "
+                    f"{max(times[path]):>7.2f} {100 * report.ksr:>5.1f}% {report.latency_us['p50']:>7.0f} {report.latency_us['p99']:>7.0f} "
+                    f"{(f'{ratio:.1f}x' if path == 'compiled' else ''):>6}"
+                )
 
 
 def kjv_repeated(times: int) -> Path:
@@ -114,6 +127,7 @@ def main() -> None:
     parser.add_argument("--sweep", nargs="*", choices=("kjv", "synthetic"), help="time the sweep (default: both corpora)")
     parser.add_argument("--repeat", type=int, default=3, help="runs per simulation figure (default 3)")
     args = parser.parse_args()
+    print(describe(reference_speed()))
     if args.sweep is None:
         bench_simulation(args.repeat)
     else:

@@ -58,8 +58,7 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
     plot_w = WIDTH - LEFT - RIGHT
     plot_h = HEIGHT - TOP - BOTTOM
     parts = [
-        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{HEIGHT}" viewBox="0 0 {WIDTH} {HEIGHT}" '
-        'font-family="Helvetica, Arial, sans-serif" font-size="12">',
+        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{HEIGHT}" viewBox="0 0 {WIDTH} {HEIGHT}" font-family="Helvetica, Arial, sans-serif" font-size="12">',
         f'<rect width="{WIDTH}" height="{HEIGHT}" fill="#ffffff"/>',
         f'<text x="{LEFT}" y="22" font-size="15" font-weight="bold">{escape(title)}</text>',
     ]
@@ -126,13 +125,8 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
         parts.append(f'<text x="{x:.1f}" y="{TOP + plot_h + 19}" text-anchor="middle">{_size_label(size)}</text>')
     axis_note = " (log scale)" if logarithmic else ""
     parts.append(f'<text x="{LEFT + plot_w / 2}" y="{HEIGHT - 18}" text-anchor="middle">vocabulary size, words{axis_note}</text>')
-    parts.append(
-        f'<text x="18" y="{TOP + plot_h / 2}" text-anchor="middle" transform="rotate(-90 18 {TOP + plot_h / 2})">keystroke savings</text>'
-    )
-    parts.append(
-        f'<text x="{WIDTH - 16}" y="{TOP + plot_h / 2}" text-anchor="middle" '
-        f'transform="rotate(90 {WIDTH - 16} {TOP + plot_h / 2})">p99 suggestion latency (µs)</text>'
-    )
+    parts.append(f'<text x="18" y="{TOP + plot_h / 2}" text-anchor="middle" transform="rotate(-90 18 {TOP + plot_h / 2})">keystroke savings</text>')
+    parts.append(f'<text x="{WIDTH - 16}" y="{TOP + plot_h / 2}" text-anchor="middle" transform="rotate(90 {WIDTH - 16} {TOP + plot_h / 2})">p99 suggestion latency (µs)</text>')
 
     methods = list(dict.fromkeys(str(r["method"]) for r in points))
     for index, method in enumerate(methods):
@@ -162,7 +156,9 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
             if r.get("ksr_low") is not None and r.get("ksr_high") is not None:
                 x = x_of(float(r["vocab_size"]))
                 low, high = y_of(100 * float(r["ksr_low"])), y_of(100 * float(r["ksr_high"]))
-                parts.append(f'<path d="M{x - 4:.1f},{low:.1f}H{x + 4:.1f}M{x:.1f},{low:.1f}V{high:.1f}M{x - 4:.1f},{high:.1f}H{x + 4:.1f}" stroke="{colour}" stroke-width="1.5" fill="none"/>')
+                parts.append(
+                    f'<path d="M{x - 4:.1f},{low:.1f}H{x + 4:.1f}M{x:.1f},{low:.1f}V{high:.1f}M{x - 4:.1f},{high:.1f}H{x + 4:.1f}" stroke="{colour}" stroke-width="1.5" fill="none"/>'
+                )
         legend_y = TOP + 16 + 16 * index
         parts.append(f'<line x1="{LEFT + 12}" y1="{legend_y - 4}" x2="{LEFT + 36}" y2="{legend_y - 4}" stroke="{colour}" stroke-width="2"/>')
         parts.append(f'<text x="{LEFT + 42}" y="{legend_y}">{escape(method)}</text>')

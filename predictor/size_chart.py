@@ -89,8 +89,7 @@ def size_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: s
     if k is not None:
         subtitle = f"k = {k}. " + subtitle
     parts = [
-        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{HEIGHT}" viewBox="0 0 {WIDTH} {HEIGHT}" '
-        'font-family="Helvetica, Arial, sans-serif" font-size="12">',
+        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{HEIGHT}" viewBox="0 0 {WIDTH} {HEIGHT}" font-family="Helvetica, Arial, sans-serif" font-size="12">',
         f'<rect width="{WIDTH}" height="{HEIGHT}" fill="#ffffff"/>',
         f'<text x="{LEFT}" y="22" font-size="15" font-weight="bold">{escape(title)}</text>',
         f'<text x="{LEFT}" y="40" fill="#555555">{escape(subtitle)}</text>',
@@ -104,8 +103,8 @@ def size_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: s
     sizes = [float(r["file_bytes"]) for r in points]
     x_lo, x_hi = math.log10(min(sizes)) - 0.05, math.log10(max(sizes)) + 0.05
     savings = [100 * float(r["ksr"]) for r in points]
-    y_lo = math.floor(min(savings) / 5) * 5 - 5
-    y_hi = math.ceil(max(savings) / 5) * 5 + 5
+    y_lo = float(math.floor(min(savings) / 5) * 5 - 5)
+    y_hi = float(math.ceil(max(savings) / 5) * 5 + 5)
     y_lo, y_hi = max(0.0, y_lo), min(100.0, y_hi)
 
     def x_of(size: float) -> float:

@@ -53,6 +53,7 @@ from .builder.shrink import CRITERIA, VALUE_ENCODINGS, shrink
 from .chart import sweep_chart
 from .compare import ksr_interval
 from .counting import count_corpus
+from .counting.store import open_count_store, store_wrapped
 from .errors import CapacityError, OptionError
 from .estimate import METHODS
 from .query.model import load
@@ -506,6 +507,7 @@ def run_sweep(
     progress: SweepProgress | None = None,
     on_row: Callable[[SweepRow], None] | None = None,
     adapt: bool = False,
+    counts_store: str | os.PathLike[str] | None = None,
     shrink_criteria: Sequence[str] = (),
     keep_bytes: Sequence[float] = (),
     value_encodings: Sequence[str] = (),
@@ -526,6 +528,9 @@ def run_sweep(
         on_row: called with each row as it finishes (after the files are written).
         adapt: add the adaptation columns: each model is simulated a second
             time with a user model that starts empty and learns as the typist goes.
+        counts_store: estimate from this count store (:mod:`predictor.counting.store`)
+            instead of counting ``corpus`` (which must then be empty); its
+            ``--wrapped`` setting must match ``settings.wrapped``.
         shrink_criteria: the size axis: pruning criteria (:data:`predictor.shrink.CRITERIA`)
             applied to each full model.
         keep_bytes: shares of the full model's file bytes each shrunk model must
@@ -556,7 +561,11 @@ def run_sweep(
     result = SweepResult([str(p) for p in corpus], test_name, settings={**asdict(settings), "adapt": adapt, **extra.to_json()})
     report = progress or (lambda stage, done, total: None)
     started = time.perf_counter()
-    counts = count_corpus(corpus, wrapped=settings.wrapped, progress=lambda done, total: report("counting the corpus", done, total))
+    if counts_store is not None:
+        counts = _store_counts(counts_store, settings.wrapped)
+        result.corpus = [str(counts_store)]
+    else:
+        counts = count_corpus(corpus, wrapped=settings.wrapped, progress=lambda done, total: report("counting the corpus", done, total))
     result.counting_seconds = time.perf_counter() - started
     result.corpus_tokens = counts.corpus_tokens
     write_results(result, folder)
@@ -581,6 +590,15 @@ def run_sweep(
         result.complete = True  # the last planned row was skipped as too small to build
         write_results(result, folder)
     return result
+
+
+def _store_counts(store: str | os.PathLike[str], wrapped: bool) -> Any:
+    """The counts of a count store, refusing one counted with another sentence rule."""
+    counts, manifest = open_count_store(store)
+    if store_wrapped(manifest) != wrapped:
+        flag = "with" if store_wrapped(manifest) else "without"
+        raise OptionError(f"{store}: the count store was counted {flag} --wrapped; sweep it {flag} --wrapped too")
+    return counts
 
 
 def _measure_planned(counts: Any, step: tuple[str, float, str] | None, full: dict[tuple[str, int], tuple[Path, int]], common: dict[str, Any]) -> SweepRow | None:

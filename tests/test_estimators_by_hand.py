@@ -14,7 +14,7 @@ Sources:
   eq. (17)-(19): three discounts per order from the counts of counts,
   continuation counts at the lower orders.  N-grams after the sentence start
   keep raw counts, and the unigram level is interpolated with the uniform
-  distribution (common practice; README states both).
+  distribution (common practice; docs/models.md states both).
 * Katz back-off: Katz (1987), with Good-Turing counts r* = (r+1) n_{r+1} / n_r
   (Good 1953) and discount ratios for r <= 5.
 * Linear interpolation: Jelinek & Mercer (1980): nested interpolation with a
@@ -193,7 +193,7 @@ def katz(sentences: list[list[str]]):
         for gram, value in seen.items():
             mass[gram[:-1]] += value
             lower_mass[gram[:-1]] += lower(gram[-1], gram[1:-1])
-        # Two guards the engine documents as its own (README, method katz), for contexts the paper's
+        # Two guards the engine documents as its own (docs/models.md, method katz), for contexts the paper's
         # formula leaves undefined: a context whose seen words keep all the mass (every count above
         # k) gives up the share c/(c + 1) of it, c its number of seen words; a context whose seen words
         # cover all the lower order's mass backs off to nothing (alpha 0, seen values renormalised).
@@ -243,11 +243,11 @@ def test_katz_back_off_probabilities_equal_katz_with_good_turing_worked_by_hand(
 
 # -------------------------------------------------------- linear interpolation
 HELDOUT_EVERY = 20
-"""The engine holds out sentence i (0-based, corpus order) when i % 20 == 19 (README, method ``linear``)."""
+"""The engine holds out sentence i (0-based, corpus order) when i % 20 == 19 (docs/models.md, method ``linear``)."""
 
 
 def bucket(count: int) -> int:
-    """Context-count bucket (README: 0 for unseen, then floor(log2 c) + 1, at most 11)."""
+    """Context-count bucket (docs/models.md: 0 for unseen, then floor(log2 c) + 1, at most 11)."""
     return 0 if count == 0 else min(int(math.floor(math.log2(count))) + 1, 11)
 
 

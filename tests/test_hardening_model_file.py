@@ -295,7 +295,7 @@ def test_fuzzed_model_files_either_load_identically_or_raise_the_engines_error(o
 def test_crafted_sections_with_valid_checksums_never_crash_a_query(original, tmp_path, data):
     # A file whose checksums were recomputed after its arrays were changed: the
     # structural checks must refuse it or leave every query safe.  The trie image
-    # is left out: the marisa library maps it as is (see README, guarantees).
+    # is left out: the marisa library maps it as is (see docs/guarantees.md).
     source = original[0]
     names = [e["name"] for e in header_of(source)["sections"] if e["nbytes"] and e["name"] != "vocab.trie"]
     name = data.draw(st.sampled_from(names))

@@ -48,7 +48,7 @@ def test_a_saved_and_loaded_model_answers_exactly_as_the_built_one(corpus, tmp_p
 
 
 def test_a_loaded_models_arrays_are_read_only_views_of_the_file(corpus, tmp_path):
-    # Issue 2, "Model file": memory-mapped on load, nothing executed.
+    # docs/models.md, "Model files": memory-mapped on load, nothing executed.
     path = tmp_path / "kjv.model"
     foretype.build([corpus], vocab_size=500).save(path)
     loaded = foretype.load(path)
@@ -97,7 +97,7 @@ def test_info_reports_the_n_cubed_possible_trigrams_and_how_few_are_stored(corpu
 
 
 def test_info_json_has_the_documented_keys(corpus, tmp_path, run_cli):
-    # Issue 2, "JSON shapes": info.
+    # docs/models.md, "JSON shapes": info.
     path = tmp_path / "kjv.model"
     foretype.build([corpus], vocab_size=800).save(path)
     result = run_cli("info", path, "--json")

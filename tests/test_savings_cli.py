@@ -35,7 +35,7 @@ def worked_model_file(tmp_path_factory: pytest.TempPathFactory) -> Path:
 def test_savings_prints_the_hand_counted_figures_and_the_estimate_note(run_cli, worked_model_file: Path) -> None:
     result = run_cli("savings", worked_model_file, DATA / "worked-text.txt", "-k", "2")
     assert result.code == 0, result.err
-    assert "58.0%" in result.out  # KSR counted by hand (README worked example)
+    assert "58.0%" in result.out  # KSR counted by hand (docs/savings.md worked example)
     assert "60.0%" in result.out  # oracle
     assert "48.0%" in result.out  # frequency-list baseline
     assert "not a clinical assessment" in result.out

@@ -1,4 +1,4 @@
-"""The editing rules the simulated typist counts by (README "Keystroke savings" states them).
+"""The editing rules the simulated typist counts by (docs/savings.md states them).
 
 Each expected count below was worked out by hand from the rules: one keystroke
 per typed character (Enter for a line break), a pick writes the word and one

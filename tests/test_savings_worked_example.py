@@ -1,4 +1,4 @@
-"""The README's worked example: a two-sentence text whose keystrokes were counted by hand.
+"""The worked example of docs/savings.md: a two-sentence text whose keystrokes were counted by hand.
 
 The model is maximum likelihood (q = c(u v w) / c(u v), the standard trigram
 definition in /work/shared/REFERENCES.md) over a six-line corpus, so every list
@@ -17,9 +17,9 @@ import foretype
 from foretype.simulate import TypistSettings, simulate
 
 DATA = Path(__file__).parent / "data" / "savings"
-README = Path(__file__).resolve().parent.parent / "README.md"
+GUIDE = Path(__file__).resolve().parent.parent / "docs" / "savings.md"
 
-# Counted by hand (README "Worked example"): word, keystrokes, prefix when picked, rank, lists shown (k = 2).
+# Counted by hand (docs/savings.md "Worked example"): word, keystrokes, prefix when picked, rank, lists shown (k = 2).
 HAND_COUNT_FULL = [
     ("The", 1, "", 2, [["See", "The"]]),
     ("ferry", 1, "", 1, [["ferry", "tide"]]),
@@ -89,9 +89,8 @@ def test_without_automatic_space_every_space_is_typed(worked_model: foretype.Lan
     assert report.keystrokes == 28
 
 
-def test_readme_shows_the_same_worked_example() -> None:
-    readme = README.read_text(encoding="utf-8")
-    section = readme.split("<!-- section: savings -->", 1)[1].split("<!-- /section: savings -->", 1)[0]
+def test_the_guide_shows_the_same_worked_example() -> None:
+    section = GUIDE.read_text(encoding="utf-8")
     for line in (DATA / "worked-corpus.txt").read_text(encoding="utf-8").splitlines():
         assert line in section
     for line in (DATA / "worked-text.txt").read_text(encoding="utf-8").splitlines():

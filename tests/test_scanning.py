@@ -50,12 +50,12 @@ def worked_grid() -> ScanGrid:
     return parse_layout((SCANNING / "worked-grid.txt").read_text(encoding="utf-8"))
 
 
-# Counted by hand (README "Scanning" and docs/scanning.md), words mode, k = 2, grid
+# Counted by hand (docs/scanning.md), words mode, k = 2, grid
 #   space e t a s  -> steps 2 3 4 5 6
 #   h r i o n      -> 3 4 5 6 7
 #   l y f u m      -> 4 5 6 7 8
 #   p w            -> 5 6
-# The lists are those of the keystroke typist's worked example (README), in words mode.
+# The lists are those of the keystroke typist's worked example (docs/savings.md), in words mode.
 # Suggestion row last = row 5, a pick at rank j costs 5 + j; a pick writes the space.
 HAND_LAST = [
     ("the", 7, 2),  # [see, the]: rank 2 -> 5 + 2 (typing t h e + space would cost 4 + 3 + 3 + 2 = 12)

@@ -5,7 +5,7 @@ The suggestions must be exactly what ``foretype suggest --json`` prints for the
 same model and text (with a profile: ``--adapt --user`` its learned file), and
 both must equal a brute-force ranking of every vocabulary word (score each
 with ``prob``, sort by probability descending then word ascending; the
-definition of exact top-k in README "Suggestions are exact").
+definition of exact top-k in docs/models.md "Suggestions are exact").
 """
 
 from __future__ import annotations
@@ -92,7 +92,7 @@ def test_the_default_model_is_the_first(client):
 
 
 def test_word_probability_matches_counts_by_hand(client):
-    # The worked corpus (README "Worked example"): 3 of 6 sentences start with "the", 2 of them
+    # The worked corpus (docs/savings.md "Worked example"): 3 of 6 sentences start with "the", 2 of them
     # continue "ferry": P(ferry | <s> the) = 2/3 under maximum likelihood, counted by hand.
     got = client.post("/api/probability", json={"model": "worked", "word": "ferry", "context": ["the"]}).json()
     assert got["prob"] == pytest.approx(2 / 3, rel=1e-6)

@@ -262,7 +262,7 @@ def test_the_prediction_criterion_counts_lists_as_brute_force_does(rows, k):
 
 
 def test_quantised_values_keep_perplexity_close_to_the_16_bit_model():
-    # The target: 8-bit values within 1% of the 16-bit model's perplexity (demo text, common practice
+    # The target: 8-bit values within 1% of the 16-bit model's perplexity (demo text, common practice
     # that 8 bits lose little: Federico & Bertoldi 2006, from memory).
     from foretype.demo import demo_corpus, demo_heldout
 

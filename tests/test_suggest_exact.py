@@ -1,6 +1,6 @@
 """suggest is exact: the same list, in the same order, as scoring every word.
 
-Reference: brute force, as the issue defines the result of ``suggest`` (score
+Reference: brute force, as docs/models.md defines the result of ``suggest`` (score
 every vocabulary word with ``model.distribution``, keep those that start with
 the prefix, sort by probability descending, ties by word ascending; word ids
 are the code-point order of the model forms, so ties by id are ties by word).
@@ -65,7 +65,7 @@ corpora = st.lists(st.lists(st.sampled_from(WORDS), min_size=1, max_size=8), min
     queries=st.lists(st.tuples(contexts, prefixes, st.integers(1, 12)), min_size=1, max_size=12),
 )
 def test_suggest_equals_brute_force_for_every_estimator(sentences, repeat, method, vocab_size, queries):
-    # Reference: brute force over model.distribution (issue 2, "Index and queries").
+    # Reference: brute force over model.distribution (README, "Suggestions are exact": docs/models.md).
     text = "\n".join(" ".join(s) for s in [sentences[0]] * repeat + sentences) + "\n"
     model = build_text(text, method=method, vocab_size=vocab_size)
     for context, prefix, k in queries + [((), "", 3), (tuple(sentences[0][:2]), "", 20)]:
@@ -110,7 +110,7 @@ def test_suggest_after_the_most_frequent_contexts_equals_brute_force(kjv_model):
 
 
 def test_suggestions_never_include_the_unknown_or_end_symbols(kjv_model):
-    # Issue 2: UNKNOWN and END are predicted outcomes but never suggested.
+    # docs/models.md, scoring convention: UNKNOWN and END are predicted outcomes but never suggested.
     found = kjv_model.suggest(("and", "it"), "", k=kjv_model.vocab_size + 5)
     assert len(found) == kjv_model.vocab_size
     assert all(s.id < kjv_model.vocab_size for s in found)
@@ -118,7 +118,7 @@ def test_suggestions_never_include_the_unknown_or_end_symbols(kjv_model):
 
 
 def test_suggestions_carry_display_forms_and_an_order(kjv_model):
-    # Display forms (issue 2, "Text"): the most frequent written form; orders are 1, 2 or 3.
+    # Display forms (docs/models.md, "Text conventions"): the most frequent written form; orders are 1, 2 or 3.
     found = kjv_model.suggest(("said", "unto"), "", k=10)
     assert found and all(s.order in (1, 2, 3) for s in found)
     for s in found:
@@ -128,13 +128,13 @@ def test_suggestions_carry_display_forms_and_an_order(kjv_model):
 
 
 def test_prefix_matching_is_case_insensitive(kjv_model):
-    # Issue 2: prefix matching is case-insensitive.
+    # docs/models.md: prefix matching is case-insensitive.
     assert kjv_model.suggest(("the",), "LO", k=8) == kjv_model.suggest(("the",), "lo", k=8)
     assert kjv_model.suggest(("THE", "Lord"), "", k=8) == kjv_model.suggest(("the", "lord"), "", k=8)
 
 
 def test_suggest_text_splits_context_and_prefix_like_the_cursor_rule(kjv_model):
-    # Issue 2: text ending inside a word completes it after the two words before it; text ending
+    # docs/models.md: text ending inside a word completes it after the two words before it; text ending
     # in whitespace predicts the next word; after a sentence end the context is the start.
     assert kjv_model.suggest_text("And God said, Let there be l", k=5) == kjv_model.suggest(("there", "be"), "l", k=5)
     assert kjv_model.suggest_text("And God said unto ", k=5) == kjv_model.suggest(("said", "unto"), "", k=5)

@@ -1,6 +1,6 @@
 """Tokenizer rules: words, sentence ends, case folding, display forms, bad bytes.
 
-The rules are the ones predictor/text.py and README's "Text conventions"
+The rules are the ones predictor/text.py and docs/models.md "Text conventions"
 state; most are common practice for word-prediction corpora (words with
 inner apostrophes and hyphens kept whole, numbers with inner separators kept
 whole, one sentence per line).  Unicode normalisation follows the Unicode
@@ -82,7 +82,7 @@ def test_case_is_folded_for_modelling():
 
 
 def test_the_cursor_rule_splits_complete_words_from_the_partial_word():
-    # Issue 2: text ending inside a word completes it; after whitespace the prefix is empty;
+    # docs/models.md: text ending inside a word completes it; after whitespace the prefix is empty;
     # after a sentence end the context starts afresh.
     assert split_before_cursor("see you at the sta") == (["see", "you", "at", "the"], "sta")
     assert split_before_cursor("see you at the ") == (["see", "you", "at", "the"], "")
@@ -105,7 +105,7 @@ def display(model: foretype.LanguageModel, word: str) -> str:
 
 
 def test_display_forms_keep_the_capitals_of_i_names_and_places(kjv_model):
-    # Issue 2: each word keeps its most frequent written form ("I", place names).
+    # docs/models.md: each word keeps its most frequent written form ("I", place names).
     assert display(kjv_model, "i") == "I"
     assert display(kjv_model, "god") == "God"
     assert display(kjv_model, "israel") == "Israel"
@@ -117,7 +117,7 @@ def test_display_forms_keep_the_capitals_of_i_names_and_places(kjv_model):
 
 
 def test_sentence_initial_capitals_do_not_count_as_a_words_own_form(kjv_model):
-    # Issue 2: "Moreover" opens 16 sentences here and "moreover" appears 6 times elsewhere: the
+    # docs/models.md: "Moreover" opens 16 sentences here and "moreover" appears 6 times elsewhere: the
     # display form is the non-initial one.  "Notwithstanding" appears only at sentence starts,
     # so it is shown in lower case; "And" starts 3,198 sentences but "and" is its form.
     assert display(kjv_model, "moreover") == "moreover"
@@ -126,7 +126,7 @@ def test_sentence_initial_capitals_do_not_count_as_a_words_own_form(kjv_model):
 
 
 def test_a_word_written_only_in_capitals_at_sentence_starts_keeps_them(write_file):
-    # README: a word seen only at sentence starts is lower-cased only when its written form is
+    # docs/models.md: a word seen only at sentence starts is lower-cased only when its written form is
     # just a capitalised model form ("The"); "NASA"-like forms stay as written.
     model = foretype.build([write_file("ABBA went home\nThe end\nand ABBA sang\nTHEN came it\n")])
     assert display(model, "the") == "the"
@@ -172,7 +172,7 @@ def test_counting_in_chunks_splits_sentences_exactly_as_one_pass_does(write_file
 
 
 def test_building_with_wrapped_joins_hard_wrapped_lines_into_sentences(write_file):
-    # README: --wrapped is for hard-wrapped prose; the same text counts as fewer, longer sentences.
+    # docs/models.md: --wrapped is for hard-wrapped prose; the same text counts as fewer, longer sentences.
     path = write_file("And God said\nLet there be light\n\nand there was\nlight\n")
     assert foretype.count_corpus([path]).sentences == 4
     wrapped = foretype.build([path], wrapped=True, method="mle")

@@ -120,7 +120,8 @@ def read_sweep(path: str | Path) -> SweepFile:
         raise CorpusError(f"{source}: not a sweep result (no rows with a vocab_size)")
     order = {m: i for i, m in enumerate(dict.fromkeys(str(r.get("method", "")) for r in rows))}
     rows = sorted(rows, key=lambda r: (order[str(r.get("method", ""))], r["vocab_size"]))
-    settings = meta.get("settings") if isinstance(meta.get("settings"), dict) else {}
+    found = meta.get("settings")
+    settings = found if isinstance(found, dict) else {}
     k = settings.get("k")
     return SweepFile(rows, bool(meta.get("complete", True)), str(meta.get("test", "")), k if isinstance(k, int) else None)
 

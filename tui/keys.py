@@ -16,7 +16,7 @@ too (:data:`CHORDS_FROM_ESCAPE_DIGITS` says which).
 
 from __future__ import annotations
 
-from typing import NamedTuple
+from typing import NamedTuple, cast
 
 OPTION_DIGIT_CHARACTERS = "¡™£¢∞§¶•ª"
 """What Textual 8 makes of ESC 1 .. ESC 9 unless told otherwise."""
@@ -45,7 +45,7 @@ def read_escape_digits_as_chords() -> bool:
     if current != list(OPTION_DIGIT_CHARACTERS):
         return False
     for sequence, chord in zip(sequences, chords):
-        ANSI_SEQUENCES_KEYS[sequence] = chord
+        cast("dict[str, object]", ANSI_SEQUENCES_KEYS)[sequence] = chord
     return True
 
 

@@ -333,7 +333,6 @@ class _Parser:
             raise ModelFileError(f"{self.path}: the {order}-gram {words!r} is listed twice") from None
 
 
-
 def _bigram_reader(parser: _Parser) -> Callable[[list[str], int], bool]:
     """The fast reader of a plain 2-gram line (see :meth:`_Parser._fast_entry`)."""
     get = parser.ids.get
@@ -392,6 +391,7 @@ def _trigram_reader(parser: _Parser) -> Callable[[list[str], int], bool]:
         return True
 
     return read_trigram
+
 
 def read_arpa(
     path: str | os.PathLike[str],

@@ -8,6 +8,7 @@ from typing import Any
 
 from ..counting import CorpusCounts, ProgressCallback, count_corpus
 from ..counting.memory import MemoryBudget
+from ..counting.store import open_count_store, store_wrapped
 from ..errors import CapacityError, OptionError
 from ..estimate import METHODS, model_counts
 from ..modelfile.encoding import CODEBOOK8, ENCODINGS
@@ -159,3 +160,31 @@ def build_from_counts(
         return shrink(LanguageModel(sections, meta), counts=counts_of_entries, **options)
     sections.update(rank_sections(LanguageModel(sections, meta)))
     return LanguageModel(sections, meta)
+
+
+def build_from_store(
+    store: str | os.PathLike[str],
+    *,
+    vocab_size: int | None = None,
+    min_count: int = 1,
+    method: str = "kneser-ney",
+    add: float = 0.1,
+    encoding: str | None = None,
+    max_memory: int | None = None,
+    cutoffs: tuple[int, int] | None = None,
+) -> LanguageModel:
+    """Build a model from a count store (see :mod:`predictor.counting.store`).
+
+    The model equals the one :func:`build` makes from the corpus the store counted
+    with the same settings; the trigram tables stream from the store while the
+    chosen vocabulary's table is gathered within ``max_memory``.
+
+    Raises:
+        OptionError, ModelFileError (not a readable store), CorpusError, CapacityError.
+    """
+    check_build_options(vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding, cutoffs=cutoffs)
+    counts, manifest = open_count_store(store, max_memory=max_memory)
+    pruning = None if cutoffs is None else {"criterion": "count", "cutoffs": cutoffs}
+    model = build_from_counts(counts, vocab_size=vocab_size, min_count=min_count, method=method, add=add, encoding=encoding, shrink_options=pruning)
+    model.meta["wrapped"] = store_wrapped(manifest)
+    return model

@@ -45,11 +45,11 @@ def rank_sections(model: LanguageModel, minimum: int = RANKED_MIN) -> dict[str, 
     start_id = size + 2
     lists3: list[np.ndarray] = []
     for slot in slots3:
-        v = start_id if slot == len(w2) else int(w2[slot])
+        last = start_id if slot == len(w2) else int(w2[slot])
         lo3, hi3 = int(off3[slot]), int(off3[slot + 1])
         ids = w3[lo3:hi3].astype(np.int64)
         ids = ids[ids < size]
-        slots = Slots(v, int(off2[v]), int(off2[v + 1]), int(slot), lo3, hi3, True)
+        slots = Slots(last, int(off2[last]), int(off2[last + 1]), int(slot), lo3, hi3, True)
         p3, _, _ = core.scores(ids, slots, float(g3[slot]))
         lists3.append(ids[np.lexsort((ids, -p3))])
     rank3_off = np.zeros(len(slots3) + 1, dtype=np.int64)

@@ -15,9 +15,12 @@ import sys
 from collections.abc import Sequence
 
 from ..errors import ForetypeError, OptionError
+from ..query.compiled import default_path, describe_path
+from ..version import __version__
 
 COMMAND_MODULES = (
     "model_commands",
+    "count_commands",
     "measure_commands",
     "compare_commands",
     "learn_commands",
@@ -51,6 +54,7 @@ def make_parser() -> argparse.ArgumentParser:
         description="Train trigram models for predictive text entry and measure what they save. "
         "With no command, opens the typing pad on the demo model.",
     )
+    parser.add_argument("--version", action="version", version=f"foretype {__version__}; queries answered by {describe_path(default_path())}")
     commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     for name in COMMAND_MODULES:
         importlib.import_module(f"{__name__}.{name}").register(commands)

@@ -99,7 +99,8 @@ def register(commands: argparse._SubParsersAction) -> None:
         "Writes DIR/sweep.csv, DIR/sweep.json and the chart DIR/sweep.svg as each row finishes, and the models as "
         "DIR/METHOD-vSIZE.model. Example: foretype sweep corpus/ --test heldout.txt --vocab-sizes 1000,5000,20000 --out sweep/",
     )
-    p.add_argument("corpus", nargs="+", help="text files or folders of them")
+    p.add_argument("corpus", nargs="*", help="text files or folders of them (or --counts)")
+    p.add_argument("--counts", metavar="COUNTS", default=None, help="estimate from a count store written by 'foretype count' instead of counting a corpus")
     p.add_argument("--test", required=True, metavar="TESTFILE", help="the held-out text to type and score")
     p.add_argument("--vocab-sizes", default="1000,2000,5000,10000,20000,50000", metavar="N,N,...", help="vocabulary sizes (default 1000,2000,5000,10000,20000,50000)")
     p.add_argument("--methods", default="kneser-ney", metavar="M,M,...", help=f"estimators, comma-separated, from {', '.join(METHODS)} (default kneser-ney)")
@@ -196,6 +197,9 @@ def run_sweep_command(args: argparse.Namespace) -> int:
     from ..builder.shrink import parse_encodings
     from ..sweep import ExtraMeasures, format_table, parse_methods, parse_shares, parse_vocab_sizes, run_sweep
 
+    from ..counting.store import require_corpus_free
+
+    require_corpus_free(args.corpus, args.counts)
     settings = _settings(args)
     sizes = parse_vocab_sizes(args.vocab_sizes)
     methods = parse_methods(args.methods)
@@ -229,6 +233,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
             progress=stages,
             on_row=finished,
             adapt=args.adapt,
+            counts_store=args.counts,
             shrink_criteria=criteria,
             keep_bytes=shares,
             value_encodings=encodings,

@@ -7,10 +7,11 @@ import time
 from pathlib import Path
 from typing import Any
 
-from ..builder import build
+from ..builder import build, build_from_store
 from ..counting import CorpusCounts
 from ..counting.corpus import read_text_file
 from ..counting.memory import parse_size, peak_resident_bytes
+from ..counting.store import require_corpus_free
 from ..errors import OptionError
 from ..estimate import METHODS
 from ..modelfile.encoding import ENCODINGS
@@ -36,7 +37,8 @@ def register(commands: argparse._SubParsersAction) -> None:
         description="Build a smoothed trigram model from text files (one sentence per line by default). "
         "Example: foretype build corpus/*.txt -o chat.model --vocab-size 20000",
     )
-    p.add_argument("corpus", nargs="+", help="text files or folders of them")
+    p.add_argument("corpus", nargs="*", help="text files or folders of them (or --counts)")
+    p.add_argument("--counts", metavar="COUNTS", default=None, help="estimate from a count store written by 'foretype count' instead of counting a corpus")
     p.add_argument("-o", "--output", required=True, help="the model file to write (replaced only when the build succeeds)")
     p.add_argument("--vocab-size", type=positive_int, default=None, metavar="N", help="keep the N most frequent words")
     p.add_argument("--min-count", type=positive_int, default=1, metavar="C", help="drop words seen fewer than C times (default 1)")
@@ -115,30 +117,42 @@ def _memory_size(text: str) -> int:
 def run_build(args: argparse.Namespace) -> int:
     """foretype build."""
     started = time.perf_counter()
+    require_corpus_free(args.corpus, args.counts)
     check_target(args.output)  # fail before reading a corpus, not after
+    if args.counts is not None:
+        for flag, given in (("--wrapped", args.wrapped), ("--replace-bad-bytes", args.replace_bad_bytes), ("--reject-binary", args.reject_binary), ("--spill-dir", args.spill_dir)):
+            if given:
+                raise OptionError(f"{flag} applies to counting a corpus; a count store keeps the settings it was counted with")
     spill_dir = args.spill_dir if args.spill_dir is not None else (str(Path(args.output).parent) or ".")
     counted: dict[str, int] = {}
 
     def note_counts(counts: CorpusCounts) -> None:
         counted["spilled_rows"] = counts.spilled_rows
 
-    with progress_bar("reading corpus") as update:
-        model = build(
-            args.corpus,
-            vocab_size=args.vocab_size,
-            min_count=args.min_count,
-            method=args.method,
-            add=args.add,
-            wrapped=args.wrapped,
-            replace_bad_bytes=args.replace_bad_bytes,
-            reject_binary=args.reject_binary,
-            encoding=args.values,
-            progress=update,
-            max_memory=args.max_memory,
-            spill_dir=spill_dir,
-            on_counted=note_counts,
-            cutoffs=args.cutoffs,
-        )
+    if args.counts is not None:
+        with progress_bar("estimating from the count store") as update:
+            update(0, 0)
+            model = build_from_store(
+                args.counts, vocab_size=args.vocab_size, min_count=args.min_count, method=args.method, add=args.add, encoding=args.values, max_memory=args.max_memory, cutoffs=args.cutoffs
+            )
+    else:
+        with progress_bar("reading corpus") as update:
+            model = build(
+                args.corpus,
+                vocab_size=args.vocab_size,
+                min_count=args.min_count,
+                method=args.method,
+                add=args.add,
+                wrapped=args.wrapped,
+                replace_bad_bytes=args.replace_bad_bytes,
+                reject_binary=args.reject_binary,
+                encoding=args.values,
+                progress=update,
+                max_memory=args.max_memory,
+                spill_dir=spill_dir,
+                on_counted=note_counts,
+                cutoffs=args.cutoffs,
+            )
     size = model.save(args.output)
     seconds = time.perf_counter() - started
     info = load(args.output).info()
@@ -257,7 +271,8 @@ def run_info(args: argparse.Namespace) -> int:
         f"  n-grams stored   {n['1']:,} unigrams, {n['2']:,} bigrams, {n['3']:,} trigrams\n"
         f"  possible         {info['possible_trigrams']:.3g} trigrams over this vocabulary\n"
         f"  file             {info['file_bytes']:,} bytes, {info['bytes_per_ngram']:.2f} bytes per stored n-gram\n"
-        f"  corpus           {info['corpus_tokens']:,} tokens"
+        f"  corpus           {info['corpus_tokens']:,} tokens\n"
+        f"  queries          answered by {info['query_path_note']}"
     )
     shrunk = describe_shrink(model)
     if shrunk:

@@ -69,10 +69,7 @@ def _whisker(parts: list[str], scale: _Scale, y: float, interval: tuple[float, f
     if interval is None:
         return
     low, high = scale.x(interval[0]), scale.x(interval[1])
-    parts.append(
-        f'<path d="M{low:.1f},{y:.1f}H{high:.1f}M{low:.1f},{y - 5:.1f}V{y + 5:.1f}M{high:.1f},{y - 5:.1f}V{y + 5:.1f}" '
-        f'stroke="{colour}" stroke-width="2" fill="none"/>'
-    )
+    parts.append(f'<path d="M{low:.1f},{y:.1f}H{high:.1f}M{low:.1f},{y - 5:.1f}V{y + 5:.1f}M{high:.1f},{y - 5:.1f}V{y + 5:.1f}" stroke="{colour}" stroke-width="2" fill="none"/>')
 
 
 def _padded(values: list[float], symmetric: bool) -> tuple[float, float]:
@@ -86,8 +83,7 @@ def _padded(values: list[float], symmetric: bool) -> tuple[float, float]:
 
 def _header(result: ComparisonResult, heading: str, height: int) -> list[str]:
     return [
-        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{height}" viewBox="0 0 {WIDTH} {height}" '
-        'font-family="Helvetica, Arial, sans-serif" font-size="12">',
+        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{height}" viewBox="0 0 {WIDTH} {height}" font-family="Helvetica, Arial, sans-serif" font-size="12">',
         f'<rect width="{WIDTH}" height="{height}" fill="#ffffff"/>',
         f'<text x="12" y="22" font-size="15" font-weight="bold">{escape(heading)}</text>',
         f'<text x="12" y="40" fill="#555555">{escape(result.test_name or "test text")}: {result.sentences:,} sentences; '

@@ -86,7 +86,16 @@ def comparison_csv(result: ComparisonResult) -> str:
         for (i, j), pair in found.pairs.items():
             interval = pair.interval
             writer.writerow(
-                ("pair", result.systems[i].label, result.systems[j].label, name, cell(pair.difference), cell(interval and interval[0]), cell(interval and interval[1]), cell(pair.p_value))
+                (
+                    "pair",
+                    result.systems[i].label,
+                    result.systems[j].label,
+                    name,
+                    cell(pair.difference),
+                    cell(interval and interval[0]),
+                    cell(interval and interval[1]),
+                    cell(pair.p_value),
+                )
             )
     return table.getvalue()
 

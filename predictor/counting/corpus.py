@@ -159,10 +159,7 @@ def iter_chunks(path: Path, *, replace_bad_bytes: bool = False, chunk_bytes: int
             except UnicodeDecodeError as error:
                 line = line_number + data.count(b"\n", 0, error.start)
                 bad = data[error.start]
-                raise EncodingError(
-                    f"{path}:{line}: not valid UTF-8 (byte 0x{bad:02x}); "
-                    "pass --replace-bad-bytes to replace such bytes"
-                ) from None
+                raise EncodingError(f"{path}:{line}: not valid UTF-8 (byte 0x{bad:02x}); pass --replace-bad-bytes to replace such bytes") from None
             line_number += data.count(b"\n")
             yield text
 

@@ -86,10 +86,7 @@ class CorpusCounts:
         if vocab_size is not None:
             chosen = chosen[:vocab_size]
         if max_words is not None and len(chosen) > max_words:
-            raise CapacityError(
-                f"a vocabulary of {len(chosen):,} words exceeds the format's limit of {max_words:,}; "
-                "pass --vocab-size or --min-count"
-            )
+            raise CapacityError(f"a vocabulary of {len(chosen):,} words exceeds the format's limit of {max_words:,}; pass --vocab-size or --min-count")
         return [int(t) for t in chosen]
 
     def require_estimate(self, trigrams: int, words: int) -> None:

@@ -53,7 +53,22 @@ ESTIMATE_BYTES_PER_TRIGRAM = 135
 ESTIMATE_BYTES_PER_WORD = 300
 """Peak bytes per vocabulary word while the prefix index is built (measured: about 180)."""
 
-_UNITS = {"": 1, "b": 1, "k": 2**10, "kb": 10**3, "kib": 2**10, "m": 2**20, "mb": 10**6, "mib": 2**20, "g": 2**30, "gb": 10**9, "gib": 2**30, "t": 2**40, "tb": 10**12, "tib": 2**40}
+_UNITS = {
+    "": 1,
+    "b": 1,
+    "k": 2**10,
+    "kb": 10**3,
+    "kib": 2**10,
+    "m": 2**20,
+    "mb": 10**6,
+    "mib": 2**20,
+    "g": 2**30,
+    "gb": 10**9,
+    "gib": 2**30,
+    "t": 2**40,
+    "tb": 10**12,
+    "tib": 2**40,
+}
 
 
 def parse_size(text: str) -> int:
@@ -144,8 +159,7 @@ class MemoryBudget:
             limit = max(int(available_bytes() * DEFAULT_SHARE), baseline + 4 * MINIMUM_WORKING)
         if limit < baseline + MINIMUM_WORKING:
             raise OptionError(
-                f"--max-memory {format_size(limit)} is too small: the process already uses {format_size(baseline)} "
-                f"and needs at least {format_size(MINIMUM_WORKING)} more"
+                f"--max-memory {format_size(limit)} is too small: the process already uses {format_size(baseline)} and needs at least {format_size(MINIMUM_WORKING)} more"
             )
         return MemoryBudget(limit=int(limit), baseline=baseline)
 

@@ -95,8 +95,8 @@ class ModelFile:
 
 def crc32(data: bytes | memoryview | np.ndarray) -> int:
     """The CRC-32 (zlib's) of an array's or buffer's bytes."""
-    return zlib.crc32(memoryview(data).cast("B")) & 0xFFFFFFFF
-
+    view = data.data if isinstance(data, np.ndarray) else memoryview(data)
+    return zlib.crc32(view.cast("B")) & 0xFFFFFFFF
 
 
 def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sections: Mapping[str, np.ndarray]) -> int:
@@ -154,7 +154,7 @@ def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sect
             written = _PREAMBLE.size + len(header)
             for entry, array in zip(entries, arrays.values()):
                 out.write(b"\x00" * (entry["offset"] - written))
-                out.write(memoryview(array).cast("B"))
+                out.write(array.data.cast("B"))
                 written = entry["offset"] + entry["nbytes"]
             out.write(b"\x00" * (_align(written) - written))
             out.flush()
@@ -230,8 +230,6 @@ def _align(position: int) -> int:
     return (position + _ALIGN - 1) // _ALIGN * _ALIGN
 
 
-
-
 def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> ModelFile:
     """Memory-map a model file, check its structure and view its sections.
 
@@ -256,8 +254,7 @@ def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> 
     if version not in READABLE_VERSIONS:
         if version > FORMAT_VERSION:
             raise ModelVersionError(
-                f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} "
-                "(or a damaged file); upgrade foretype or rebuild the model"
+                f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} (or a damaged file); upgrade foretype or rebuild the model"
             )
         raise ModelVersionError(f"{source}: model format version {version}, which this engine does not read; rebuild the model")
     if header_length == 0 or header_length > MAX_HEADER_BYTES:

@@ -232,7 +232,7 @@ def _check_vocabulary(name: object, s: dict[str, np.ndarray], size: int) -> None
         raise ModelFileError(f"{name}: corrupt (section vocab.trie is not a trie image)")
     trie = marisa_trie.Trie()
     try:
-        trie.map(memoryview(image))
+        trie.map(image.data)
     except Exception:  # noqa: BLE001 - the library raises several types for bad images
         raise ModelFileError(f"{name}: corrupt (section vocab.trie cannot be read)") from None
     if len(trie) != len(key_lo):
@@ -296,7 +296,7 @@ def _unpack_all(blob: np.ndarray, offsets: np.ndarray) -> list[str]:
 def _check_prefix_index(name: object, s: dict[str, np.ndarray], words: list[str]) -> None:
     """Every trie key is a prefix of a word, and its entry records that prefix's id range."""
     trie = marisa_trie.Trie()
-    trie.map(memoryview(s["vocab.trie"]))
+    trie.map(s["vocab.trie"].data)
     items = trie.items()
     prefixes = np.array([key for key, _ in items], dtype=object)
     key_ids = np.array([key_id for _, key_id in items], dtype=np.int64)

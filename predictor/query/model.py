@@ -32,6 +32,7 @@ from ..modelfile.encoding import decode
 from ..modelfile.format import FORMAT_VERSION, read_model_file, write_model_file
 from ..modelfile.integrity import check_structure
 from ..text import capitalise, iter_sentences, model_form, split_before_cursor
+from .compiled import COMPILED, NUMPY, default_path, describe_path, make_core
 from .ranked import RANKED_MIN, RankLists
 from .scoring import ScoringCore, Slots
 from .vocabulary import END, START, UNKNOWN, PrefixRange, Vocabulary
@@ -41,6 +42,9 @@ _SCORE_ALL = RANKED_MIN
 _TIE_GUARD = 8
 """Extra words taken from a list ranked by P2, whose scaled scores may round to equal."""
 _NO_IDS = np.zeros(0, dtype=np.int64)
+_CACHE_ENTRIES = 1 << 16
+"""Prefix ranges and context ids kept per model (a cache is emptied when it reaches this size)."""
+_UNSEEN = object()
 
 
 def _without(ids: np.ndarray, exclude: np.ndarray) -> np.ndarray:
@@ -101,7 +105,15 @@ class TextScore:
 class LanguageModel:
     """A smoothed trigram model over a fixed vocabulary (built in memory or loaded from a file)."""
 
-    def __init__(self, sections: dict[str, np.ndarray], meta: dict[str, Any], *, path: Path | None = None, file_bytes: int | None = None) -> None:
+    def __init__(
+        self,
+        sections: dict[str, np.ndarray],
+        meta: dict[str, Any],
+        *,
+        path: Path | None = None,
+        file_bytes: int | None = None,
+        compiled: bool | None = None,
+    ) -> None:
         """Wrap model arrays; use :func:`foretype.builder` or :func:`foretype.load` to get one.
 
         Args:
@@ -109,6 +121,12 @@ class LanguageModel:
             meta: the header fields.
             path: the file the arrays are mapped from, if any.
             file_bytes: that file's size.
+            compiled: answer on the compiled core (True), the numpy path
+                (False), or the default (None: the core where it is built,
+                unless ``FORETYPE_PURE`` is set).
+
+        Raises:
+            RuntimeError: ``compiled=True`` but the compiled core is not built.
         """
         self.meta = meta
         self.sections = sections
@@ -129,6 +147,26 @@ class LanguageModel:
         self._ranks = RankLists(sections)
         self._root_values: np.ndarray | None = None
         self._last_context: tuple[int, int, Slots, float] = (-1, -1, Slots(-1, 0, 0, -1, 0, 0, False), 1.0)
+        self._prefixes: dict[str, PrefixRange | None] = {}
+        self._bounds: dict[str, tuple[int, int, int] | None] = {}
+        self._contexts: dict[tuple[str, ...], tuple[int, int]] = {}
+        self._compiled = None
+        if compiled if compiled is not None else default_path() == COMPILED:
+            arrays = {**sections, "p1": self._p1, "l2.off": self._off2, "l2.gamma": self._g2}
+            try:
+                self._compiled = make_core(arrays, self._interpolated)
+            except ValueError:
+                if compiled:
+                    raise
+                self._compiled = None  # a layout the core does not read: the numpy path answers
+            if self._compiled is not None:
+                tail = tuple(Suggestion._field_defaults[name] for name in Suggestion._fields[4:])
+                self._compiled.bind_suggestions(Suggestion, self.vocab.display, tail)
+
+    @property
+    def query_path(self) -> str:
+        """Which path answers queries: ``compiled`` (the compiled core) or ``numpy``."""
+        return COMPILED if self._compiled is not None else NUMPY
 
     # ----------------------------------------------------------------- facts
     @property
@@ -165,12 +203,18 @@ class LanguageModel:
             "corpus_tokens": int(self.meta["corpus_tokens"]),
             "possible_trigrams": (self._size + 2) ** 3,
             "value_encoding": self.meta["value_encoding"],
+            "query_path": self.query_path,
+            "query_path_note": describe_path(self.query_path),
         }
 
     # -------------------------------------------------------------- contexts
     def context_ids(self, context: Sequence[str]) -> tuple[int, int]:
         """Map up to two context words to ids: padded with START, unknown words to UNKNOWN."""
-        words = list(context)[-2:]
+        key = context if type(context) is tuple and len(context) <= 2 else tuple(context)[-2:]
+        known = self._contexts.get(key)
+        if known is not None:
+            return known
+        words = list(key)
         ids = [self.vocab.id_or_unknown(w) for w in words]
         start = self.vocab.start_id
         while len(ids) < 2:
@@ -178,6 +222,9 @@ class LanguageModel:
         u, v = ids
         if v == start:
             u = start
+        if len(self._contexts) >= _CACHE_ENTRIES:
+            self._contexts = {}
+        self._contexts[key] = (u, v)
         return u, v
 
     def _context(self, u: int, v: int) -> tuple[Slots, float]:
@@ -246,12 +293,63 @@ class LanguageModel:
         """:meth:`suggest` with a context already mapped by :meth:`context_ids`."""
         if k < 1:
             raise OptionError(f"k must be at least 1, not {k}")
-        found = self.vocab.prefix_range(model_form(prefix) if prefix else "")
+        found = self._prefix_range(prefix)
         if found is None:
             return []
-        ids, probs, orders = self.top_in_range(u, v, found, k)
+        if self._compiled is not None:
+            return self._compiled.suggest(u, v, found.lo, found.hi, found.order_start, k)
         display = self.vocab.display
+        ids, probs, orders = self.top_in_range(u, v, found, k)
         return [Suggestion(display(i), p, o, i) for i, p, o in zip(ids.tolist(), probs.tolist(), orders)]
+
+    def suggest_steps(self, u: int, v: int, prefixes: Sequence[str], k: int, until: str | None = None) -> list[list[Suggestion]]:
+        """:meth:`suggest_ids` for several prefixes after one context, in one call (the simulated typist's steps).
+
+        Args:
+            u, v: the context ids (from :meth:`context_ids`).
+            prefixes: the prefixes to ask about, in order.
+            k: how many suggestions per prefix.
+            until: a word in model form: the answers end after the first list
+                that offers it (None: they never end early).
+
+        Returns:
+            One list per prefix answered, as :meth:`suggest_ids` gives it; the
+            answers end after the first empty list or the first list offering ``until``.
+        """
+        if k < 1:
+            raise OptionError(f"k must be at least 1, not {k}")
+        stop = self.vocab.id(until) if until else None
+        stop = -1 if stop is None else stop
+        if self._compiled is not None:
+            known = self._bounds
+            ranges = []
+            for prefix in prefixes:
+                bounds = known.get(prefix, _UNSEEN)
+                if bounds is _UNSEEN:
+                    found = self._prefix_range(prefix)
+                    bounds = known[prefix] = None if found is None else (found.lo, found.hi, found.order_start)
+                ranges.append(bounds)
+                if bounds is None:
+                    break
+            return self._compiled.steps(u, v, ranges, k, stop)
+        lists = []
+        for prefix in prefixes:
+            found = self.suggest_ids(u, v, prefix, k)
+            lists.append(found)
+            if not found or any(s.id == stop for s in found):
+                break
+        return lists
+
+    def _prefix_range(self, prefix: str) -> PrefixRange | None:
+        """The id range of a prefix as typed (case-folded to model form), kept for the next query."""
+        found = self._prefixes.get(prefix, _UNSEEN)
+        if found is _UNSEEN:
+            found = self.vocab.prefix_range(model_form(prefix) if prefix else "")
+            if len(self._prefixes) >= _CACHE_ENTRIES:
+                self._prefixes = {}
+                self._bounds = {}
+            self._prefixes[prefix] = found
+        return found  # type: ignore[return-value]
 
     def top_in_range(self, u: int, v: int, found: PrefixRange, k: int) -> tuple[np.ndarray, np.ndarray, list[int]]:
         """The exact k most probable words of an id range after a context, without their display forms.
@@ -270,6 +368,9 @@ class LanguageModel:
             (n,), n <= k, by probability descending, ties by id ascending; and the
             order (1, 2 or 3) that supplied most of each probability.
         """
+        if self._compiled is not None:
+            ids, probs, orders = self._compiled.top(u, v, found.lo, found.hi, found.order_start, k)
+            return np.array(ids, dtype=np.int64), np.array(probs, dtype=np.float64), orders
         slots, gamma3 = self._context(u, v)
         explicit, stored, run = self._explicit_candidates(slots, gamma3, found, k)
         scores, a2, a3 = self._scores(explicit, slots, gamma3, run)
@@ -297,6 +398,8 @@ class LanguageModel:
         Returns:
             float64 array of shape (n,).
         """
+        if self._compiled is not None:
+            return self._compiled.probabilities(u, v, ids)
         slots, gamma3 = self._context(u, v)
         return self._scores(ids, slots, gamma3)[0]
 
@@ -305,6 +408,8 @@ class LanguageModel:
 
         The same order :meth:`suggest_ids` reports for a suggested word.
         """
+        if self._compiled is not None:
+            return self._compiled.probabilities(u, v, ids, True)[1]
         slots, gamma3 = self._context(u, v)
         probs, a2, a3 = self._scores(ids, slots, gamma3)
         return self._orders(probs.tolist(), None if a2 is None else a2.tolist(), None if a3 is None else a3.tolist(), gamma3)

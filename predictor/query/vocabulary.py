@@ -13,7 +13,6 @@ Special symbols follow the words: ``UNKNOWN`` has id V, ``END`` id V + 1 and
 
 from __future__ import annotations
 
-from bisect import bisect_left
 from collections.abc import Sequence
 from dataclasses import dataclass
 
@@ -66,7 +65,7 @@ class Vocabulary:
             sections: the ``vocab.*`` arrays described in :func:`vocabulary_sections`.
         """
         self._trie = marisa_trie.Trie()
-        self._trie.map(memoryview(sections["vocab.trie"]))
+        self._trie.map(sections["vocab.trie"].data)
         self._key_lo = sections["vocab.key_lo"]
         self._key_hi = sections["vocab.key_hi"]
         self._key_order = sections["vocab.key_order"]
@@ -182,6 +181,43 @@ class Vocabulary:
         return isinstance(word, str) and self.id(word) is not None
 
 
+def _prefix_ranges(words: Sequence[str]) -> tuple[list[str], np.ndarray, np.ndarray, np.ndarray]:
+    """Every prefix of the sorted words, in sorted order, with the id range of the words that start with it.
+
+    One pass: word i brings the prefixes longer than what it shares with word
+    i - 1 (they start at id i and sort after every earlier prefix); a prefix
+    ends at the first word that no longer shares it.
+
+    Returns:
+        ``(prefixes, lo, hi, is_word)``: the prefixes, and int64, int64 and
+        bool arrays of their first id, one past their last id, and whether the
+        prefix is itself the word ``lo``.
+    """
+    prefixes: list[str] = []
+    lo: list[int] = []
+    is_word: list[bool] = []
+    hi: list[int] = []
+    open_at: list[int] = []  # open_at[n - 1]: index of the current word's prefix of length n
+    previous = ""
+    for i, word in enumerate(words):
+        shared = 0
+        limit = min(len(word), len(previous))
+        while shared < limit and word[shared] == previous[shared]:
+            shared += 1
+        while len(open_at) > shared:
+            hi[open_at.pop()] = i
+        for end in range(shared + 1, len(word) + 1):
+            open_at.append(len(prefixes))
+            prefixes.append(word[:end])
+            lo.append(i)
+            hi.append(-1)
+            is_word.append(end == len(word))
+        previous = word
+    for index in open_at:
+        hi[index] = len(words)
+    return prefixes, np.array(lo, dtype=np.int64), np.array(hi, dtype=np.int64), np.array(is_word, dtype=bool)
+
+
 def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: np.ndarray) -> dict[str, np.ndarray]:
     """Build the vocabulary arrays of a model.
 
@@ -198,14 +234,9 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
         (per key, start in ``order``), ``order`` (int32), and the string blobs.
     """
     size = len(words)
-    prefixes = sorted({word[:end] for word in words for end in range(1, len(word) + 1)})
+    prefixes, lo, hi, is_word = _prefix_ranges(words)
     trie = marisa_trie.Trie(prefixes)
     keys = len(prefixes)
-    word_list = list(words)
-    # bisect on a list of str is about twice as fast as numpy's search over an object array.
-    lo = np.array([bisect_left(word_list, p) for p in prefixes], dtype=np.int64)
-    hi = np.array([bisect_left(word_list, p + "\U0010ffff") for p in prefixes], dtype=np.int64)
-    is_word = np.array([i < size and word_list[i] == p for i, p in zip(lo.tolist(), prefixes)], dtype=bool)
     # Rank of each word in the global unigram order (probability descending, id ascending).
     global_order = np.lexsort((np.arange(size), -unigram)).astype(np.int32)
     rank = np.empty(size, dtype=np.int64)

@@ -89,10 +89,7 @@ def suggest(
         words, typed = source.parse_cursor_text(before)
         found = source.suggest_text(before, k)
     adapted = source if isinstance(source, AdaptedModel) else None
-    rows = [
-        {"word": s.word, "prob": s.prob, "order": s.order, "learned": bool(s.learned), "new_word": bool(s.new_word)}
-        for s in found
-    ]
+    rows = [{"word": s.word, "prob": s.prob, "order": s.order, "learned": bool(s.learned), "new_word": bool(s.new_word)} for s in found]
     return {
         "model": served.name,
         "profile": profile,

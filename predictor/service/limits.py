@@ -79,7 +79,6 @@ class BodyLimit:
 
         await self.app(scope, replay, send)
 
-
     async def _read_body(self, scope: Scope, receive: Receive, send: Send) -> bytes | None:
         """The whole body, or None once a refusal was sent (too large) or the client went away."""
         declared = header(scope, b"content-length")

@@ -108,7 +108,13 @@ def learn(body: LearnRequest, request: Request) -> JSONResponse:
     served = state.catalogue.get(body.model)
     with state.profiles.store(body.profile, served) as learned:
         payload = engine_call(
-            answers.learn, learned, served, state.settings.limits,
-            profile=body.profile, event=body.event, word=body.word, context=body.context,
+            answers.learn,
+            learned,
+            served,
+            state.settings.limits,
+            profile=body.profile,
+            event=body.event,
+            word=body.word,
+            context=body.context,
         )
     return _json(payload)

@@ -225,8 +225,14 @@ class Session:
             raise ApiError(409, "learning_not_enabled", "this session was opened without learn=true and a profile; open one with ?profile=NAME&learn=true")
         with self.state.profiles.store(options.profile, options.served) as learned:
             payload = engine_call(
-                answers.learn, learned, options.served, self.limits,
-                profile=options.profile, event=request.get("event", ""), word=request.get("word"), context=request.get("context", []),
+                answers.learn,
+                learned,
+                options.served,
+                self.limits,
+                profile=options.profile,
+                event=request.get("event", ""),
+                word=request.get("word"),
+                context=request.get("context", []),
             )
         return {"type": "learned", "seq": request["seq"], **{k: v for k, v in payload.items() if k not in ("model", "profile")}}
 

@@ -18,7 +18,7 @@ so an error in the trie index or in ``suggest`` shows up as a disagreement.
 
 from __future__ import annotations
 
-from bisect import bisect_left, bisect_right
+from bisect import bisect_left
 from dataclasses import dataclass
 
 import numpy as np
@@ -128,7 +128,7 @@ def baseline_keystrokes(passage: Passage, view: VocabularyView, unigram: np.ndar
             for step in range(settings.min_prefix, _last_step(word, settings) + 1):
                 prefix = model_form(word.target[:step])
                 lo = bisect_left(words, prefix)
-                hi = bisect_right(words, prefix, lo=lo, key=lambda w, n=len(prefix): w[:n])
+                hi = bisect_left(words, prefix + "\U0010ffff", lo=lo)  # past every word that starts with the prefix
                 ahead = int(np.count_nonzero(rank[lo:hi] < mine)) if step else int(mine)
                 if ahead < k:
                     cost = _picked_cost(word, step, settings)

@@ -11,19 +11,22 @@ each word costs what :mod:`foretype.simulate.editing` says.
 
 The source is anything with ``context_ids`` and ``suggest_ids`` (a
 :class:`~foretype.query.model.LanguageModel`, or a model combined with a user model).
+A source that also has ``suggest_steps`` (LanguageModel does) answers all the
+steps of a word in one call.
 """
 
 from __future__ import annotations
 
 import math
 import time
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
 from typing import Any
 
 import numpy as np
 
 from ..errors import OptionError
+from ..query.model import Suggestion
 from ..query.passed_over import suggest_without
 from ..query.source import SuggestionSource
 from ..text import capitalise, model_form
@@ -137,6 +140,56 @@ class TypingRun:
     latencies_ns: np.ndarray
 
 
+def _lists_asked(
+    source: SuggestionSource, u: int, v: int, target: str, first: int, last: int, k: int, model_form: str, latencies: list[int]
+) -> Iterator[list[Suggestion]]:
+    """The suggestion lists of one word's steps, ``first`` to ``last`` letters, as the typist reads them.
+
+    A source with ``suggest_steps`` answers the steps in one call that ends at
+    the first list offering the word (where the typist picks it) or the first
+    empty list (where it stops asking); each step then counts its share of the
+    call's time as its latency.  If the typist reads on past that list (the
+    offered form differs from the written one), the remaining steps are asked
+    for in another call.  Other sources are asked step by step.
+    """
+    clock = time.perf_counter_ns
+    batch = getattr(source, "suggest_steps", None)
+    step = first
+    until: str | None = model_form
+    while step <= last:
+        if batch is None:
+            started = clock()
+            found = source.suggest_ids(u, v, target[:step], k)
+            latencies.append(clock() - started)
+            step += 1
+            yield found
+            continue
+        started = clock()
+        lists = batch(u, v, [target[:s] for s in range(step, last + 1)], k, until)
+        share = (clock() - started) // max(1, len(lists))
+        until = None
+        for found in lists:
+            latencies.append(share)
+            step += 1
+            yield found
+
+
+def _lists_without(
+    source: SuggestionSource, u: int, v: int, target: str, first: int, last: int, k: int, passed: set[str], latencies: list[int]
+) -> Iterator[list[Suggestion]]:
+    """The lists of one word's steps with the words passed over left out, asked step by step.
+
+    ``passed`` is read at each step, so words the typist adds to it between
+    steps are left out of the later lists.
+    """
+    clock = time.perf_counter_ns
+    for step in range(first, last + 1):
+        started = clock()
+        found = suggest_without(source, u, v, target[:step], k, passed)
+        latencies.append(clock() - started)
+        yield found
+
+
 WordObserver = Callable[[PassageWord, bool], None]
 """Called after each word with the word and whether it was picked (an adaptive source learns here)."""
 
@@ -185,7 +238,6 @@ class Typist:
         skip_passed = settings.skip_passed
         full = passage.mode == "full"
         known = self.known
-        clock = time.perf_counter_ns
         latencies: list[int] = []
         traces: list[WordTrace] = []
         total = float(len(passage.lead))
@@ -203,11 +255,12 @@ class Typist:
             picked_at: str | None = None
             rank: int | None = None
             passed: set[str] = set()
-            for step in range(first_step, last_step + 1):
+            if skip_passed:
+                asked = _lists_without(source, u, v, target, first_step, last_step, k, passed, latencies)
+            else:
+                asked = _lists_asked(source, u, v, target, first_step, last_step, k, word.model, latencies)
+            for step, found in zip(range(first_step, last_step + 1), asked):
                 prefix = target[:step]
-                started = clock()
-                found = suggest_without(source, u, v, prefix, k, passed) if passed else source.suggest_ids(u, v, prefix, k)
-                latencies.append(clock() - started)
                 if capital:
                     forms = [capitalise(s.word) for s in found]
                 else:

@@ -42,8 +42,7 @@ def entry_rate_chart(reports: Sequence[SessionReport], title: str = "Entry rate 
     height = TOP + PANEL + BOTTOM + ((GAP + PANEL) if simulated else 0)
     plot_w = WIDTH - LEFT - RIGHT
     parts = [
-        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{height}" viewBox="0 0 {WIDTH} {height}" '
-        'font-family="Helvetica, Arial, sans-serif" font-size="12">',
+        f'<svg xmlns="http://www.w3.org/2000/svg" width="{WIDTH}" height="{height}" viewBox="0 0 {WIDTH} {height}" font-family="Helvetica, Arial, sans-serif" font-size="12">',
         f'<rect width="{WIDTH}" height="{height}" fill="#ffffff"/>',
         f'<text x="{LEFT}" y="22" font-size="15" font-weight="bold">{escape(title)}</text>',
         f'<text x="{LEFT}" y="40" fill="#555555">{escape("solid: words per minute, (|T| − 1) / S × 60 / 5; dotted: the session mean; ○ on the axis: cut short")}</text>',
@@ -112,9 +111,7 @@ def _rate_lines(report: SessionReport, number: int, axis: _Axis, y_rate: Callabl
     colour = COLOURS[number % len(COLOURS)]
     parts = _points([(axis.x(i), y_rate(m.wpm)) for i, m in enumerate(report.phrases) if m.wpm is not None and m.complete], colour)
     parts += [
-        f'<circle cx="{axis.x(i):.1f}" cy="{TOP + PANEL:.1f}" r="4" fill="#ffffff" stroke="{colour}" stroke-width="1.5"/>'
-        for i, m in enumerate(report.phrases)
-        if not m.complete
+        f'<circle cx="{axis.x(i):.1f}" cy="{TOP + PANEL:.1f}" r="4" fill="#ffffff" stroke="{colour}" stroke-width="1.5"/>' for i, m in enumerate(report.phrases) if not m.complete
     ]
     if report.session.wpm is not None:
         y = y_rate(report.session.wpm)

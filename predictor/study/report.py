@@ -149,24 +149,22 @@ COLUMNS = ("phrase", "chars", "keys", "taken", "seconds", "WPM", "KSPC", "KSR", 
 
 
 def _row(label: str, m: PhraseMeasures | SessionMeasures, errors: ErrorCounts | None) -> list[str]:
-    rates = (None, None, None, None) if errors is None else (
-        errors.msd_error_rate,
-        errors.total_error_rate,
-        errors.corrected_error_rate,
-        errors.uncorrected_error_rate,
+    rates = (
+        (None, None, None, None)
+        if errors is None
+        else (
+            errors.msd_error_rate,
+            errors.total_error_rate,
+            errors.corrected_error_rate,
+            errors.uncorrected_error_rate,
+        )
     )
-    return [label, f"{m.characters}", f"{m.keystrokes}", f"{m.taken}", f"{m.seconds:.1f}", _number(m.wpm, 1), _number(m.kspc), _percent(m.ksr)] + [
-        _percent(rate) for rate in rates
-    ]
+    return [label, f"{m.characters}", f"{m.keystrokes}", f"{m.taken}", f"{m.seconds:.1f}", _number(m.wpm, 1), _number(m.kspc), _percent(m.ksr)] + [_percent(rate) for rate in rates]
 
 
 def _notes(report: SessionReport) -> list[str]:
     notes = [f"{report.session.phrases} of {len(report.phrases)} phrases submitted; session WPM is the mean of the phrases', the other ratios pool them."]
-    notes += [
-        f"phrase {m.index + 1} was cut short: the log ends before it was submitted (left out of the session figures)."
-        for m in report.phrases
-        if not m.complete
-    ]
+    notes += [f"phrase {m.index + 1} was cut short: the log ends before it was submitted (left out of the session figures)." for m in report.phrases if not m.complete]
     if report.log.torn_last_line:
         notes.append("the log's last line was incomplete (the writer stopped while writing it) and was left out.")
     if not report.log.ended:
@@ -181,8 +179,7 @@ def format_session(report: SessionReport) -> str:
     header = report.log.header
     lines = [
         f"session {header.get('session', '?')} ({report.log.path}); started {header.get('started', '?')}",
-        f"model {header.get('model', '?')}, k = {header.get('k', '?')}, layout {header.get('layout', '?')}, "
-        f"suggestions {header.get('placement', '?')}",
+        f"model {header.get('model', '?')}, k = {header.get('k', '?')}, layout {header.get('layout', '?')}, suggestions {header.get('placement', '?')}",
     ]
     simulated = report.simulated
     rows = [list(COLUMNS) + (["simulated KSR"] if simulated is not None else [])]

@@ -44,6 +44,7 @@ def facts_table(model: LanguageModel) -> Table:
         ("corpus tokens", count(info["corpus_tokens"])),
         ("values stored as", str(info["value_encoding"])),
         ("format version", str(info["format_version"])),
+        ("queries answered by", str(info.get("query_path_note", ""))),
     ]
     for label, value in rows:
         table.add_row(label, str(value))

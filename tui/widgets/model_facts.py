@@ -74,4 +74,8 @@ class ModelFacts(Widget):
         ]
         middle = [("model", self._label), ("method", info["method"]), ("vocabulary", words), ("n-grams", total)]
         short = [("", self._label), ("", info["method"]), ("", words), ("", f"{total} n-grams")]
+        # Which query path answers (the compiled core or the numpy fallback), where the line has room.
+        path = info.get("query_path")
+        if path:
+            return [[*full, ("queries", str(path))], full, [*middle, ("queries", str(path))], middle, short]
         return [full, middle, short]

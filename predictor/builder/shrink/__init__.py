@@ -215,4 +215,3 @@ def parse_encodings(text: str) -> list[str]:
         if name not in VALUE_ENCODINGS:
             raise OptionError(f"unknown value encoding {name!r}; choose one of {', '.join(VALUE_ENCODINGS)}")
     return names
-

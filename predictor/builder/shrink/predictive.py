@@ -53,9 +53,7 @@ def prefix_groups(words: list[str], letters: int = LETTERS) -> tuple[np.ndarray,
     return lengths, groups
 
 
-def list_losses(
-    context: np.ndarray, word: np.ndarray, p: np.ndarray, p_after: np.ndarray, size: int, lengths: np.ndarray, groups: list[np.ndarray], k: int
-) -> np.ndarray:
+def list_losses(context: np.ndarray, word: np.ndarray, p: np.ndarray, p_after: np.ndarray, size: int, lengths: np.ndarray, groups: list[np.ndarray], k: int) -> np.ndarray:
     """Letters lost per occurrence of (h, w) when w drops out of the lists of its context.
 
     Args:

@@ -107,9 +107,7 @@ def _weights(stored: np.ndarray, free: np.ndarray, has_entries: np.ndarray) -> n
     return np.where(has_entries, weights, 1.0)
 
 
-def shrunk_model(
-    source: LanguageModel, tables: BackoffTables, *, encoding: str, shrink_meta: dict[str, Any], ranked_min: int = RANKED_MIN
-) -> LanguageModel:
+def shrunk_model(source: LanguageModel, tables: BackoffTables, *, encoding: str, shrink_meta: dict[str, Any], ranked_min: int = RANKED_MIN) -> LanguageModel:
     """A model holding ``tables`` with the source model's vocabulary and header.
 
     Args:

@@ -1,0 +1,23 @@
+"""Build hook: the compiled query core, where a C compiler exists (the numpy path answers otherwise).
+
+Everything else about the package is declared in pyproject.toml.
+"""
+
+import os
+
+from setuptools import Extension, setup
+
+
+def extensions():
+    """The optional extension: a failed compile leaves the install to the numpy path."""
+    try:
+        from Cython.Build import cythonize
+    except ImportError:
+        return []
+    # Multiply-then-add must round twice, as numpy does: no fused multiply-add.
+    flags = [] if os.name == "nt" else ["-O2", "-ffp-contract=off"]
+    core = Extension("foretype.query._core", ["predictor/query/_core.pyx"], extra_compile_args=flags, optional=True)
+    return cythonize([core], quiet=True, compiler_directives={"language_level": "3"})
+
+
+setup(ext_modules=extensions())
