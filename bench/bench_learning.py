@@ -101,7 +101,7 @@ class GuardedUser(UserModel):
 
     def _known(self, form: str) -> bool:
         if self.vocab is not None and self.vocab.id(form) is not None:
-            return True
+            return True  # any base word (the engine's rule asks for one the person typed)
         word_id = self._learned.get(form)
         return word_id is not None and self._n1[word_id] >= 2
 

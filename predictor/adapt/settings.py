@@ -19,7 +19,7 @@ class AdaptSettings:
         min_uses: a word the base vocabulary lacks is suggested once it has
             been typed this many times.
         hold_slips: a new word that at its first use lies one edit from a
-            known word (so may be a typo of it) waits for a second use
+            word the person has used (so may be a typo of it) waits for a second use
             (:mod:`foretype.adapt.slips`; docs/learning.md has the figures).
         prior_tokens: beta, the evidence (in learned tokens) at which the user
             model's share reaches half of its estimated worth; the same number

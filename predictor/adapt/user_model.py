@@ -625,7 +625,8 @@ class UserModel:
         """Uses before a new word is suggested: ``min_uses``, and at least 2 for a word held as a possible slip.
 
         With ``hold_slips`` on, a new word that at its first use lay one edit
-        from a known word (a base word or a new word used twice) may be a typo
+        from a word the person has used (a base word typed before, or a new
+        word typed twice) may be a typo
         of it (:mod:`foretype.adapt.slips`), so it waits for a second use.
         """
         if word_id in self._held:
@@ -633,8 +634,11 @@ class UserModel:
         return self.settings.min_uses
 
     def _is_known(self, form: str) -> bool:
-        if self.vocab is not None and self.vocab.id(form) is not None:
-            return True
+        """A word the person has shown they use: a base word typed before, or a new word typed twice."""
+        if self.vocab is not None:
+            base_id = self.vocab.id(form)
+            if base_id is not None:
+                return bool(self._n1[base_id] > 0)
         word_id = self._learned.get(form)
         return word_id is not None and self._n1[word_id] >= 2
 
@@ -652,8 +656,8 @@ class UserModel:
     def _rebuild_ready(self) -> None:
         self._held = set()
         if self.settings.hold_slips:
-            # Which once-used words were held is not stored: judge them again against
-            # the base vocabulary and the new words used twice or more.
+            # Which once-used words were held is not stored: judge them again
+            # against what the person has used by now.
             first = self.first_learned_id
             self._held = {first + j for j, form in enumerate(self._forms) if self._n1[first + j] == 1 and looks_like_slip(form, self._is_known)}
         pairs = sorted((form, self.first_learned_id + j) for j, form in enumerate(self._forms) if self._n1[self.first_learned_id + j] >= self.uses_needed(self.first_learned_id + j))
