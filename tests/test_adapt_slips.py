@@ -35,3 +35,30 @@ def test_the_candidates_are_exactly_the_strings_one_edit_away(form):
         for seed in range(5):
             typed, _ = misspell(form, np.random.default_rng(seed))
             assert typed in set(one_edit_away(form))
+
+
+def test_a_new_word_is_offered_after_one_use_unless_it_may_be_a_slip_on_a_word_already_used():
+    from foretype.adapt import AdaptSettings, UserModel
+    from foretype.demo import demo_model
+
+    base = demo_model()
+    model = UserModel(base.vocab, AdaptSettings())
+    assert model.settings.min_uses == 1 and model.settings.hold_slips
+    model.learn(["Quillmere", "checked", "the", "nets"], end=True)
+    quill = model.id_of("quillmere")
+    assert quill is not None and model.ready_learned("quil") == [quill] and model.is_ready(quill)
+    # "ntes" is "nets" with two letters swapped, and "nets" was typed: held until a second use.
+    model.learn(["the", "ntes"], end=True)
+    slip = model.id_of("ntes")
+    assert slip is not None and model.ready_learned("nt") == [] and not model.is_ready(slip)
+    model.learn(["ntes"], end=True)
+    assert model.ready_learned("nt") == [slip] and model.is_ready(slip)
+    # Off: every new word after min_uses uses; a rebuild judges once-used words again.
+    model.learn(["Quillmeer"], end=True)  # one edit from a new word typed once only: not held
+    assert model.is_ready(model.id_of("quillmeer"))
+    model.learn(["hte"], end=True)  # "the" was typed: held
+    assert not model.is_ready(model.id_of("hte"))
+    model.set_settings(model.settings.changed(hold_slips=False))
+    assert model.is_ready(model.id_of("hte"))
+    model.set_settings(model.settings.changed(hold_slips=True))
+    assert not model.is_ready(model.id_of("hte")) and model.ready_learned("ht") == []
