@@ -25,12 +25,23 @@ not grow when other processes take the cores) are recorded for each.  In the
 
 Also measured: learning cost per token, and loading a learned file.  The JSON
 goes to bench/out/adapt-<time>.json and bench/out/adapt-latest.json.
+
+``--against MODULE`` compares the current combined model with an earlier
+copy of the ``predictor/adapt`` package (copy it to, say,
+``predictor/_adapt_old/`` and pass ``foretype._adapt_old``): both learn the
+same text, every query is put to both, alternating which goes first, their
+whole answers (ids, probabilities, orders, marks) must be identical, and the
+table adds the ratio of their medians measured side by side.  It also puts
+the same queries to both after random edits on a small model (never-suggest
+entries, forgetting, pruning, settings changed).
 """
 
 from __future__ import annotations
 
 import argparse
+import importlib
 import json
+import random
 import sys
 import tempfile
 import time
@@ -48,9 +59,10 @@ import corpus as bench_corpus  # noqa: E402
 from machine import describe, finish_facts, machine_facts  # noqa: E402
 
 import foretype  # noqa: E402
-from foretype.adapt import AdaptedModel  # noqa: E402
+from foretype.adapt import AdaptedModel, AdaptSettings  # noqa: E402
+from foretype.adapt.learned_db import file_bytes  # noqa: E402
 from foretype.adapt.store import LearnedFile, load_learned  # noqa: E402
-from foretype.text import iter_sentences  # noqa: E402
+from foretype.text import iter_sentences, model_form  # noqa: E402
 
 K = 5
 TARGETS = {"p50 us": 50, "p99 us": 300}
@@ -100,14 +112,30 @@ def learn_all(model: AdaptedModel, sentences: list[list[str]]) -> dict[str, floa
     return {"tokens": tokens, "us_per_token": elapsed / tokens / 1000.0}
 
 
-def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *, learning: bool) -> dict[str, Any]:
-    """Ask both sources what the typist would ask, back to back; time each query."""
+def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *, learning: bool, earlier: Any = None) -> dict[str, Any]:
+    """Ask both sources what the typist would ask, back to back; time each query.
+
+    With ``earlier`` (the combined model of an earlier copy of the code, in the
+    same state), every query is also put to it, alternating which of the two goes
+    first, and their answers must be identical.
+    """
     base = model.base
     clock = time.perf_counter_ns
     cpu = time.thread_time_ns
-    wall = {"adapted": {p: [] for p in PREFIXES}, "base": {p: [] for p in PREFIXES}}
-    cpus = {"adapted": {p: [] for p in PREFIXES}, "base": {p: [] for p in PREFIXES}}
+    sources = ("adapted", "base") + (("earlier",) if earlier is not None else ())
+    wall: dict[str, dict[int, list[int]]] = {name: {p: [] for p in PREFIXES} for name in sources}
+    cpus: dict[str, dict[int, list[int]]] = {name: {p: [] for p in PREFIXES} for name in sources}
+    compared = 0
     typed = 0
+
+    def timed(source: Any, name: str, u: int, v: int, prefix: str, letters: int) -> Any:
+        c0, t0 = cpu(), clock()
+        answer = source.suggest_ids(u, v, prefix, K)
+        t1, c1 = clock(), cpu()
+        wall[name][letters].append(t1 - t0)
+        cpus[name][letters].append(c1 - c0)
+        return answer
+
     for sentence in sentences:
         for i, word in enumerate(sentence):
             context = sentence[max(0, i - 2) : i]
@@ -117,8 +145,11 @@ def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *
                 if letters > len(word):
                     break
                 prefix = word[:letters]
+                old_first = earlier is not None and compared % 2 == 1
+                if old_first:
+                    old_answer = timed(earlier, "earlier", u, v, prefix, letters)
                 c0, t0 = cpu(), clock()
-                model.suggest_ids(u, v, prefix, K)
+                answer = model.suggest_ids(u, v, prefix, K)
                 t1, c1 = clock(), cpu()
                 base.suggest_ids(ub, vb, prefix, K)
                 t2, c2 = clock(), cpu()
@@ -126,15 +157,22 @@ def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *
                 cpus["adapted"][letters].append(c1 - c0)
                 wall["base"][letters].append(t2 - t1)
                 cpus["base"][letters].append(c2 - c1)
+                if earlier is not None:
+                    if not old_first:
+                        old_answer = timed(earlier, "earlier", u, v, prefix, letters)
+                    same_answers(answer, old_answer, f"after {context} {prefix!r}")
+                    compared += 1
             if learning:
                 model.learn([word], after=context, end=i == len(sentence) - 1)
+                if earlier is not None:
+                    earlier.learn([word], after=context, end=i == len(sentence) - 1)
             typed += 1
             if typed >= words:
                 break
         if typed >= words:
             break
     result: dict[str, Any] = {"words": typed}
-    for source in ("adapted", "base"):
+    for source in sources:
         every_wall = [x for p in PREFIXES for x in wall[source][p]]
         every_cpu = [x for p in PREFIXES for x in cpus[source][p]]
         result[source] = {
@@ -143,7 +181,87 @@ def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *
         }
     result["ratio_p50_cpu"] = result["adapted"]["all"]["cpu"]["p50"] / result["base"]["all"]["cpu"]["p50"]
     result["ratio_p99_cpu"] = result["adapted"]["all"]["cpu"]["p99"] / result["base"]["all"]["cpu"]["p99"]
+    if earlier is not None:
+        result["compared_queries"] = compared
+        result["ratio_to_earlier_p50_cpu"] = {
+            kind: result["adapted"][kind]["cpu"]["p50"] / result["earlier"][kind]["cpu"]["p50"] for kind in ["all"] + [f"{p} letters" for p in PREFIXES]
+        }
+        result["ratio_to_earlier_p99_cpu"] = result["adapted"]["all"]["cpu"]["p99"] / result["earlier"]["all"]["cpu"]["p99"]
     return result
+
+
+def same_answers(mine: list[Any], theirs: list[Any], where: str) -> None:
+    """Stop the run if two answers differ in any field (ids, probabilities, orders, marks).
+
+    Raises:
+        SystemExit: they differ.
+    """
+    if [tuple(s) for s in mine] != [tuple(s) for s in theirs]:
+        raise SystemExit(f"answers differ {where}: {mine} against {theirs}")
+
+
+def random_edit(model: Any, edit: int, round_number: int, vocabulary: list[str]) -> None:
+    """One edit as ``foretype learned`` makes them, drawn the same way for every model given the same round."""
+    r = random.Random(round_number)
+    if edit == 0:
+        model.never.add(r.choice(vocabulary)[:3] + "*")
+    elif edit == 1 and model.never.entries:
+        model.never.remove(r.choice(model.never.entries))
+    elif edit == 2:
+        model.user.forget(r.choice(vocabulary))
+    elif edit == 3:
+        model.user.prune(below=1.5 if r.random() < 0.5 else None, seen_before=1_800_000_000 + round_number // 2)
+    elif edit == 4:
+        model.user.set_settings(model.user.settings.changed(learning=not model.user.settings.learning))
+    else:
+        model.user.set_settings(AdaptSettings(learning=True, min_uses=r.choice([1, 2, 3]), half_life=r.choice([None, 200.0, 1000.0])))
+
+
+def compare_sentence(now: AdaptedModel, old: Any, sentence: list[str]) -> int:
+    """Put every query of typing one sentence to both models (k = 1, 5, 12); returns how many."""
+    compared = 0
+    for i in range(len(sentence) + 1):
+        context = sentence[max(0, i - 2) : i]
+        word = sentence[i] if i < len(sentence) else ""
+        u, v = now.context_ids(context)
+        if (u, v) != old.context_ids(context):
+            raise SystemExit(f"context ids differ after {context}")
+        for letters in range(min(2, len(word)) + 1):
+            for k in (1, 5, 12):
+                same_answers(now.suggest_ids(u, v, word[:letters], k), old.suggest_ids(u, v, word[:letters], k), f"after {context} {word[:letters]!r} k={k}")
+                compared += 1
+    if not np.array_equal(now.distribution(sentence[:2]), old.distribution(sentence[:2])):
+        raise SystemExit(f"distributions differ after {sentence[:2]}")
+    return compared
+
+
+def compare_after_edits(earlier_class: Any, base: foretype.LanguageModel, sentences: list[list[str]], rounds: int, seed: int = 7) -> int:
+    """Put the same queries to the current and an earlier combined model after random edits; returns how many.
+
+    Both models learn the same sentences; between rounds, never-suggest entries
+    are added and removed, words forgotten, counts pruned and settings changed
+    (learning off and on, min_uses, half-life), as ``foretype learned`` does.
+
+    Raises:
+        SystemExit: an answer, a distribution or a listing differs.
+    """
+    rng = random.Random(seed)
+    now, old = AdaptedModel(base), earlier_class(base)
+    vocabulary = sorted({model_form(w) for s in sentences for w in s})
+    compared = 0
+    for round_number in range(rounds):
+        batch = sentences[round_number * 20 : round_number * 20 + 20]
+        for sentence in batch:
+            for model in (now, old):
+                model.learn(sentence, end=True, when=1_800_000_000 + round_number)
+        edit = rng.randrange(6)
+        for model in (now, old):
+            random_edit(model, edit, round_number, vocabulary)
+        for sentence in batch[:10]:
+            compared += compare_sentence(now, old, sentence)
+        if [tuple(w) for w in now.learned_words()] != [tuple(w) for w in old.learned_words()]:
+            raise SystemExit("the learned-word listings differ")
+    return compared
 
 
 def load_time(model: AdaptedModel, sentences: list[list[str]], folder: Path) -> dict[str, float]:
@@ -152,12 +270,12 @@ def load_time(model: AdaptedModel, sentences: list[list[str]], folder: Path) -> 
     with LearnedFile(path, model.base, compact_every=10**9) as learned:
         for sentence in sentences:
             learned.learn(sentence, end=True)
-        journal_bytes = path.stat().st_size
+        journal_bytes = file_bytes(path)
         started = time.perf_counter()
         load_learned(path, model.base)
         journal_ms = (time.perf_counter() - started) * 1000
         learned.compact()
-    compact_bytes = path.stat().st_size
+    compact_bytes = file_bytes(path)
     started = time.perf_counter()
     load_learned(path, model.base)
     compact_ms = (time.perf_counter() - started) * 1000
@@ -182,6 +300,11 @@ def print_table(results: dict[str, Any]) -> None:
                     f"   base {b['cpu']['p50']:6.1f} / {b['cpu']['p99']:7.1f} ({b['wall']['p50']:6.1f} / {b['wall']['p99']:7.1f})"
                 )
             print(f"    ratio adapted/base, CPU: p50 {figures['ratio_p50_cpu']:.2f}, p99 {figures['ratio_p99_cpu']:.2f}; targets p50 <= {TARGETS['p50 us']} us, p99 <= {TARGETS['p99 us']} us")
+            if "compared_queries" in figures:
+                e = figures["earlier"]["all"]["cpu"]
+                ratios = ", ".join(f"{kind} {r:.3f}" for kind, r in figures["ratio_to_earlier_p50_cpu"].items())
+                print(f"    earlier code {e['p50']:6.1f} / {e['p99']:7.1f}; current/earlier p50 CPU: {ratios}; p99 {figures['ratio_to_earlier_p99_cpu']:.3f}; "
+                      f"{figures['compared_queries']:,} answers identical")
         lf = scenario["learned_file"]
         print(f"  learned file: {lf['records']:,} changes, journal {lf['journal_bytes']:,} B loads in {lf['journal_load_ms']:.0f} ms; "
               f"compacted {lf['compacted_bytes']:,} B loads in {lf['compacted_load_ms']:.0f} ms")
@@ -194,7 +317,9 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--learn", type=int, default=None, help="tokens the user model learns first (default 20,000)")
     parser.add_argument("--words", type=int, default=None, help="words typed per run (default 3,000)")
     parser.add_argument("--tokens", type=int, default=5_000_000, help="synthetic base corpus tokens")
+    parser.add_argument("--against", metavar="MODULE", help="an earlier copy of predictor/adapt (e.g. foretype._adapt_old) to compare with, side by side")
     args = parser.parse_args(argv)
+    earlier_class = importlib.import_module(f"{args.against}.combined").AdaptedModel if args.against else None
     learn_tokens = args.learn or (5_000 if args.quick else 20_000)
     words = args.words or (500 if args.quick else 3_000)
     bench_corpus.OUT.mkdir(parents=True, exist_ok=True)
@@ -216,12 +341,21 @@ def main(argv: list[str] | None = None) -> int:
             model = AdaptedModel(base)
             scenario["learned"] = learn_all(model, learn_part)
             scenario["shares"] = {key: round(value, 3) for key, value in model.user.shares().items()}
-            scenario["frozen"] = type_and_time(model, type_part, words, learning=False)
-            scenario["learning"] = type_and_time(model, type_part, words, learning=True)
+            earlier = None
+            if earlier_class is not None:
+                earlier = earlier_class(base)
+                learn_all(earlier, learn_part)
+            scenario["frozen"] = type_and_time(model, type_part, words, learning=False, earlier=earlier)
+            scenario["learning"] = type_and_time(model, type_part, words, learning=True, earlier=earlier)
             scenario["learned_file"] = load_time(AdaptedModel(base), learn_part, Path(folder))
             results["scenarios"][name] = scenario
+    if earlier_class is not None:
+        small = foretype.build([synthetic_heldout], vocab_size=3_000)
+        results["compared_after_edits"] = compare_after_edits(earlier_class, small, sentences_of(kjv_heldout, 40_000), 40 if args.quick else 120)
     finish_facts(results["machine"])
     print_table(results)
+    if "compared_after_edits" in results:
+        print(f"\nafter random edits on a 3,000-word model: {results['compared_after_edits']:,} answers identical, with distributions and listings")
     stamp = time.strftime("%Y%m%d-%H%M%S")
     text = json.dumps(results, indent=2)
     (bench_corpus.OUT / f"adapt-{stamp}.json").write_text(text, encoding="utf-8")

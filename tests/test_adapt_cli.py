@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import sqlite3
 from pathlib import Path
 
 import pytest
@@ -78,6 +79,45 @@ def test_a_file_that_is_not_a_learned_file_is_refused(run_cli, model_path, write
     other = write_file("hello\n", "other.txt")
     result = run_cli("learned", model_path, "--user", other)
     assert result.code == 5 and result.err.strip() == f"foretype: {other}: not a foretype learned file"
+
+
+def test_a_damaged_or_newer_learned_file_is_one_line_and_exit_code_5_for_every_command(run_cli, model_path, write_file):
+    notes = write_file(TEXT, "notes.txt")
+    assert run_cli("learned", model_path, "--learn", notes).code == 0
+    learned_file = Path(f"{model_path}.learned")
+    data = learned_file.read_bytes()
+    learned_file.write_bytes(data[: len(data) // 2])
+    for args in (["learned", model_path], ["learned", model_path, "--forget", "dawn"], ["suggest", model_path, "the ", "--adapt"]):
+        result = run_cli(*args)
+        assert result.code == 5 and result.out == "" and result.err.count("\n") == 1
+        assert result.err.startswith(f"foretype: {learned_file}: corrupt learned file (")
+    learned_file.write_bytes(data)
+    with sqlite3.connect(learned_file) as conn:
+        conn.execute("PRAGMA user_version = 7")
+    newer = learned_file.read_bytes()
+    result = run_cli("learned", model_path, "--forget", "dawn")
+    assert result.code == 5 and result.err.strip() == f"foretype: {learned_file}: learned file schema 7 is newer than this foretype reads (1); update foretype"
+    assert learned_file.read_bytes() == newer  # refused, not rewritten
+
+
+def test_a_learned_file_of_the_earlier_format_is_converted_by_the_first_change_and_kept(run_cli, tmp_path):
+    # tests/data/learned_v1: a file the journalled store wrote, beside the corpus of its base model.
+    source = Path(__file__).resolve().parent / "data" / "learned_v1"
+    corpus = tmp_path / "corpus.txt"
+    corpus.write_bytes((source / "corpus.txt").read_bytes())
+    model = tmp_path / "chat.model"
+    foretype.build([corpus]).save(model)
+    old = tmp_path / "chat.model.learned"
+    old.write_bytes((source / "chat.model.learned").read_bytes())
+    shown = run_cli("learned", model, "--json")
+    assert shown.code == 0 and old.read_bytes() == (source / "chat.model.learned").read_bytes()
+    result = run_cli("learned", model, "--forget", "quillon")
+    assert result.code == 0, result.err
+    assert f"converted {old} to the current format; the old file is kept as {old}.format-1" in result.out
+    assert Path(f"{old}.format-1").read_bytes() == (source / "chat.model.learned").read_bytes()
+    after = json.loads(run_cli("learned", model, "--json").out)
+    before = json.loads(shown.out)
+    assert after["tokens"] == before["tokens"] - 4 and after["never_suggest"] == before["never_suggest"] == ["dam*"]
 
 
 def test_savings_with_adaptation_reports_both_figures_and_leaves_a_given_user_file_alone(run_cli, model_path, write_file, tmp_path):

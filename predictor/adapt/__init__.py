@@ -1,6 +1,6 @@
 """Learning from the person's own text: a user model combined with the base model.
 
-    from predictor.adapt import AdaptedModel, LearnedFile
+    from foretype.adapt import AdaptedModel, LearnedFile
     adapted = AdaptedModel(base_model)            # in memory: empty user model, nothing blocked
     adapted.learn(["Saltmarrow", "ferry"], after=["the"])
     adapted.suggest(("the",), prefix="sal", k=5)  # exact top-k under the combined model
@@ -15,10 +15,19 @@ here sends it anywhere), it can be inspected and exported, and it can be wiped.
 
 from __future__ import annotations
 
-from .combined import AdaptedModel, AdaptedSuggestion, LearnedWord
+from .combined import AdaptedModel, AdaptedSuggestion
+from .listings import LearnedWord
 from .never_list import NeverList, is_pattern
 from .settings import AdaptSettings
-from .store import PRIVACY_NOTE, LearnedFile, default_learned_path, export_learned, load_learned, save_learned, wipe_learned
+from .store import (
+    PRIVACY_NOTE,
+    LearnedFile,
+    default_learned_path,
+    export_learned,
+    load_learned,
+    save_learned,
+    wipe_learned,
+)
 from .user_model import UserModel
 
 __all__ = [

@@ -64,12 +64,15 @@ class AdaptSettings:
             raise OptionError(f"the half-life must be a positive number of tokens, not {self.half_life!r}")
 
     def to_json(self) -> dict[str, Any]:
-        """The settings as a JSON object."""
-        return asdict(self)
+        """The settings as a JSON object (``hold_slips`` only when on: a file without it reads as before the check)."""
+        data = asdict(self)
+        if not self.hold_slips:
+            del data["hold_slips"]
+        return data
 
     @staticmethod
     def from_json(data: Any) -> AdaptSettings:
-        """Settings from a JSON object; unknown keys are ignored, missing ones take defaults.
+        """Settings from a JSON object; unknown keys are ignored, missing ones take defaults (``hold_slips``: off).
 
         Raises:
             OptionError: a value is out of range or of the wrong type.
@@ -78,6 +81,8 @@ class AdaptSettings:
             raise OptionError("the learning settings are not a JSON object")
         known = {f.name for f in fields(AdaptSettings)}
         values = {key: value for key, value in data.items() if key in known}
+        # Settings stored before the slip check existed keep the behaviour they were written with.
+        values.setdefault("hold_slips", False)
         if "min_uses" in values and isinstance(values["min_uses"], float) and values["min_uses"].is_integer():
             values["min_uses"] = int(values["min_uses"])
         return AdaptSettings(**values)

@@ -196,10 +196,7 @@ def simulate_adaptive(
     without = simulate(model, text, settings, second) if compare else None
     ours = block_savings(passage, with_learning.trace, block_words)
     theirs = block_savings(passage, without.trace, block_words) if without is not None else None
-    curve = [
-        CurvePoint(first_word, last_word, chars, ksr, None if theirs is None else theirs[i][3])
-        for i, (first_word, last_word, chars, ksr) in enumerate(ours)
-    ]
+    curve = [CurvePoint(first_word, last_word, chars, ksr, None if theirs is None else theirs[i][3]) for i, (first_word, last_word, chars, ksr) in enumerate(ours)]
     user = adapted.user
     learned = {"tokens": user.raw_tokens, "new_words": len(user.ready_forms()), "share": user.shares()}
     return AdaptiveSavings(with_learning, without, curve, block_words, learned)

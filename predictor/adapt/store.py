@@ -1,56 +1,37 @@
-"""The learned file: a user model kept beside its base model, durable at every update.
+"""The learned file: a user model kept beside its base model, durable at every change.
 
-Layout (UTF-8 text, one record per line)::
+The file is an SQLite database (schema in :mod:`foretype.adapt.learned_db`) in
+WAL mode: the learned state as of its last compaction (settings,
+never-suggest list, counts), then one row per change made since.
 
-    foretype-learned 1
-    <crc32> {"kind": "state", ...}      the full state when the file was last compacted
-    <crc32> {"kind": "learn", ...}      then one record per change, appended
-    ...
-
-``<crc32>`` is the CRC-32 of the JSON text after it, as 8 lower-case hex
-digits.  The state record holds the settings, the never-suggest list and the
-counts (words by model form; each count column a little-endian array,
-zlib-compressed and base64-encoded, with its type and length), so nothing in
-the file is executed on load.  Change records:
-
-* ``learn``: ``words``, ``after`` (the preceding words of the sentence), ``end``, ``at`` (Unix
-  seconds) and ``credit`` (each token's responsibility, see :mod:`foretype.adapt.user_model`);
-* ``sentences``: ``sentences`` (lists of words, each a whole sentence), ``at`` and ``credit``
-  (one list per sentence): a text learned at once, kept or lost as a whole;
-* ``settings``: ``settings`` (every learning setting);
-* ``never``: ``add`` and ``remove`` (lists of entries);
-* ``forget``: ``word``;
-* ``prune``: ``below`` (a count, or null) and ``seen_before`` (Unix seconds, or null).
-
-Durability.  A change is written as one line, flushed and ``fsync``-ed before
-the call returns, so once it returns the change survives a crash.  A process
-killed mid-write leaves at most a partial last line; readers drop a last line
-that is incomplete or fails its checksum, and the next writer cuts it off
-before appending, so a kill loses at most the change being written.  Every
-``compact_every`` changes the file is rewritten as a single state record into a
-temporary file beside it, flushed, and renamed over it: a kill during that
-leaves the old file whole.  A bad line anywhere but at the end means the file
-was damaged some other way, and loading refuses it with a clear message.
+Durability.  Each change is one transaction: a row added to the ``change``
+table, committed with ``synchronous = FULL`` before the call returns, so once
+it returns the change survives a crash, and a process killed mid-change loses
+at most that change.  Every ``compact_every`` changes the counts tables are
+rewritten and the changes cleared, again in one transaction.  A new file is
+written complete beside its final name and renamed into place.
 
 One process at a time may write (an advisory lock on ``<file>.lock``); any
-number may read.
+number may read at once, and WAL mode lets them read while the writer writes:
+a reader sees the file as of its last commit.  A file damaged in any way
+SQLite or our schema check can see is refused with one clear line.
+
+Files of format 1 (journalled text, :mod:`foretype.adapt.journal_v1`) are
+read as they are; the first writer to open one converts it and keeps the old
+file beside it as ``<file>.format-1``.
 """
 
 from __future__ import annotations
 
-import base64
 import glob
-import json
 import os
+import sqlite3
+import tempfile
 import time
 import zlib
-from collections.abc import Callable, Iterator, Sequence
-from contextlib import contextmanager
-from dataclasses import dataclass
+from collections.abc import Callable, Sequence
 from pathlib import Path
 from typing import Any, BinaryIO
-
-import numpy as np
 
 from ..demo import cache_folder
 from ..errors import ModelFileError, OptionError, OutputError
@@ -58,30 +39,23 @@ from ..modelfile.atomic import remove_quietly as _remove_quietly
 from ..modelfile.atomic import replace_atomically
 from ..modelfile.atomic import sync_directory as _sync_directory
 from ..query.model import LanguageModel
-from ..simulate.writing import write_text_atomic
 from ..text import WORD_RE
+from . import learned_db
 from .combined import AdaptedModel
+from .export import PRIVACY_NOTE, export_learned
+from .journal_v1 import is_journal, read_journal, state_of
 from .never_list import normalise_entry
+from .records import RECORD_ERRORS, LearnedState, apply_record, rebuild
 from .settings import AdaptSettings
 from .user_model import UserModel
+from .writer_lock import LOCKS_AVAILABLE, acquire, lock_path, locked, release
 
-try:  # advisory locks; on systems without fcntl writers are not serialised
-    import fcntl
-except ImportError:  # pragma: no cover - not on Linux or macOS
-    fcntl = None  # type: ignore[assignment]
-
-MAGIC_LINE = b"foretype-learned 1\n"
-"""The first line of every learned file: our format name and its version."""
 SUFFIX = ".learned"
 """A model's learned file is the model's path with this appended."""
+FORMAT_1_SUFFIX = ".format-1"
+"""A converted format-1 file is kept beside the new one with this appended."""
 COMPACT_EVERY = 500
-"""Changes appended between two rewrites of the whole state."""
-PRIVACY_NOTE = (
-    "A learned file holds personal text (the words and phrases typed). "
-    "It stays on this machine: foretype never sends it anywhere. Inspect it with 'foretype learned', "
-    "export it, prune it, or wipe it."
-)
-"""Said wherever learned data is shown."""
+"""Changes recorded between two rewrites of the counts tables."""
 
 
 def default_learned_path(model_path: str | os.PathLike[str] | None) -> Path:
@@ -101,176 +75,72 @@ def default_learned_path(model_path: str | os.PathLike[str] | None) -> Path:
     return path.with_name(path.name + SUFFIX)
 
 
-# --------------------------------------------------------------- encoding
-def _encode_array(array: np.ndarray) -> dict[str, Any]:
-    little = np.ascontiguousarray(array, dtype=array.dtype.newbyteorder("<"))
-    packed = zlib.compress(little.tobytes(), 6)
-    return {"dtype": array.dtype.name, "count": int(array.size), "zlib": base64.b64encode(packed).decode("ascii")}
-
-
-_ARRAY_DTYPES = {"int32", "int64", "float64"}
-_MAX_ARRAY_BYTES = 1 << 34
-
-
-def _decode_array(data: Any) -> np.ndarray:
-    if not isinstance(data, dict) or data.get("dtype") not in _ARRAY_DTYPES or not isinstance(data.get("zlib"), str):
-        raise ValueError("bad array")
-    dtype = np.dtype(data["dtype"]).newbyteorder("<")
-    count = int(data["count"])
-    if count < 0 or count * dtype.itemsize > _MAX_ARRAY_BYTES:
-        raise ValueError("bad array length")
-    raw = zlib.decompress(base64.b64decode(data["zlib"].encode("ascii"), validate=True), bufsize=max(1, count * dtype.itemsize))
-    if len(raw) != count * dtype.itemsize:
-        raise ValueError("array bytes do not match their count")
-    return np.frombuffer(raw, dtype=dtype).astype(dtype.newbyteorder("="))
-
-
-def _state_record(model: AdaptedModel) -> dict[str, Any]:
-    snapshot = model.user.snapshot()
-    counts: dict[str, Any] = {key: snapshot[key] for key in ("tick", "words", "votes", "credit", "evidence")}
-    for table in ("unigrams", "bigrams", "trigrams"):
-        counts[table] = {name: _encode_array(column) for name, column in snapshot[table].items()}
-    return {
-        "kind": "state",
-        "written": int(time.time()),
-        "settings": model.settings.to_json(),
-        "never": model.never.entries,
-        "counts": counts,
-    }
-
-
-def _line(record: dict[str, Any]) -> bytes:
-    text = json.dumps(record, ensure_ascii=False, separators=(",", ":"), allow_nan=False).encode("utf-8")
-    return b"%08x " % (zlib.crc32(text) & 0xFFFFFFFF) + text + b"\n"
-
-
 # ---------------------------------------------------------------- reading
-@dataclass
-class _Parsed:
-    records: list[dict[str, Any]]
-    good_end: int
-    """Byte offset just past the last good record."""
-    size: int
+def _head(path: Path) -> bytes | None:
+    """The first bytes of a file (None if there is none).
 
-
-def _parse(path: Path, data: bytes) -> _Parsed:
-    if not data.startswith(MAGIC_LINE):
-        if data.startswith(b"foretype-learned "):
-            raise ModelFileError(f"{path}: learned file format {data[17:].split(b' ')[0][:8].decode('ascii', 'replace').strip()!r} is not one this engine reads")
-        raise ModelFileError(f"{path}: not a foretype learned file")
-    pos = len(MAGIC_LINE)
-    records: list[dict[str, Any]] = []
-    number = 1
-    while pos < len(data):
-        number += 1
-        newline = data.find(b"\n", pos)
-        last = newline < 0 or newline == len(data) - 1
-        record = _parse_line(data[pos:newline] if newline >= 0 else b"")
-        if newline < 0 or record is None:
-            if last:
-                break  # a torn final write: at most the last change is lost
-            raise ModelFileError(f"{path}: corrupt learned file (line {number} fails its checksum)")
-        records.append(record)
-        pos = newline + 1
-    if not records or records[0].get("kind") != "state":
-        raise ModelFileError(f"{path}: corrupt learned file (no state record)")
-    return _Parsed(records, pos, len(data))
-
-
-def _parse_line(line: bytes) -> dict[str, Any] | None:
-    if len(line) < 10 or line[8:9] != b" ":
-        return None
-    try:
-        expected = int(line[:8], 16)
-    except ValueError:
-        return None
-    body = line[9:]
-    if zlib.crc32(body) & 0xFFFFFFFF != expected:
-        return None
-    try:
-        record = json.loads(body.decode("utf-8"))
-    except (ValueError, UnicodeDecodeError):
-        return None
-    return record if isinstance(record, dict) else None
-
-
-def _read(path: Path) -> _Parsed | None:
+    Raises:
+        ModelFileError: it is a folder or cannot be read.
+    """
     if path.is_dir():
         raise ModelFileError(f"{path}: is a folder, not a learned file")
     try:
-        data = path.read_bytes()
+        with open(path, "rb") as handle:
+            return handle.read(100)
     except FileNotFoundError:
         return None
     except OSError as error:
         raise ModelFileError(f"{path}: cannot read ({error.strerror or error})") from None
-    return _parse(path, data)
 
 
-def _build(path: Path, base: LanguageModel, records: Sequence[dict[str, Any]]) -> AdaptedModel:
-    model = AdaptedModel(base)
-    for number, record in enumerate(records):
-        try:
-            apply_record(model, record)
-        except (KeyError, TypeError, ValueError, OptionError, zlib.error) as error:
-            raise ModelFileError(f"{path}: corrupt learned file (record {number + 1}: {error})") from None
-    return model
+def _damaged(path: Path, error: BaseException) -> ModelFileError:
+    """The one-line error for a file SQLite or our checks find damaged."""
+    text = " ".join(str(error).split()) or type(error).__name__
+    if "not a database" in text:
+        return ModelFileError(f"{path}: not a foretype learned file")
+    return ModelFileError(f"{path}: corrupt learned file ({text})")
 
 
-def apply_record(model: AdaptedModel, record: dict[str, Any]) -> None:
-    """Apply one record of a learned file to a combined model (replay).
+def _read_database(conn: sqlite3.Connection, path: Path, *, check: bool = True) -> tuple[LearnedState, list[dict[str, Any]]]:
+    """The state and changes of an open learned file, checked first.
 
     Raises:
-        KeyError, TypeError, ValueError, OptionError: the record is malformed.
+        ModelFileError: not a learned file, a newer schema, or damaged.
     """
-    kind = record["kind"]
-    user = model.user
-    if kind == "learn":
-        credit = record.get("credit")
-        user.learn(
-            [str(w) for w in record["words"]],
-            after=[str(w) for w in record["after"]],
-            end=bool(record["end"]),
-            when=int(record["at"]),
-            credit=None if credit is None else [float(r) for r in credit],
-        )
-    elif kind == "sentences":
-        credits = record.get("credit") or [None] * len(record["sentences"])
-        if len(credits) != len(record["sentences"]):
-            raise ValueError("one credit list per sentence expected")
-        for sentence, credit in zip(record["sentences"], credits):
-            user.learn([str(w) for w in sentence], end=True, when=int(record["at"]), credit=None if credit is None else [float(r) for r in credit])
-    elif kind == "state":
-        user.set_settings(AdaptSettings.from_json(record["settings"]))
-        never = record["never"]
-        if not isinstance(never, list):
-            raise TypeError("the never-suggest list is not a list")
-        model.never.replace(str(e) for e in never)
-        counts = record["counts"]
-        state = {
-            "tick": int(counts["tick"]),
-            "words": [str(w) for w in counts["words"]],
-            "votes": counts.get("votes", {}),
-            "credit": counts.get("credit", [0.0, 0.0, 0.0]),
-            "evidence": counts.get("evidence", [0.0, 0.0, 0.0]),
-        }
-        for table in ("unigrams", "bigrams", "trigrams"):
-            state[table] = {name: _decode_array(column) for name, column in counts[table].items()}
-        user.restore(state)
-    elif kind == "settings":
-        user.set_settings(AdaptSettings.from_json(record["settings"]))
-    elif kind == "never":
-        for entry in record.get("add", []):
-            model.never.add(str(entry))
-        for entry in record.get("remove", []):
-            model.never.remove(str(entry))
-    elif kind == "forget":
-        user.forget(str(record["word"]))
-    elif kind == "prune":
-        below = record.get("below")
-        before = record.get("seen_before")
-        user.prune(below=None if below is None else float(below), seen_before=None if before is None else int(before))
-    else:
-        raise ValueError(f"unknown record kind {kind!r}")
+    try:
+        learned_db.check_schema(conn, path)
+        if check:
+            learned_db.check_pages(conn, path)
+        return learned_db.read_state(conn)
+    except sqlite3.Error as error:
+        raise _damaged(path, error) from None
+    except (*RECORD_ERRORS, AttributeError) as error:
+        raise ModelFileError(f"{path}: corrupt learned file ({error})") from None
+
+
+def _build(path: Path, base: LanguageModel, state: LearnedState | None, changes: Sequence[dict[str, Any]]) -> AdaptedModel:
+    try:
+        return rebuild(base, state, changes)
+    except RECORD_ERRORS as error:
+        raise ModelFileError(f"{path}: corrupt learned file ({error})") from None
+
+
+def _journal_model(path: Path, base: LanguageModel) -> tuple[AdaptedModel, bytes, LearnedState, list[dict[str, Any]]]:
+    """A format-1 file read into a combined model, with its bytes, its state and its changes.
+
+    Raises:
+        ModelFileError: the file is damaged (other than a torn last line).
+    """
+    try:
+        data = path.read_bytes()
+    except OSError as error:
+        raise ModelFileError(f"{path}: cannot read ({error.strerror or error})") from None
+    records = read_journal(path, data)
+    try:
+        state = state_of(records[0])
+    except (*RECORD_ERRORS, zlib.error) as error:
+        raise ModelFileError(f"{path}: corrupt learned file (record 1: {error})") from None
+    return _build(path, base, state, records[1:]), data, state, records[1:]
 
 
 def load_learned(path: str | os.PathLike[str], base: LanguageModel, *, must_exist: bool = False) -> AdaptedModel:
@@ -278,91 +148,154 @@ def load_learned(path: str | os.PathLike[str], base: LanguageModel, *, must_exis
 
     A missing file gives an empty user model with the default settings, unless
     ``must_exist`` (a file the person named: a typo must not pass for "nothing learned").
+    A reader sees the file as of the writer's last commit and never waits for the writer.
 
     Raises:
         ModelFileError: the file is missing and ``must_exist``, is not a learned file,
-            or is damaged (other than a torn last line).
+            has a schema newer than this code reads, or is damaged.
     """
     source = Path(path)
-    parsed = _read(source)
-    if parsed is None:
+    head = _head(source)
+    if head is None:
         if must_exist:
             raise ModelFileError(f"{source}: no such learned file")
         return AdaptedModel(base)
-    return _build(source, base, parsed.records)
+    if is_journal(head):
+        return _journal_model(source, base)[0]
+    if not learned_db.is_database(head):
+        raise ModelFileError(f"{source}: not a foretype learned file")
+    try:
+        conn = learned_db.connect(source, write=False)
+    except sqlite3.Error as error:
+        raise _damaged(source, error) from None
+    try:
+        state, changes = _read_database(conn, source)
+    finally:
+        conn.close()
+    return _build(source, base, state, changes)
 
 
 def learned_file_facts(path: str | os.PathLike[str]) -> dict[str, Any]:
-    """Facts about a learned file itself: size, records since the last compaction, a torn tail.
+    """Facts about a learned file itself: its format, size, changes since the last compaction.
+
+    Returns:
+        ``{"exists": False}``, or ``exists``, ``format`` ("sqlite" or "format-1"),
+        ``schema`` (the SQLite schema version, None for format 1), ``file_bytes``
+        (with the write-ahead log), ``changes_since_compaction`` and ``written``
+        (Unix time of the last compaction).
 
     Raises:
         ModelFileError: as :func:`load_learned`.
     """
     source = Path(path)
-    parsed = _read(source)
-    if parsed is None:
+    head = _head(source)
+    if head is None:
         return {"exists": False}
+    if is_journal(head):
+        records = read_journal(source, source.read_bytes())
+        return {
+            "exists": True,
+            "format": "format-1",
+            "schema": None,
+            "file_bytes": learned_db.file_bytes(source),
+            "changes_since_compaction": len(records) - 1,
+            "written": records[0].get("written"),
+        }
+    if not learned_db.is_database(head):
+        raise ModelFileError(f"{source}: not a foretype learned file")
+    try:
+        conn = learned_db.connect(source, write=False)
+        try:
+            learned_db.check_schema(conn, source)
+            with learned_db.transaction(conn, write=False):
+                changes = learned_db.change_count(conn)
+                written = learned_db.written_at(conn)
+        finally:
+            conn.close()
+    except sqlite3.Error as error:
+        raise _damaged(source, error) from None
     return {
         "exists": True,
-        "file_bytes": parsed.size,
-        "changes_since_compaction": len(parsed.records) - 1,
-        "torn_tail_bytes": parsed.size - parsed.good_end,
-        "written": parsed.records[0].get("written"),
+        "format": "sqlite",
+        "schema": learned_db.SCHEMA_VERSION,
+        "file_bytes": learned_db.file_bytes(source),
+        "changes_since_compaction": changes,
+        "written": written,
     }
 
 
 def wipe_learned(path: str | os.PathLike[str]) -> bool:
-    """Delete a learned file (and its lock file); returns False if there was none.
+    """Delete a learned file (with SQLite's files beside it, its lock file and a kept format-1 file).
+
+    Returns:
+        False if there was no learned file.
 
     Raises:
         OutputError: another process is writing it, or it cannot be removed.
     """
     target = Path(path)
-    with _locked(target):
-        try:
-            target.unlink()
-            removed = True
-        except FileNotFoundError:
-            removed = False
-        except OSError as error:
-            raise OutputError(f"{target}: cannot remove ({error.strerror or error})") from None
+    with locked(target):
+        removed = False
+        for part in (target, *learned_db.companions(target), target.with_name(target.name + FORMAT_1_SUFFIX)):
+            try:
+                part.unlink()
+                removed = removed or part == target
+            except FileNotFoundError:
+                pass
+            except OSError as error:
+                raise OutputError(f"{part}: cannot remove ({error.strerror or error})") from None
         _sync_directory(target.parent if str(target.parent) else Path("."))
-    _remove_quietly(str(_lock_path(target)))
+    _remove_quietly(str(lock_path(target)))
     return removed
 
 
 # ---------------------------------------------------------------- writing
-def _lock_path(path: Path) -> Path:
-    return path.with_name(path.name + ".lock")
+def _writer(data: bytes) -> Callable[[BinaryIO], None]:
+    """A writer for :func:`replace_atomically` that writes ``data``."""
+
+    def write(out: BinaryIO) -> None:
+        out.write(data)
+
+    return write
 
 
-@contextmanager
-def _locked(path: Path) -> Iterator[None]:
-    handle = _acquire(path)
+def _create(path: Path, state: LearnedState, changes: Sequence[dict[str, Any]] = ()) -> None:
+    """Write a complete learned file beside ``path`` and rename it into place (the caller holds the lock).
+
+    A write-ahead log left beside ``path`` by an earlier file is removed first:
+    SQLite would otherwise apply it to the new file.
+
+    Raises:
+        OutputError: the file cannot be written (an existing file stays as it was).
+    """
+    directory = path.parent if str(path.parent) else Path(".")
     try:
-        yield
-    finally:
-        _release(handle)
-
-
-def _acquire(path: Path) -> int | None:
-    if fcntl is None:
-        return None
-    try:
-        handle = os.open(_lock_path(path), os.O_RDWR | os.O_CREAT, 0o600)
+        handle, temp_name = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=directory)
+        os.close(handle)
     except OSError as error:
         raise OutputError(f"{path}: cannot write ({error.strerror or error})") from None
+    temp = Path(temp_name)
     try:
-        fcntl.flock(handle, fcntl.LOCK_EX | fcntl.LOCK_NB)
-    except OSError:
-        os.close(handle)
-        raise OutputError(f"{path}: in use by another foretype process (close it first)") from None
-    return handle
-
-
-def _release(handle: int | None) -> None:
-    if handle is not None:
-        os.close(handle)  # closing releases the lock
+        conn = learned_db.connect(temp, write=True)
+        try:
+            learned_db.create_schema(conn)
+            with learned_db.transaction(conn, write=True):
+                learned_db.write_state(conn, state)
+                for record in changes:
+                    learned_db.append_change(conn, record)
+        finally:
+            conn.close()  # the last connection checkpoints the log into the file and removes it
+        with open(temp, "rb") as written:
+            os.fsync(written.fileno())
+        for stale in learned_db.companions(path):
+            stale.unlink(missing_ok=True)
+        os.replace(temp, path)
+    except (OSError, sqlite3.Error) as error:
+        raise OutputError(f"{path}: cannot write ({getattr(error, 'strerror', None) or error})") from None
+    finally:
+        for part in (temp, *learned_db.companions(temp)):
+            _remove_quietly(part)
+    _sync_directory(directory)
 
 
 class LearnedFile:
@@ -370,39 +303,67 @@ class LearnedFile:
 
     Use as a context manager, or call :meth:`close`.  ``model`` is the combined
     model to take suggestions from; it always reflects every change made.
+    ``converted_from`` names the kept format-1 file when opening converted one.
     """
 
     def __init__(self, path: str | os.PathLike[str], base: LanguageModel, *, compact_every: int = COMPACT_EVERY) -> None:
         """Open (or prepare to create) a learned file and take the writer's lock.
 
-        The file itself is created by the first change.
+        The file itself is created by the first change; a format-1 file is converted now.
 
         Args:
             path: the learned file.
             base: the base model the counts combine with.
-            compact_every: changes between two rewrites of the whole state.
+            compact_every: changes between two rewrites of the counts tables.
 
         Raises:
-            ModelFileError: the file exists but is not a learned file or is damaged.
+            ModelFileError: the file exists but is not a learned file, has a newer schema, or is damaged.
             OutputError: another process holds it, or its folder cannot be written.
         """
         if compact_every < 1:
             raise OptionError(f"compact_every must be at least 1, not {compact_every}")
         self.path = Path(path)
         self.compact_every = compact_every
-        self._lock = _acquire(self.path)
+        self.converted_from: Path | None = None
+        self._conn: sqlite3.Connection | None = None
+        self._pending = 0
+        self._lock = acquire(self.path)
         try:
-            parsed = _read(self.path)
-            self.model = AdaptedModel(base) if parsed is None else _build(self.path, base, parsed.records)
-            self._pending = 0 if parsed is None else len(parsed.records) - 1
-            self._exists = parsed is not None
-            if parsed is not None and parsed.good_end < parsed.size:
-                self._cut_torn_tail(parsed.good_end)
             self._remove_stale_temporaries()
+            self.model = self._open(base)
         except BaseException:
-            _release(self._lock)
+            self._close_connection()
+            release(self._lock)
             raise
-        self._handle: Any = None
+
+    def _open(self, base: LanguageModel) -> AdaptedModel:
+        head = _head(self.path)
+        if head is None:
+            return AdaptedModel(base)
+        if is_journal(head):
+            # The same state and changes move to the new file, so it replays exactly as the old one read.
+            model, data, state, changes = _journal_model(self.path, base)
+            kept = self.path.with_name(self.path.name + FORMAT_1_SUFFIX)
+            replace_atomically(kept, _writer(data))
+            _create(self.path, state, changes)
+            self.converted_from = kept
+            self._conn = self._connect()
+            self._pending = len(changes)
+            return model
+        if not learned_db.is_database(head):
+            raise ModelFileError(f"{self.path}: not a foretype learned file")
+        self._conn = self._connect()
+        state, changes = _read_database(self._conn, self.path)
+        self._pending = len(changes)
+        return _build(self.path, base, state, changes)
+
+    def _connect(self) -> sqlite3.Connection:
+        try:
+            return learned_db.connect(self.path, write=True)
+        except sqlite3.OperationalError as error:
+            raise OutputError(f"{self.path}: cannot open for writing ({error})") from None
+        except sqlite3.Error as error:
+            raise _damaged(self.path, error) from None
 
     @classmethod
     def for_model(cls, base: LanguageModel, *, compact_every: int = COMPACT_EVERY) -> LearnedFile:
@@ -521,44 +482,51 @@ class LearnedFile:
         return dropped
 
     def compact(self) -> None:
-        """Rewrite the file as one state record (temporary file, flush, rename)."""
-        self._close_handle()
-        _write_state(self.model, self.path)
+        """Rewrite the counts tables from the model and clear the changes (one transaction).
+
+        Raises:
+            OutputError: the file could not be written (it stays as it was).
+        """
+        if self._conn is None:
+            _create(self.path, LearnedState.of(self.model))
+            self._conn = self._connect()
+        else:
+            try:
+                with learned_db.transaction(self._conn, write=True):
+                    learned_db.write_state(self._conn, LearnedState.of(self.model))
+            except sqlite3.Error as error:
+                raise OutputError(f"{self.path}: cannot write ({error})") from None
         self._pending = 0
-        self._exists = True
 
     def close(self) -> None:
         """Release the file (changes are already on disk)."""
-        self._close_handle()
+        self._close_connection()
         if self._lock is not None:
-            _release(self._lock)
+            release(self._lock)
             self._lock = None
 
     # ------------------------------------------------------------ internals
     def _ensure_file(self) -> None:
-        if self._lock is None and fcntl is not None:
+        if self._lock is None and LOCKS_AVAILABLE:
             raise OutputError(f"{self.path}: the learned file was closed")
-        if not self._exists:
+        if self._conn is None:
             self.compact()
 
     def _commit(self, record: dict[str, Any], *, applied: bool = False) -> None:
-        """Append a change durably and apply it to the model (``applied``: the model already has it).
+        """Record a change durably and apply it to the model (``applied``: the model already has it).
 
-        If the line cannot be written, the model is read back from the file,
+        If the change cannot be written, the model is read back from the file,
         so it never holds a change the file lacks.
         """
         self._ensure_file()
-        line = _line(record)
-        handle = self._append_handle()
+        assert self._conn is not None
         try:
-            handle.write(line)
-            handle.flush()
-            os.fsync(handle.fileno())
-        except OSError as error:
-            self._close_handle()
+            with learned_db.transaction(self._conn, write=True):
+                learned_db.append_change(self._conn, record)
+        except sqlite3.Error as error:
             if applied:
                 self._reread()
-            raise OutputError(f"{self.path}: cannot write ({error.strerror or error})") from None
+            raise OutputError(f"{self.path}: cannot write ({error})") from None
         if not applied:
             apply_record(self.model, record)
         self._pending += 1
@@ -566,47 +534,32 @@ class LearnedFile:
             self.compact()
 
     def _reread(self) -> None:
-        parsed = _read(self.path)
         base = self.model.base
-        fresh = AdaptedModel(base) if parsed is None else _build(self.path, base, parsed.records)
+        fresh = AdaptedModel(base)
+        if self._conn is not None:
+            state, changes = _read_database(self._conn, self.path, check=False)
+            fresh = _build(self.path, base, state, changes)
         self.model.reset(fresh.user, fresh.never.entries)
 
-    def _append_handle(self) -> Any:
-        if self._handle is None:
+    def _close_connection(self) -> None:
+        if self._conn is not None:
             try:
-                self._handle = open(self.path, "ab", buffering=0)
-            except OSError as error:
-                raise OutputError(f"{self.path}: cannot write ({error.strerror or error})") from None
-        return self._handle
-
-    def _close_handle(self) -> None:
-        if self._handle is not None:
-            try:
-                self._handle.close()
+                self._conn.close()
             finally:
-                self._handle = None
+                self._conn = None
 
     def _remove_stale_temporaries(self) -> None:
-        """Delete temporary files a killed compaction left (no other writer exists: we hold the lock)."""
+        """Delete temporary files a killed creation left (no other writer exists: we hold the lock)."""
         directory = self.path.parent if str(self.path.parent) else Path(".")
-        for stale in directory.glob(f".{glob.escape(self.path.name)}.*.tmp"):
+        for stale in directory.glob(f".{glob.escape(self.path.name)}.*.tmp*"):
             try:
                 stale.unlink()
             except OSError:
                 pass
 
-    def _cut_torn_tail(self, good_end: int) -> None:
-        try:
-            with open(self.path, "r+b") as handle:
-                handle.truncate(good_end)
-                handle.flush()
-                os.fsync(handle.fileno())
-        except OSError as error:
-            raise OutputError(f"{self.path}: cannot repair the torn last line ({error.strerror or error})") from None
-
 
 def save_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> int:
-    """Write a combined model's learned state as a new learned file (temporary file, then rename).
+    """Write a combined model's learned state as the whole of a learned file (its old content is replaced at once).
 
     Returns:
         The file's size in bytes.
@@ -615,54 +568,41 @@ def save_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> int:
         OutputError: another process is writing it, or it cannot be written (the old file stays).
     """
     target = Path(path)
-    with _locked(target):
-        return _write_state(model, target)
+    state = LearnedState.of(model)
+    with locked(target):
+        conn = None
+        head = None if target.is_dir() else _head(target)
+        if head is not None and learned_db.is_database(head):
+            try:
+                conn = learned_db.connect(target, write=True)
+                learned_db.check_schema(conn, target)
+            except (sqlite3.Error, ModelFileError):
+                if conn is not None:
+                    conn.close()
+                conn = None
+        if conn is None:
+            _create(target, state)
+        else:
+            try:
+                with learned_db.transaction(conn, write=True):
+                    learned_db.write_state(conn, state)
+            except sqlite3.Error as error:
+                raise OutputError(f"{target}: cannot write ({error})") from None
+            finally:
+                conn.close()
+    return learned_db.file_bytes(target)
 
 
-def _write_state(model: AdaptedModel, target: Path) -> int:
-    """Write the magic line and one state record to a temporary file, flush it, and rename it over ``target``."""
-    record = _line(_state_record(model))
-
-    def write(out: BinaryIO) -> None:
-        out.write(MAGIC_LINE)
-        out.write(record)
-
-    return replace_atomically(target, write)
-
-
-def export_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> dict[str, int]:
-    """Write everything a combined model learned to a plain JSON file (atomically).
-
-    The export lists the settings, the never-suggest list, and every word,
-    bigram and trigram with its decayed count, raw uses and last-seen time,
-    words written out (never ids).
-
-    Returns:
-        How many words, bigrams and trigrams were written.
-
-    Raises:
-        OutputError: the file cannot be written (an existing file stays as it was).
-    """
-    user = model.user
-    words = [
-        {"word": form, "shown_as": user.display(i), "count": count, "uses": uses, "last_seen": seen, "new_word": user.is_learned(i)}
-        for i, form, count, uses, seen in user.word_rows()
-    ]
-    grams = {}
-    for order in (2, 3):
-        grams[order] = [
-            {"words": [user.form(i) for i in ids], "count": count, "uses": uses, "last_seen": seen} for ids, count, uses, seen in user.ngram_rows(order)
-        ]
-    payload = {
-        "format": "foretype-learned-export",
-        "version": 1,
-        "note": PRIVACY_NOTE,
-        "settings": model.settings.to_json(),
-        "never_suggest": model.never.entries,
-        "tokens": user.raw_tokens,
-        "words": words,
-        "bigrams": grams[2],
-        "trigrams": grams[3],
-    }
-    write_text_atomic(path, json.dumps(payload, ensure_ascii=False, indent=1) + "\n")
-    return {"words": len(words), "bigrams": len(grams[2]), "trigrams": len(grams[3])}
+__all__ = [
+    "PRIVACY_NOTE",
+    "SUFFIX",
+    "COMPACT_EVERY",
+    "LearnedFile",
+    "default_learned_path",
+    "load_learned",
+    "learned_file_facts",
+    "save_learned",
+    "export_learned",
+    "wipe_learned",
+    "apply_record",
+]

@@ -45,7 +45,6 @@ import math
 import time
 from bisect import bisect_left
 from collections.abc import Callable, Iterator, Sequence
-from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
@@ -53,145 +52,42 @@ import numpy as np
 from ..errors import OptionError
 from ..query.vocabulary import END, START, UNKNOWN, Vocabulary
 from ..text import WORD_RE, model_form
+from . import user_snapshot
+from .followers import Followers
+from .listings import NgramRow, WordRow
 from .settings import AdaptSettings
 from .slips import looks_like_slip
+from .witten_bell import EMPTY_IDS, EMPTY_WEIGHTS, UserContext, interpolate, level
 
 _RESCALE_AT = 2.0**200
 """When the inflation factor passes this, every stored count is divided by it."""
 
 
-class Followers:
-    """The words seen after one context, with their (inflated) counts."""
+def _credit_reader(
+    words: Sequence[str], end: bool, credit: Sequence[float] | Callable[[int, int, int], float] | None
+) -> tuple[Callable[[int, int, int], float | None], list[float]]:
+    """Check the words and credits of a :meth:`UserModel.learn` call; returns the per-token reader and its log.
 
-    __slots__ = ("slot", "ids", "weights", "uses", "seen", "total", "_view")
-
-    def __init__(self) -> None:
-        """Start empty."""
-        self.slot: dict[int, int] = {}
-        self.ids: list[int] = []
-        self.weights: list[float] = []
-        self.uses: list[int] = []
-        self.seen: list[int] = []
-        self.total = 0.0
-        self._view: tuple[np.ndarray, np.ndarray] | None = None
-
-    def __len__(self) -> int:
-        return len(self.ids)
-
-    def add(self, word_id: int, amount: float, when: int, uses: int = 1) -> None:
-        """Count one more occurrence of a word after this context."""
-        at = self.slot.get(word_id)
-        if at is None:
-            self.slot[word_id] = len(self.ids)
-            self.ids.append(word_id)
-            self.weights.append(amount)
-            self.uses.append(uses)
-            self.seen.append(when)
-        else:
-            self.weights[at] += amount
-            self.uses[at] += uses
-            self.seen[at] = max(self.seen[at], when)
-        self.total += amount
-        if self._view is not None:
-            # Keep the sorted view (a context is usually queried again right after it is learned);
-            # new arrays, since a prepared context may still hold the old ones.
-            ids, weights = self._view
-            pos = int(ids.searchsorted(word_id))
-            if at is None:
-                self._view = (np.insert(ids, pos, word_id), np.insert(weights, pos, amount))
-            else:
-                weights = weights.copy()
-                weights[pos] += amount
-                self._view = (ids, weights)
-
-    def view(self) -> tuple[np.ndarray, np.ndarray]:
-        """The followers sorted by id, as (int64 ids, float64 inflated counts), both of shape (T,)."""
-        if self._view is None:
-            ids = np.array(self.ids, dtype=np.int64)
-            weights = np.array(self.weights, dtype=np.float64)
-            order = np.argsort(ids)
-            self._view = (ids[order], weights[order])
-        return self._view
-
-    def keep(self, mask: Sequence[bool]) -> None:
-        """Keep only the followers whose entry in ``mask`` is true."""
-        kept = [i for i, flag in enumerate(mask) if flag]
-        self.ids = [self.ids[i] for i in kept]
-        self.weights = [self.weights[i] for i in kept]
-        self.uses = [self.uses[i] for i in kept]
-        self.seen = [self.seen[i] for i in kept]
-        self.slot = {word_id: i for i, word_id in enumerate(self.ids)}
-        self.total = math.fsum(self.weights)
-        self._view = None
-
-    def scale(self, factor: float) -> None:
-        """Multiply every count by ``factor`` (used when the inflation factor is reset)."""
-        self.weights = [w * factor for w in self.weights]
-        self.total *= factor
-        self._view = None
-
-
-@dataclass(frozen=True)
-class UserContext:
-    """What the user model knows about one context (u, v), ready for vectorised scoring.
-
-    Attributes:
-        ids3: int64 array of shape (T3,): words seen after (u, v), sorted (empty if none).
-        weights3: float64 array of shape (T3,): their inflated counts.
-        total3: inflated count of the context (0 if unseen).
-        gamma3: the weight passed to the bigram order (1 if the context is unseen).
-        ids2, weights2, total2, gamma2: the same after v alone.
-        total1: inflated count of every learned token (N).
-        bucket: the evidence bucket: 2 if (u, v) was seen, 1 if only v was, else 0.
-        three, two: the follower tables themselves (None if unseen), for single lookups.
+    Raises:
+        OptionError: an entry of ``words`` is not a single word, or the credits do not match the tokens.
     """
+    for word in words:
+        if not isinstance(word, str) or WORD_RE.fullmatch(word) is None:
+            raise OptionError(f"cannot learn {word!r}: not a single word")
+    tokens = len(words) + (1 if end else 0)
+    given = None if credit is None or callable(credit) else [float(r) for r in credit]
+    if given is not None and (len(given) != tokens or not all(0.0 <= r <= 1.0 for r in given)):
+        raise OptionError(f"expected {tokens} responsibilities between 0 and 1, got {given}")
+    used: list[float] = []
 
-    ids3: np.ndarray
-    weights3: np.ndarray
-    total3: float
-    gamma3: float
-    ids2: np.ndarray
-    weights2: np.ndarray
-    total2: float
-    gamma2: float
-    total1: float
-    bucket: int
-    three: Followers | None
-    two: Followers | None
+    def credit_for(u: int, v: int, w: int) -> float | None:
+        if credit is None:
+            return None
+        r = given[len(used)] if given is not None else float(credit(u, v, w))  # type: ignore[operator]
+        used.append(r)
+        return r
 
-
-_EMPTY_IDS = np.zeros(0, dtype=np.int64)
-_EMPTY_WEIGHTS = np.zeros(0, dtype=np.float64)
-
-
-def _level(ids: np.ndarray, weights: np.ndarray, total: float, candidates: np.ndarray) -> np.ndarray:
-    """c(h w) / c(h .) for each candidate (0 where unseen after h)."""
-    if not len(ids):
-        return np.zeros(len(candidates), dtype=np.float64)
-    pos = np.searchsorted(ids, candidates)
-    np.minimum(pos, len(ids) - 1, out=pos)
-    freq = weights[pos] / total
-    freq[ids[pos] != candidates] = 0.0
-    return freq
-
-
-def interpolate(p1: np.ndarray, f2: np.ndarray | float, f3: np.ndarray | float, context: UserContext) -> np.ndarray:
-    """The Witten-Bell chain from the unigram up (the one arithmetic every user probability uses).
-
-    Args:
-        p1: float64 array: c(w) / N per candidate.
-        f2: c(v w) / c(v .) per candidate (or 0.0).
-        f3: c(u v w) / c(u v .) per candidate (or 0.0).
-        context: the context's gammas.
-
-    Returns:
-        float64 array of P_user per candidate.  For fixed gammas it never
-        decreases when p1, f2 or f3 grow, which the exact top-k bound relies on.
-    """
-    g2 = context.gamma2
-    p2 = (1.0 - g2) * f2 + g2 * p1
-    g3 = context.gamma3
-    return (1.0 - g3) * f3 + g3 * p2
+    return credit_for, used
 
 
 class UserModel:
@@ -340,29 +236,9 @@ class UserModel:
             OptionError: an entry of ``words`` is not a single word, or the
                 credits do not match the tokens.
         """
-        for word in words:
-            if not isinstance(word, str) or WORD_RE.fullmatch(word) is None:
-                raise OptionError(f"cannot learn {word!r}: not a single word")
-        tokens = len(words) + (1 if end else 0)
-        given = None if credit is None or callable(credit) else [float(r) for r in credit]
-        if given is not None and (len(given) != tokens or not all(0.0 <= r <= 1.0 for r in given)):
-            raise OptionError(f"expected {tokens} responsibilities between 0 and 1, got {given}")
-        used: list[float] = []
-
-        def credit_for(u: int, v: int, w: int) -> float | None:
-            if credit is None:
-                return None
-            r = given[len(used)] if given is not None else float(credit(u, v, w))  # type: ignore[operator]
-            used.append(r)
-            return r
-
+        credit_for, used = _credit_reader(words, end, credit)
         stamp = int(time.time()) if when is None else int(when)
-        context = [self._context_id(w) for w in list(after)[-2:]]
-        while len(context) < 2:
-            context.insert(0, self.start_id)
-        u, v = context
-        if v == self.start_id:
-            u = self.start_id
+        u, v = self._start_context(after)
         sentence_start = v == self.start_id
         for word in words:
             form = model_form(word)
@@ -377,6 +253,16 @@ class UserModel:
         if end:
             self._count(u, v, self.end_id, stamp, credit_for(u, v, self.end_id))
         return used
+
+    def _start_context(self, after: Sequence[str]) -> tuple[int, int]:
+        """The ids of the last two words of ``after`` (START padding; only START before a sentence start)."""
+        context = [self._context_id(w) for w in list(after)[-2:]]
+        while len(context) < 2:
+            context.insert(0, self.start_id)
+        u, v = context
+        if v == self.start_id:
+            u = self.start_id
+        return u, v
 
     def _context_id(self, word: str) -> int:
         found = self.id_of(word)
@@ -490,7 +376,7 @@ class UserModel:
     def _followers_of(self, table: Followers | None) -> tuple[Followers | None, np.ndarray, np.ndarray, float, float]:
         """(table or None, ids, weights, total, lower-order weight) of one context's followers."""
         if table is None or table.total <= 0:
-            return None, _EMPTY_IDS, _EMPTY_WEIGHTS, 0.0, 1.0
+            return None, EMPTY_IDS, EMPTY_WEIGHTS, 0.0, 1.0
         ids, weights = table.view()
         total = table.total
         return table, ids, weights, total, len(table) / (len(table) + total / self._scale)
@@ -518,8 +404,8 @@ class UserModel:
         if context.total1 > 0:
             inside = ids < len(self._w1)
             p1[inside] = self._w1[ids[inside]] / context.total1
-        f2 = _level(context.ids2, context.weights2, context.total2, ids)
-        f3 = _level(context.ids3, context.weights3, context.total3, ids)
+        f2 = level(context.ids2, context.weights2, context.total2, ids)
+        f3 = level(context.ids3, context.weights3, context.total3, ids)
         return p1, f2, f3
 
     def probabilities(self, ids: np.ndarray, context: UserContext) -> np.ndarray:
@@ -552,7 +438,7 @@ class UserModel:
         ids2, ids3 = context.ids2, context.ids3
         if not len(ids2) or context.total1 <= 0:
             ids = np.union1d(ids2, ids3)
-            return ids, (self.probabilities(ids, context) if len(ids) else _EMPTY_WEIGHTS)
+            return ids, (self.probabilities(ids, context) if len(ids) else EMPTY_WEIGHTS)
         pos = None
         if len(ids3):
             pos = ids2.searchsorted(ids3)
@@ -679,11 +565,11 @@ class UserModel:
         if word_id is None or word_id in (self.start_id, self.unknown_id):
             return False
         touched = self._n1[word_id] > 0 if word_id < len(self._n1) else False
-        for key in [key for key in self._ctx3 if word_id in key]:
-            del self._ctx3[key]
+        for pair in [pair for pair in self._ctx3 if word_id in pair]:
+            del self._ctx3[pair]
             touched = True
         self._ctx2.pop(word_id, None)
-        for table in (self._ctx2, self._ctx3):
+        for table in self._follower_tables():
             for key, followers in list(table.items()):
                 if word_id in followers.slot:
                     followers.keep([i != word_id for i in followers.ids])
@@ -701,6 +587,10 @@ class UserModel:
         self.version += 1
         return bool(touched)
 
+    def _follower_tables(self) -> tuple[dict[Any, Followers], ...]:
+        """The bigram and trigram follower tables (keyed by v and by (u, v))."""
+        return (self._ctx2, self._ctx3)
+
     def prune(self, *, below: float | None = None, seen_before: int | None = None) -> int:
         """Drop counts smaller than ``below`` (after decay) or last seen before a Unix time.
 
@@ -712,7 +602,7 @@ class UserModel:
         threshold = -1.0 if below is None else below * self._scale
         cutoff = -1 if seen_before is None else seen_before
         dropped = 0
-        for table in (self._ctx2, self._ctx3):
+        for table in self._follower_tables():
             for key, followers in list(table.items()):
                 mask = [w >= threshold and s >= cutoff for w, s in zip(followers.weights, followers.seen)]
                 if not all(mask):
@@ -735,16 +625,16 @@ class UserModel:
         return dropped
 
     # ------------------------------------------------------------- listings
-    def word_rows(self) -> Iterator[tuple[int, str, float, int, int]]:
-        """Every counted word (symbols excluded): (id, model form, decayed count, raw uses, last seen)."""
+    def word_rows(self) -> Iterator[WordRow]:
+        """Every counted word (symbols excluded), in id order."""
         for word_id in np.flatnonzero(self._n1 > 0):
             i = int(word_id)
             if self.base_size <= i < self.first_learned_id:
                 continue
-            yield i, self.form(i), float(self._w1[i] / self._scale), int(self._n1[i]), int(self._seen1[i])
+            yield WordRow(i, self.form(i), float(self._w1[i] / self._scale), int(self._n1[i]), int(self._seen1[i]))
 
-    def ngram_rows(self, order: int) -> Iterator[tuple[tuple[int, ...], float, int, int]]:
-        """Every bigram (order 2) or trigram (order 3): (ids, decayed count, raw uses, last seen)."""
+    def ngram_rows(self, order: int) -> Iterator[NgramRow]:
+        """Every bigram (order 2) or trigram (order 3) counted."""
         if order not in (2, 3):
             raise OptionError(f"order must be 2 or 3, not {order}")
         table: dict[Any, Followers] = self._ctx2 if order == 2 else self._ctx3  # type: ignore[assignment]
@@ -752,7 +642,7 @@ class UserModel:
         for key, followers in table.items():
             head = (key,) if order == 2 else key
             for word_id, weight, uses, seen in zip(followers.ids, followers.weights, followers.uses, followers.seen):
-                yield (*head, word_id), weight / scale, uses, seen
+                yield NgramRow((*head, word_id), weight / scale, uses, seen)
 
     def counts_summary(self) -> dict[str, int]:
         """How many distinct unigrams, bigrams and trigrams are held."""
@@ -767,148 +657,17 @@ class UserModel:
         return {self.form(word_id): dict(votes) for word_id, votes in self._votes.items()}
 
     # ------------------------------------------------------------- snapshot
-    @staticmethod
-    def _restore_table(table: dict[Any, Followers], order: int, heads: list[np.ndarray], tail: np.ndarray, counts: np.ndarray, uses: np.ndarray, seen: np.ndarray) -> None:
-        """Fill a follower table from columns, one context group at a time (cells of a group as list slices)."""
-        if not len(tail):
-            return
-        if order == 2:
-            group_key = heads[0]
-        else:
-            group_key = heads[0] * (int(max(heads[0].max(), heads[1].max())) + 1) + heads[1]
-        by_group = np.lexsort((tail, group_key))
-        group_key, tail, counts, uses, seen = group_key[by_group], tail[by_group], counts[by_group], uses[by_group], seen[by_group]
-        heads = [h[by_group] for h in heads]
-        repeated = bool(((group_key[1:] == group_key[:-1]) & (tail[1:] == tail[:-1])).any())
-        starts = np.flatnonzero(np.concatenate(([True], group_key[1:] != group_key[:-1])))
-        ends = np.append(starts[1:], len(tail))
-        tails, weights, use_list, seen_list = tail.tolist(), counts.tolist(), uses.tolist(), seen.tolist()
-        first = [h[starts].tolist() for h in heads]
-        for index, (start, end) in enumerate(zip(starts.tolist(), ends.tolist())):
-            key = first[0][index] if order == 2 else (first[0][index], first[1][index])
-            followers = Followers()
-            if repeated:  # a damaged or merged table: add cell by cell, summing repeats
-                for w, c, n, t in zip(tails[start:end], weights[start:end], use_list[start:end], seen_list[start:end]):
-                    followers.add(w, c, t, uses=n)
-            else:
-                followers.ids = tails[start:end]
-                followers.weights = weights[start:end]
-                followers.uses = use_list[start:end]
-                followers.seen = seen_list[start:end]
-                followers.slot = {w: i for i, w in enumerate(followers.ids)}
-                followers.total = math.fsum(followers.weights)
-            table[key] = followers
-
     def snapshot(self) -> dict[str, Any]:
-        """The whole state as plain data (words by model form, counts decayed to now).
-
-        Returns:
-            ``{"tick", "words", "votes", "credit", "evidence", "unigrams", "bigrams", "trigrams"}``:
-            ``credit`` and ``evidence`` are R_b and n_b per bucket; ``words``
-            lists model forms (index 0 START, 1 END, 2 UNKNOWN); each n-gram table
-            maps column names to numpy arrays of equal length: word indices
-            (int32), ``count`` (float64, decayed), ``uses`` (int64) and ``seen`` (int64).
-        """
-        index: dict[int, int] = {self.start_id: 0, self.end_id: 1, self.unknown_id: 2}
-        words = [START, END, UNKNOWN]
-
-        def idx(word_id: int) -> int:
-            at = index.get(word_id)
-            if at is None:
-                at = index[word_id] = len(words)
-                words.append(self.form(word_id))
-            return at
-
-        scale = self._scale
-        used = np.flatnonzero(self._n1 > 0)
-        unigrams = {
-            "w": np.array([idx(int(i)) for i in used], dtype=np.int32),
-            "count": self._w1[used] / scale,
-            "uses": self._n1[used].astype(np.int64),
-            "seen": self._seen1[used].astype(np.int64),
-        }
-        tables = []
-        for order, table in ((2, self._ctx2), (3, self._ctx3)):
-            heads: list[list[int]] = [[] for _ in range(order - 1)]
-            tail: list[int] = []
-            counts: list[float] = []
-            uses: list[int] = []
-            seen: list[int] = []
-            for key, followers in table.items():
-                context = (key,) if order == 2 else key
-                context_idx = [idx(c) for c in context]  # type: ignore[union-attr]
-                for word_id, weight, n, s in zip(followers.ids, followers.weights, followers.uses, followers.seen):
-                    for column, value in zip(heads, context_idx):
-                        column.append(value)
-                    tail.append(idx(word_id))
-                    counts.append(weight / scale)
-                    uses.append(n)
-                    seen.append(s)
-            names = ["v", "w"] if order == 2 else ["u", "v", "w"]
-            columns = {name: np.array(col, dtype=np.int32) for name, col in zip(names, heads + [tail])}
-            columns.update(count=np.array(counts, dtype=np.float64), uses=np.array(uses, dtype=np.int64), seen=np.array(seen, dtype=np.int64))
-            tables.append(columns)
-        votes = {self.form(word_id): dict(v) for word_id, v in self._votes.items()}
-        return {
-            "tick": self.tick,
-            "words": words,
-            "votes": votes,
-            "credit": (self._credit / scale).tolist(),
-            "evidence": (self._evidence / scale).tolist(),
-            "unigrams": unigrams,
-            "bigrams": tables[0],
-            "trigrams": tables[1],
-        }
+        """The whole state as plain data (see :func:`foretype.adapt.user_snapshot.snapshot`)."""
+        return user_snapshot.snapshot(self)
 
     def restore(self, state: dict[str, Any]) -> None:
-        """Replace the counts with a :meth:`snapshot` (words mapped through this model's vocabulary).
+        """Replace the counts with a :meth:`snapshot` (see :func:`foretype.adapt.user_snapshot.restore`).
 
         Raises:
             ValueError: the state is inconsistent (index out of range, columns of unequal length).
         """
-        words = list(state["words"])
-        if words[:3] != [START, END, UNKNOWN]:
-            raise ValueError("the word table does not start with the special symbols")
-        ids = [self.start_id, self.end_id, self.unknown_id] + [self._id_for(str(form)) for form in words[3:]]
-        lookup = np.array(ids, dtype=np.int64)
-        self._w1[:] = 0.0
-        self._n1[:] = 0
-        self._seen1[:] = 0
-        self._ctx2 = {}
-        self._ctx3 = {}
-        self._scale = 1.0
-        self.tick = int(state["tick"])
-        credit = [float(x) for x in state.get("credit", [0.0, 0.0, 0.0])]
-        evidence = [float(x) for x in state.get("evidence", [0.0, 0.0, 0.0])]
-        if len(credit) != 3 or len(evidence) != 3 or not all(0.0 <= r <= n + 1e-9 for r, n in zip(credit, evidence)):
-            raise ValueError("bad share statistics")
-        self._credit = np.array(credit, dtype=np.float64)
-        self._evidence = np.array(evidence, dtype=np.float64)
-        uni = state["unigrams"]
-        target = lookup[np.asarray(uni["w"], dtype=np.int64)]
-        if len({len(uni[c]) for c in ("w", "count", "uses", "seen")}) != 1:
-            raise ValueError("unigram columns differ in length")
-        np.add.at(self._w1, target, np.asarray(uni["count"], dtype=np.float64))
-        np.add.at(self._n1, target, np.asarray(uni["uses"], dtype=np.int64))
-        np.maximum.at(self._seen1, target, np.asarray(uni["seen"], dtype=np.int64))
-        self._total = math.fsum(self._w1)
-        for order, name, table in ((2, "bigrams", self._ctx2), (3, "trigrams", self._ctx3)):
-            columns = state[name]
-            heads = [lookup[np.asarray(columns[c], dtype=np.int64)] for c in (["v"] if order == 2 else ["u", "v"])]
-            tail = lookup[np.asarray(columns["w"], dtype=np.int64)]
-            counts = np.asarray(columns["count"], dtype=np.float64)
-            uses = np.asarray(columns["uses"], dtype=np.int64)
-            seen = np.asarray(columns["seen"], dtype=np.int64)
-            if not (len(tail) == len(counts) == len(uses) == len(seen) and all(len(h) == len(tail) for h in heads)):
-                raise ValueError(f"{name} columns differ in length")
-            self._restore_table(table, order, heads, tail, counts, uses, seen)
-        self._votes = {}
-        for form, votes in dict(state.get("votes", {})).items():
-            word_id = self._learned.get(model_form(str(form)))
-            if word_id is not None and isinstance(votes, dict):
-                self._votes[word_id] = {str(k): int(n) for k, n in votes.items()}
-        self._rebuild_ready()
-        self.version += 1
+        user_snapshot.restore(self, state)
 
 
 __all__ = ["UserModel", "UserContext", "Followers", "interpolate"]

@@ -100,6 +100,8 @@ def run_learned(args: argparse.Namespace) -> int:
     changes: list[str] = []
     if _changes_asked(args):
         with LearnedFile(path, base) as learned:
+            if learned.converted_from is not None:
+                changes.append(f"converted {path} to the current format; the old file is kept as {learned.converted_from}")
             _apply_changes(args, learned, changes)
             model = learned.model
     else:

@@ -332,11 +332,11 @@ class LanguageModel:
                 if bounds is None:
                     break
             return self._compiled.steps(u, v, ranges, k, stop)
-        lists = []
+        lists: list[list[Suggestion]] = []
         for prefix in prefixes:
-            found = self.suggest_ids(u, v, prefix, k)
-            lists.append(found)
-            if not found or any(s.id == stop for s in found):
+            answer = self.suggest_ids(u, v, prefix, k)
+            lists.append(answer)
+            if not answer or any(s.id == stop for s in answer):
                 break
         return lists
 

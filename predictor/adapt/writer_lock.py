@@ -1,0 +1,71 @@
+"""One writer at a time: an advisory lock on ``<file>.lock`` beside a learned file.
+
+The lock is released when its holder closes it or dies (a killed process
+leaves no stale lock).  Readers take no lock: SQLite's WAL mode lets them
+read while the one writer writes.
+"""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Iterator
+from contextlib import contextmanager
+from pathlib import Path
+
+from ..errors import OutputError
+
+try:  # advisory locks; on systems without fcntl writers are not serialised
+    import fcntl
+except ImportError:  # pragma: no cover - not on Linux or macOS
+    fcntl = None  # type: ignore[assignment]
+
+LOCKS_AVAILABLE = fcntl is not None
+"""Whether this system serialises writers."""
+
+
+def lock_path(path: Path) -> Path:
+    """The lock file of a learned file."""
+    return path.with_name(path.name + ".lock")
+
+
+@contextmanager
+def locked(path: Path) -> Iterator[None]:
+    """Hold the writer's lock for a ``with`` block.
+
+    Raises:
+        OutputError: another process holds it.
+    """
+    handle = acquire(path)
+    try:
+        yield
+    finally:
+        release(handle)
+
+
+def acquire(path: Path) -> int | None:
+    """Take the writer's lock of a learned file (None where locks are unavailable).
+
+    Raises:
+        OutputError: another process holds it, or the lock file cannot be made.
+    """
+    if fcntl is None:
+        return None
+    try:
+        handle = os.open(lock_path(path), os.O_RDWR | os.O_CREAT, 0o600)
+    except OSError as error:
+        raise OutputError(f"{path}: cannot write ({error.strerror or error})") from None
+    try:
+        fcntl.flock(handle, fcntl.LOCK_EX | fcntl.LOCK_NB)
+    except OSError:
+        os.close(handle)
+        raise OutputError(f"{path}: in use by another foretype process (close it first)") from None
+    return handle
+
+
+def release(handle: int | None) -> None:
+    """Give the lock back."""
+    if handle is not None:
+        os.close(handle)  # closing releases the lock
+
+
+__all__ = ["acquire", "release", "locked", "lock_path", "LOCKS_AVAILABLE"]
