@@ -17,7 +17,7 @@ def launched(monkeypatch: pytest.MonkeyPatch) -> list[tuple[object, int]]:
 
     learning_choices.clear()
 
-    monkeypatch.setattr("tui.launch.run_pad", fake_run_pad)
+    monkeypatch.setattr("foretype.tui.launch.run_pad", fake_run_pad)
     return calls
 
 
