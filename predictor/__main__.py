@@ -1,5 +1,5 @@
-"""``python -m predictor`` runs the ``foretype`` command line."""
+"""``python -m foretype`` runs the ``foretype`` command line."""
 
-from foretype.cli import main
+from .cli import main
 
 raise SystemExit(main())

@@ -56,10 +56,10 @@ from .counting import count_corpus
 from .counting.store import open_count_store, store_wrapped
 from .errors import CapacityError, OptionError
 from .estimate import METHODS
+from .outputs import prepare_folder, write_text_atomic
 from .query.model import load
 from .simulate import TypistSettings, read_passage, simulate
 from .simulate.scanning import ScanningSettings, simulate_scanning
-from .simulate.writing import prepare_folder, write_text_atomic
 from .size_chart import size_chart
 
 DEFAULT_VOCAB_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)
@@ -203,7 +203,7 @@ def parse_vocab_sizes(text: str) -> list[int]:
         sizes.append(value)
     if not sizes:
         raise OptionError("--vocab-sizes is empty")
-    return sizes
+    return list(dict.fromkeys(sizes))  # a size given twice is built once
 
 
 def parse_methods(text: str) -> list[str]:
@@ -502,7 +502,7 @@ def run_sweep(
     out: str | os.PathLike[str],
     vocab_sizes: Sequence[int] = DEFAULT_VOCAB_SIZES,
     methods: Sequence[str] = ("kneser-ney",),
-    settings: TypistSettings = TypistSettings(),
+    settings: TypistSettings | None = None,
     test_name: str = "",
     progress: SweepProgress | None = None,
     on_row: Callable[[SweepRow], None] | None = None,
@@ -522,7 +522,7 @@ def run_sweep(
         vocab_sizes: vocabulary sizes to build.
         methods: estimators to build with.
         settings: the simulated typist's settings (``settings.wrapped`` also
-            applies to counting the corpus and scoring the test text).
+            applies to counting the corpus and scoring the test text); None for the defaults.
         test_name: the test file's name, for the results.
         progress: called with (stage, done, total) throughout.
         on_row: called with each row as it finishes (after the files are written).
@@ -546,15 +546,8 @@ def run_sweep(
         CorpusError: the corpus or the test text holds no words.
         OutputError: the output folder cannot be written.
     """
-    if not vocab_sizes:
-        raise OptionError("no vocabulary sizes to sweep")
-    if not methods:
-        raise OptionError("no methods to sweep")
-    for method in methods:
-        check_build_options(vocab_size=None, min_count=1, method=method, add=0.1, encoding=None)
-    for size in vocab_sizes:
-        if size < 1:
-            raise OptionError(f"vocabulary sizes must be at least 1, not {size}")
+    settings = settings if settings is not None else TypistSettings()
+    _check_plan(vocab_sizes, methods)
     _check_size_axis(methods, shrink_criteria, keep_bytes, value_encodings)
     read_passage(test_text, settings.text_mode, wrapped=settings.wrapped)  # reject a word-less test text before counting
     folder = prepare_folder(out)
@@ -590,6 +583,19 @@ def run_sweep(
         result.complete = True  # the last planned row was skipped as too small to build
         write_results(result, folder)
     return result
+
+
+def _check_plan(vocab_sizes: Sequence[int], methods: Sequence[str]) -> None:
+    """Refuse an empty plan, an unknown method or a vocabulary size below 1 before any work."""
+    if not vocab_sizes:
+        raise OptionError("no vocabulary sizes to sweep")
+    if not methods:
+        raise OptionError("no methods to sweep")
+    for method in methods:
+        check_build_options(vocab_size=None, min_count=1, method=method, add=0.1, encoding=None)
+    for size in vocab_sizes:
+        if size < 1:
+            raise OptionError(f"vocabulary sizes must be at least 1, not {size}")
 
 
 def _store_counts(store: str | os.PathLike[str], wrapped: bool) -> Any:
@@ -663,7 +669,7 @@ def _check_size_axis(methods: Sequence[str], criteria: Sequence[str], shares: Se
 def format_table(rows: Sequence[SweepRow]) -> str:
     """The rows as an aligned text table."""
     adapted = any(row.adapted_ksr is not None for row in rows)
-    headers = ("method", "asked", "vocab", "n-grams", "file MB", "RSS MB", "build s", "load ms", "perplexity", "OOV", "KSR", "oracle", "baseline", "p50 µs", "p99 µs")
+    headers: tuple[str, ...] = ("method", "asked", "vocab", "n-grams", "file MB", "RSS MB", "build s", "load ms", "perplexity", "OOV", "KSR", "oracle", "baseline", "p50 µs", "p99 µs")
     if adapted:
         headers += ("learning KSR", "learning p99 µs")
     sized = any(row.keep_bytes is not None for row in rows)
@@ -672,7 +678,7 @@ def format_table(rows: Sequence[SweepRow]) -> str:
     headers += _extra_headers(rows)
     lines = []
     for row in rows:
-        line = (
+        line: tuple[str, ...] = (
             row.method,
             f"{row.requested_vocab_size:,}",
             f"{row.vocab_size:,}",

@@ -171,7 +171,7 @@ def test_export_to_standard_output_and_compressed_file(models, tmp_path, run_cli
     assert "\\end\\" in printed.out
     before = model_path.read_bytes()
     refused = run_cli("export", model_path, "-o", model_path)
-    assert refused.code == 2 and "is a model file" in refused.err and model_path.read_bytes() == before and "\n\\data\\\nngram 1=403\n" in printed.out
+    assert refused.code == 8 and "is also an input" in refused.err and model_path.read_bytes() == before and "\n\\data\\\nngram 1=403\n" in printed.out
 
 
 WORDS = ["a", "ab", "b", "ba", "c", "Ca", "don't", "7:40"]

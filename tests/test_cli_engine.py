@@ -68,7 +68,7 @@ BAD_BUILDS = {
     "folder with no text": (lambda d: [d.folder("empty-folder")], foretype.CorpusError),
     "folder of binary files": (lambda d: [d.folder("binaries", {"a.bin": b"\x00\x01\x02", "b.dat": b"PK\x03\x04\x00\x00"})], foretype.CorpusError),
     "binary file": (lambda d: [d.write(b"\x7fELF\x02\x01\x01\x00\x00\x00", "program")], foretype.CorpusError),
-    "the model itself as corpus": (lambda d: [d.root / "good.model"], foretype.CorpusError),
+    "the model itself as corpus": (lambda d: [d.root / "good.model"], foretype.OutputError),  # an output that is an input is refused before any work
     "invalid UTF-8": (lambda d: [d.write(b"In the beginning\nGod \xe9 created\n", "latin1.txt")], foretype.EncodingError),
 }
 
@@ -232,7 +232,7 @@ def test_build_suggest_score_and_info_print_the_documented_json(verses_file, tmp
     _, heldout = kjv_split()
     text = write_lines(heldout[:100], tmp_path / "heldout.txt")
     scored = json.loads(run_cli("score", model, text, "--json").out)
-    assert set(scored) == {"sentences", "tokens", "oov", "oov_rate", "cross_entropy_bits", "perplexity"}
+    assert set(scored) == {"wrapped", "sentences", "tokens", "oov", "oov_rate", "cross_entropy_bits", "perplexity"}
     assert scored["perplexity"] == pytest.approx(2 ** scored["cross_entropy_bits"])
     direct = foretype.load(model).score(text.read_text(encoding="utf-8"))
     assert scored["tokens"] == direct.tokens and scored["perplexity"] == pytest.approx(direct.perplexity)

@@ -119,7 +119,7 @@ def test_savings_with_scanning_prints_both_sides(run_cli, tmp_path: Path) -> Non
 
 def test_sweep_rows_carry_a_ksr_interval_and_scanning_columns(run_cli, files: dict[str, Path], tmp_path: Path) -> None:
     out = tmp_path / "sweep"
-    result = run_cli("sweep", files["corpus"], "--test", files["test"], "--vocab-sizes", "300,1000", "--out", out, "--ksr-interval", "200", "--access", "scanning", "--json")
+    result = run_cli("sweep", files["corpus"], "--test", files["test"], "--vocab-sizes", "300,1000", "-o", out, "--ksr-interval", "200", "--access", "scanning", "--json")
     assert result.code == 0, result.err
     rows = json.loads(result.out)["rows"]
     for row in rows:

@@ -62,7 +62,7 @@ def commands(folder: Path, tag: str) -> list[list[str]]:
         ["suggest", str(model), "the f", "-k", "3", "--json"],
         ["score", str(model), str(text), "--json"],
         ["savings", str(model), str(text), "--json"],
-        ["sweep", str(corpus), "--test", str(text), "--vocab-sizes", "5,10", "--out", str(folder / f"{tag}-sweep")],
+        ["sweep", str(corpus), "--test", str(text), "--vocab-sizes", "5,10", "-o", str(folder / f"{tag}-sweep")],
         ["learned", str(model)],
         ["--version"],
     ]

@@ -180,6 +180,7 @@ LIES = {
     "vocabulary beyond the format": lambda h, n: h["meta"].update(vocab_size=2_000_001),
     "vocabulary of the wrong size": lambda h, n: h["meta"].update(vocab_size=h["meta"]["vocab_size"] - 1),
     "value encoding unlike the values": lambda h, n: h["meta"].update(value_encoding="float32"),
+    "value encoding not a name": lambda h, n: h["meta"].update(value_encoding=[1]),
     "corpus size not a number": lambda h, n: h["meta"].update(corpus_tokens="many"),
 }
 

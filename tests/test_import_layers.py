@@ -22,6 +22,7 @@ LAYERS: dict[str, int] = {
     "version": 0,
     "arrays": 0,
     "text": 0,
+    "outputs": 0,
     "counting": 1,
     "estimate": 2,
     "modelfile": 3,

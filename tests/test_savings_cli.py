@@ -85,7 +85,7 @@ def test_savings_rejects_a_test_file_without_words(run_cli, worked_model_file: P
     empty = write_file(content, "empty.txt")
     result = run_cli("savings", worked_model_file, empty)
     assert result.code == foretype.CorpusError.exit_code
-    assert result.err.strip() == f"foretype: {empty}: holds no words to type"
+    assert result.err.strip() == f"foretype: {empty}: holds no words"
 
 
 def test_savings_rejects_an_unwritable_trace_before_simulating(run_cli, worked_model_file: Path, tmp_path: Path) -> None:
@@ -101,7 +101,7 @@ def test_savings_names_a_missing_test_file(run_cli, worked_model_file: Path, tmp
 
 
 def test_sweep_rejects_an_unknown_method(run_cli, tmp_path: Path) -> None:
-    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--methods", "kneser-ney,guesswork", "--out", tmp_path / "out")
+    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--methods", "kneser-ney,guesswork", "-o", tmp_path / "out")
     assert result.code == foretype.OptionError.exit_code
     assert "unknown method 'guesswork'" in result.err and len(result.err.strip().splitlines()) == 1
     assert not (tmp_path / "out").exists()
@@ -109,7 +109,7 @@ def test_sweep_rejects_an_unknown_method(run_cli, tmp_path: Path) -> None:
 
 @pytest.mark.parametrize("sizes", ["0,100", "100,ten", ","])
 def test_sweep_rejects_bad_vocabulary_sizes(run_cli, tmp_path: Path, sizes: str) -> None:
-    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", sizes, "--out", tmp_path / "out")
+    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", sizes, "-o", tmp_path / "out")
     assert result.code == foretype.OptionError.exit_code
     assert "--vocab-sizes" in result.err and len(result.err.strip().splitlines()) == 1
 
@@ -117,21 +117,21 @@ def test_sweep_rejects_bad_vocabulary_sizes(run_cli, tmp_path: Path, sizes: str)
 def test_sweep_rejects_an_unwritable_output_folder(run_cli, tmp_path: Path) -> None:
     blocker = tmp_path / "a-file"
     blocker.write_text("not a folder\n", encoding="utf-8")
-    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", "5", "--out", blocker / "out")
+    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", "5", "-o", blocker / "out")
     assert result.code == foretype.OutputError.exit_code
     assert "cannot create the output folder" in result.err and len(result.err.strip().splitlines()) == 1
 
 
 def test_sweep_rejects_a_test_file_without_words(run_cli, write_file, tmp_path: Path) -> None:
     empty = write_file("?!\n", "empty.txt")
-    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", empty, "--out", tmp_path / "out")
+    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", empty, "-o", tmp_path / "out")
     assert result.code == foretype.CorpusError.exit_code
-    assert result.err.strip() == f"foretype: {empty}: holds no words to type"
+    assert result.err.strip() == f"foretype: {empty}: holds no words"
 
 
 def test_sweep_prints_the_table_and_writes_its_files(run_cli, tmp_path: Path) -> None:
     out = tmp_path / "sweep"
-    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", "4,13", "-k", "2", "--out", out)
+    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", "4,13", "-k", "2", "-o", out)
     assert result.code == 0, result.err
     assert "KSR" in result.out and "oracle" in result.out
     rows = json.loads((out / "sweep.json").read_text(encoding="utf-8"))["rows"]
@@ -143,7 +143,7 @@ def test_sweep_prints_the_table_and_writes_its_files(run_cli, tmp_path: Path) ->
 
 def test_sweep_with_adapt_adds_the_learning_columns_to_the_table(run_cli, tmp_path: Path) -> None:
     out = tmp_path / "sweep"
-    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", "4,13", "-k", "2", "--out", out, "--adapt")
+    result = run_cli("sweep", DATA / "worked-corpus.txt", "--test", DATA / "worked-text.txt", "--vocab-sizes", "4,13", "-k", "2", "-o", out, "--adapt")
     assert result.code == 0, result.err
     header = result.out.splitlines()[1]
     assert "learning KSR" in header and "learning p99 µs" in header

@@ -10,6 +10,7 @@ from pathlib import Path
 from typing import Any
 
 from foretype.errors import CorpusError, OutputError
+from foretype.outputs import current_umask, write_text_output
 
 
 def save_new_text(path: str | Path, text: str) -> Path:
@@ -30,6 +31,9 @@ def save_new_text(path: str | Path, text: str) -> Path:
         OutputError: the file exists, its folder is missing, or it cannot be written.
     """
     target = Path(path).expanduser()
+    if target.exists() and not target.is_file() and not target.is_dir():
+        write_text_output(target, text)  # a device or FIFO is written into, never replaced (foretype.outputs)
+        return target
     if target.exists() or target.is_symlink():
         raise OutputError(f"{target}: already exists; choose another name")
     directory = target.parent
@@ -41,9 +45,7 @@ def save_new_text(path: str | Path, text: str) -> Path:
         raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
     try:
         # mkstemp makes the file private (0600); a saved message gets the usual permissions.
-        umask = os.umask(0)
-        os.umask(umask)
-        os.fchmod(handle, 0o666 & ~umask)
+        os.fchmod(handle, 0o666 & ~current_umask())
         with os.fdopen(handle, "w", encoding="utf-8", newline="") as out:
             out.write(text)
             out.flush()

@@ -40,7 +40,8 @@ class _Parser(argparse.ArgumentParser):
     """An argument parser whose usage errors are one line and exit code 2."""
 
     def error(self, message: str) -> None:  # type: ignore[override]
-        print(f"foretype: {message} (see 'foretype {self._command()} --help')", file=sys.stderr)
+        command = " ".join(["foretype", self._command()]).strip()
+        print(f"foretype: {message} (see '{command} --help')", file=sys.stderr)
         raise SystemExit(OptionError.exit_code)
 
     def _command(self) -> str:

@@ -11,7 +11,9 @@ from ..arpa import export_arpa, import_arpa
 from ..counting.memory import parse_size, peak_resident_bytes
 from ..errors import OptionError
 from ..modelfile.encoding import ENCODINGS, FLOAT32
-from .output import add_json_option, open_model, print_json
+from ..modelfile.format import check_target
+from ..outputs import check_output
+from .output import add_force_option, add_json_option, open_model, print_json
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -26,6 +28,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     )
     p.add_argument("model", help="the model file")
     p.add_argument("-o", "--output", required=True, help="the ARPA file to write (.gz: compressed; -: standard output)")
+    add_force_option(p, "the output")
     p.add_argument("--approximate", action="store_true", help="write a model with no exact ARPA form (mle) anyway, saying what is approximated")
     add_json_option(p)
     p.set_defaults(handler=run_export)
@@ -54,8 +57,19 @@ def _memory_size(text: str) -> int:
         raise argparse.ArgumentTypeError(str(error).removeprefix("--max-memory: ")) from None
 
 
+def _is_arpa_file(path: Path) -> bool:
+    """Tell whether a file is an ARPA file (plain or gzip), so an export may replace it."""
+    try:
+        with open(path, "rb") as handle:
+            start = handle.read(1 << 16)
+    except OSError:
+        return False
+    return start.startswith(b"\x1f\x8b") or b"\\data\\" in start
+
+
 def run_export(args: argparse.Namespace) -> int:
     """foretype export."""
+    check_output(args.output, inputs=[args.model], kind=_is_arpa_file, kind_name="ARPA file", force=args.force, option="-o")
     model = open_model(args.model)
     summary = export_arpa(model, args.output, approximate=args.approximate)
     if summary.approximated:
@@ -72,6 +86,7 @@ def run_export(args: argparse.Namespace) -> int:
 def run_import(args: argparse.Namespace) -> int:
     """foretype import."""
     started = time.perf_counter()
+    check_target(args.output, inputs=[args.arpa])
     spill_dir = args.spill_dir if args.spill_dir is not None else (str(Path(args.output).parent) or ".")
     summary = import_arpa(args.arpa, args.output, encoding=args.values, max_memory=args.max_memory, spill_dir=spill_dir)
     for warning in summary.warnings:

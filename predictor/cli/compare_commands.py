@@ -7,14 +7,12 @@ from pathlib import Path
 
 from ..compare import ComparedSystem, compare_chart, comparison_csv, comparison_json, format_comparison, label_systems, run_comparison, sentences_csv
 from ..compare.runner import TESTS
-from ..counting.corpus import read_text_file
-from ..errors import CorpusError, OptionError
+from ..errors import OptionError
 from ..simulate import TEXT_MODES, TypistSettings
 from ..simulate.writing import check_writable_file, write_text_atomic
-from ..text import WORD_RE
 from .access_options import add_access_options, scanning_settings
 from .measure_commands import _Stages
-from .output import add_json_option, open_model, print_json
+from .output import add_json_option, open_model, print_json, read_words
 
 
 def _whole_list(text: str) -> list[int]:
@@ -72,6 +70,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--no-autospace", dest="autospace", action="store_false", help="a pick does not write the space after the word")
     p.add_argument("--min-prefix", type=_whole, default=0, metavar="N", help="letters typed before the typist looks at suggestions (default 0)")
     p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces")
+    p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 in the test text instead of failing")
     add_access_options(p)
     p.add_argument("--resamples", type=_whole, default=1000, metavar="N", help="bootstrap resamples, and shuffles for --test randomisation (default 1000)")
     p.add_argument("--seed", type=_whole, default=0, metavar="N", help="seed of the resampling (default 0; the same seed gives the same results)")
@@ -101,9 +100,7 @@ def run_compare(args: argparse.Namespace) -> int:
         (k, cost): TypistSettings(k=k, text_mode=args.text_mode, select_cost=cost, autospace=args.autospace, min_prefix=args.min_prefix, wrapped=args.wrapped)
         for _, _, k, cost in plans
     }
-    text = read_text_file(args.test)
-    if not WORD_RE.search(text):
-        raise CorpusError(f"{args.test}: holds no words to type")
+    text = read_words(args.test, replace_bad_bytes=getattr(args, "replace_bad_bytes", False))
     models = [open_model(path) for path in paths]
     systems = [
         ComparedSystem(label, models[index], settings[(k, cost)], scanning, "" if paths[index] is None else str(paths[index]))

@@ -8,15 +8,17 @@ from __future__ import annotations
 
 import argparse
 import math
+from contextlib import nullcontext, redirect_stdout
+import sys
 import time
 from pathlib import Path
 from typing import Any
 
-from ..counting.corpus import read_text_file
 from ..errors import OptionError
 from ..query.model import LanguageModel
 from ..text import iter_sentences
-from .output import add_json_option, open_model, positive_int, print_json, progress_bar
+from ..outputs import check_output, is_stdout
+from .output import add_force_option, add_json_option, is_learned_export, is_learned_file, open_model, positive_int, print_json, progress_bar, read_words
 
 SECONDS_PER_DAY = 86_400
 
@@ -53,7 +55,8 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("model", nargs="?", help="model file (default: the demo model)")
     p.add_argument("--user", metavar="FILE", help="the learned file (default: MODEL.learned beside the model)")
     p.add_argument("--words", type=positive_int, default=12, metavar="N", help="list the N most used words and new words (default 12)")
-    p.add_argument("--learn", metavar="TEXTFILE", help="learn from a text file of your own writing (kept whole or not at all)")
+    p.add_argument("--learn", metavar="TEXTFILE", help="learn from a text file of your own writing (kept whole or not at all; '-': standard input)")
+    p.add_argument("--replace-bad-bytes", action="store_true", help="with --learn: replace invalid UTF-8 instead of failing")
     p.add_argument("--never-suggest", action="append", default=[], metavar="ENTRY", help="never suggest this word, or any word matching a pattern such as 'dam*' (repeatable)")
     p.add_argument("--allow", action="append", default=[], metavar="ENTRY", help="take a word or pattern off the never-suggest list (repeatable)")
     p.add_argument("--forget", action="append", default=[], metavar="WORD", help="remove every count of a word (repeatable)")
@@ -62,7 +65,8 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--learning", choices=("on", "off"), help="switch learning on or off (kept in the learned file)")
     p.add_argument("--min-uses", type=positive_int, metavar="N", help="uses before a word new to the model is suggested")
     p.add_argument("--half-life", type=_half_life, default=argparse.SUPPRESS, metavar="TOKENS", help="let counts halve after TOKENS more learned tokens ('none': never)")
-    p.add_argument("--export", metavar="FILE", help="write everything learned to a plain JSON file")
+    p.add_argument("--export", metavar="FILE", help="write everything learned to a plain JSON file ('-': standard output)")
+    add_force_option(p, "the --export file")
     p.add_argument("--wipe", action="store_true", help="delete the learned file")
     add_json_option(p)
     p.set_defaults(handler=run_learned)
@@ -96,6 +100,8 @@ def run_learned(args: argparse.Namespace) -> int:
         else:
             print(f"removed {path}: everything learned is gone" if removed else f"no learned file at {path}: nothing to remove")
         return 0
+    if args.export:
+        check_output(args.export, inputs=[args.model, path, args.learn], kind=is_learned_export, kind_name="learned export", force=args.force, option="--export")
     base = open_model(args.model)
     changes: list[str] = []
     if _changes_asked(args):
@@ -112,18 +118,19 @@ def run_learned(args: argparse.Namespace) -> int:
         changes.append(f"exported to {args.export}: {exported['words']:,} words, {exported['bigrams']:,} bigrams, {exported['trigrams']:,} trigrams")
     facts = learned_file_facts(path)
     summary = _summary(model, base, path, facts, args.words)
-    if args.json:
+    if args.json and not (args.export and is_stdout(args.export)):
         summary["changes"] = changes
         summary["note"] = PRIVACY_NOTE
         print_json(summary)
         return 0
+    stream = sys.stderr if args.export and is_stdout(args.export) else sys.stdout
     for line in changes:
-        print(line)
+        print(line, file=stream)
     if changes:
-        print()
-    print(_format_summary(summary))
-    print()
-    print(PRIVACY_NOTE)
+        print(file=stream)
+    print(_format_summary(summary), file=stream)
+    print(file=stream)
+    print(PRIVACY_NOTE, file=stream)
     return 0
 
 
@@ -143,7 +150,7 @@ def _apply_changes(args: argparse.Namespace, learned: Any, changes: list[str]) -
     if args.learn:
         if not learned.model.settings.learning:
             raise OptionError("learning is off for this model; switch it on with --learning on to learn from a file")
-        sentences = list(iter_sentences(read_text_file(args.learn)))
+        sentences = list(iter_sentences(read_words(args.learn, replace_bad_bytes=args.replace_bad_bytes)))
         with progress_bar(f"learning from {args.learn}") as update:
             tokens = learned.learn_sentences(sentences, progress=update)
         changes.append(f"learned {tokens:,} tokens ({len(sentences):,} sentences) from {args.learn}")
@@ -224,6 +231,7 @@ def add_adapt_options(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("--adapt", action="store_true", help="the typist's words feed a user model as they go; reports KSR with and without, and a curve")
     parser.add_argument("--user", metavar="FILE", help="with --adapt: start from this learned file (read only; never changed)")
     parser.add_argument("--save-user", metavar="FILE", help="with --adapt: write what the simulated typist's user model learned to FILE")
+    add_force_option(parser, "the --trace and --save-user files")
     parser.add_argument("--block", type=positive_int, default=500, metavar="N", help="with --adapt: words per block of the savings curve (default 500)")
 
 
@@ -243,10 +251,10 @@ def run_adaptive_savings(args: argparse.Namespace, model: LanguageModel, text: s
     from ..adapt.simulation import format_adaptation, simulate_adaptive
     from ..adapt.store import load_learned, save_learned
     from ..simulate import format_report, write_trace
-    from ..simulate.writing import check_writable_file
 
     if args.save_user:
-        check_writable_file(args.save_user)
+        model_path = getattr(args, "model_path", None)
+        check_output(args.save_user, inputs=[model_path, getattr(args, "text_path", None), args.user, args.trace], kind=is_learned_file, kind_name="learned file", force=args.force, option="--save-user")
     start = load_learned(args.user, model, must_exist=True) if args.user else AdaptedModel(model)
     with progress_bar("typing the test text, learning as it goes") as update:
         result = simulate_adaptive(model, text, settings, update, start=start, block_words=args.block)
@@ -254,16 +262,17 @@ def run_adaptive_savings(args: argparse.Namespace, model: LanguageModel, text: s
         write_trace(args.trace, result.adapted.trace)
     if args.save_user:
         save_learned(start, args.save_user)
-    if args.json:
-        payload = result.adapted.to_json()
-        payload["adaptation"] = result.to_json()
-        print_json(payload)
-        return 0
-    print(format_report(result.adapted))
-    print()
-    print(format_adaptation(result))
-    if args.trace:
-        print(f"trace: {args.trace} ({len(result.adapted.trace):,} lines)")
-    if args.save_user:
-        print(f"wrote what the simulated typist learned to {args.save_user}")
+    with redirect_stdout(sys.stderr) if args.trace and is_stdout(args.trace) else nullcontext():
+        if args.json:
+            payload = result.adapted.to_json()
+            payload["adaptation"] = result.to_json()
+            print_json(payload)
+            return 0
+        print(format_report(result.adapted))
+        print()
+        print(format_adaptation(result))
+        if args.trace:
+            print(f"trace: {args.trace} ({len(result.adapted.trace):,} lines)")
+        if args.save_user:
+            print(f"wrote what the simulated typist learned to {args.save_user}")
     return 0

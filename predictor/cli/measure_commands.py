@@ -5,24 +5,30 @@ from __future__ import annotations
 import argparse
 import sys
 from collections.abc import Callable
-from contextlib import AbstractContextManager
+from contextlib import AbstractContextManager, nullcontext, redirect_stdout
+from dataclasses import replace
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from ..counting.corpus import read_text_file
-from ..errors import CorpusError, OptionError
+from ..errors import OptionError
 from ..estimate import METHODS
+from ..outputs import check_output, check_output_folder, is_stdout
 from ..simulate import TEXT_MODES, TypistSettings, format_report, simulate, write_trace
-from ..simulate.writing import check_writable_file
-from ..text import WORD_RE
+from ..simulate.report import is_trace_file
 from .access_options import add_access_options, run_scanning_savings, scanning_settings
 from .learn_commands import add_adapt_options, check_adapt_options, run_adaptive_savings
 from .output import (
+    add_force_option,
     add_json_option,
+    add_text_options,
+    describe_rule,
+    is_learned_file,
     open_model,
     positive_int,
     print_json,
     progress_bar,
+    read_words,
+    sentence_rule,
     split_model_argument,
 )
 
@@ -55,7 +61,7 @@ def _add_typist_options(p: argparse.ArgumentParser) -> None:
     p.add_argument("--select-cost", type=_number, default=1.0, metavar="KEYS", help="keystrokes one pick costs (default 1)")
     p.add_argument("--no-autospace", dest="autospace", action="store_false", help="a pick does not write the space after the word")
     p.add_argument("--min-prefix", type=_whole, default=0, metavar="N", help="letters typed before the typist looks at suggestions (default 0)")
-    p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces (as for a model built with --wrapped)")
+    add_text_options(p)
 
 
 def _settings(args: argparse.Namespace) -> TypistSettings:
@@ -67,7 +73,7 @@ def _settings(args: argparse.Namespace) -> TypistSettings:
         min_prefix=args.min_prefix,
         key_seconds=getattr(args, "key_seconds", 1.0),
         scan_seconds=getattr(args, "scan_seconds", 0.5),
-        wrapped=args.wrapped,
+        wrapped=bool(args.wrapped),
     )
 
 
@@ -97,14 +103,15 @@ def register(commands: argparse._SubParsersAction) -> None:
         description="Count the corpus once, then for each vocabulary size and method build a model and measure its size, "
         "memory, build and load time, perplexity, OOV rate, keystroke savings and suggestion latency on TESTFILE. "
         "Writes DIR/sweep.csv, DIR/sweep.json and the chart DIR/sweep.svg as each row finishes, and the models as "
-        "DIR/METHOD-vSIZE.model. Example: foretype sweep corpus/ --test heldout.txt --vocab-sizes 1000,5000,20000 --out sweep/",
+        "DIR/METHOD-vSIZE.model. Example: foretype sweep corpus/ --test heldout.txt --vocab-sizes 1000,5000,20000 -o sweep/",
     )
     p.add_argument("corpus", nargs="*", help="text files or folders of them (or --counts)")
     p.add_argument("--counts", metavar="COUNTS", default=None, help="estimate from a count store written by 'foretype count' instead of counting a corpus")
     p.add_argument("--test", required=True, metavar="TESTFILE", help="the held-out text to type and score")
     p.add_argument("--vocab-sizes", default="1000,2000,5000,10000,20000,50000", metavar="N,N,...", help="vocabulary sizes (default 1000,2000,5000,10000,20000,50000)")
     p.add_argument("--methods", default="kneser-ney", metavar="M,M,...", help=f"estimators, comma-separated, from {', '.join(METHODS)} (default kneser-ney)")
-    p.add_argument("--out", required=True, metavar="DIR", help="folder for the results and models (created if needed)")
+    p.add_argument("-o", "--output", required=True, metavar="DIR", help="folder for the results and models (created if needed; its parent must exist)")
+    add_force_option(p, "the output folder's contents")
     p.add_argument(
         "--adapt",
         action="store_true",
@@ -132,12 +139,9 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.set_defaults(handler=run_sweep_command)
 
 
-def _read_test_text(path: str) -> str:
-    """Read the text to type, failing with the file's name when it holds no words."""
-    text = read_text_file(path)
-    if not WORD_RE.search(text):
-        raise CorpusError(f"{path}: holds no words to type")
-    return text
+def is_sweep_folder(folder: Path) -> bool:
+    """Tell whether a folder holds an earlier sweep's results (so a new sweep may write into it)."""
+    return (folder / "sweep.json").is_file()
 
 
 def run_savings(args: argparse.Namespace) -> int:
@@ -145,13 +149,17 @@ def run_savings(args: argparse.Namespace) -> int:
     settings = _settings(args)
     check_adapt_options(args)
     model_path, (text_path,) = split_model_argument(args.args, 1, "savings")
+    args.model_path, args.text_path = model_path, text_path
     scanning = scanning_settings(args)
     if scanning is not None and (args.adapt or args.trace):
         raise OptionError("--access scanning takes neither --adapt nor --trace")
     if args.trace:
-        check_writable_file(args.trace)
-    text = _read_test_text(text_path)
+        check_output(args.trace, inputs=[model_path, text_path, args.user, args.save_user], kind=is_trace_file, kind_name="trace", force=args.force, option="--trace")
+    if args.save_user:
+        check_output(args.save_user, inputs=[model_path, text_path, args.user], kind=is_learned_file, kind_name="learned file", force=args.force, option="--save-user")
+    text = read_words(text_path, replace_bad_bytes=args.replace_bad_bytes)
     model = open_model(model_path)
+    settings = replace(settings, wrapped=sentence_rule(args.wrapped, model))
     if scanning is not None:
         return run_scanning_savings(args, model, text, settings, scanning)
     if args.adapt:
@@ -160,13 +168,22 @@ def run_savings(args: argparse.Namespace) -> int:
         report = simulate(model, text, settings, update)
     if args.trace:
         write_trace(args.trace, report.trace)
-    if args.json:
-        print_json(report.to_json())
-    else:
-        print(format_report(report))
-        if args.trace:
-            print(f"trace: {args.trace} ({len(report.trace):,} lines)")
+    with report_stream(args.trace):
+        if args.json:
+            print_json(report.to_json())
+        else:
+            print(format_report(report))
+            print(f"sentences read as {describe_rule(settings.wrapped)}")
+            if args.trace:
+                print(f"trace: {args.trace} ({len(report.trace):,} lines)")
     return 0
+
+
+def report_stream(trace: str | None) -> AbstractContextManager[object]:
+    """Where the report goes: stdout, or stderr when the trace is written to stdout."""
+    if trace and is_stdout(trace):
+        return redirect_stdout(sys.stderr)
+    return nullcontext()
 
 
 class _Stages:
@@ -207,7 +224,8 @@ def run_sweep_command(args: argparse.Namespace) -> int:
     criteria = [c.strip() for c in args.prune.split(",") if c.strip()]
     shares = parse_shares(args.keep_bytes) if args.keep_bytes.strip() else []
     encodings = parse_encodings(args.values) if args.values.strip() else []
-    text = _read_test_text(args.test)
+    check_output_folder(args.output, inputs=[*args.corpus, getattr(args, "counts", None), args.test], kind=is_sweep_folder, kind_name="sweep results", force=args.force)
+    text = read_words(args.test, replace_bad_bytes=args.replace_bad_bytes)
     stages = _Stages()
 
     def finished(row: SweepRow) -> None:
@@ -225,7 +243,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
         result = run_sweep(
             args.corpus,
             text,
-            out=args.out,
+            out=args.output,
             vocab_sizes=sizes,
             methods=methods,
             settings=settings,
@@ -246,7 +264,7 @@ def run_sweep_command(args: argparse.Namespace) -> int:
         return 0
     print(f"corpus: {result.corpus_tokens:,} tokens, counted once in {result.counting_seconds:.1f} s; test: {args.test}; k={settings.k}, {settings.text_mode} mode")
     print(format_table(result.rows))
-    out = Path(args.out)
+    out = Path(args.output)
     size_chart = f", {out / 'size.svg'}" if shares else ""
     print(f"wrote {out / 'sweep.csv'}, {out / 'sweep.json'}, {out / 'sweep.svg'}{size_chart}")
     print("RSS = resident memory the model costs: RSS growth across loading it plus the mapped file pages its queries touched (psutil; approximate).")

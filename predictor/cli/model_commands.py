@@ -3,23 +3,29 @@
 from __future__ import annotations
 
 import argparse
+import json
+import sys
 import time
 from pathlib import Path
 from typing import Any
 
 from ..builder import build, build_from_store
 from ..counting import CorpusCounts
-from ..counting.corpus import read_text_file
 from ..counting.memory import parse_size, peak_resident_bytes
 from ..counting.store import require_corpus_free
 from ..errors import OptionError
 from ..estimate import METHODS
 from ..modelfile.encoding import ENCODINGS
 from ..modelfile.format import check_target
+from ..outputs import is_stdout
 from ..query.model import load
 from ..query.verify import verify_model
 from .output import (
     add_json_option,
+    add_text_options,
+    describe_rule,
+    read_words,
+    sentence_rule,
     open_model,
     positive_int,
     print_json,
@@ -39,7 +45,8 @@ def register(commands: argparse._SubParsersAction) -> None:
     )
     p.add_argument("corpus", nargs="*", help="text files or folders of them (or --counts)")
     p.add_argument("--counts", metavar="COUNTS", default=None, help="estimate from a count store written by 'foretype count' instead of counting a corpus")
-    p.add_argument("-o", "--output", required=True, help="the model file to write (replaced only when the build succeeds)")
+    p.add_argument("-o", "--output", required=True, help="the model file to write ('-': standard output; an existing model is replaced only when the build succeeds)")
+    p.add_argument("--force", action="store_true", help="replace the output even when it is an existing file that is not a model")
     p.add_argument("--vocab-size", type=positive_int, default=None, metavar="N", help="keep the N most frequent words")
     p.add_argument("--min-count", type=positive_int, default=1, metavar="C", help="drop words seen fewer than C times (default 1)")
     p.add_argument("--method", choices=METHODS, default="kneser-ney", help="estimator (default kneser-ney)")
@@ -80,8 +87,8 @@ def register(commands: argparse._SubParsersAction) -> None:
         description="Score a text file: cross-entropy in bits per token (words plus one end symbol per sentence), "
         "perplexity and out-of-vocabulary rate. Example: foretype score chat.model heldout.txt",
     )
-    p.add_argument("args", nargs="+", metavar="[MODEL] TEXTFILE")
-    p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces")
+    p.add_argument("args", nargs="+", metavar="[MODEL] TEXTFILE", help="model file (default: the demo model) and the text to score ('-': standard input)")
+    add_text_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_score)
 
@@ -118,12 +125,13 @@ def run_build(args: argparse.Namespace) -> int:
     """foretype build."""
     started = time.perf_counter()
     require_corpus_free(args.corpus, args.counts)
-    check_target(args.output)  # fail before reading a corpus, not after
+    check_target(args.output, inputs=[*args.corpus, args.counts], force=args.force)  # fail before reading a corpus, not after
+    to_stdout = is_stdout(args.output)
     if args.counts is not None:
         for flag, given in (("--wrapped", args.wrapped), ("--replace-bad-bytes", args.replace_bad_bytes), ("--reject-binary", args.reject_binary), ("--spill-dir", args.spill_dir)):
             if given:
                 raise OptionError(f"{flag} applies to counting a corpus; a count store keeps the settings it was counted with")
-    spill_dir = args.spill_dir if args.spill_dir is not None else (str(Path(args.output).parent) or ".")
+    spill_dir = args.spill_dir if args.spill_dir is not None else (("." if to_stdout else str(Path(args.output).parent)) or ".")
     counted: dict[str, int] = {}
 
     def note_counts(counts: CorpusCounts) -> None:
@@ -153,9 +161,9 @@ def run_build(args: argparse.Namespace) -> int:
                 on_counted=note_counts,
                 cutoffs=args.cutoffs,
             )
-    size = model.save(args.output)
+    size = model.save(args.output, force=args.force)
     seconds = time.perf_counter() - started
-    info = load(args.output).info()
+    info = model.info()
     tokens = info["corpus_tokens"]
     summary = {
         "model": str(Path(args.output)),
@@ -172,7 +180,9 @@ def run_build(args: argparse.Namespace) -> int:
         "seconds": round(seconds, 3),
         "tokens_per_second": round(tokens / seconds) if seconds > 0 else None,
     }
-    if args.json:
+    if to_stdout:  # the model went to stdout: the summary goes to stderr
+        print(json.dumps(summary) if args.json else f"wrote a model to standard output: {size:,} bytes", file=sys.stderr)
+    elif args.json:
         print_json(summary)
     else:
         n = info["ngrams"]
@@ -231,9 +241,12 @@ def run_suggest(args: argparse.Namespace) -> int:
 def run_score(args: argparse.Namespace) -> int:
     """foretype score."""
     model_path, (text_path,) = split_model_argument(args.args, 1, "score")
+    text = read_words(text_path, replace_bad_bytes=args.replace_bad_bytes)
     model = open_model(model_path)
-    result = model.score(read_text_file(text_path), wrapped=args.wrapped)
+    wrapped = sentence_rule(args.wrapped, model)
+    result = model.score(text, wrapped=wrapped)
     payload = {
+        "wrapped": wrapped,
         "sentences": result.sentences,
         "tokens": result.tokens,
         "oov": result.oov,
@@ -247,7 +260,8 @@ def run_score(args: argparse.Namespace) -> int:
     print(
         f"{result.sentences:,} sentences, {result.tokens:,} tokens (words + one end per sentence), "
         f"OOV {result.oov:,} ({result.oov_rate:.2%})\n"
-        f"cross-entropy {result.cross_entropy_bits:.4f} bits/token, perplexity {result.perplexity:.2f}"
+        f"cross-entropy {result.cross_entropy_bits:.4f} bits/token, perplexity {result.perplexity:.2f}\n"
+        f"sentences read as {describe_rule(wrapped)}"
     )
     return 0
 

@@ -7,11 +7,14 @@ import json
 import sys
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
+from pathlib import Path
 from typing import Any
 
-from ..errors import OptionError
+from ..counting.corpus import read_text_file
+from ..errors import CorpusError, OptionError
 from ..modelfile.format import MAGIC
 from ..query.model import LanguageModel, load
+from ..text import WORD_RE
 
 
 def add_json_option(parser: argparse.ArgumentParser) -> None:
@@ -101,3 +104,65 @@ def positive_int(text: str) -> int:
     if value < 1:
         raise argparse.ArgumentTypeError(f"must be at least 1, got {value}")
     return value
+
+
+def add_force_option(parser: argparse.ArgumentParser, what: str) -> None:
+    """Add ``--force``: replace an existing file at an output path even when it is not of the kind written."""
+    parser.add_argument("--force", action="store_true", help=f"replace {what} even when the path holds a file of another kind")
+
+
+LEARNED_FILE_STARTS = (b"foretype-learned", b"SQLite format 3\x00")
+"""How a learned file starts (the line-based store, or an SQLite database)."""
+
+
+def is_learned_file(path: Path) -> bool:
+    """Tell whether a file looks like a learned file (so ``--save-user`` may replace it)."""
+    try:
+        with open(path, "rb") as handle:
+            start = handle.read(32)
+    except OSError:
+        return False
+    return start.startswith(LEARNED_FILE_STARTS)
+
+
+def is_learned_export(path: Path) -> bool:
+    """Tell whether a file is a learned export (JSON with ``"format": "foretype-learned-export"``)."""
+    try:
+        with open(path, "rb") as handle:
+            payload = json.loads(handle.read())
+    except (OSError, ValueError):
+        return False
+    return isinstance(payload, dict) and payload.get("format") == "foretype-learned-export"
+
+
+def add_text_options(parser: argparse.ArgumentParser) -> None:
+    """Add ``--replace-bad-bytes`` and ``--wrapped/--no-wrapped`` to a command that reads text for a model."""
+    parser.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
+    parser.add_argument(
+        "--wrapped",
+        action=argparse.BooleanOptionalAction,
+        default=None,
+        help="hard-wrapped prose: single line breaks are spaces (default: the rule the model was built with)",
+    )
+
+
+def read_words(path: str, *, replace_bad_bytes: bool = False) -> str:
+    """Read a text to score or type (``-``: standard input), failing with its name when it holds no words.
+
+    Raises:
+        CorpusError: missing, binary or without words (exit 3); EncodingError: invalid UTF-8.
+    """
+    text = read_text_file(path, replace_bad_bytes=replace_bad_bytes)
+    if not WORD_RE.search(text):
+        raise CorpusError(f"{'standard input' if path == '-' else path}: holds no words")
+    return text
+
+
+def sentence_rule(wrapped: bool | None, model: LanguageModel) -> bool:
+    """The sentence rule to read text with: the explicit option, else the one the model was built with."""
+    return bool(model.meta.get("wrapped", False)) if wrapped is None else wrapped
+
+
+def describe_rule(wrapped: bool) -> str:
+    """The sentence rule in words, for reports."""
+    return "wrapped (single line breaks are spaces; blank lines end sentences)" if wrapped else "lines (each line break ends a sentence)"

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import sys
 
 from ..errors import OptionError
 from .output import open_model, positive_int
@@ -32,7 +33,17 @@ def run_pad(args: argparse.Namespace) -> int:
     if args.k > 9:
         raise OptionError(f"-k must be 1 to 9 (one chord per rank, alt+1 to alt+9), not {args.k}")
     model = open_model(args.model)
+    if not stdout_is_terminal():
+        raise OptionError("the pad needs a terminal: standard output is not one (in a pipe, use suggest, score or savings)")
     # The interface is imported only here, so every other command runs without Textual.
     from ..tui.launch import run_pad as launch  # type: ignore[import-not-found]  # installed as foretype.tui
 
     return launch(model, k=args.k, learning=getattr(args, "learning", None))
+
+
+def stdout_is_terminal() -> bool:
+    """Tell whether standard output is a terminal (the pad draws there)."""
+    try:
+        return sys.stdout.isatty()
+    except (AttributeError, ValueError):
+        return False

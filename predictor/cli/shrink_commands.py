@@ -76,9 +76,9 @@ def describe_shrink(model: LanguageModel) -> str | None:
 def run_shrink(args: argparse.Namespace) -> int:
     """foretype shrink."""
     started = time.perf_counter()
-    check_target(args.output)
     if Path(args.output).resolve() == Path(args.model).resolve():
         raise OptionError("--output must differ from the model being shrunk")
+    check_target(args.output, inputs=[args.model])
     source = open_model(args.model)
     smaller = shrink(source, criterion=args.criterion, threshold=args.threshold, max_bytes=args.max_bytes, encoding=args.values, k=args.k)
     size = smaller.save(args.output)

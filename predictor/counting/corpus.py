@@ -10,6 +10,7 @@ bytes are to be replaced.
 from __future__ import annotations
 
 import os
+import sys
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -81,29 +82,40 @@ def resolve_corpus(paths: Iterable[str | os.PathLike[str]], *, reject_binary: bo
     for raw in paths:
         path = Path(raw)
         if path.is_dir():
-            for found in sorted(p for p in path.rglob("*") if p.is_file()):
-                if any(part.startswith(".") for part in found.relative_to(path).parts):
-                    continue
-                if _readable_binary(found):
-                    if reject_binary:
-                        raise CorpusError(f"{found}: binary file inside a corpus folder")
-                    result.skipped.append(found)
-                else:
-                    result.files.append(found)
-        elif path.exists():
-            if not path.is_file():
-                raise CorpusError(f"{path}: not a regular file (a pipe or device)")
-            if _readable_binary(path):
-                raise CorpusError(f"{path}: {_not_text_reason(path)}")
-            result.files.append(path)
+            _add_folder(result, path, reject_binary=reject_binary)
         else:
-            raise CorpusError(f"{path}: no such file or folder")
+            result.files.append(_named_file(path))
     if not result.files:
         raise CorpusError("no text files to read" + (f" ({len(result.skipped)} binary files skipped)" if result.skipped else ""))
     return result
 
 
+def _add_folder(result: CorpusFiles, folder: Path, *, reject_binary: bool) -> None:
+    """Add every non-hidden file below a folder, in sorted order: text to the files, binary to the skipped (or an error)."""
+    for found in sorted(p for p in folder.rglob("*") if p.is_file()):
+        if any(part.startswith(".") for part in found.relative_to(folder).parts):
+            continue
+        if _readable_binary(found):
+            if reject_binary:
+                raise CorpusError(f"{found}: binary file inside a corpus folder")
+            result.skipped.append(found)
+        else:
+            result.files.append(found)
+
+
+def _named_file(path: Path) -> Path:
+    """Check a path named directly (not a folder): it must be an existing regular text file."""
+    if not path.exists():
+        raise CorpusError(f"{path}: no such file or folder")
+    if not path.is_file():
+        raise CorpusError(f"{path}: not a regular file (a pipe or device)")
+    if _readable_binary(path):
+        raise CorpusError(f"{path}: {_not_text_reason(path)}")
+    return path
+
+
 def _readable_binary(path: Path) -> bool:
+    """Tell whether a file looks binary; a file that cannot be read is a CorpusError."""
     try:
         return looks_binary(path)
     except OSError as error:
@@ -177,11 +189,22 @@ def _cut_long_line(data: bytes) -> int:
     return cut if cut > 0 else len(data)
 
 
-def read_text_file(path: str) -> str:
-    """Read a UTF-8 text file for scoring or simulation.
+def read_text_file(path: str, *, replace_bad_bytes: bool = False) -> str:
+    """Read a UTF-8 text file for scoring or simulation (``-``: standard input).
+
+    Args:
+        path: the file, or ``-`` for standard input.
+        replace_bad_bytes: replace invalid UTF-8 with U+FFFD instead of failing.
 
     Raises:
         CorpusError / EncodingError: missing, binary or invalid UTF-8.
     """
+    if str(path) == "-":
+        data = sys.stdin.buffer.read()
+        try:
+            return data.decode("utf-8", "replace" if replace_bad_bytes else "strict")
+        except UnicodeDecodeError as error:
+            line = data[: error.start].count(b"\n") + 1
+            raise EncodingError(f"standard input: not valid UTF-8 at line {line} (add --replace-bad-bytes to read it anyway)") from None
     found = resolve_corpus([path])
-    return "".join(chunk for file in found.files for chunk in iter_chunks(Path(file)))
+    return "".join(chunk for file in found.files for chunk in iter_chunks(Path(file), replace_bad_bytes=replace_bad_bytes))

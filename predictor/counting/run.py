@@ -53,8 +53,7 @@ def count_corpus(
         CapacityError: with ``min_count``, more than ``max_vocabulary`` words.
         OutputError: counts that outgrow memory cannot be written to ``spill_dir``.
     """
-    if spill_dir is not None and not (os.path.isdir(spill_dir) and os.access(spill_dir, os.W_OK | os.X_OK)):
-        raise OutputError(f"{spill_dir}: not a writable folder for counts that outgrow memory")
+    _check_spill_dir(spill_dir)
     found = resolve_corpus(paths, reject_binary=reject_binary)
     counter = CorpusCounter(wrapped=wrapped, budget=budget, spill_dir=spill_dir)
     counter.skipped_files = len(found.skipped)
@@ -62,37 +61,77 @@ def count_corpus(
     piece = counter.budget.chunk_bytes
     # Read chunks of the budget's size, never more than the default.
     reading = {"chunk_bytes": piece} if piece < CHUNK_BYTES else {}
-    done = 0
+    limit = (min_count, max_vocabulary) if min_count is not None and max_vocabulary is not None else None
     usable = total >= PARALLEL_MIN_BYTES and counter.budget.limit >= PARALLEL_MIN_BUDGET
     with tokeniser_pool(usable) as pool:
-        pending: deque[Any] = deque()
-
-        def drain(keep: int) -> None:
-            while len(pending) > keep:
-                counter.add_tokenized(pending.popleft().get())
-
+        feeder = _Feeder(counter, pool, wrapped=wrapped, piece=piece, limit=limit, progress=progress, total=total)
         for path in found.files:
             for chunk in iter_chunks(path, replace_bad_bytes=replace_bad_bytes, **reading):
-                for part in split_text(chunk, piece):
-                    if pool is None:
-                        counter.add_text(part)
-                    else:
-                        pending.append(pool.apply_async(tokenise_part, (part, wrapped)))
-                        drain(TOKENISERS_AHEAD)
-                if min_count is not None and max_vocabulary is not None and pool is None:
-                    counter.check_vocabulary_limit(min_count, max_vocabulary)
-                done += len(chunk)  # characters, close enough to bytes for a progress bar
-                if progress:
-                    progress(min(done, total), total)
-            drain(0)
-            if min_count is not None and max_vocabulary is not None:
-                counter.check_vocabulary_limit(min_count, max_vocabulary)
-            counter.end_document()
+                feeder.add_chunk(chunk)
+            feeder.end_file()
     return counter.finish()
 
 
-PARALLEL_MIN_BYTES = 16 << 20
-"""Corpora at least this large are tokenised by worker processes (when the machine has two cores or more)."""
+def _check_spill_dir(spill_dir: str | os.PathLike[str] | None) -> None:
+    """Fail before reading anything when counts that outgrow memory would have nowhere to go."""
+    if spill_dir is not None and not (os.path.isdir(spill_dir) and os.access(spill_dir, os.W_OK | os.X_OK)):
+        raise OutputError(f"{spill_dir}: not a writable folder for counts that outgrow memory")
+
+
+class _Feeder:
+    """Hands a corpus's chunks to the counter, directly or through tokenising workers kept in order.
+
+    Args:
+        counter: the counter every token ends in.
+        pool: tokenising worker processes, or None to tokenise here.
+        wrapped: treat single line breaks as spaces (what the workers are told).
+        piece: the size, in characters, of the pieces a chunk is cut into.
+        limit: (min_count, max_vocabulary) to check the vocabulary against as it grows, or None.
+        progress: called with (bytes done, bytes in all) after each chunk.
+        total: the corpus's size in bytes.
+    """
+
+    def __init__(self, counter: CorpusCounter, pool: Any, *, wrapped: bool, piece: int, limit: tuple[int, int] | None, progress: ProgressCallback | None, total: int) -> None:
+        self.counter = counter
+        self.pool = pool
+        self.wrapped = wrapped
+        self.piece = piece
+        self.limit = limit
+        self.progress = progress
+        self.total = total
+        self.done = 0
+        self.pending: deque[Any] = deque()
+
+    def add_chunk(self, chunk: str) -> None:
+        """Count one chunk of a file (or queue it for the workers) and report progress."""
+        for part in split_text(chunk, self.piece):
+            if self.pool is None:
+                self.counter.add_text(part)
+            else:
+                self.pending.append(self.pool.apply_async(tokenise_part, (part, self.wrapped)))
+                self.drain(TOKENISERS_AHEAD)
+        if self.limit is not None and self.pool is None:
+            self.counter.check_vocabulary_limit(*self.limit)
+        self.done += len(chunk)  # characters, close enough to bytes for a progress bar
+        if self.progress:
+            self.progress(min(self.done, self.total), self.total)
+
+    def drain(self, keep: int) -> None:
+        """Count the workers' results, oldest first, until at most ``keep`` are outstanding."""
+        while len(self.pending) > keep:
+            self.counter.add_tokenized(self.pending.popleft().get())
+
+    def end_file(self) -> None:
+        """Finish a file: count every outstanding result, check the vocabulary, close the document."""
+        self.drain(0)
+        if self.limit is not None:
+            self.counter.check_vocabulary_limit(*self.limit)
+        self.counter.end_document()
+
+
+PARALLEL_MIN_BYTES = int(os.environ.get("FORETYPE_PARALLEL_MIN_BYTES", 16 << 20))
+"""Corpora at least this large are tokenised by worker processes (when the machine has two cores or more).
+The environment variable ``FORETYPE_PARALLEL_MIN_BYTES`` lowers it (tests use it to reach the workers cheaply)."""
 
 PARALLEL_MIN_BUDGET = 4 << 30
 """Workers hold a chunk of text and its tokens each (about 100 MB), and their dictionaries of
@@ -131,6 +170,7 @@ def split_text(text: str, size: int) -> Iterator[str]:
 
 
 def _size(path: os.PathLike[str]) -> int:
+    """A file's size in bytes (0 when it cannot be read: the read itself reports that)."""
     try:
         return os.path.getsize(path)
     except OSError:

@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import multiprocessing
 import os
+import signal
 import sys
 from collections.abc import Iterator
 from contextlib import contextmanager
@@ -74,8 +75,14 @@ _numbers = _FormNumbers()
 
 
 def _start_worker() -> None:
-    """Pool initializer: a fresh dictionary (a forked worker must not inherit one)."""
+    """Pool initializer: a fresh dictionary (a forked worker must not inherit one), and Ctrl-C left to the parent.
+
+    The terminal sends SIGINT to the whole process group; the parent stops the
+    pool, so a worker that took it too would only print a traceback or leave
+    the pool waiting for a result that never comes.
+    """
     global _numbers
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
     _numbers = _FormNumbers()
 
 

@@ -41,19 +41,17 @@ import mmap
 import os
 import stat
 import struct
-import tempfile
 import zlib
-from collections.abc import Mapping
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import Any, BinaryIO
 
 import numpy as np
 
 from ..counting.scratch import TEMP_PREFIX, lock_exclusively, remove_stale
 from ..errors import ModelFileError, ModelVersionError, OutputError
-from .atomic import remove_quietly as _remove_quietly
-from .atomic import sync_directory as _sync_directory
+from ..outputs import check_output, is_stdout, resolved_target, write_output
 
 MAGIC = b"FTMODEL\x00"
 FORMAT_VERSION = 2
@@ -99,7 +97,7 @@ def crc32(data: bytes | memoryview | np.ndarray) -> int:
     return zlib.crc32(view.cast("B")) & 0xFFFFFFFF
 
 
-def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sections: Mapping[str, np.ndarray]) -> int:
+def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sections: Mapping[str, np.ndarray], *, force: bool = False) -> int:
     """Write a model file atomically.
 
     Args:
@@ -107,6 +105,7 @@ def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sect
             existing file that is not a model file is never replaced.
         meta: JSON-serialisable header fields.
         sections: named arrays (C-contiguous after conversion).
+        force: replace an existing file even when it is not a model file.
 
     Returns:
         The size of the file written.
@@ -116,7 +115,8 @@ def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sect
             other than a model file (the previous file, if any, stays).
     """
     target = Path(path)
-    _refuse_to_replace_other_files(target)
+    if not force and not is_stdout(target) and target.exists() and not is_model_path(target) and target.is_file() and target.stat().st_size:
+        raise OutputError(f"{target}: exists and is not a foretype model; not replacing it (choose another name, or add --force to replace it)")
     arrays = {name: np.ascontiguousarray(array) for name, array in sections.items()}
     entries = []
     for name, array in arrays.items():
@@ -137,93 +137,45 @@ def write_model_file(path: str | os.PathLike[str], meta: Mapping[str, Any], sect
             break
         reserved = len(header) + 64
     preamble = _PREAMBLE.pack(MAGIC, FORMAT_VERSION, len(header), crc32(header), 0)
-    directory = target.parent if str(target.parent) else Path(".")
-    remove_stale(directory)
-    try:
-        handle, temp_name = tempfile.mkstemp(prefix=TEMP_PREFIX, suffix=".tmp", dir=directory)
-    except OSError as error:
-        raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
-    try:
-        # The lock tells a cleaner in another process that this file is alive;
-        # the rename happens before the file is closed so it is never unlocked.
-        lock_exclusively(handle)
-        os.fchmod(handle, _file_mode(target))
-        with os.fdopen(handle, "wb") as out:
-            out.write(preamble)
-            out.write(header)
-            written = _PREAMBLE.size + len(header)
-            for entry, array in zip(entries, arrays.values()):
-                out.write(b"\x00" * (entry["offset"] - written))
-                out.write(array.data.cast("B"))
-                written = entry["offset"] + entry["nbytes"]
-            out.write(b"\x00" * (_align(written) - written))
-            out.flush()
-            os.fsync(out.fileno())
-            size = out.tell()
-            os.replace(temp_name, target)
-    except OSError as error:
-        _remove_quietly(temp_name)
-        raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
-    except BaseException:
-        _remove_quietly(temp_name)
-        raise
-    _sync_directory(directory)
-    return size
+
+    def write(out: BinaryIO) -> None:
+        out.write(preamble)
+        out.write(header)
+        written = _PREAMBLE.size + len(header)
+        for entry, array in zip(entries, arrays.values()):
+            out.write(b"\x00" * (entry["offset"] - written))
+            out.write(array.data.cast("B"))
+            written = entry["offset"] + entry["nbytes"]
+        out.write(b"\x00" * (_align(written) - written))
+
+    if not is_stdout(target):
+        remove_stale(_folder_of(resolved_target(target)))
+    # The lock tells a cleaner in another process that the temporary file is
+    # alive; the rename happens before the file is closed so it is never unlocked.
+    return write_output(target, write, on_temp=lock_exclusively, temp_prefix=TEMP_PREFIX)
 
 
-def check_target(path: str | os.PathLike[str]) -> None:
-    """Check, before any work, that a model can be written to ``path``.
+def is_model_path(path: str | os.PathLike[str]) -> bool:
+    """Tell whether a file starts like a model file (so a build may replace it)."""
+    try:
+        with open(path, "rb") as handle:
+            return handle.read(len(MAGIC)) == MAGIC
+    except OSError:
+        return False
+
+
+def check_target(path: str | os.PathLike[str], *, inputs: Iterable[str | os.PathLike[str]] = (), force: bool = False) -> None:
+    """Check, before any work, that a model can be written to ``path`` (the output policy of :mod:`foretype.outputs`).
 
     Raises:
-        OutputError: the folder is missing or not writable, or the target is a
-            folder or a file other than a model file.
+        OutputError: the folder is missing or not writable, the target is one of
+            ``inputs``, a folder, or a file other than a model file (unless ``force``).
     """
-    target = Path(path)
-    _refuse_to_replace_other_files(target)
-    directory = target.parent if str(target.parent) else Path(".")
-    if not directory.is_dir():
-        raise OutputError(f"{target}: cannot write (folder {directory} does not exist)")
-    if not os.access(directory, os.W_OK | os.X_OK):
-        raise OutputError(f"{target}: cannot write (folder {directory} is not writable)")
+    check_output(path, inputs=inputs, kind=is_model_path, kind_name="foretype model", force=force)
 
 
-def _refuse_to_replace_other_files(target: Path) -> None:
-    try:
-        info = target.stat()
-    except FileNotFoundError:
-        return
-    except OSError as error:
-        raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
-    if stat.S_ISDIR(info.st_mode):
-        raise OutputError(f"{target}: is a folder; give a file name for the model")
-    if not stat.S_ISREG(info.st_mode):
-        raise OutputError(f"{target}: is not a regular file; not replacing it")
-    if info.st_size == 0:
-        return
-    try:
-        with target.open("rb") as handle:
-            start = handle.read(len(MAGIC))
-    except OSError as error:
-        raise OutputError(f"{target}: cannot write ({error.strerror or error})") from None
-    if start != MAGIC:
-        raise OutputError(f"{target}: exists and is not a foretype model; not replacing it (choose another name or delete it)")
-
-
-def _file_mode(target: Path) -> int:
-    """The permissions a new model gets: the old file's, else read-write under the umask (mkstemp's 0600 is too strict)."""
-    try:
-        return stat.S_IMODE(target.stat().st_mode)
-    except OSError:
-        pass
-    umask = 0o022
-    try:
-        with open("/proc/self/status", encoding="ascii") as status:
-            for line in status:
-                if line.startswith("Umask:"):
-                    umask = int(line.split()[1], 8)
-    except (OSError, ValueError):
-        pass
-    return 0o666 & ~umask
+def _folder_of(target: Path) -> Path:
+    return target.parent if str(target.parent) else Path(".")
 
 
 def _align(position: int) -> int:
@@ -248,22 +200,41 @@ def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> 
     """
     source = Path(path)
     mapped, size = _map(source)
+    header_length, header_crc = _read_preamble(source, mapped, size)
+    header = mapped[_PREAMBLE.size : _PREAMBLE.size + header_length]
+    if crc32(header) != header_crc:
+        raise ModelFileError(f"{source}: corrupt header (checksum mismatch)")
+    meta, entries = _parse_header(source, header)
+    layout = [_section_entry(source, entry) for entry in entries]
+    _check_layout(source, layout, _PREAMBLE.size + header_length, size)
+    sections, recorded = _view_sections(source, mapped, layout, checksums=checksums)
+    return ModelFile(meta=meta, sections=sections, path=source, file_bytes=size, checksums=recorded)
+
+
+def _read_preamble(source: Path, mapped: mmap.mmap, size: int) -> tuple[int, int]:
+    """Check the magic, the version and the header's length; returns the header's length and recorded CRC-32."""
     magic, version, header_length, header_crc, _ = _PREAMBLE.unpack_from(mapped, 0)
     if magic != MAGIC:
         raise ModelFileError(f"{source}: not a foretype model ({_what_it_looks_like(mapped)})")
-    if version not in READABLE_VERSIONS:
-        if version > FORMAT_VERSION:
-            raise ModelVersionError(
-                f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} (or a damaged file); upgrade foretype or rebuild the model"
-            )
-        raise ModelVersionError(f"{source}: model format version {version}, which this engine does not read; rebuild the model")
+    _check_version(source, version)
     if header_length == 0 or header_length > MAX_HEADER_BYTES:
         raise ModelFileError(f"{source}: corrupt header (implausible length {header_length})")
     if _PREAMBLE.size + header_length > size:
         raise ModelFileError(f"{source}: truncated (header runs past the end of the file)")
-    header = mapped[_PREAMBLE.size : _PREAMBLE.size + header_length]
-    if crc32(header) != header_crc:
-        raise ModelFileError(f"{source}: corrupt header (checksum mismatch)")
+    return header_length, header_crc
+
+
+def _check_version(source: Path, version: int) -> None:
+    """Refuse a format version this engine does not read, saying whether to upgrade or to rebuild."""
+    if version in READABLE_VERSIONS:
+        return
+    if version > FORMAT_VERSION:
+        raise ModelVersionError(f"{source}: model format version {version}, newer than this engine's {FORMAT_VERSION} (or a damaged file); upgrade foretype or rebuild the model")
+    raise ModelVersionError(f"{source}: model format version {version}, which this engine does not read; rebuild the model")
+
+
+def _parse_header(source: Path, header: bytes) -> tuple[dict[str, Any], list[Any]]:
+    """Decode the header JSON into its ``meta`` object and its list of section entries."""
     try:
         parsed = json.loads(header.decode("utf-8"))
         meta = parsed["meta"]
@@ -272,8 +243,15 @@ def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> 
             raise TypeError
     except (ValueError, KeyError, TypeError, UnicodeDecodeError, RecursionError):
         raise ModelFileError(f"{source}: corrupt header (not the expected JSON)") from None
-    layout = [_section_entry(source, entry) for entry in entries]
-    _check_layout(source, layout, _PREAMBLE.size + header_length, size)
+    return meta, entries
+
+
+def _view_sections(source: Path, mapped: mmap.mmap, layout: list[_Entry], *, checksums: bool) -> tuple[dict[str, np.ndarray], dict[str, int]]:
+    """View each checked section as a read-only array of the mapped file (checking its CRC-32 unless told not to).
+
+    Returns:
+        The arrays by name, and the CRC-32 the header records for each.
+    """
     sections: dict[str, np.ndarray] = {}
     recorded: dict[str, int] = {}
     for name, dtype, shape, offset, nbytes, crc in layout:
@@ -283,7 +261,7 @@ def read_model_file(path: str | os.PathLike[str], *, checksums: bool = True) -> 
             raise ModelFileError(f"{source}: corrupt (section {name} checksum mismatch)")
         sections[name] = array
         recorded[name] = crc
-    return ModelFile(meta=meta, sections=sections, path=source, file_bytes=size, checksums=recorded)
+    return sections, recorded
 
 
 def _map(source: Path) -> tuple[mmap.mmap, int]:

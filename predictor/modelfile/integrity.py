@@ -83,6 +83,22 @@ def check_structure(model: ModelFile) -> None:
     name = model.path
     size = _check_meta(name, model.meta)
     s = model.sections
+    ranked = _check_section_types(name, s)
+    _check_value_types(name, s, model.meta["value_encoding"])
+    _check_widths(name, s, size)
+    _check_lengths(name, s, size, ranked=ranked)
+    _check_levels(name, s, size)
+    if ranked:
+        _check_ranked_ranges(name, s, size)
+    _check_vocabulary(name, s, size)
+
+
+def _check_section_types(name: object, s: dict[str, np.ndarray]) -> bool:
+    """Every required section is present with an allowed type; ranked lists all or none.
+
+    Returns:
+        Whether the model carries ranked lists.
+    """
     for section, allowed in _SECTION_TYPES.items():
         if section not in s:
             raise ModelFileError(f"{name}: corrupt (missing section {section})")
@@ -92,14 +108,26 @@ def check_structure(model: ModelFile) -> None:
         raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
     for section in present_ranks:
         _check_type(name, section, s[section], _RANK_TYPES[section])
-    encoding = model.meta["value_encoding"]
+    return bool(present_ranks)
+
+
+def _check_value_types(name: object, s: dict[str, np.ndarray], encoding: str) -> None:
+    """The value sections hold what the header's value encoding says, with codebooks where it needs them."""
     for section in ("l2.value", "l3.value"):
         if s[section].dtype.name not in _VALUE_TYPES[encoding]:
             raise ModelFileError(f"{name}: corrupt (section {section} does not hold {encoding} values)")
     _check_codebooks(name, s, encoding)
+
+
+def _check_widths(name: object, s: dict[str, np.ndarray], size: int) -> None:
+    """Sections of word ids stored as uint16 must fit every id the vocabulary needs (V + 3 symbols)."""
     for section in ("l2.word", "l3.word", "vocab.order", "rank2.ids", "rank3.ids"):
         if section in s and s[section].dtype == np.uint16 and size + 3 > 2**16:
             raise ModelFileError(f"{name}: corrupt (section {section} is too narrow for {size:,} words)")
+
+
+def _check_lengths(name: object, s: dict[str, np.ndarray], size: int, *, ranked: bool) -> None:
+    """Each section's length follows from the vocabulary size and the number of stored entries."""
     n2 = len(s["l2.word"])
     n3 = len(s["l3.word"])
     keys = len(s["vocab.key_lo"])
@@ -116,12 +144,18 @@ def check_structure(model: ModelFile) -> None:
         "vocab.key_hi": keys,
         "vocab.key_order": keys,
     }
-    if present_ranks:
+    if ranked:
         expect["rank2.off"] = size + 4
         expect["rank3.off"] = len(s["rank3.slot"]) + 1
     for section, length in expect.items():
         if len(s[section]) != length:
             raise ModelFileError(f"{name}: corrupt (section {section} has {len(s[section]):,} entries, expected {length:,})")
+
+
+def _check_levels(name: object, s: dict[str, np.ndarray], size: int) -> None:
+    """Levels 1 to 3: offsets span their entries, word ids are in range, probabilities and weights are finite."""
+    n2 = len(s["l2.word"])
+    n3 = len(s["l3.word"])
     _offsets(name, "l2.off", s["l2.off"], n2)
     _offsets(name, "l3.off", s["l3.off"], n3)
     # Predicted words are 0 .. V + 1 (words, UNKNOWN, END); START is context only.
@@ -133,14 +167,17 @@ def check_structure(model: ModelFile) -> None:
     for section in ("l2.value", "l3.value"):
         if s[section].dtype.kind == "f":
             _probabilities(name, section, s[section], upper=1.0)
-    if present_ranks:
-        _offsets(name, "rank2.off", s["rank2.off"], len(s["rank2.ids"]))
-        _offsets(name, "rank3.off", s["rank3.off"], len(s["rank3.ids"]))
-        _ids(name, "rank2.ids", s["rank2.ids"], size - 1)
-        _ids(name, "rank3.ids", s["rank3.ids"], size - 1)
-        _ids(name, "rank3.slot", s["rank3.slot"], n2)
-        _increasing(name, "rank3.slot", s["rank3.slot"])
-    _check_vocabulary(name, s, size)
+
+
+def _check_ranked_ranges(name: object, s: dict[str, np.ndarray], size: int) -> None:
+    """The ranked lists: offsets span their ids, ids are words, slots name level-2 entries in increasing order."""
+    n2 = len(s["l2.word"])
+    _offsets(name, "rank2.off", s["rank2.off"], len(s["rank2.ids"]))
+    _offsets(name, "rank3.off", s["rank3.off"], len(s["rank3.ids"]))
+    _ids(name, "rank2.ids", s["rank2.ids"], size - 1)
+    _ids(name, "rank3.ids", s["rank3.ids"], size - 1)
+    _ids(name, "rank3.slot", s["rank3.slot"], n2)
+    _increasing(name, "rank3.slot", s["rank3.slot"])
 
 
 def _check_codebooks(name: object, s: dict[str, np.ndarray], encoding: str) -> None:
@@ -172,7 +209,7 @@ def _check_meta(name: object, meta: dict[str, Any]) -> int:
         raise ModelFileError(f"{name}: corrupt header (bad corpus_tokens)")
     if not isinstance(meta["interpolated"], bool) or not isinstance(meta["method"], str):
         raise ModelFileError(f"{name}: corrupt header (bad method)")
-    if meta["value_encoding"] not in _VALUE_TYPES:
+    if not isinstance(meta["value_encoding"], str) or meta["value_encoding"] not in _VALUE_TYPES:
         raise ModelFileError(f"{name}: corrupt header (unknown value encoding {meta['value_encoding']!r})")
     return int(size)
 

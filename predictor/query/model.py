@@ -711,9 +711,12 @@ class LanguageModel:
             return float(np.sum(np.log2(probs))), int(valid.sum())
 
     # ------------------------------------------------------------ persistence
-    def save(self, path: str | Path) -> int:
-        """Write the model to a file atomically; returns the file size in bytes."""
-        size = write_model_file(path, self.meta, self.sections)
+    def save(self, path: str | Path, *, force: bool = False) -> int:
+        """Write the model to a file atomically (``-``: standard output); returns the file size in bytes.
+
+        ``force`` replaces an existing file that is not a model file.
+        """
+        size = write_model_file(path, self.meta, self.sections, force=force)
         return size
 
 

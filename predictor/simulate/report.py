@@ -10,8 +10,8 @@ from typing import Any
 
 import numpy as np
 
+from ..outputs import write_text_output
 from .typist import WordTrace
-from .writing import write_text_atomic
 
 ESTIMATE_NOTE = (
     "Simulated savings are estimates for comparing models, not a clinical assessment of anyone's needs; "
@@ -119,13 +119,28 @@ def latency_summary(latencies_ns: np.ndarray) -> dict[str, float | None]:
 
 
 def write_trace(path: str | Path, traces: Iterable[WordTrace]) -> None:
-    """Write one JSON line per word (``--trace``), atomically.
+    """Write one JSON line per word (``--trace``), following the output policy (``-``: standard output).
 
     Raises:
         OutputError: the file cannot be written.
     """
     lines = (json.dumps(t.to_json(), ensure_ascii=False) + "\n" for t in traces)
-    write_text_atomic(path, "".join(lines))
+    write_text_output(path, "".join(lines))
+
+
+TRACE_FIELDS = frozenset({"word", "keystrokes", "picked_at", "rank", "shown", "in_vocabulary"})
+"""The keys of one trace line (see ``WordTrace.to_json``)."""
+
+
+def is_trace_file(path: str | Path) -> bool:
+    """Tell whether a file's first line is a trace line (so a new trace may replace it)."""
+    try:
+        with open(path, "rb") as handle:
+            first = handle.readline(1 << 20)
+        record = json.loads(first)
+    except (OSError, ValueError):
+        return False
+    return isinstance(record, dict) and set(record) == TRACE_FIELDS
 
 
 def _percent(value: float | None) -> str:

@@ -18,7 +18,15 @@ def launched(monkeypatch: pytest.MonkeyPatch) -> list[tuple[object, int]]:
     learning_choices.clear()
 
     monkeypatch.setattr("foretype.tui.launch.run_pad", fake_run_pad)
+    monkeypatch.setattr("foretype.cli.run_commands.stdout_is_terminal", lambda: True)
     return calls
+
+
+def test_the_pad_without_a_terminal_says_so_in_one_line(run_cli, tiny_model_file, monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.setattr("tui.launch.run_pad", lambda *a, **k: pytest.fail("the pad must not start without a terminal"))
+    result = run_cli("pad", tiny_model_file)  # captured stdout is no terminal
+    assert result.code == 2 and result.out == ""
+    assert result.err.strip().splitlines() == ["foretype: the pad needs a terminal: standard output is not one (in a pipe, use suggest, score or savings)"]
 
 
 def test_pad_opens_the_named_model_with_the_chosen_number_of_suggestions(run_cli, launched, tiny_model_file) -> None:

@@ -85,7 +85,7 @@ def draw_size_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
     """Draw savings against model bytes (log scale), one line per method, criterion and value encoding."""
     plt = plot.plt
     plt.clear_figure()
-    sizes = []
+    sizes: list[float] = []
     for key, members in size_lines(sweep.rows).items():
         sizes.extend(float(r["file_bytes"]) for r in members)
         plt.plot([float(r["file_bytes"]) for r in members], [100 * float(r["ksr"]) for r in members], marker="braille", label=", ".join(key))
@@ -123,8 +123,8 @@ def draw_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
             plt.plot([a for a, _ in p99], [b for _, b in p99], marker="dot", label=f"{method} p99 µs", yside="right")
     if logarithmic:
         plt.xscale("log")
-        ticks = sorted(set(sizes))
-        plt.xticks(ticks, [_size_label(t) for t in ticks])
+        ticks = [float(t) for t in sorted(set(sizes))]
+        plt.xticks(ticks, [_size_label(int(t)) for t in ticks])
     plt.xlabel("vocabulary size (words)")
     plt.title("keystroke savings (left, %) and p99 latency (right, µs)")
     plot.refresh()
