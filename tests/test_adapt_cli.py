@@ -32,7 +32,8 @@ def test_showing_an_empty_learned_file_says_nothing_is_learned_and_that_it_stays
 
 def test_learning_a_file_then_listing_never_suggesting_forgetting_and_exporting(run_cli, model_path, write_file, tmp_path):
     notes = write_file(TEXT, "notes.txt")
-    result = run_cli("learned", model_path, "--learn", notes, "--never-suggest", "vessock", "--never-suggest", "q*", "--forget", "dawn")
+    # Two uses before a new word is offered, so only the names typed twice count as suggestable.
+    result = run_cli("learned", model_path, "--learn", notes, "--min-uses", "2", "--never-suggest", "vessock", "--never-suggest", "q*", "--forget", "dawn")
     assert result.code == 0, result.err
     assert "learned 21 tokens (3 sentences)" in result.out  # 5 + 7 + 6 words and 3 sentence ends
     assert "never suggest: added q*, vessock" in result.out

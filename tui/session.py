@@ -22,6 +22,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 from foretype.query.model import Suggestion
+from foretype.query.passed_over import suggest_without
 from foretype.query.source import SuggestionSource
 from foretype.text import capitalise, model_form
 
@@ -153,16 +154,21 @@ def plan_acceptance(offer: Offer, index: int) -> Acceptance:
 class PadSession:
     """Suggestions, highlight and tally of one typing session."""
 
-    def __init__(self, source: SuggestionSource, *, k: int = 5, clock: Callable[[], int] = time.perf_counter_ns) -> None:
+    def __init__(self, source: SuggestionSource, *, k: int = 5, clock: Callable[[], int] = time.perf_counter_ns, skip_passed: bool = False) -> None:
         """Start a session.
 
         Args:
             source: where suggestions come from (a loaded model, or a wrapper around one).
             k: how many suggestions to offer at each position.
             clock: a nanosecond clock for timing queries (tests pass a fake one).
+            skip_passed: while a word is being typed letter by letter, leave out
+                the words already offered for it and passed over (as the
+                simulated typist does with the same setting).
         """
         self._source = source
         self.k = k
+        self.skip_passed = skip_passed
+        self._passed: set[str] = set()
         self._clock = clock
         self._offer: Offer | None = None
         self.highlight = 0
@@ -202,9 +208,10 @@ class PadSession:
             return self._offer
         source = self._source
         words, prefix = source.parse_cursor_text(text_before)
+        self._note_passed(text_before, prefix)
         started = self._clock()
         u, v = source.context_ids(words)
-        found = source.suggest_ids(u, v, prefix, self.k)
+        found = suggest_without(source, u, v, prefix, self.k, self._passed)
         elapsed = self._clock() - started
         sentence_start = not words
         if sentence_start:
@@ -215,6 +222,22 @@ class PadSession:
         self.last_latency_ns = elapsed
         self.highlight = 0
         return self._offer
+
+    def _note_passed(self, text_before: str, prefix: str) -> None:
+        """Keep the words passed over while the same word grows by letters; start afresh otherwise."""
+        last = self._offer
+        if not self.skip_passed:
+            return
+        same_word = (
+            last is not None
+            and len(prefix) > len(last.prefix)
+            and prefix.startswith(last.prefix)
+            and text_before[: len(text_before) - len(prefix)] == last.text_before[: len(last.text_before) - len(last.prefix)]
+        )
+        if same_word and last is not None:
+            self._passed.update(model_form(s.word) for s in last.suggestions)
+        else:
+            self._passed = set()
 
     def forget_offer(self) -> None:
         """Drop the cached offer: the source learned something, so the next query asks again."""

@@ -17,7 +17,10 @@ class AdaptSettings:
         learning: learn from accepted and typed words; when off nothing is
             learned and every suggestion is the base model's.
         min_uses: a word the base vocabulary lacks is suggested once it has
-            been typed this many times (one use is often a typo).
+            been typed this many times.
+        hold_slips: a new word that at its first use lies one edit from a
+            word the person has used (so may be a typo of it) waits for a second use
+            (:mod:`foretype.adapt.slips`; docs/learning.md has the figures).
         prior_tokens: beta, the evidence (in learned tokens) at which the user
             model's share reaches half of its estimated worth; the same number
             of tokens weighs the prior of the worth estimate.
@@ -40,7 +43,8 @@ class AdaptSettings:
     """
 
     learning: bool = True
-    min_uses: int = 2
+    min_uses: int = 1
+    hold_slips: bool = True
     prior_tokens: float = 100.0
     prior_worth: float = 0.5
     half_life: float | None = None
@@ -48,6 +52,8 @@ class AdaptSettings:
     def __post_init__(self) -> None:
         if not isinstance(self.learning, bool):
             raise OptionError(f"learning must be on or off, not {self.learning!r}")
+        if not isinstance(self.hold_slips, bool):
+            raise OptionError(f"holding possible slips must be on or off, not {self.hold_slips!r}")
         if not isinstance(self.min_uses, int) or isinstance(self.min_uses, bool) or self.min_uses < 1:
             raise OptionError(f"min uses must be a whole number of at least 1, not {self.min_uses!r}")
         if not (isinstance(self.prior_tokens, (int, float)) and math.isfinite(self.prior_tokens) and self.prior_tokens > 0):
@@ -58,12 +64,15 @@ class AdaptSettings:
             raise OptionError(f"the half-life must be a positive number of tokens, not {self.half_life!r}")
 
     def to_json(self) -> dict[str, Any]:
-        """The settings as a JSON object."""
-        return asdict(self)
+        """The settings as a JSON object (``hold_slips`` only when on: a file without it reads as before the check)."""
+        data = asdict(self)
+        if not self.hold_slips:
+            del data["hold_slips"]
+        return data
 
     @staticmethod
     def from_json(data: Any) -> AdaptSettings:
-        """Settings from a JSON object; unknown keys are ignored, missing ones take defaults.
+        """Settings from a JSON object; unknown keys are ignored, missing ones take defaults (``hold_slips``: off).
 
         Raises:
             OptionError: a value is out of range or of the wrong type.
@@ -72,6 +81,8 @@ class AdaptSettings:
             raise OptionError("the learning settings are not a JSON object")
         known = {f.name for f in fields(AdaptSettings)}
         values = {key: value for key, value in data.items() if key in known}
+        # Settings stored before the slip check existed keep the behaviour they were written with.
+        values.setdefault("hold_slips", False)
         if "min_uses" in values and isinstance(values["min_uses"], float) and values["min_uses"].is_integer():
             values["min_uses"] = int(values["min_uses"])
         return AdaptSettings(**values)

@@ -56,6 +56,7 @@ from . import user_snapshot
 from .followers import Followers
 from .listings import NgramRow, WordRow
 from .settings import AdaptSettings
+from .slips import looks_like_slip
 from .witten_bell import EMPTY_IDS, EMPTY_WEIGHTS, UserContext, interpolate, level
 
 _RESCALE_AT = 2.0**200
@@ -136,6 +137,8 @@ class UserModel:
         self.ready_epoch = 0
         """Grows when that set is rebuilt as a whole (not just added to)."""
         self._ready_log: list[int] = []
+        self._held: set[int] = set()
+        """New words that looked like a slip on a known word at their first use (see :meth:`uses_needed`)."""
 
     # ------------------------------------------------------------------ ids
     @property
@@ -293,8 +296,11 @@ class UserModel:
         if w < self.base_size and first_use:
             self._seen_base = np.insert(self._seen_base, np.searchsorted(self._seen_base, w), w)
             self.seen_version += 1
-        elif w >= self.first_learned_id and self._n1[w] == self.settings.min_uses:
-            self._mark_ready(w)
+        elif w >= self.first_learned_id:
+            if first_use and self.settings.hold_slips and looks_like_slip(self._forms[w - self.first_learned_id], self._is_known):
+                self._held.add(w)
+            if self._n1[w] == self.uses_needed(w):
+                self._mark_ready(w)
         if self._scale > _RESCALE_AT:
             self._rescale()
 
@@ -499,7 +505,28 @@ class UserModel:
 
     def is_ready(self, word_id: int) -> bool:
         """Tell whether a new word has been used often enough to be suggested."""
-        return word_id >= self.first_learned_id and self.uses(word_id) >= self.settings.min_uses
+        return word_id >= self.first_learned_id and self.uses(word_id) >= self.uses_needed(word_id)
+
+    def uses_needed(self, word_id: int) -> int:
+        """Uses before a new word is suggested: ``min_uses``, and at least 2 for a word held as a possible slip.
+
+        With ``hold_slips`` on, a new word that at its first use lay one edit
+        from a word the person has used (a base word typed before, or a new
+        word typed twice) may be a typo
+        of it (:mod:`foretype.adapt.slips`), so it waits for a second use.
+        """
+        if word_id in self._held:
+            return max(2, self.settings.min_uses)
+        return self.settings.min_uses
+
+    def _is_known(self, form: str) -> bool:
+        """A word the person has shown they use: a base word typed before, or a new word typed twice."""
+        if self.vocab is not None:
+            base_id = self.vocab.id(form)
+            if base_id is not None:
+                return bool(self._n1[base_id] > 0)
+        word_id = self._learned.get(form)
+        return word_id is not None and self._n1[word_id] >= 2
 
     # ----------------------------------------------------------- management
     def set_settings(self, settings: AdaptSettings) -> None:
@@ -508,12 +535,18 @@ class UserModel:
         self.settings = settings
         if settings.half_life != old.half_life:
             self._rescale()
-        if settings.min_uses != old.min_uses:
+        if settings.min_uses != old.min_uses or settings.hold_slips != old.hold_slips:
             self._rebuild_ready()
         self.version += 1
 
     def _rebuild_ready(self) -> None:
-        pairs = sorted((form, self.first_learned_id + j) for j, form in enumerate(self._forms) if self._n1[self.first_learned_id + j] >= self.settings.min_uses)
+        self._held = set()
+        if self.settings.hold_slips:
+            # Which once-used words were held is not stored: judge them again
+            # against what the person has used by now.
+            first = self.first_learned_id
+            self._held = {first + j for j, form in enumerate(self._forms) if self._n1[first + j] == 1 and looks_like_slip(form, self._is_known)}
+        pairs = sorted((form, self.first_learned_id + j) for j, form in enumerate(self._forms) if self._n1[self.first_learned_id + j] >= self.uses_needed(self.first_learned_id + j))
         self._ready_forms = [form for form, _ in pairs]
         self._ready_ids = [word_id for _, word_id in pairs]
         used = np.flatnonzero(self._n1[: self.base_size] > 0)

@@ -27,6 +27,7 @@ import numpy as np
 
 from ..errors import OptionError
 from ..query.model import Suggestion
+from ..query.passed_over import suggest_without
 from ..query.source import SuggestionSource
 from ..text import capitalise, model_form
 from .editing import gap_keystrokes, latest_useful_pick
@@ -47,6 +48,8 @@ class TypistSettings:
         scan_seconds: seconds to read a changed suggestion list (entry-rate estimate).
         wrapped: the text is hard-wrapped prose (single line breaks are spaces),
             as for a model built with ``--wrapped``.
+        skip_passed: within one word, leave out the words already shown and
+            passed over (:mod:`foretype.query.passed_over`).
 
     Raises:
         OptionError: a value is out of range.
@@ -60,6 +63,7 @@ class TypistSettings:
     key_seconds: float = 1.0
     scan_seconds: float = 0.5
     wrapped: bool = False
+    skip_passed: bool = False
 
     def __post_init__(self) -> None:
         if not isinstance(self.k, int) or self.k < 1:
@@ -170,6 +174,22 @@ def _lists_asked(
             yield found
 
 
+def _lists_without(
+    source: SuggestionSource, u: int, v: int, target: str, first: int, last: int, k: int, passed: set[str], latencies: list[int]
+) -> Iterator[list[Suggestion]]:
+    """The lists of one word's steps with the words passed over left out, asked step by step.
+
+    ``passed`` is read at each step, so words the typist adds to it between
+    steps are left out of the later lists.
+    """
+    clock = time.perf_counter_ns
+    for step in range(first, last + 1):
+        started = clock()
+        found = suggest_without(source, u, v, target[:step], k, passed)
+        latencies.append(clock() - started)
+        yield found
+
+
 WordObserver = Callable[[PassageWord, bool], None]
 """Called after each word with the word and whether it was picked (an adaptive source learns here)."""
 
@@ -215,6 +235,7 @@ class Typist:
         select = settings.select_cost
         autospace = settings.autospace
         first_step = settings.min_prefix
+        skip_passed = settings.skip_passed
         full = passage.mode == "full"
         known = self.known
         latencies: list[int] = []
@@ -233,7 +254,11 @@ class Typist:
             shown: list[list[str]] = []
             picked_at: str | None = None
             rank: int | None = None
-            asked = _lists_asked(source, u, v, target, first_step, last_step, k, word.model, latencies)
+            passed: set[str] = set()
+            if skip_passed:
+                asked = _lists_without(source, u, v, target, first_step, last_step, k, passed, latencies)
+            else:
+                asked = _lists_asked(source, u, v, target, first_step, last_step, k, word.model, latencies)
             for step, found in zip(range(first_step, last_step + 1), asked):
                 prefix = target[:step]
                 if capital:
@@ -254,6 +279,8 @@ class Typist:
                 if place >= 0:
                     picked_at, rank = prefix, place + 1
                     break
+                if skip_passed:
+                    passed.update(model_form(form) for form in forms)
             if picked_at is None:
                 cost = length + gap_keystrokes(word.gap, picked=False, autospace=autospace)
             else:
