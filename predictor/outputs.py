@@ -121,7 +121,9 @@ def _require_writable_folder(target: Path) -> None:
         raise OutputError(f"{target}: cannot write (folder {directory} is not writable)")
 
 
-def check_output_folder(path: str | os.PathLike[str], *, inputs: Iterable[str | os.PathLike[str] | None] = (), kind: KindCheck | None = None, kind_name: str = "results", force: bool = False) -> None:
+def check_output_folder(
+    path: str | os.PathLike[str], *, inputs: Iterable[str | os.PathLike[str] | None] = (), kind: KindCheck | None = None, kind_name: str = "results", force: bool = False
+) -> None:
     """Check, before any work, that a results folder may be used: its parent exists, and it is empty or holds earlier results.
 
     Raises:
@@ -132,7 +134,9 @@ def check_output_folder(path: str | os.PathLike[str], *, inputs: Iterable[str | 
         if source is None or is_stdout(source):
             continue
         source_path = Path(source)
-        if _same_file(folder, source_path) or (folder.is_dir() and source_path.exists() and Path(os.path.realpath(source_path)).is_relative_to(os.path.realpath(folder)) and source_path.is_dir()):
+        if _same_file(folder, source_path) or (
+            folder.is_dir() and source_path.exists() and Path(os.path.realpath(source_path)).is_relative_to(os.path.realpath(folder)) and source_path.is_dir()
+        ):
             raise OutputError(f"{folder}: is also an input of this command; choose another output folder")
     parent = _folder_of(resolved_target(folder).absolute())
     if not parent.is_dir():

@@ -669,7 +669,23 @@ def _check_size_axis(methods: Sequence[str], criteria: Sequence[str], shares: Se
 def format_table(rows: Sequence[SweepRow]) -> str:
     """The rows as an aligned text table."""
     adapted = any(row.adapted_ksr is not None for row in rows)
-    headers: tuple[str, ...] = ("method", "asked", "vocab", "n-grams", "file MB", "RSS MB", "build s", "load ms", "perplexity", "OOV", "KSR", "oracle", "baseline", "p50 µs", "p99 µs")
+    headers: tuple[str, ...] = (
+        "method",
+        "asked",
+        "vocab",
+        "n-grams",
+        "file MB",
+        "RSS MB",
+        "build s",
+        "load ms",
+        "perplexity",
+        "OOV",
+        "KSR",
+        "oracle",
+        "baseline",
+        "p50 µs",
+        "p99 µs",
+    )
     if adapted:
         headers += ("learning KSR", "learning p99 µs")
     sized = any(row.keep_bytes is not None for row in rows)

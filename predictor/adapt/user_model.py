@@ -546,7 +546,9 @@ class UserModel:
             # against what the person has used by now.
             first = self.first_learned_id
             self._held = {first + j for j, form in enumerate(self._forms) if self._n1[first + j] == 1 and looks_like_slip(form, self._is_known)}
-        pairs = sorted((form, self.first_learned_id + j) for j, form in enumerate(self._forms) if self._n1[self.first_learned_id + j] >= self.uses_needed(self.first_learned_id + j))
+        pairs = sorted(
+            (form, self.first_learned_id + j) for j, form in enumerate(self._forms) if self._n1[self.first_learned_id + j] >= self.uses_needed(self.first_learned_id + j)
+        )
         self._ready_forms = [form for form, _ in pairs]
         self._ready_ids = [word_id for _, word_id in pairs]
         used = np.flatnonzero(self._n1[: self.base_size] > 0)

@@ -52,8 +52,7 @@ def make_parser() -> argparse.ArgumentParser:
     """Build the argument parser with every subcommand."""
     parser = _Parser(
         prog="foretype",
-        description="Train trigram models for predictive text entry and measure what they save. "
-        "With no command, opens the typing pad on the demo model.",
+        description="Train trigram models for predictive text entry and measure what they save. With no command, opens the typing pad on the demo model.",
     )
     parser.add_argument("--version", action="version", version=f"foretype {__version__}; queries answered by {describe_path(default_path())}")
     commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)

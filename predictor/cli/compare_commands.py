@@ -102,10 +102,7 @@ def run_compare(args: argparse.Namespace) -> int:
     }
     text = read_words(args.test, replace_bad_bytes=getattr(args, "replace_bad_bytes", False))
     models = [open_model(path) for path in paths]
-    systems = [
-        ComparedSystem(label, models[index], settings[(k, cost)], scanning, "" if paths[index] is None else str(paths[index]))
-        for label, index, k, cost in plans
-    ]
+    systems = [ComparedSystem(label, models[index], settings[(k, cost)], scanning, "" if paths[index] is None else str(paths[index])) for label, index, k, cost in plans]
     stages = _Stages()
     try:
         result = run_comparison(

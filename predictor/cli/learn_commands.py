@@ -268,7 +268,14 @@ def run_adaptive_savings(args: argparse.Namespace, model: LanguageModel, text: s
 
     if args.save_user:
         model_path = getattr(args, "model_path", None)
-        check_output(args.save_user, inputs=[model_path, getattr(args, "text_path", None), args.user, args.trace], kind=is_learned_file, kind_name="learned file", force=args.force, option="--save-user")
+        check_output(
+            args.save_user,
+            inputs=[model_path, getattr(args, "text_path", None), args.user, args.trace],
+            kind=is_learned_file,
+            kind_name="learned file",
+            force=args.force,
+            option="--save-user",
+        )
     start = load_learned(args.user, model, must_exist=True) if args.user else AdaptedModel(model)
     with progress_bar("typing the test text, learning as it goes") as update:
         result = simulate_adaptive(model, text, settings, update, start=start, block_words=args.block)

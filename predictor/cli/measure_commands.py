@@ -269,4 +269,3 @@ def run_sweep_command(args: argparse.Namespace) -> int:
     print("RSS = resident memory the model costs: RSS growth across loading it plus the mapped file pages its queries touched (psutil; approximate).")
     print("Simulated savings are estimates for comparing models, not a clinical assessment of anyone's needs.")
     return 0
-

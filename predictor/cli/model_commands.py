@@ -39,8 +39,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     p = commands.add_parser(
         "build",
         help="build a model from corpus files or folders",
-        description="Build a smoothed trigram model from text files (one sentence per line by default). "
-        "Example: foretype build corpus/*.txt -o chat.model --vocab-size 20000",
+        description="Build a smoothed trigram model from text files (one sentence per line by default). Example: foretype build corpus/*.txt -o chat.model --vocab-size 20000",
     )
     p.add_argument("corpus", nargs="*", help="text files or folders of them (or --counts)")
     p.add_argument("--counts", metavar="COUNTS", default=None, help="estimate from a count store written by 'foretype count' instead of counting a corpus")
@@ -53,7 +52,9 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces, blank lines end sentences")
     p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
     p.add_argument("--reject-binary", action="store_true", help="fail on binary files inside folders instead of skipping them")
-    p.add_argument("--values", choices=(*ENCODINGS, "codebook8"), default=None, help="stored value encoding (default log16; float32 for katz and mle; codebook8: one byte per value)")
+    p.add_argument(
+        "--values", choices=(*ENCODINGS, "codebook8"), default=None, help="stored value encoding (default log16; float32 for katz and mle; codebook8: one byte per value)"
+    )
     p.add_argument("--cutoffs", type=_cutoffs, default=None, metavar="C2,C3", help="store only bigrams seen at least C2 times and trigrams at least C3 times (back-off form)")
     p.add_argument(
         "--max-memory",
@@ -140,7 +141,14 @@ def run_build(args: argparse.Namespace) -> int:
         with progress_bar("estimating from the count store") as update:
             update(0, 0)
             model = build_from_store(
-                args.counts, vocab_size=args.vocab_size, min_count=args.min_count, method=args.method, add=args.add, encoding=args.values, max_memory=args.max_memory, cutoffs=args.cutoffs
+                args.counts,
+                vocab_size=args.vocab_size,
+                min_count=args.min_count,
+                method=args.method,
+                add=args.add,
+                encoding=args.values,
+                max_memory=args.max_memory,
+                cutoffs=args.cutoffs,
             )
     else:
         with progress_bar("reading corpus") as update:

@@ -56,8 +56,7 @@ def register(commands: argparse._SubParsersAction) -> None:
         "--phrases",
         default=None,
         metavar="FILE",
-        help="target phrases for the keyboard page's copy task, one per line (default: the bundled demo phrases); "
-        "session logs go to PROFILES/NAME/study/",
+        help="target phrases for the keyboard page's copy task, one per line (default: the bundled demo phrases); session logs go to PROFILES/NAME/study/",
     )
     p.set_defaults(handler=run_serve)
 

@@ -64,9 +64,7 @@ def describe_shrink(model: LanguageModel) -> str | None:
         if record.get("max_bytes") is not None:
             detail.append(f"budget {record['max_bytes']:,} bytes")
         parts.append(", ".join(detail))
-        parts.append(
-            f"kept {kept.get('2', 0):,} of {source.get('2', 0):,} bigrams and {kept.get('3', 0):,} of {source.get('3', 0):,} trigrams"
-        )
+        parts.append(f"kept {kept.get('2', 0):,} of {source.get('2', 0):,} bigrams and {kept.get('3', 0):,} of {source.get('3', 0):,} trigrams")
     else:
         parts.append("not pruned")
     parts.append(f"values {model.meta.get('value_encoding')}, back-off form")

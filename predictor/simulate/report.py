@@ -165,8 +165,7 @@ def format_report(report: SavingsReport) -> str:
     speedup = rate["speedup"]
     wpm_with = rate["wpm_with_prediction"]
     lines = [
-        f"text: {report.words:,} words, {report.characters:,} characters ({settings.get('text_mode', 'full')} mode); "
-        f"{_percent(report.oov_rate)} of words outside the vocabulary",
+        f"text: {report.words:,} words, {report.characters:,} characters ({settings.get('text_mode', 'full')} mode); {_percent(report.oov_rate)} of words outside the vocabulary",
         f"typist: k={settings.get('k')}, pick costs {settings.get('select_cost')} keystroke(s), "
         f"automatic space {'on' if settings.get('autospace') else 'off'}, looks after {settings.get('min_prefix')} letter(s)",
         "",

@@ -140,9 +140,56 @@ class TypingRun:
     latencies_ns: np.ndarray
 
 
-def _lists_asked(
-    source: SuggestionSource, u: int, v: int, target: str, first: int, last: int, k: int, model_form: str, latencies: list[int]
-) -> Iterator[list[Suggestion]]:
+@dataclass
+class _ListReading:
+    """How many times the typist read a changed suggestion list (the entry-rate estimate charges each read)."""
+
+    reads: int = 0
+    last: list[str] | None = None
+
+    def see(self, forms: list[str]) -> None:
+        """Count a read when the list differs from the one read last."""
+        if forms != self.last:
+            self.reads += 1
+            self.last = forms
+
+
+def _find_pick(
+    word: PassageWord,
+    asked: Iterator[list[Suggestion]],
+    steps: range,
+    *,
+    capital: bool,
+    full: bool,
+    shown: list[list[str]] | None,
+    reading: _ListReading,
+    passed: set[str] | None,
+) -> tuple[str | None, int | None]:
+    """Walk a word's lists, step by step, until the word is offered.
+
+    Returns:
+        ``(prefix typed when picked, rank)``, or ``(None, None)`` when the word is typed in full.
+    """
+    target = word.target
+    for step, found in zip(steps, asked):
+        forms = [capitalise(s.word) for s in found] if capital else [s.word for s in found]
+        if shown is not None:
+            shown.append(forms)
+        if not forms:
+            break
+        reading.see(forms)
+        if full:
+            place = forms.index(target) if target in forms else -1
+        else:
+            place = next((i for i, form in enumerate(forms) if model_form(form) == target), -1)
+        if place >= 0:
+            return target[:step], place + 1
+        if passed is not None:
+            passed.update(model_form(form) for form in forms)
+    return None, None
+
+
+def _lists_asked(source: SuggestionSource, u: int, v: int, target: str, first: int, last: int, k: int, model_form: str, latencies: list[int]) -> Iterator[list[Suggestion]]:
     """The suggestion lists of one word's steps, ``first`` to ``last`` letters, as the typist reads them.
 
     A source with ``suggest_steps`` answers the steps in one call that ends at
@@ -174,9 +221,7 @@ def _lists_asked(
             yield found
 
 
-def _lists_without(
-    source: SuggestionSource, u: int, v: int, target: str, first: int, last: int, k: int, passed: set[str], latencies: list[int]
-) -> Iterator[list[Suggestion]]:
+def _lists_without(source: SuggestionSource, u: int, v: int, target: str, first: int, last: int, k: int, passed: set[str], latencies: list[int]) -> Iterator[list[Suggestion]]:
     """The lists of one word's steps with the words passed over left out, asked step by step.
 
     ``passed`` is read at each step, so words the typist adds to it between
@@ -241,46 +286,25 @@ class Typist:
         latencies: list[int] = []
         traces: list[WordTrace] = []
         total = float(len(passage.lead))
-        picked = picked_before = picked_first = reads = 0
-        last_read: list[str] | None = None
+        picked = picked_before = picked_first = 0
+        reading = _ListReading()
         count = len(passage.words)
         lead = float(len(passage.lead))
         for index, word in enumerate(passage.words):
             target = word.target
             length = len(target)
             u, v = source.context_ids(word.context)
-            capital = full and word.sentence_start
             last_step = latest_useful_pick(length, word.gap, select_cost=select, autospace=autospace)
             shown: list[list[str]] = []
-            picked_at: str | None = None
-            rank: int | None = None
-            passed: set[str] = set()
-            if skip_passed:
+            passed: set[str] | None = set() if skip_passed else None
+            if passed is not None:
                 asked = _lists_without(source, u, v, target, first_step, last_step, k, passed, latencies)
             else:
                 asked = _lists_asked(source, u, v, target, first_step, last_step, k, word.model, latencies)
-            for step, found in zip(range(first_step, last_step + 1), asked):
-                prefix = target[:step]
-                if capital:
-                    forms = [capitalise(s.word) for s in found]
-                else:
-                    forms = [s.word for s in found]
-                if keep_traces:
-                    shown.append(forms)
-                if not forms:
-                    break
-                if forms != last_read:
-                    reads += 1
-                    last_read = forms
-                if full:
-                    place = forms.index(target) if target in forms else -1
-                else:
-                    place = next((i for i, form in enumerate(forms) if model_form(form) == target), -1)
-                if place >= 0:
-                    picked_at, rank = prefix, place + 1
-                    break
-                if skip_passed:
-                    passed.update(model_form(form) for form in forms)
+            picked_at, rank = _find_pick(
+                word, asked, range(first_step, last_step + 1), capital=full and word.sentence_start, full=full, shown=shown if keep_traces else None, reading=reading, passed=passed
+            )
+            cost: float
             if picked_at is None:
                 cost = length + gap_keystrokes(word.gap, picked=False, autospace=autospace)
             else:
@@ -296,4 +320,4 @@ class Typist:
                 after_word(word, picked_at is not None)
             if progress is not None and (index % 512 == 511 or index + 1 == count):
                 progress(index + 1, count)
-        return TypingRun(traces, total, picked, picked_before, picked_first, reads, np.array(latencies, dtype=np.int64))
+        return TypingRun(traces, total, picked, picked_before, picked_first, reading.reads, np.array(latencies, dtype=np.int64))

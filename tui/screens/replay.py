@@ -147,8 +147,7 @@ class ReplayScreen(Screen[None]):
         with Vertical(id="replay-choose", classes="panel") as chooser:
             chooser.border_title = "choose a text for the typist"
             yield Static(
-                "The simulated typist types the text exactly with the current model and picks each word as soon as it is offered. "
-                "Type a path and press Enter, or pick a file.",
+                "The simulated typist types the text exactly with the current model and picks each word as soon as it is offered. Type a path and press Enter, or pick a file.",
                 classes="status-line",
             )
             yield FilePicker(self.app.folder, placeholder="path to a UTF-8 text file, then Enter", id="replay-picker")
@@ -248,9 +247,7 @@ class ReplayScreen(Screen[None]):
         self.query_one("#replay-summary", Static).update(summary_table(report, path.name, self.app.format_latency))
         self.query_one("#replay-summary-box").border_subtitle = "simulated estimates, not a clinical assessment"
         table = self.query_one(WordTable)
-        table.set_rows(
-            [(str(n), t.word, f"{t.keystrokes:g}", picked_label(t.picked_at), "" if t.rank is None else str(t.rank)) for n, t in enumerate(report.trace, start=1)]
-        )
+        table.set_rows([(str(n), t.word, f"{t.keystrokes:g}", picked_label(t.picked_at), "" if t.rank is None else str(t.rank)) for n, t in enumerate(report.trace, start=1)])
         self.show_part("results")
         table.focus()
 
