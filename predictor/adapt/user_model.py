@@ -284,6 +284,14 @@ class UserModel:
         self._n1[w] += 1
         self._seen1[w] = when
         self._total += amount
+        self._follow(u, v, w, amount, when)
+        self.version += 1
+        self._note_use(w, first_use)
+        if self._scale > _RESCALE_AT:
+            self._rescale()
+
+    def _follow(self, u: int, v: int, w: int, amount: float, when: int) -> None:
+        """Count w after v and after (u, v)."""
         followers = self._ctx2.get(v)
         if followers is None:
             followers = self._ctx2[v] = Followers()
@@ -292,7 +300,9 @@ class UserModel:
         if followers is None:
             followers = self._ctx3[(u, v)] = Followers()
         followers.add(w, amount, when)
-        self.version += 1
+
+    def _note_use(self, w: int, first_use: bool) -> None:
+        """A base word's first use joins the seen list; a new word may be held as a slip or become suggestable."""
         if w < self.base_size and first_use:
             self._seen_base = np.insert(self._seen_base, np.searchsorted(self._seen_base, w), w)
             self.seen_version += 1
@@ -301,8 +311,6 @@ class UserModel:
                 self._held.add(w)
             if self._n1[w] == self.uses_needed(w):
                 self._mark_ready(w)
-        if self._scale > _RESCALE_AT:
-            self._rescale()
 
     def _mark_ready(self, word_id: int) -> None:
         form = self._forms[word_id - self.first_learned_id]

@@ -10,9 +10,10 @@ import argparse
 import math
 import sys
 import time
+from collections.abc import Callable
 from contextlib import nullcontext, redirect_stdout
 from pathlib import Path
-from typing import Any
+from typing import Any, TextIO
 
 from ..errors import OptionError
 from ..outputs import check_output, is_stdout
@@ -92,14 +93,7 @@ def run_learned(args: argparse.Namespace) -> int:
 
     path = Path(args.user) if args.user else default_learned_path(args.model)
     if args.wipe:
-        if _changes_asked(args) or args.export:
-            raise OptionError("--wipe deletes the learned file; give it alone")
-        removed = wipe_learned(path)
-        if args.json:
-            print_json({"learned_file": str(path), "removed": removed})
-        else:
-            print(f"removed {path}: everything learned is gone" if removed else f"no learned file at {path}: nothing to remove")
-        return 0
+        return _wipe(args, path, wipe_learned)
     if args.export:
         check_output(args.export, inputs=[args.model, path, args.learn], kind=is_learned_export, kind_name="learned export", force=args.force, option="--export")
     base = open_model(args.model)
@@ -123,15 +117,31 @@ def run_learned(args: argparse.Namespace) -> int:
         summary["note"] = PRIVACY_NOTE
         print_json(summary)
         return 0
-    stream = sys.stderr if args.export and is_stdout(args.export) else sys.stdout
+    _print_summary(summary, changes, PRIVACY_NOTE, sys.stderr if args.export and is_stdout(args.export) else sys.stdout)
+    return 0
+
+
+def _wipe(args: argparse.Namespace, path: Path, wipe_learned: Callable[[Path], bool]) -> int:
+    """--wipe: delete the learned file, alone."""
+    if _changes_asked(args) or args.export:
+        raise OptionError("--wipe deletes the learned file; give it alone")
+    removed = wipe_learned(path)
+    if args.json:
+        print_json({"learned_file": str(path), "removed": removed})
+    else:
+        print(f"removed {path}: everything learned is gone" if removed else f"no learned file at {path}: nothing to remove")
+    return 0
+
+
+def _print_summary(summary: dict[str, Any], changes: list[str], note: str, stream: TextIO) -> None:
+    """The changes made, the summary and the privacy note as text."""
     for line in changes:
         print(line, file=stream)
     if changes:
         print(file=stream)
     print(_format_summary(summary), file=stream)
     print(file=stream)
-    print(PRIVACY_NOTE, file=stream)
-    return 0
+    print(note, file=stream)
 
 
 def _apply_changes(args: argparse.Namespace, learned: Any, changes: list[str]) -> None:
