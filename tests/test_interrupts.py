@@ -59,6 +59,11 @@ def test_sigint_at_random_moments_of_a_parallel_build(tmp_path: Path) -> None:
         if process.returncode == 130:
             interrupted += 1
             assert err.decode() == "foretype: interrupted\n"
+        elif process.returncode == -signal.SIGINT:
+            # The build had finished and the interpreter was shutting down, when Python no longer
+            # handles SIGINT and the system's default action ends it: nothing is printed, and the
+            # finished model is checked below like any other.
+            assert err.decode() == ""
         else:
             assert process.returncode == 0, err.decode()  # finished before the signal
         time.sleep(0.1)

@@ -20,6 +20,7 @@ share the prefix.
 from __future__ import annotations
 
 import math
+import threading
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
@@ -151,6 +152,9 @@ class LanguageModel:
         self._bounds: dict[str, tuple[int, int, int] | None] = {}
         self._contexts: dict[tuple[str, ...], tuple[int, int]] = {}
         self._compiled = None
+        # The core keeps its current context and k-best buffers in itself, and building the answer's
+        # Python objects may let another thread run: one query at a time per model.
+        self._core_lock = threading.Lock()
         if compiled if compiled is not None else default_path() == COMPILED:
             arrays = {**sections, "p1": self._p1, "l2.off": self._off2, "l2.gamma": self._g2}
             try:
@@ -297,7 +301,8 @@ class LanguageModel:
         if found is None:
             return []
         if self._compiled is not None:
-            return self._compiled.suggest(u, v, found.lo, found.hi, found.order_start, k)
+            with self._core_lock:
+                return self._compiled.suggest(u, v, found.lo, found.hi, found.order_start, k)
         display = self.vocab.display
         ids, probs, orders = self.top_in_range(u, v, found, k)
         return [Suggestion(display(i), p, o, i) for i, p, o in zip(ids.tolist(), probs.tolist(), orders)]
@@ -331,7 +336,8 @@ class LanguageModel:
                 ranges.append(bounds)
                 if bounds is None:
                     break
-            return self._compiled.steps(u, v, ranges, k, stop)
+            with self._core_lock:
+                return self._compiled.steps(u, v, ranges, k, stop)
         lists: list[list[Suggestion]] = []
         for prefix in prefixes:
             answer = self.suggest_ids(u, v, prefix, k)
@@ -369,7 +375,8 @@ class LanguageModel:
             order (1, 2 or 3) that supplied most of each probability.
         """
         if self._compiled is not None:
-            ids, probs, orders = self._compiled.top(u, v, found.lo, found.hi, found.order_start, k)
+            with self._core_lock:
+                ids, probs, orders = self._compiled.top(u, v, found.lo, found.hi, found.order_start, k)
             return np.array(ids, dtype=np.int64), np.array(probs, dtype=np.float64), orders
         slots, gamma3 = self._context(u, v)
         explicit, stored, run = self._explicit_candidates(slots, gamma3, found, k)
@@ -399,7 +406,8 @@ class LanguageModel:
             float64 array of shape (n,).
         """
         if self._compiled is not None:
-            return self._compiled.probabilities(u, v, ids)
+            with self._core_lock:
+                return self._compiled.probabilities(u, v, ids)
         slots, gamma3 = self._context(u, v)
         return self._scores(ids, slots, gamma3)[0]
 
@@ -409,7 +417,8 @@ class LanguageModel:
         The same order :meth:`suggest_ids` reports for a suggested word.
         """
         if self._compiled is not None:
-            return self._compiled.probabilities(u, v, ids, True)[1]
+            with self._core_lock:
+                return self._compiled.probabilities(u, v, ids, True)[1]
         slots, gamma3 = self._context(u, v)
         probs, a2, a3 = self._scores(ids, slots, gamma3)
         return self._orders(probs.tolist(), None if a2 is None else a2.tolist(), None if a3 is None else a3.tolist(), gamma3)
