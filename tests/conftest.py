@@ -63,14 +63,3 @@ def run_cli(capsys: pytest.CaptureFixture[str]) -> Callable[..., CliResult]:
         return CliResult(code, captured.out, captured.err)
 
     return run
-
-
-
-@pytest.fixture(autouse=True, scope="session")
-def nothing_imports_the_source_folders_by_their_own_names():
-    """The project installs as ``foretype``; a test that reached ``predictor`` or ``tui`` would test a second copy."""
-    yield
-    import sys
-
-    strays = sorted(name for name in sys.modules if name.split(".")[0] in ("predictor", "tui", "demo_vocab"))
-    assert not strays, f"imported by their folder names instead of as foretype.*: {strays}"
