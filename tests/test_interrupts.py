@@ -37,7 +37,7 @@ def _wait_for_workers(process: subprocess.Popen[bytes], deadline: float) -> bool
 @pytest.mark.skipif(not hasattr(os, "killpg") or sys.platform != "linux", reason="process groups and pgrep: Linux")
 def test_sigint_at_random_moments_of_a_parallel_build(tmp_path: Path) -> None:
     corpus = tmp_path / "corpus.txt"
-    corpus.write_text(DEMO.read_text(encoding="utf-8")[:400_000], encoding="utf-8")
+    corpus.write_text(DEMO.read_text(encoding="utf-8") * 2, encoding="utf-8")  # long enough that most signals land mid-build
     out = tmp_path / "out" / "m.model"
     out.parent.mkdir()
     # the workers are used from 1,000 bytes on, instead of 16 MB
@@ -50,7 +50,7 @@ def test_sigint_at_random_moments_of_a_parallel_build(tmp_path: Path) -> None:
     for _ in range(4):
         process = subprocess.Popen(command, env=env, stdout=subprocess.PIPE, stderr=subprocess.PIPE, start_new_session=True)
         if _wait_for_workers(process, time.monotonic() + 30):
-            time.sleep(rng.uniform(0.0, 0.6))
+            time.sleep(rng.uniform(0.0, 0.4))
             try:
                 os.killpg(process.pid, signal.SIGINT)
             except ProcessLookupError:
