@@ -42,8 +42,7 @@ from .cluster_extra import require_cluster_extra
 from .counts import CorpusCounts
 from .memory import MemoryBudget
 from .scratch import TEMP_PREFIX, lock_exclusively, remove_stale
-from .spill import merge_tables, sum_duplicates
-from .tables import MAX_RAW_TYPES, RAW_END, RAW_START, TrigramTable, pack_trigrams, unpack_trigrams
+from .tables import MAX_RAW_TYPES, RAW_END, RAW_START, TrigramTable, pack_trigrams, remap_blocks, unpack_trigrams
 
 STORE_FORMAT = "foretype-counts"
 STORE_VERSION = 1
@@ -296,15 +295,7 @@ class StoreTable:
         Raises:
             CapacityError: the table over the new ids would not fit the memory budget.
         """
-        keys = counts = np.zeros(0, dtype=np.int64)
-        words = max(0, base - 3)
-        for block_keys, block_counts in self.blocks():
-            u, v, w = unpack_trigrams(block_keys)
-            mapped = pack_trigrams(mapping[u], mapping[v], mapping[w])
-            del u, v, w
-            keys, counts = merge_tables(keys, counts, *sum_duplicates(mapped, block_counts))
-            self._budget.require_estimate(len(keys), words, self._dictionary_bytes)
-        return TrigramTable.of_keys(keys, counts)
+        return remap_blocks(self.blocks(), mapping, base, self._budget, self._dictionary_bytes)
 
     def close(self) -> None:
         """Nothing to release (the store stays on disk)."""

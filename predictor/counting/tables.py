@@ -152,15 +152,7 @@ class SpilledTrigrams:
             CapacityError: the table over the new ids would be too large to estimate
                 within the memory budget (raised as soon as that is certain).
         """
-        keys = counts = np.zeros(0, dtype=np.int64)
-        words = max(0, base - 3)
-        for block_keys, block_counts in self.blocks():
-            u, v, w = unpack_trigrams(block_keys)
-            mapped = pack_trigrams(mapping[u], mapping[v], mapping[w])
-            del u, v, w
-            keys, counts = merge_tables(keys, counts, *sum_duplicates(mapped, block_counts))
-            self._budget.require_estimate(len(keys), words, self._dictionary_bytes)
-        return TrigramTable.of_keys(keys, counts)
+        return remap_blocks(self.blocks(), mapping, base, self._budget, self._dictionary_bytes)
 
 
 def aggregate_rows(columns: Sequence[np.ndarray], counts: np.ndarray | None, base: int) -> tuple[list[np.ndarray], np.ndarray]:
@@ -205,3 +197,27 @@ def aggregate_rows(columns: Sequence[np.ndarray], counts: np.ndarray | None, bas
     starts = group_starts(*sorted_columns)
     summed = np.add.reduceat(counts[order], starts)
     return [column[starts] for column in sorted_columns], summed.astype(np.int64)
+
+
+def remap_blocks(blocks: Iterable[tuple[np.ndarray, np.ndarray]], mapping: np.ndarray, base: int, budget: MemoryBudget, dictionary_bytes: int) -> TrigramTable:
+    """Re-key sorted blocks of packed trigram counts through ``mapping`` and merge them into one table.
+
+    Args:
+        blocks: (packed keys, counts) blocks, as a spilled table or a count store streams them.
+        mapping: int array from old ids to new ids.
+        base: one more than the largest new id.
+        budget: the memory budget the merged table is checked against as it grows.
+        dictionary_bytes: memory the word dictionaries already hold.
+
+    Raises:
+        CapacityError: the merged table would not fit the budget.
+    """
+    keys = counts = np.zeros(0, dtype=np.int64)
+    words = max(0, base - 3)
+    for block_keys, block_counts in blocks:
+        u, v, w = unpack_trigrams(block_keys)
+        mapped = pack_trigrams(mapping[u], mapping[v], mapping[w])
+        del u, v, w
+        keys, counts = merge_tables(keys, counts, *sum_duplicates(mapped, block_counts))
+        budget.require_estimate(len(keys), words, dictionary_bytes)
+    return TrigramTable.of_keys(keys, counts)
