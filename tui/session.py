@@ -10,8 +10,10 @@ Counting convention (README "The typing pad" restates it; the simulated typist
 of :mod:`foretype.simulate` counts the same way): every key press
 that changes the text costs one keystroke (a typed character, Enter,
 Backspace, Delete), a pasted text costs one keystroke per character, and
-accepting a suggestion costs one keystroke whatever its rank.  Cursor moves and
-moves of the highlight cost nothing.  Characters produced are the characters of
+accepting a suggestion costs one keystroke whatever its rank.  Cursor moves,
+moves of the highlight and keys that change nothing cost nothing; so does the
+space typed right after an accepted word, which the word's own space absorbs
+(the simulator's editor counts that space as free too).  Characters produced are the characters of
 the composed text, so keystroke savings = 1 - keystrokes / characters.
 """
 

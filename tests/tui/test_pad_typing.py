@@ -139,11 +139,58 @@ async def test_a_full_stop_right_after_an_accepted_word_replaces_its_space(make_
         assert listed(app)[0][0] == "The"
 
 
-async def test_a_space_typed_after_an_accepted_word_is_kept(make_app) -> None:
+async def test_a_space_typed_right_after_a_taken_word_is_absorbed_and_a_second_one_is_typed(make_app) -> None:
     app = make_app()
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("t", "tab", "space")
+        # The taken word wrote its space: the typed space changes nothing and costs nothing.
+        assert app.composed_text == "The "
+        assert app.session.keystrokes == 2
+        await pilot.press("space")
         assert app.composed_text == "The  "
+        assert app.session.keystrokes == 3
+        await pilot.press("f", "tab", "space", "full_stop")
+        # A mark after the absorbed space still replaces the automatic space.
+        assert app.composed_text == "The  ferry."
+
+
+PASSAGE = "The ferry leaves at noon. The fare is paid on board, the zorblat is late today.\nTide tables are posted at the pier."
+"""A text whose gaps a person types as written: spaces after taken words, marks, a line break."""
+
+
+async def test_the_pad_tally_equals_the_simulated_typists_count_for_the_same_text(make_app, tiny_model) -> None:
+    # The simulated typist's rules (predictor/simulate/editing.py) count the space after a pick as free.
+    # Here a person makes the same picks at the same prefixes, and types every other character of the
+    # text as written, the space after each taken word included: the pad must write the text exactly
+    # and count the same keystrokes.
+    from foretype.simulate import TypistSettings, read_passage, simulate
+
+    report = simulate(tiny_model, PASSAGE, TypistSettings(k=5))
+    words = read_passage(PASSAGE).words
+    assert [t.word for t in report.trace] == [w.target for w in words]
+    assert any(t.picked_at is not None and w.gap.startswith(" ") for t, w in zip(report.trace, words))
+    app = make_app(k=5)
+    async with app.run_test(size=(80, 24)) as pilot:
+        for trace, word in zip(report.trace, words):
+            typed = trace.word if trace.picked_at is None else trace.picked_at
+            await type_characters(pilot, typed)
+            if trace.rank is not None:
+                await pilot.press(f"alt+{trace.rank}")
+            await type_characters(pilot, word.gap)
+        assert app.composed_text == PASSAGE
+        tally = app.session.tally(len(app.composed_text))
+        assert (tally.characters, tally.keystrokes) == (report.characters, report.keystrokes)
+        assert tally.accepted == sum(t.picked_at is not None for t in report.trace) > 0
+
+
+KEY_NAMES = {" ": "space", ".": "full_stop", ",": "comma", "\n": "enter"}
+"""Pilot's names for the characters the passage has besides letters."""
+
+
+async def type_characters(pilot, text: str) -> None:  # noqa: ANN001
+    """Press one key per character."""
+    for character in text:
+        await pilot.press(KEY_NAMES.get(character, character))
 
 
 async def test_an_unknown_context_word_is_marked_and_the_list_backs_off_to_unigrams(make_app) -> None:

@@ -94,6 +94,9 @@ class ComposeArea(TextArea, inherit_bindings=False):
         super().__init__(id=id, soft_wrap=True, tab_behavior="focus", highlight_cursor_line=False)
         self.session = session
         self._auto_space: tuple[int, int] | None = None
+        """Where the space an accepted word wrote ends (None once anything else happened)."""
+        self._space_absorbed = False
+        """Whether a typed space was already absorbed by that automatic space."""
         self._key_actions = {key.strip(): b.action for b in self.BINDINGS if isinstance(b, Binding) for key in b.key.split(",")}
 
     # ----------------------------------------------------------------- reading
@@ -128,17 +131,27 @@ class ComposeArea(TextArea, inherit_bindings=False):
     def type_text(self, text: str) -> None:
         """Write typed characters at the cursor, counting one keystroke per character.
 
-        A mark that attaches to the word before it (``. , ; : ! ? …``, closing
-        brackets and quotes, a line break), typed right after an accepted word,
-        replaces the space the acceptance wrote, as in the simulated typist's
-        editor (:func:`foretype.simulate.editing.replaces_automatic_space`).
+        Right after an accepted word, which wrote its own space, the first
+        space typed is absorbed (the text does not change and no keystroke is
+        counted; a second space is typed), and a mark that attaches to the word
+        before it (``. , ; : ! ? …``, closing brackets and quotes, a line
+        break) replaces that space.  The simulated typist's editor counts the
+        same (:func:`foretype.simulate.editing.gap_keystrokes`: the space after
+        a pick is free).
         """
         if not text or self.read_only:
             return
+        row, column = self.cursor_location
+        after_taken = self._auto_space == (row, column) and self.selection.is_empty and column > 0 and self.document[row][column - 1] == " "
+        if after_taken and text[0] == " " and not self._space_absorbed:
+            # The taken word already wrote this space: the key changes nothing and costs nothing.
+            self._space_absorbed = True
+            text = text[1:]
+            if not text:
+                return
         self.session.spend(len(text))
         start, end = self.selection
-        row, column = self.cursor_location
-        if self._auto_space == (row, column) and self.selection.is_empty and replaces_automatic_space(text[0]) and column > 0 and self.document[row][column - 1] == " ":
+        if after_taken and replaces_automatic_space(text[0]):
             start = (row, column - 1)
         self._auto_space = None
         first = min(start, end)
@@ -176,6 +189,7 @@ class ComposeArea(TextArea, inherit_bindings=False):
         result = self.replace(acceptance.insert, start, self.cursor_location, maintain_selection_offset=False)
         self.move_cursor(result.end_location)
         self._auto_space = result.end_location
+        self._space_absorbed = False
         self.post_message(self.Accepted(acceptance))
         end_row, end_column = result.end_location
         self.post_message(self.WordFinished(finished_by_taking(line_before, acceptance.word, (end_row, end_column - 1))))
