@@ -11,7 +11,7 @@ import pytest
 from pilot_steps import finish, paste
 from rich.console import Console
 from textual.binding import Binding
-from textual.widgets import DataTable, Input, Static
+from textual.widgets import DataTable, Input, ProgressBar, Static
 
 from foretype.tui.app import PadApp
 from foretype.tui.screens.confirm_quit import ConfirmQuitDialog
@@ -175,6 +175,24 @@ async def test_replay_of_a_missing_file_says_so_and_offers_another(make_app) -> 
         status = status_of(app.screen, "#replay-status")
         assert "no-such-text.txt" in status and "Not replayed" in status
         assert app.screen.report is None
+
+
+async def test_after_a_failed_replay_the_bar_stops_and_another_text_can_be_chosen(make_app) -> None:
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        app.push_screen(ReplayScreen(Path("no-such-text.txt")))
+        await finish(pilot, "replay")
+        screen = app.screen
+        bar = screen.query_one(ProgressBar)
+        assert bar.total is not None and not bar.display  # no bar left animating without an end
+        assert screen.query_one("#replay-choose").display
+        path_box = screen.query_one("#replay-picker Input", Input)
+        assert app.focused is path_box
+        await pilot.press(*"ferry-notes.txt", "enter")
+        await finish(pilot, "replay")
+        assert screen.report is not None and screen.report.words == 11
+        assert screen.query_one("#replay-results").display
+        assert not screen.query_one("#replay-choose").display and not screen.query_one("#replay-progress").display
 
 
 # ------------------------------------------------------------------------- sweep

@@ -144,6 +144,10 @@ class ReplayScreen(Screen[None]):
     def compose(self) -> ComposeResult:
         """Build the screen."""
         yield Header()
+        with Vertical(id="replay-progress", classes="panel") as progress:
+            progress.border_title = "typing"
+            yield Static("", id="replay-status", classes="status-line")
+            yield ProgressBar(id="replay-bar", show_eta=False)
         with Vertical(id="replay-choose", classes="panel") as chooser:
             chooser.border_title = "choose a text for the typist"
             yield Static(
@@ -151,10 +155,6 @@ class ReplayScreen(Screen[None]):
                 classes="status-line",
             )
             yield FilePicker(self.app.folder, placeholder="path to a UTF-8 text file, then Enter", id="replay-picker")
-        with Vertical(id="replay-progress", classes="panel") as progress:
-            progress.border_title = "typing"
-            yield Static("", id="replay-status", classes="status-line")
-            yield ProgressBar(id="replay-bar", show_eta=False)
         with Vertical(id="replay-results"):
             with Vertical(id="replay-summary-box", classes="panel") as box:
                 box.border_title = "summary"
@@ -176,10 +176,10 @@ class ReplayScreen(Screen[None]):
         else:
             self.action_choose()
 
-    def show_part(self, part: str) -> None:
-        """Show one of the screen's three parts: ``choose``, ``progress`` or ``results``."""
+    def show_part(self, *parts: str) -> None:
+        """Show some of the screen's three parts: ``choose``, ``progress`` or ``results``."""
         for name in ("choose", "progress", "results"):
-            self.query_one(f"#replay-{name}").display = name == part
+            self.query_one(f"#replay-{name}").display = name in parts
 
     def action_choose(self) -> None:
         """Ctrl+O: choose another text."""
@@ -194,7 +194,10 @@ class ReplayScreen(Screen[None]):
         """Replay a text file with the current model."""
         self.query_one("#replay-status", Static).update(f"reading {path.name} …")
         self.query_one("#replay-status", Static).set_class(False, "-error")
-        self.query_one(ProgressBar).update(total=None, progress=0)
+        self.query_one("#replay-progress").border_title = "typing"
+        bar = self.query_one(ProgressBar)
+        bar.display = True
+        bar.update(total=None, progress=0)
         self.show_part("progress")
         self.replay(path)
 
@@ -238,9 +241,16 @@ class ReplayScreen(Screen[None]):
             self.query_one("#replay-status", Static).update("typing …")
 
     def _failed(self, reason: str) -> None:
+        """Say why over the file chooser, with the progress bar stopped and the path box ready for another text."""
         status = self.query_one("#replay-status", Static)
-        status.update(f"Not replayed: {reason}\nCtrl+O chooses another text.")
+        status.update(f"Not replayed: {reason}\nChoose another text below.")
         status.set_class(True, "-error")
+        self.query_one("#replay-progress").border_title = "not replayed"
+        bar = self.query_one(ProgressBar)
+        bar.update(total=1, progress=0)  # a bar without a total animates for ever
+        bar.display = False
+        self.show_part("progress", "choose")
+        self.query_one(FilePicker).focus_path()
 
     def _finished(self, path: Path, report: SavingsReport) -> None:
         self.report = report
