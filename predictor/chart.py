@@ -32,16 +32,11 @@ def _nice_step(span: float, ticks: int = 5) -> float:
     return 10 * power
 
 
-def _size_label(size: float) -> str:
-    """Round sizes in k ("1.5k", "50k"); any other size in full ("12,404")."""
+def vocabulary_label(size: float) -> str:
+    """A vocabulary size as every sweep chart labels it: round sizes in k ("1.5k", "50k"), any other in full ("65,265")."""
     if size >= 1000 and size % 100 == 0:
         return f"{size / 1000:g}k"
     return f"{size:,.0f}"
-
-
-def has_learning(rows: Sequence[dict[str, Any]]) -> bool:
-    """Tell whether sweep rows (as JSON objects) measured savings with learning (``foretype sweep --adapt``)."""
-    return any(r.get("adapted_ksr") is not None for r in rows)
 
 
 PLOT_WIDTH = WIDTH - LEFT - RIGHT
@@ -90,7 +85,7 @@ def sweep_chart(rows: Sequence[dict[str, Any]], *, k: int | None = None, title: 
 
 def _subtitle(points: Sequence[dict[str, Any]], k: int | None) -> str:
     """The line under the title: what each line style means, and k when given."""
-    if has_learning(points):
+    if any(r.get("adapted_ksr") is not None for r in points):  # the dash-dot line is drawn only then
         subtitle = "solid: keystroke savings; dash-dot: learning as it goes; dotted: oracle; dashed: p99 latency (right axis)"
     else:
         subtitle = "solid: keystroke savings; dotted: oracle (vocabulary-limited best); dashed: p99 latency (right axis)"
@@ -178,7 +173,7 @@ def _axes(scales: _Scales, sizes: list[float]) -> list[str]:
     for size in sizes:
         x = scales.x_of(size)
         parts.append(f'<line x1="{x:.1f}" y1="{TOP + PLOT_HEIGHT}" x2="{x:.1f}" y2="{TOP + PLOT_HEIGHT + 5}" stroke="#888888"/>')
-        parts.append(f'<text x="{x:.1f}" y="{TOP + PLOT_HEIGHT + 19}" text-anchor="middle">{_size_label(size)}</text>')
+        parts.append(f'<text x="{x:.1f}" y="{TOP + PLOT_HEIGHT + 19}" text-anchor="middle">{vocabulary_label(size)}</text>')
     axis_note = " (log scale)" if scales.logarithmic else ""
     middle = TOP + PLOT_HEIGHT / 2
     parts.append(f'<text x="{LEFT + PLOT_WIDTH / 2}" y="{HEIGHT - 18}" text-anchor="middle">vocabulary size, words{axis_note}</text>')

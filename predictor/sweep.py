@@ -183,6 +183,11 @@ class SweepResult:
         }
 
 
+def has_learning(rows: Sequence[dict[str, Any]]) -> bool:
+    """Tell whether sweep rows, as ``sweep.json`` holds them, measured savings with learning (``foretype sweep --adapt``)."""
+    return any(r.get("adapted_ksr") is not None for r in rows)
+
+
 def parse_vocab_sizes(text: str) -> list[int]:
     """Parse ``--vocab-sizes``: positive whole numbers separated by commas.
 

@@ -2,7 +2,11 @@
 
 from __future__ import annotations
 
+import html
+import re
+
 from textual import events
+from textual.app import App
 from textual.pilot import Pilot
 
 from foretype.adapt import LearnedFile
@@ -36,3 +40,32 @@ def learn_beforehand(model: LanguageModel, sentences: list[list[str]], never: li
         learned.learn_sentences(sentences)
         if never:
             learned.add_never(never)
+
+
+_SVG_TEXT = re.compile(r'<text [^>]*?x="([0-9.]+)"[^>]*?clip-path="url\(#[\w-]*?-line-(\d+)\)">([^<]*)</text>')
+"""One run of text in Rich's SVG export: its x position, its line and its characters."""
+
+
+def screen_lines(app: App[object]) -> list[str]:
+    """The screen as plain text, one string per terminal row, read back from Textual's SVG screenshot.
+
+    Each run of text in the SVG sits at x = column × the cell width (the width of one cell is the
+    first run's textLength divided by its characters).
+    """
+    svg = app.export_screenshot()
+    width, height = app.size
+    cell = _cell_width(svg)
+    rows = [[" "] * width for _ in range(height)]
+    for x, line, content in _SVG_TEXT.findall(svg):
+        row = int(line)
+        column = round(float(x) / cell)
+        for offset, character in enumerate(html.unescape(content).replace("\xa0", " ")):
+            if row < height and column + offset < width:
+                rows[row][column + offset] = character
+    return ["".join(row).rstrip() for row in rows]
+
+
+def _cell_width(svg: str) -> float:
+    found = re.search(r'<text [^>]*?textLength="([0-9.]+)"[^>]*>([^<]*)</text>', svg)
+    assert found is not None
+    return float(found.group(1)) / len(html.unescape(found.group(2)))

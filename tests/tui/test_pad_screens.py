@@ -8,11 +8,12 @@ import re
 from pathlib import Path
 
 import pytest
-from pilot_steps import finish, paste
+from pilot_steps import finish, paste, screen_lines
 from rich.console import Console
 from textual.binding import Binding
 from textual.widgets import DataTable, Input, ProgressBar, Static
 
+from foretype.chart import vocabulary_label
 from foretype.tui.app import PadApp
 from foretype.tui.screens.confirm_quit import ConfirmQuitDialog
 from foretype.tui.screens.help import HelpScreen, help_text
@@ -229,6 +230,25 @@ async def test_a_sweep_with_learning_shows_its_learning_column(make_app, tmp_pat
         for index, row in enumerate(result.rows):
             cells = table.get_row_at(index)
             assert cells[2] == f"{100 * row.ksr:.1f}%" and cells[4] == f"{100 * row.adapted_ksr:.1f}%"
+
+
+@pytest.mark.parametrize("sizes", [(5_000, 65_265), (60_000, 65_265)], ids=["log-scale", "linear-scale"])
+async def test_the_sweep_charts_vocabulary_axis_writes_sizes_as_the_svg_chart_does(make_app, tmp_path: Path, sizes) -> None:
+    from foretype.chart import sweep_chart
+
+    rows = [{"method": "katz", "vocab_size": size, "ksr": 0.4 + size / 1e6, "oracle_ksr": 0.6, "latency_p99_us": 90.0} for size in sizes]
+    (tmp_path / "sweep.json").write_text(json.dumps({"rows": rows}), encoding="utf-8")
+    svg_labels = set(re.findall(r">([0-9.,]+k?)</text>", sweep_chart(rows)))
+    assert {"5k", "60k", "65,265"} & svg_labels >= {"65,265"}
+    app = make_app()
+    async with app.run_test(size=(120, 40)) as pilot:
+        app.push_screen(SweepScreen(tmp_path / "sweep.json"))
+        await pilot.pause()
+        chart = [line for line in screen_lines(app) if "vocabulary size" in line or "65" in line]
+        assert not any("65.265k" in line or "65265" in line for line in chart)
+        axis = next(line for line in screen_lines(app) if "65,265" in line and "katz" not in line)
+        for size in sizes:
+            assert vocabulary_label(size) in svg_labels and vocabulary_label(size) in axis
 
 
 async def test_a_file_that_is_not_a_sweep_result_is_refused(make_app) -> None:

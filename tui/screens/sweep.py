@@ -21,9 +21,10 @@ from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Header, Static
 from textual_plotext import PlotextPlot
 
-from foretype.chart import has_learning
+from foretype.chart import vocabulary_label
 from foretype.errors import ForetypeError
 from foretype.size_chart import size_lines
+from foretype.sweep import has_learning
 
 from ..files import SweepFile, read_sweep
 from ..formatting import count, file_size, signed_percent
@@ -123,19 +124,11 @@ def draw_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
             plt.plot([a for a, _ in p99], [b for _, b in p99], marker="dot", label=f"{method} p99 µs", yside="right")
     if logarithmic:
         plt.xscale("log")
-        ticks = [float(t) for t in sorted(set(sizes))]
-        plt.xticks(ticks, [_size_label(int(t)) for t in ticks])
+    ticks = [float(t) for t in sorted(set(sizes))]
+    plt.xticks(ticks, [vocabulary_label(t) for t in ticks])  # labelled as the SVG chart labels them
     plt.xlabel("vocabulary size (words)")
     plt.title("keystroke savings (left, %) and p99 latency (right, µs)")
     plot.refresh()
-
-
-def _size_label(size: int) -> str:
-    if size >= 1_000_000:
-        return f"{size / 1_000_000:g}M"
-    if size >= 1000:
-        return f"{size / 1000:g}k"
-    return str(size)
 
 
 class SweepScreen(Screen[None]):
