@@ -14,20 +14,26 @@ import time
 from collections.abc import Callable
 from pathlib import Path
 
+from textual import on
 from textual.app import App
 from textual.binding import Binding
 
 from foretype.errors import ForetypeError
 from foretype.query.model import LanguageModel
 
+from .dialogs.confirm_quit import ConfirmQuitDialog, QuitChoice
+from .dialogs.save_message import SaveDialog
 from .files import free_name, shown_path
 from .formatting import LatencyFormatter, format_micros
 from .learning import Finished, LearningSource, why_unavailable
-from .screens.confirm_quit import ConfirmQuitDialog, QuitChoice
 from .screens.help import HelpScreen
+from .screens.learned import LearnedWordsScreen
+from .screens.model import ModelScreen
 from .screens.pad import PadScreen
-from .screens.save_dialog import SaveDialog
+from .screens.replay import ReplayScreen
+from .screens.sweep import SweepScreen
 from .session import PadSession, SuggestionSource
+from .widgets.compose_area import ComposeArea
 
 SourceFactory = Callable[[LanguageModel], SuggestionSource]
 """Makes the suggestion source for a model (the default returns the model)."""
@@ -86,7 +92,23 @@ class PadApp(App[None]):
 
     def get_default_screen(self) -> PadScreen:
         """The typing screen is the one at the bottom of the stack."""
-        return PadScreen()
+        return PadScreen(self.session, self.model, self.learning, cursor_blink=self.cursor_blink, format_latency=self.format_latency)
+
+    def replay_screen(self, path: Path | None = None) -> ReplayScreen:
+        """The replay screen for the model and session in use (``path``: a text to replay at once)."""
+        return ReplayScreen(self.model, self.session, self.folder, path=path, format_latency=self.format_latency, cursor_blink=self.cursor_blink)
+
+    def sweep_screen(self, path: Path | None = None) -> SweepScreen:
+        """The sweep screen (``path``: a sweep result to open at once)."""
+        return SweepScreen(self.folder, path=path, cursor_blink=self.cursor_blink)
+
+    def model_screen(self, path: Path | None = None) -> ModelScreen:
+        """The model screen for the model in use (``path``: a model file to open at once)."""
+        return ModelScreen(self.model, self.folder, path=path, cursor_blink=self.cursor_blink)
+
+    def learned_words_screen(self) -> LearnedWordsScreen:
+        """The learned words screen for the learning source in use."""
+        return LearnedWordsScreen(self.learning, format_when=self.format_when)
 
     @property
     def pad(self) -> PadScreen:
@@ -119,9 +141,7 @@ class PadApp(App[None]):
             old.close()
         self.model = model
         self.session.source = self.make_source(model)
-        self.pad.show_model()
-        self.pad.show_learning()
-        self.pad.refresh_panels()
+        self.pad.use(model, self.learning)
 
     def learn(self, finished: Finished) -> None:
         """Learn a finished word or sentence end (while learning is on), then refresh the suggestions."""
@@ -136,10 +156,17 @@ class PadApp(App[None]):
         if learned:
             self.learning_changed()
 
+    @on(ComposeArea.WordFinished)
+    def _word_finished(self, message: ComposeArea.WordFinished) -> None:
+        self.learn(message.finished)
+
+    @on(ModelScreen.Opened)
+    def _model_opened(self, message: ModelScreen.Opened) -> None:
+        self.use_model(message.model)
+
+    @on(LearnedWordsScreen.Changed)
     def learning_changed(self) -> None:
         """Redraw what depends on the learned words: the pad's suggestions and indicator, an open learned-words screen."""
-        from .screens.learned import LearnedWordsScreen
-
         self.session.forget_offer()
         self.pad.show_learning()
         self.pad.refresh_panels()
@@ -170,25 +197,19 @@ class PadApp(App[None]):
                 self.saved_text = text
                 self.notify(f"Saved {len(text):,} characters to {path}", title="saved")
 
-        self.push_screen(SaveDialog(text, free_name(self.folder, "message", ".txt")), saved)
+        self.push_screen(SaveDialog(text, free_name(self.folder, "message", ".txt"), cursor_blink=self.cursor_blink), saved)
 
     def action_replay(self) -> None:
         """F3: the replay screen."""
-        from .screens.replay import ReplayScreen
-
-        self.push_screen(ReplayScreen())
+        self.push_screen(self.replay_screen())
 
     def action_sweep(self) -> None:
         """F4: the sweep screen."""
-        from .screens.sweep import SweepScreen
-
-        self.push_screen(SweepScreen())
+        self.push_screen(self.sweep_screen())
 
     def action_open_model(self) -> None:
         """F5: the model screen."""
-        from .screens.model import ModelScreen
-
-        self.push_screen(ModelScreen())
+        self.push_screen(self.model_screen())
 
     def action_toggle_learning(self) -> None:
         """F6: switch learning from what is typed on or off (kept in the learned file)."""
@@ -209,10 +230,8 @@ class PadApp(App[None]):
 
     def action_learned_words(self) -> None:
         """F7: the learned words screen."""
-        from .screens.learned import LearnedWordsScreen
-
         if not isinstance(self.screen, LearnedWordsScreen):
-            self.push_screen(LearnedWordsScreen())
+            self.push_screen(self.learned_words_screen())
 
     async def action_quit(self) -> None:
         """Ctrl+Q: quit, asking first if the message is unsaved."""

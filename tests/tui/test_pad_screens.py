@@ -15,12 +15,12 @@ from textual.widgets import DataTable, Input, ProgressBar, Static
 
 from foretype.chart import vocabulary_label
 from foretype.tui.app import PadApp
-from foretype.tui.screens.confirm_quit import ConfirmQuitDialog
+from foretype.tui.dialogs.confirm_quit import ConfirmQuitDialog
+from foretype.tui.dialogs.save_message import SaveDialog
 from foretype.tui.screens.help import HelpScreen, help_text
 from foretype.tui.screens.model import ModelScreen
 from foretype.tui.screens.pad import PadScreen
 from foretype.tui.screens.replay import ReplayScreen
-from foretype.tui.screens.save_dialog import SaveDialog
 from foretype.tui.screens.sweep import SweepScreen
 from foretype.tui.widgets.compose_area import ComposeArea
 from foretype.tui.widgets.word_table import WordTable
@@ -171,7 +171,7 @@ async def test_replay_types_the_text_in_a_worker_and_reports_the_hand_counted_sa
 async def test_replay_of_a_missing_file_says_so_and_offers_another(make_app) -> None:
     app = make_app()
     async with app.run_test(size=(80, 24)) as pilot:
-        app.push_screen(ReplayScreen(Path("no-such-text.txt")))
+        app.push_screen(app.replay_screen(Path("no-such-text.txt")))
         await finish(pilot, "replay")
         status = status_of(app.screen, "#replay-status")
         assert "no-such-text.txt" in status and "Not replayed" in status
@@ -181,7 +181,7 @@ async def test_replay_of_a_missing_file_says_so_and_offers_another(make_app) -> 
 async def test_after_a_failed_replay_the_bar_stops_and_another_text_can_be_chosen(make_app) -> None:
     app = make_app()
     async with app.run_test(size=(80, 24)) as pilot:
-        app.push_screen(ReplayScreen(Path("no-such-text.txt")))
+        app.push_screen(app.replay_screen(Path("no-such-text.txt")))
         await finish(pilot, "replay")
         screen = app.screen
         bar = screen.query_one(ProgressBar)
@@ -222,7 +222,7 @@ async def test_a_sweep_with_learning_shows_its_learning_column(make_app, tmp_pat
     result = run_sweep([worked / "worked-corpus.txt"], text, out=tmp_path, vocab_sizes=[4, 13], settings=TypistSettings(k=2), adapt=True)
     app = make_app()
     async with app.run_test(size=(120, 40)) as pilot:
-        app.push_screen(SweepScreen(tmp_path / "sweep.json"))
+        app.push_screen(app.sweep_screen(tmp_path / "sweep.json"))
         await pilot.pause()
         table = app.screen.query_one(DataTable)
         headers = [str(column.label) for column in table.columns.values()]
@@ -242,7 +242,7 @@ async def test_the_sweep_charts_vocabulary_axis_writes_sizes_as_the_svg_chart_do
     assert {"5k", "60k", "65,265"} & svg_labels >= {"65,265"}
     app = make_app()
     async with app.run_test(size=(120, 40)) as pilot:
-        app.push_screen(SweepScreen(tmp_path / "sweep.json"))
+        app.push_screen(app.sweep_screen(tmp_path / "sweep.json"))
         await pilot.pause()
         chart = [line for line in screen_lines(app) if "vocabulary size" in line or "65" in line]
         assert not any("65.265k" in line or "65265" in line for line in chart)
@@ -254,7 +254,7 @@ async def test_the_sweep_charts_vocabulary_axis_writes_sizes_as_the_svg_chart_do
 async def test_a_file_that_is_not_a_sweep_result_is_refused(make_app) -> None:
     app = make_app()
     async with app.run_test(size=(80, 24)) as pilot:
-        app.push_screen(SweepScreen(Path("not-a-sweep.json")))
+        app.push_screen(app.sweep_screen(Path("not-a-sweep.json")))
         await pilot.pause()
         assert app.screen.sweep is None
         assert "not a sweep result" in status_of(app.screen, "#sweep-status")
@@ -294,7 +294,7 @@ async def test_a_size_sweep_shows_how_each_model_was_shrunk(make_app, tmp_path: 
     assert [row.keep_bytes for row in result.rows] == [None, 1.0]
     app = make_app()
     async with app.run_test(size=(140, 40)) as pilot:
-        app.push_screen(SweepScreen(tmp_path / "sweep.json"))
+        app.push_screen(app.sweep_screen(tmp_path / "sweep.json"))
         await pilot.pause()
         table = app.screen.query_one(DataTable)
         headers = [str(column.label) for column in table.columns.values()]

@@ -17,9 +17,6 @@ import pytest
 from pilot_steps import finish, learn_beforehand, paste
 
 from foretype.tui.learning import learning_sources
-from foretype.tui.screens.model import ModelScreen
-from foretype.tui.screens.replay import ReplayScreen
-from foretype.tui.screens.sweep import SweepScreen
 
 SIZES = [pytest.param((80, 24), id="80x24"), pytest.param((120, 40), id="120x40")]
 """The two terminal sizes every screen must read well at."""
@@ -70,7 +67,7 @@ def test_the_question_before_quitting_unsaved_text(snap_compare, make_app, size)
 @pytest.mark.parametrize("size", SIZES)
 def test_the_replay_screen_after_a_replay(snap_compare, make_app, size) -> None:
     async def run_before(pilot) -> None:  # noqa: ANN001
-        pilot.app.push_screen(ReplayScreen(Path("ferry-notes.txt")))
+        pilot.app.push_screen(pilot.app.replay_screen(Path("ferry-notes.txt")))
         await finish(pilot, "replay")
         await pilot.press("down", "down", "down", "down", "down", "down")
 
@@ -80,7 +77,7 @@ def test_the_replay_screen_after_a_replay(snap_compare, make_app, size) -> None:
 @pytest.mark.parametrize("size", SIZES)
 def test_the_sweep_screen(snap_compare, make_app, size) -> None:
     async def run_before(pilot) -> None:  # noqa: ANN001
-        pilot.app.push_screen(SweepScreen(Path("sweep.json")))
+        pilot.app.push_screen(pilot.app.sweep_screen(Path("sweep.json")))
         await finish(pilot, "sweep")
 
     assert snap_compare(make_app(), terminal_size=size, run_before=run_before)
@@ -89,7 +86,7 @@ def test_the_sweep_screen(snap_compare, make_app, size) -> None:
 @pytest.mark.parametrize("size", SIZES)
 def test_the_model_screen_with_a_file_that_is_not_there(snap_compare, make_app, size) -> None:
     async def run_before(pilot) -> None:  # noqa: ANN001
-        pilot.app.push_screen(ModelScreen(Path("missing.model")))
+        pilot.app.push_screen(pilot.app.model_screen(Path("missing.model")))
         await finish(pilot, "open-model")
 
     assert snap_compare(make_app(), terminal_size=size, run_before=run_before)

@@ -1,1 +1,1 @@
-"""The pad's screens: typing, replay, sweep, model, help and dialogs."""
+"""The pad's screens: typing, replay, sweep, model, learned words and help (dialogs are in ..dialogs)."""

@@ -9,11 +9,12 @@ the learned file before the list is redrawn.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING
+from collections.abc import Callable
 
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
+from textual.message import Message
 from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Header, Input, Static
 
@@ -23,10 +24,7 @@ from foretype.text import model_form
 
 from ..files import shown_path
 from ..formatting import count as count_text
-from ..learning import why_unavailable
-
-if TYPE_CHECKING:
-    from ..app import PadApp
+from ..learning import LearningSource, why_unavailable
 
 COLUMNS = ("word", "uses", "count", "last typed", "kind", "suggested")
 """The table's columns."""
@@ -59,7 +57,17 @@ class LearnedWordsScreen(Screen[None]):
     ]
     """Keys of the learned words screen (Delete and n act on the highlighted row)."""
 
-    app: PadApp
+    class Changed(Message):
+        """The learned file changed here (a word forgotten, the never-suggest list): suggestions are to be asked again."""
+
+    def __init__(self, learning: LearningSource | None, *, format_when: Callable[[int], str]) -> None:
+        """Args:
+        learning: the pad's learning source (None when the pad was started without one).
+        format_when: writes the Unix time a word was last typed.
+        """
+        super().__init__()
+        self.learning = learning
+        self.format_when = format_when
 
     def compose(self) -> ComposeResult:
         """Build the screen."""
@@ -90,7 +98,7 @@ class LearnedWordsScreen(Screen[None]):
 
     def show_words(self, keep: str | None = None) -> None:
         """Redraw the state lines and the table, keeping the highlight on a word (or on its row)."""
-        source = self.app.learning
+        source = self.learning
         table = self.table
         row = table.cursor_row
         if keep is None and table.row_count:
@@ -102,7 +110,7 @@ class LearnedWordsScreen(Screen[None]):
                 word.word,
                 count_text(word.uses),
                 count_value(word.count),
-                self.app.format_when(word.last_seen),
+                self.format_when(word.last_seen),
                 "new word" if word.new_word else "in vocabulary",
                 status_of(word, source.min_uses if source is not None else 0),
                 key=model_form(word.word),
@@ -116,7 +124,7 @@ class LearnedWordsScreen(Screen[None]):
         self.query_one("#learned-never", Static).update(f"never suggested: {', '.join(never)}" if never else "never suggested: nothing yet")
 
     def _state_line(self, words: list[LearnedWord]) -> str:
-        source = self.app.learning
+        source = self.learning
         if source is None or not source.available:
             return f"Learning is not available: {why_unavailable(source)}."
         state = "on (f6 switches it off)" if source.learning else "off (f6 switches it on)"
@@ -131,7 +139,7 @@ class LearnedWordsScreen(Screen[None]):
 
     def action_forget(self) -> None:
         """Delete: forget the highlighted word (every count involving it)."""
-        source = self.app.learning
+        source = self.learning
         word = self._highlighted()
         if source is None or word is None:
             self.app.bell()
@@ -143,7 +151,7 @@ class LearnedWordsScreen(Screen[None]):
             return
         if forgotten:
             self.notify(f"Forgot {word!r}: its counts are gone from the learned file.", title="forgotten")
-        self.app.learning_changed()
+        self.post_message(self.Changed())
 
     def action_never(self) -> None:
         """n: put the highlighted word on the never-suggest list, or take it off again."""
@@ -162,7 +170,7 @@ class LearnedWordsScreen(Screen[None]):
             message.input.value = ""
 
     def _block(self, entry: str, *, toggle: bool) -> bool:
-        source = self.app.learning
+        source = self.learning
         if source is None or not source.available:
             self.notify("Learning is not available, so there is no never-suggest list to change.", severity="warning")
             return False
@@ -177,5 +185,5 @@ class LearnedWordsScreen(Screen[None]):
         except ForetypeError as error:
             self.notify(f"Not changed: {error}", severity="error")
             return False
-        self.app.learning_changed()
+        self.post_message(self.Changed())
         return True

@@ -8,13 +8,14 @@ model already loaded stays in use.
 from __future__ import annotations
 
 from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from typing import Any
 
 from rich.table import Table
 from textual import work
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
+from textual.message import Message
 from textual.screen import Screen
 from textual.widgets import Footer, Header, Static
 
@@ -24,9 +25,6 @@ from foretype.query.model import LanguageModel, load
 from ..formatting import count, file_size
 from ..widgets.file_picker import FilePicker
 from ..widgets.model_facts import model_label
-
-if TYPE_CHECKING:
-    from ..app import PadApp
 
 
 def facts_table(model: LanguageModel) -> Table:
@@ -60,14 +58,28 @@ class ModelScreen(Screen[None]):
     ]
     """Keys of the model screen."""
 
-    app: PadApp
+    class Opened(Message):
+        """Another model was loaded: the pad is to type with it from now on."""
 
-    def __init__(self, path: Path | None = None) -> None:
+        def __init__(self, model: LanguageModel) -> None:
+            """Args:
+            model: the model loaded.
+            """
+            super().__init__()
+            self.model = model
+
+    def __init__(self, model: LanguageModel, folder: Path, *, path: Path | None = None, cursor_blink: bool = True) -> None:
         """Args:
+        model: the model in use.
+        folder: where the file tree starts.
         path: a model file to open at once (otherwise the person chooses one).
+        cursor_blink: let the cursor blink in the path box.
         """
         super().__init__()
+        self.model = model
+        self.folder = folder
         self.start_path = path
+        self.cursor_blink = cursor_blink
 
     def compose(self) -> ComposeResult:
         """Build the screen."""
@@ -79,7 +91,7 @@ class ModelScreen(Screen[None]):
                 yield Static("", id="model-status", classes="status-line")
             with Vertical(id="model-open", classes="panel") as chooser:
                 chooser.border_title = "open another model"
-                yield FilePicker(self.app.folder, placeholder="path to a .model file, then Enter", id="model-picker")
+                yield FilePicker(self.folder, placeholder="path to a .model file, then Enter", cursor_blink=self.cursor_blink, id="model-picker")
         yield Footer(compact=True)
 
     def on_mount(self) -> None:
@@ -93,7 +105,7 @@ class ModelScreen(Screen[None]):
 
     def show_loaded(self) -> None:
         """Draw the facts of the model in use."""
-        self.query_one("#model-table", Static).update(facts_table(self.app.model))
+        self.query_one("#model-table", Static).update(facts_table(self.model))
 
     def set_status(self, text: str, *, error: bool = False) -> None:
         """Write the status line (red for an error)."""
@@ -119,9 +131,10 @@ class ModelScreen(Screen[None]):
             self.app.call_from_thread(self._loaded, model)
 
     def _failed(self, reason: str) -> None:
-        self.set_status(f"Not opened: {reason}\nThe model in use stays loaded: {model_label(self.app.model.path)}.", error=True)
+        self.set_status(f"Not opened: {reason}\nThe model in use stays loaded: {model_label(self.model.path)}.", error=True)
 
     def _loaded(self, model: LanguageModel) -> None:
-        self.app.use_model(model)
+        self.model = model
+        self.post_message(self.Opened(model))
         self.show_loaded()
         self.set_status(f"Now typing with {model_label(model.path)}. Esc goes back to the pad.")

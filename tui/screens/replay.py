@@ -9,7 +9,6 @@ the suggestion lists the typist was shown while typing that word.
 from __future__ import annotations
 
 from pathlib import Path
-from typing import TYPE_CHECKING
 
 from rich.table import Table
 from rich.text import Text
@@ -23,15 +22,14 @@ from textual.worker import get_current_worker
 
 from foretype.counting.corpus import read_text_file
 from foretype.errors import ForetypeError
+from foretype.query.model import LanguageModel
 from foretype.simulate import SavingsReport, TypistSettings, WordTrace, simulate
 
-from ..formatting import LatencyFormatter, count, signed_percent
+from ..formatting import LatencyFormatter, count, format_micros, signed_percent
 from ..learning import LearningSource
+from ..session import PadSession
 from ..widgets.file_picker import FilePicker
 from ..widgets.word_table import WordTable
-
-if TYPE_CHECKING:
-    from ..app import PadApp
 
 
 class ReplayCancelled(Exception):
@@ -131,14 +129,33 @@ class ReplayScreen(Screen[None]):
     HORIZONTAL_BREAKPOINTS = [(0, "-narrow"), (110, "-wide")]
     """From 110 columns the lists panel gets wider."""
 
-    app: PadApp
+    def __init__(
+        self,
+        model: LanguageModel,
+        session: PadSession,
+        folder: Path,
+        *,
+        path: Path | None = None,
+        format_latency: LatencyFormatter = format_micros,
+        cursor_blink: bool = True,
+    ) -> None:
+        """Set up the screen.
 
-    def __init__(self, path: Path | None = None) -> None:
-        """Args:
-        path: a text to replay at once (otherwise the person chooses one).
+        Args:
+            model: the model typed with (its vocabulary gives the oracle and the baseline).
+            session: the pad's session: the typist uses its suggestion source and its k.
+            folder: where the file tree starts.
+            path: a text to replay at once (otherwise the person chooses one).
+            format_latency: writes a duration in microseconds (tests make it constant).
+            cursor_blink: let the cursor blink in the path box.
         """
         super().__init__()
+        self.model = model
+        self.session = session
+        self.folder = folder
         self.start_path = path
+        self.format_latency = format_latency
+        self.cursor_blink = cursor_blink
         self.report: SavingsReport | None = None
 
     def compose(self) -> ComposeResult:
@@ -154,7 +171,7 @@ class ReplayScreen(Screen[None]):
                 "The simulated typist types the text exactly with the current model and picks each word as soon as it is offered. Type a path and press Enter, or pick a file.",
                 classes="status-line",
             )
-            yield FilePicker(self.app.folder, placeholder="path to a UTF-8 text file, then Enter", id="replay-picker")
+            yield FilePicker(self.folder, placeholder="path to a UTF-8 text file, then Enter", cursor_blink=self.cursor_blink, id="replay-picker")
         with Vertical(id="replay-results"):
             with Vertical(id="replay-summary-box", classes="panel") as box:
                 box.border_title = "summary"
@@ -206,11 +223,11 @@ class ReplayScreen(Screen[None]):
         """Read and type the text off the event loop, reporting progress."""
         worker = get_current_worker()
         app = self.app
-        model = app.model
-        source = app.session.source
+        model = self.model
+        source = self.session.source
         if isinstance(source, LearningSource):
             source = source.for_other_thread()  # the learned file's objects stay with the interface's thread
-        settings = TypistSettings(k=app.session.k)
+        settings = TypistSettings(k=self.session.k)
 
         def progress(done: int, total: int) -> None:
             if worker.is_cancelled:
@@ -254,7 +271,7 @@ class ReplayScreen(Screen[None]):
 
     def _finished(self, path: Path, report: SavingsReport) -> None:
         self.report = report
-        self.query_one("#replay-summary", Static).update(summary_table(report, path.name, self.app.format_latency))
+        self.query_one("#replay-summary", Static).update(summary_table(report, path.name, self.format_latency))
         self.query_one("#replay-summary-box").border_subtitle = "simulated estimates, not a clinical assessment"
         table = self.query_one(WordTable)
         table.set_rows([(str(n), t.word, f"{t.keystrokes:g}", picked_label(t.picked_at), "" if t.rank is None else str(t.rank)) for n, t in enumerate(report.trace, start=1)])

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import math
 from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from typing import Any
 
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -29,9 +29,6 @@ from foretype.sweep import has_learning
 from ..files import SweepFile, read_sweep
 from ..formatting import count, file_size, signed_percent
 from ..widgets.file_picker import FilePicker
-
-if TYPE_CHECKING:
-    from ..app import PadApp
 
 COLUMNS = ("method", "vocabulary", "KSR", "oracle", "baseline", "p50 µs", "p99 µs", "perplexity", "OOV", "file", "memory")
 """The table's columns."""
@@ -141,14 +138,16 @@ class SweepScreen(Screen[None]):
     ]
     """Keys of the sweep screen."""
 
-    app: PadApp
-
-    def __init__(self, path: Path | None = None) -> None:
+    def __init__(self, folder: Path, *, path: Path | None = None, cursor_blink: bool = True) -> None:
         """Args:
+        folder: where the file tree starts.
         path: a sweep result to open at once (otherwise the person chooses one).
+        cursor_blink: let the cursor blink in the path box.
         """
         super().__init__()
+        self.folder = folder
         self.start_path = path
+        self.cursor_blink = cursor_blink
         self.sweep: SweepFile | None = None
 
     def compose(self) -> ComposeResult:
@@ -158,7 +157,7 @@ class SweepScreen(Screen[None]):
             chooser.border_title = "choose a sweep result"
             yield Static("Open a sweep.json written by `foretype sweep`: type its path and press Enter, or pick it below.", classes="status-line")
             yield Static("", id="sweep-status", classes="status-line")
-            yield FilePicker(self.app.folder, placeholder="path to sweep.json, then Enter", id="sweep-picker")
+            yield FilePicker(self.folder, placeholder="path to sweep.json, then Enter", cursor_blink=self.cursor_blink, id="sweep-picker")
         with Vertical(id="sweep-results"):
             yield PlotextPlot(id="sweep-chart")
             table: DataTable[str] = DataTable(id="sweep-table", cursor_type="row", zebra_stripes=True)

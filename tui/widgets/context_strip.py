@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from rich.text import Text
+from textual.reactive import reactive
 from textual.widget import Widget
 
 from ..formatting import clip
@@ -19,21 +20,12 @@ class ContextStrip(Widget):
     ContextStrip { height: 2; text-wrap: nowrap; text-overflow: clip; }
     """
 
-    def __init__(self, *, id: str | None = None) -> None:  # noqa: A002 - Textual's name
-        """Args:
-        id: the widget id.
-        """
-        super().__init__(id=id)
-        self._offer: Offer | None = None
-
-    def show(self, offer: Offer | None) -> None:
-        """Draw the context and prefix of an offer."""
-        self._offer = offer
-        self.refresh()
+    offer: reactive[Offer | None] = reactive(None)
+    """The offer drawn (the typing screen binds its own ``offer`` here)."""
 
     def render(self) -> Text:
         """Both lines as text; unknown words say so in full when the line has room."""
-        offer = self._offer
+        offer = self.offer
         words = list(offer.context) if offer is not None else []
         width = self.size.width
         spelled = self._context_line(words, " unknown", 1000)

@@ -31,20 +31,22 @@ class FilePicker(Vertical):
             super().__init__()
             self.path = path
 
-    def __init__(self, folder: Path, *, placeholder: str = "path to a file", id: str | None = None) -> None:  # noqa: A002
+    def __init__(self, folder: Path, *, placeholder: str = "path to a file", cursor_blink: bool = True, id: str | None = None) -> None:  # noqa: A002
         """Args:
         folder: where the tree starts.
         placeholder: grey text in the empty path box.
+        cursor_blink: let the cursor blink in the path box (snapshots turn it off).
         id: the widget id.
         """
         super().__init__(id=id)
         self.folder = folder
         self.placeholder = placeholder
+        self.cursor_blink = cursor_blink
 
     def compose(self) -> ComposeResult:
         """A path box and a tree."""
         path_box = Input(placeholder=self.placeholder, classes="picker-path")
-        path_box.cursor_blink = getattr(self.app, "cursor_blink", True)
+        path_box.cursor_blink = self.cursor_blink
         yield path_box
         yield DirectoryTree(self.folder, classes="picker-tree")
 

@@ -5,7 +5,10 @@ from __future__ import annotations
 from typing import Any
 
 from rich.text import Text
+from textual.reactive import reactive
 from textual.widget import Widget
+
+from foretype.query.model import LanguageModel
 
 from ..formatting import count, file_size
 
@@ -22,6 +25,9 @@ class ModelFacts(Widget):
     ModelFacts { height: 1; text-wrap: nowrap; text-overflow: clip; }
     """
 
+    model: reactive[LanguageModel | None] = reactive(None)
+    """The model described (bound to the typing screen's ``model``)."""
+
     def __init__(self, *, id: str | None = None) -> None:  # noqa: A002 - Textual's name
         """Args:
         id: the widget id.
@@ -30,16 +36,10 @@ class ModelFacts(Widget):
         self._label = ""
         self._info: dict[str, Any] = {}
 
-    def show(self, label: str, info: dict[str, Any]) -> None:
-        """Draw the facts of a model.
-
-        Args:
-            label: the model's file name (or how it was made).
-            info: the model's ``info()`` dictionary.
-        """
-        self._label = label
-        self._info = info
-        self.refresh()
+    def watch_model(self, model: LanguageModel | None) -> None:
+        """Read the facts once per model (``info()`` is not free)."""
+        self._label = model_label(model.path) if model is not None else ""
+        self._info = model.info() if model is not None else {}
 
     def render(self) -> Text:
         """The richest wording of the facts that fits on the line."""

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from rich.text import Text
+from textual.reactive import reactive
 from textual.widget import Widget
 
 from ..formatting import bar, clip, percent
@@ -34,6 +35,11 @@ class SuggestionTable(Widget):
     SuggestionTable { height: auto; text-wrap: nowrap; text-overflow: clip; }
     """
 
+    offer: reactive[Offer | None] = reactive(None)
+    """The offer drawn (bound to the typing screen's ``offer``)."""
+    highlight: reactive[int] = reactive(0)
+    """0-based row highlighted: what Tab takes (bound to the typing screen's ``highlight``)."""
+
     def __init__(self, *, k: int, id: str | None = None) -> None:  # noqa: A002 - Textual's name
         """Args:
         k: how many rows to keep room for.
@@ -41,14 +47,6 @@ class SuggestionTable(Widget):
         """
         super().__init__(id=id)
         self.k = k
-        self._offer: Offer | None = None
-        self._highlight = 0
-
-    def show(self, offer: Offer | None, highlight: int) -> None:
-        """Draw an offer with one row highlighted (0-based)."""
-        self._offer = offer
-        self._highlight = highlight
-        self.refresh()
 
     def get_content_height(self, container, viewport, width: int) -> int:  # type: ignore[no-untyped-def]
         """One heading row and k rows."""
@@ -58,7 +56,7 @@ class SuggestionTable(Widget):
         """The table as text, laid out for the widget's width."""
         width = max(self.size.width, 30)
         wide = width >= 56
-        suggestions = self._offer.suggestions if self._offer is not None else ()
+        suggestions = self.offer.suggestions if self.offer is not None else ()
         word_width = min(18, max([8, *(len(s.word) for s in suggestions)]))
         order_width = 7 if wide else 1
         # highlight, rank, word, learned mark, probability, bar, order, chord, with one space between columns
@@ -70,7 +68,7 @@ class SuggestionTable(Widget):
         for index in range(self.k):
             if index < len(suggestions):
                 s = suggestions[index]
-                chosen = index == self._highlight
+                chosen = index == self.highlight
                 order = ORDER_NAMES.get(s.order, str(s.order)) if wide else str(s.order)
                 out.append("▸" if chosen else " ", style="bold")
                 out.append(f"{index + 1} ", style="bold" if chosen else "")

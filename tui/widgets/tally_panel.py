@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from rich.text import Text
+from textual.reactive import reactive
 from textual.widget import Widget
 
 from ..formatting import LatencyFormatter, bar, count, format_micros, signed_percent
@@ -16,6 +17,9 @@ class TallyPanel(Widget):
     TallyPanel { height: 5; text-wrap: nowrap; text-overflow: clip; }
     """
 
+    tally: reactive[Tally] = reactive(Tally(0, 0, 0, None))
+    """The figures drawn (bound to the typing screen's ``tally``)."""
+
     def __init__(self, *, format_latency: LatencyFormatter = format_micros, id: str | None = None) -> None:  # noqa: A002
         """Args:
         format_latency: writes a duration in microseconds.
@@ -23,16 +27,10 @@ class TallyPanel(Widget):
         """
         super().__init__(id=id)
         self.format_latency = format_latency
-        self._tally = Tally(0, 0, 0, None)
-
-    def show(self, tally: Tally) -> None:
-        """Draw a tally."""
-        self._tally = tally
-        self.refresh()
 
     def render(self) -> Text:
         """The figures as text."""
-        t = self._tally
+        t = self.tally
         saving = t.savings
         latency = "—" if t.latency_ns is None else self.format_latency(t.latency_ns / 1000)
         rows = [

@@ -21,14 +21,16 @@ class SaveDialog(ModalScreen[Path | None]):
     BINDINGS = [Binding("escape", "cancel", "cancel", id="cancel-save")]
     """Escape closes the dialog without saving."""
 
-    def __init__(self, text: str, suggested: Path) -> None:
+    def __init__(self, text: str, suggested: Path, *, cursor_blink: bool = True) -> None:
         """Args:
         text: the text to save.
         suggested: the file name offered first (one that does not exist yet).
+        cursor_blink: let the cursor blink in the name box (snapshots turn it off).
         """
         super().__init__()
         self.text = text
         self.suggested = suggested
+        self.cursor_blink = cursor_blink
 
     def compose(self) -> ComposeResult:
         """Build the dialog."""
@@ -36,7 +38,7 @@ class SaveDialog(ModalScreen[Path | None]):
             box.border_title = "save the message"
             yield Static("Save to a new file (Enter saves, Esc cancels):", classes="dialog-text")
             path_box = Input(str(self.suggested), id="save-path")
-            path_box.cursor_blink = getattr(self.app, "cursor_blink", True)
+            path_box.cursor_blink = self.cursor_blink
             yield path_box
             yield Static("", id="save-error", classes="error-line")
 
