@@ -232,6 +232,25 @@ async def test_a_sweep_with_learning_shows_its_learning_column(make_app, tmp_pat
             assert cells[2] == f"{100 * row.ksr:.1f}%" and cells[4] == f"{100 * row.adapted_ksr:.1f}%"
 
 
+def chart_rows(app) -> list[str]:  # noqa: ANN001
+    """The screen rows that show a drawn line of the chart (braille dots or markers between the axes)."""
+    return [line for line in screen_lines(app) if "┤" in line and any(c in line.split("┤", 1)[1] for c in "⠁⠂⠄⠈⠐⠠⡀⢀⣀⠤⠒⠉•")]
+
+
+async def test_the_sweep_chart_is_still_drawn_after_the_terminal_changes_size(make_app) -> None:
+    # plotext rescales a log-scaled figure in place when it builds it: without a fresh drawing per
+    # frame, the second frame of the chart was empty and a third raised an error.
+    app = make_app()
+    async with app.run_test(size=(100, 30)) as pilot:
+        app.push_screen(app.sweep_screen(Path("sweep.json")))
+        await pilot.pause()
+        assert chart_rows(app)
+        for size in [(120, 40), (80, 24), (160, 50), (100, 30)]:
+            await pilot.resize_terminal(*size)
+            await pilot.pause()
+            assert len(chart_rows(app)) >= 4, size
+
+
 @pytest.mark.parametrize("sizes", [(5_000, 65_265), (60_000, 65_265)], ids=["log-scale", "linear-scale"])
 async def test_the_sweep_charts_vocabulary_axis_writes_sizes_as_the_svg_chart_does(make_app, tmp_path: Path, sizes) -> None:
     from foretype.chart import sweep_chart

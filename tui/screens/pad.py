@@ -135,7 +135,7 @@ class PadScreen(Screen[None]):
 
     def show_learning(self) -> None:
         """Redraw the learning indicator on the message area's bottom border."""
-        self.compose_area.border_subtitle = learning_indicator(self.learning)
+        self.compose_area.show_status(learning_indicator(self.learning))
 
     def refresh_panels(self) -> None:
         """Set the offer, highlight and tally for the text at the cursor, and the grey preview."""
@@ -164,10 +164,12 @@ class PadScreen(Screen[None]):
         self.refresh_panels()
 
 
-def learning_indicator(source: LearningSource | None) -> str:
-    """The learning state as the message area's border shows it (Textual markup)."""
+def learning_indicator(source: LearningSource | None) -> list[str]:
+    """The learning state as the message area's border shows it, richest wording first (Textual markup)."""
     if source is None or not source.available:
-        return "[dim]○ learning unavailable · f6 says why[/]"
+        return ["[dim]○ learning unavailable · f6 says why[/]", "[dim]○ learning unavailable[/]"]
     if source.learning:
-        return "[b $success]● learning on[/] · kept on this machine only · f6 stop · f7 learned words"
-    return "[b $warning]○ learning off[/] · f6 start · f7 learned words"
+        on = "[b $success]● learning on[/]"
+        return [f"{on} · kept on this machine only · f6 stop · f7 learned words", f"{on} · on this machine only · f6 stop · f7 words", f"{on} · f6 stop · f7 words", on]
+    off = "[b $warning]○ learning off[/]"
+    return [f"{off} · f6 start · f7 learned words", f"{off} · f6 start · f7 words", off]

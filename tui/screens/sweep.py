@@ -14,12 +14,13 @@ import math
 from pathlib import Path
 from typing import Any
 
+from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
 from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Header, Static
-from textual_plotext import PlotextPlot
+from textual_plotext.plot import Plot
 
 from foretype.chart import vocabulary_label
 from foretype.errors import ForetypeError
@@ -29,6 +30,7 @@ from foretype.sweep import has_learning
 from ..files import SweepFile, read_sweep
 from ..formatting import count, file_size, signed_percent
 from ..widgets.file_picker import FilePicker
+from ..widgets.fresh_plot import FreshPlot
 
 COLUMNS = ("method", "vocabulary", "KSR", "oracle", "baseline", "p50 µs", "p99 µs", "perplexity", "OOV", "file", "memory")
 """The table's columns."""
@@ -79,53 +81,85 @@ def table_row(row: dict[str, Any], learning: bool = False, sized: bool = False) 
     )
 
 
-def draw_size_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
-    """Draw savings against model bytes (log scale), one line per method, criterion and value encoding."""
-    plt = plot.plt
-    plt.clear_figure()
+LINE_COLOURS = ("cyan", "magenta", "green", "yellow", "red", "blue")
+"""One colour per line, in drawing order (names both plotext and rich know)."""
+
+LegendEntry = tuple[str, str, str]
+"""A line of the chart as the legend under it names it: (symbol, label, colour)."""
+
+
+class _Lines:
+    """Draws lines on a plotext figure without its own legend, keeping one for the line under the chart.
+
+    plotext's own legend fails (IndexError) when one line is drawn entirely over by another at the
+    chart's size, so the legend is written by the screen instead.
+    """
+
+    def __init__(self, plt: Plot) -> None:
+        self.plt = plt
+        self.legend: list[LegendEntry] = []
+
+    def add(self, points: list[tuple[float, float]], label: str, *, marker: str = "braille", yside: str = "left") -> None:
+        if not points:
+            return
+        colour = LINE_COLOURS[len(self.legend) % len(LINE_COLOURS)]
+        self.plt.plot([a for a, _ in points], [b for _, b in points], marker=marker, color=colour, yside=yside)
+        self.legend.append(("•" if marker == "dot" else "━", label, colour))
+
+
+def draw_size_chart(plt: Plot, sweep: SweepFile) -> list[LegendEntry]:
+    """Draw savings against model bytes (log scale), one line per method, criterion and value encoding; return the legend."""
+    lines = _Lines(plt)
     sizes: list[float] = []
     for key, members in size_lines(sweep.rows).items():
         sizes.extend(float(r["file_bytes"]) for r in members)
-        plt.plot([float(r["file_bytes"]) for r in members], [100 * float(r["ksr"]) for r in members], marker="braille", label=", ".join(key))
+        lines.add([(float(r["file_bytes"]), 100 * float(r["ksr"])) for r in members], ", ".join(key))
     if sizes:
         plt.xscale("log")
         ticks = sorted(set(sizes))
         plt.xticks(ticks, [file_size(int(t)) for t in ticks])
     plt.xlabel("model file bytes (log scale)")
     plt.title("keystroke savings (%) by model size")
-    plot.refresh()
+    return lines.legend
 
 
-def draw_chart(plot: PlotextPlot, sweep: SweepFile) -> None:
+def draw_chart(plt: Plot, sweep: SweepFile) -> list[LegendEntry]:
     """Draw savings and p99 latency against vocabulary size.
 
     Args:
-        plot: the chart widget (cleared first).
+        plt: the cleared figure to draw on.
         sweep: the rows to draw.
+
+    Returns:
+        The legend: one entry per line drawn.
     """
-    plt = plot.plt
-    plt.clear_figure()
+    lines = _Lines(plt)
     sizes = [int(r["vocab_size"]) for r in sweep.rows]
     logarithmic = min(sizes) > 0 and max(sizes) / min(sizes) >= 4
     for method in sweep.methods:
         rows = [r for r in sweep.rows if str(r.get("method", "")) == method]
         x = [int(r["vocab_size"]) for r in rows]
-        ksr = [(i, 100 * float(r["ksr"])) for i, r in zip(x, rows) if r.get("ksr") is not None]
-        learned = [(i, 100 * float(r["adapted_ksr"])) for i, r in zip(x, rows) if r.get("adapted_ksr") is not None]
-        p99 = [(i, float(r["latency_p99_us"])) for i, r in zip(x, rows) if r.get("latency_p99_us") is not None]
-        if ksr:
-            plt.plot([a for a, _ in ksr], [b for _, b in ksr], marker="braille", label=f"{method} KSR %", yside="left")
-        if learned:
-            plt.plot([a for a, _ in learned], [b for _, b in learned], marker="braille", label=f"{method} learning KSR %", yside="left")
-        if p99:
-            plt.plot([a for a, _ in p99], [b for _, b in p99], marker="dot", label=f"{method} p99 µs", yside="right")
+        lines.add([(i, 100 * float(r["ksr"])) for i, r in zip(x, rows) if r.get("ksr") is not None], f"{method} KSR %")
+        lines.add([(i, 100 * float(r["adapted_ksr"])) for i, r in zip(x, rows) if r.get("adapted_ksr") is not None], f"{method} learning KSR %")
+        lines.add([(i, float(r["latency_p99_us"])) for i, r in zip(x, rows) if r.get("latency_p99_us") is not None], f"{method} p99 µs", marker="dot", yside="right")
     if logarithmic:
         plt.xscale("log")
     ticks = [float(t) for t in sorted(set(sizes))]
     plt.xticks(ticks, [vocabulary_label(t) for t in ticks])  # labelled as the SVG chart labels them
     plt.xlabel("vocabulary size (words)")
     plt.title("keystroke savings (left, %) and p99 latency (right, µs)")
-    plot.refresh()
+    return lines.legend
+
+
+def legend_text(legend: list[LegendEntry]) -> Text:
+    """The legend as one line of text (wrapped between entries when narrow)."""
+    out = Text()
+    for index, (symbol, label, colour) in enumerate(legend):
+        if index:
+            out.append("   ")
+        out.append(f"{symbol} ", style=f"bold {colour}")
+        out.append(label)
+    return out
 
 
 class SweepScreen(Screen[None]):
@@ -159,7 +193,8 @@ class SweepScreen(Screen[None]):
             yield Static("", id="sweep-status", classes="status-line")
             yield FilePicker(self.folder, placeholder="path to sweep.json, then Enter", cursor_blink=self.cursor_blink, id="sweep-picker")
         with Vertical(id="sweep-results"):
-            yield PlotextPlot(id="sweep-chart")
+            yield FreshPlot(id="sweep-chart")
+            yield Static("", id="sweep-legend", classes="status-line")
             table: DataTable[str] = DataTable(id="sweep-table", cursor_type="row", zebra_stripes=True)
             table.border_title = "rows"
             yield table
@@ -214,8 +249,8 @@ class SweepScreen(Screen[None]):
         self.query_one("#sweep-note", Static).update(" · ".join(notes))
         self.query_one("#sweep-choose").display = False
         self.query_one("#sweep-results").display = True
-        if sized:
-            draw_size_chart(self.query_one(PlotextPlot), sweep)
-        else:
-            draw_chart(self.query_one(PlotextPlot), sweep)
+        draw = draw_size_chart if sized else draw_chart
+        chart = self.query_one(FreshPlot)
+        self.query_one("#sweep-legend", Static).update(legend_text(draw(chart.plt, sweep)))
+        chart.draw(lambda plt: draw(plt, sweep))
         table.focus()

@@ -9,8 +9,11 @@ have been inserted; handling Tab, Backspace and the rank chords here keeps
 
 from __future__ import annotations
 
+from collections.abc import Sequence
+
 from textual import events
 from textual.binding import Binding
+from textual.content import Content
 from textual.message import Message
 from textual.widgets import TextArea
 
@@ -97,6 +100,7 @@ class ComposeArea(TextArea, inherit_bindings=False):
         """Where the space an accepted word wrote ends (None once anything else happened)."""
         self._space_absorbed = False
         """Whether a typed space was already absorbed by that automatic space."""
+        self._status_wordings: tuple[str, ...] = ()
         self._key_actions = {key.strip(): b.action for b in self.BINDINGS if isinstance(b, Binding) for key in b.key.split(",")}
 
     # ----------------------------------------------------------------- reading
@@ -217,6 +221,22 @@ class ComposeArea(TextArea, inherit_bindings=False):
         """Move right; the grey completion after the cursor is only a preview, never inserted."""
         self.suggestion = ""
         super().action_cursor_right(select)
+
+    def show_status(self, wordings: Sequence[str]) -> None:
+        """Write a status on the bottom border: the first of the wordings (richest first, Textual markup) that fits."""
+        self._status_wordings = tuple(wordings)
+        self._fit_status()
+
+    def on_resize(self) -> None:
+        """Choose the status wording again for the new width."""
+        self._fit_status()
+
+    def _fit_status(self) -> None:
+        wordings = self._status_wordings
+        if not wordings:
+            return
+        room = self.outer_size.width - 6  # two corners, a line and a blank on each side of the label
+        self.border_subtitle = next((w for w in wordings if Content.from_markup(w).cell_length <= room), wordings[-1])
 
     def show_preview(self, text: str) -> None:
         """Show the rest of the highlighted word in grey after the cursor (at the end of a line)."""

@@ -6,6 +6,8 @@ from rich.text import Text
 from textual.reactive import reactive
 from textual.widget import Widget
 
+from foretype.query.model import Suggestion
+
 from ..formatting import bar, clip, percent
 from ..session import Offer
 from .compose_area import rank_chord
@@ -53,33 +55,44 @@ class SuggestionTable(Widget):
         return self.k + 1
 
     def render(self) -> Text:
-        """The table as text, laid out for the widget's width."""
-        width = max(self.size.width, 30)
-        wide = width >= 56
+        """The table as text, laid out for the widget's width.
+
+        Every column keeps its place down to about 30 cells (the word column
+        narrows to 8); the probability bar takes what is left and is the first
+        thing to go, so the number, the order and the key are never cut.
+        """
+        width = self.size.width
         suggestions = self.offer.suggestions if self.offer is not None else ()
-        word_width = min(18, max([8, *(len(s.word) for s in suggestions)]))
+        wide = width >= 56
         order_width = 7 if wide else 1
-        # highlight, rank, word, learned mark, probability, bar, order, chord, with one space between columns
-        fixed = 1 + 1 + 1 + word_width + 1 + 1 + 1 + 7 + 1 + 1 + order_width + 1 + 5
-        bar_width = max(3, width - fixed)
+        # "▸1 ", then the word, " ", the learned mark, " ", the probability (7), " ", the order, " ", the chord (5)
+        others = 3 + 1 + 1 + 1 + 7 + 1 + order_width + 1 + 5
+        word_width = max(4, min(18, max([8, *(len(s.word) for s in suggestions)]), width - others - 4))
+        room = width - others - word_width - 1
+        bar_width = room if room >= 3 else 0
         out = Text(no_wrap=True, overflow="crop")
-        head = f"  # {'word':<{word_width}}   {'prob':>7} {'':<{bar_width}} {'order' if wide else 'n':<{order_width}} {'key':<5}"
+        bar_head = f" {'':<{bar_width}}" if bar_width else ""
+        head = f" # {'word':<{word_width}}   {'prob':>7}{bar_head} {'order' if wide else 'n':<{order_width}} {'key':<5}"
         out.append(head.rstrip() + "\n", style="bold")
         for index in range(self.k):
             if index < len(suggestions):
-                s = suggestions[index]
-                chosen = index == self.highlight
-                order = ORDER_NAMES.get(s.order, str(s.order)) if wide else str(s.order)
-                out.append("▸" if chosen else " ", style="bold")
-                out.append(f"{index + 1} ", style="bold" if chosen else "")
-                out.append(f"{clip(s.word, word_width):<{word_width}} ", style="reverse bold" if chosen else "bold")
-                out.append(f"{learned_mark(s)} ", style="bold magenta")
-                out.append(f"{percent(s.prob):>7} ")
-                out.append(bar(s.prob, bar_width), style="green")
-                out.append(f" {order:<{order_width}} ", style="dim")
-                out.append(rank_chord(index + 1), style="bold cyan")
+                self._row(out, suggestions[index], index, word_width, bar_width, order_width, wide)
             elif index == 0:
                 out.append("  no word in the vocabulary starts like this", style="dim italic")
             if index < self.k - 1:
                 out.append("\n")
         return out
+
+    def _row(self, out: Text, s: Suggestion, index: int, word_width: int, bar_width: int, order_width: int, wide: bool) -> None:
+        chosen = index == self.highlight
+        order = ORDER_NAMES.get(s.order, str(s.order)) if wide else str(s.order)
+        out.append("▸" if chosen else " ", style="bold")
+        out.append(f"{index + 1} ", style="bold" if chosen else "")
+        out.append(f"{clip(s.word, word_width):<{word_width}} ", style="reverse bold" if chosen else "bold")
+        out.append(f"{learned_mark(s)} ", style="bold magenta")
+        out.append(f"{percent(s.prob):>7}")
+        if bar_width:
+            out.append(" ")
+            out.append(bar(s.prob, bar_width), style="green")
+        out.append(f" {order:<{order_width}} ", style="dim")
+        out.append(rank_chord(index + 1), style="bold cyan")
