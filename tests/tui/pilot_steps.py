@@ -69,3 +69,20 @@ def _cell_width(svg: str) -> float:
     found = re.search(r'<text [^>]*?textLength="([0-9.]+)"[^>]*>([^<]*)</text>', svg)
     assert found is not None
     return float(found.group(1)) / len(html.unescape(found.group(2)))
+
+
+def assert_nothing_cut(app: App[object]) -> None:
+    """Fail if Textual had to shorten a border label (it ends it with "…") or the key hints at the bottom."""
+    lines = screen_lines(app)
+    shortened = [line for line in lines if re.search(r"…\s?─", line)]
+    assert not shortened, f"a border label was shortened: {shortened}"
+    assert lines[-1].rstrip().endswith("^q quit"), f"the key hints were cut: {lines[-1]!r}"
+
+
+def assert_typing_screen_whole(app: App[object], k: int = 5) -> None:
+    """The typing screen's checks besides :func:`assert_nothing_cut`: every rank keeps its number and key, the model line is whole."""
+    assert_nothing_cut(app)
+    lines = screen_lines(app)
+    rows = [line for line in lines if re.search(r"alt\+[1-9] +│", line)]
+    assert len(rows) == k and all("%" in row for row in rows), rows
+    assert "…" not in lines[-2], lines[-2]

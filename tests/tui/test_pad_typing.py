@@ -8,10 +8,11 @@ follows KSR = 1 - keystrokes / characters (Trnka & McCoy 2008, REFERENCES.md
 
 from __future__ import annotations
 
+import re
 from fractions import Fraction
 
 import pytest
-from pilot_steps import paste
+from pilot_steps import paste, screen_lines
 from textual import events
 
 from foretype.tui.keys import CHORDS_FROM_ESCAPE_DIGITS
@@ -252,3 +253,34 @@ async def test_k_sets_the_number_of_ranks(make_app) -> None:
     async with app.run_test(size=(80, 24)) as pilot:
         await paste(pilot, "the ")
         assert [w for w, _, _ in listed(app)] == ["ferry", "fare"]
+
+
+async def test_a_narrow_terminal_keeps_every_ranks_probability_and_key(make_app) -> None:
+    # At 60 columns the tally gives up its notes before the list gives up a column.
+    app = make_app()
+    async with app.run_test(size=(60, 24)) as pilot:
+        await paste(pilot, "the ferry ")
+        rows = [line for line in screen_lines(app) if re.search(r"[▸ ][1-5] ", line) and "│" in line]
+        assert len(rows) == 5
+        for rank, row in enumerate(rows, start=1):
+            assert f"alt+{rank}" in row and "%" in row, row
+
+
+@pytest.mark.parametrize("size", [(80, 24), (120, 40)])
+async def test_a_notification_leaves_the_key_hints_the_model_line_and_the_panels_clear(make_app, size) -> None:
+    from textual.widgets import Footer
+    from textual.widgets._toast import Toast
+
+    app = make_app()
+    async with app.run_test(size=size, notifications=True) as pilot:
+        app.notify("Learning on: the words you finish are kept in tiny.model.learned, on this machine only.", title="learning")
+        await pilot.pause()
+        await pilot.pause()
+        screen = app.screen
+        toasts = [toast.region for toast in screen.query(Toast)]
+        assert toasts
+        covered = [screen.query_one(Footer).region, screen.query_one("#facts").region]
+        if size[0] >= 110:
+            covered.append(screen.query_one("#board").region)  # the panels sit on the right
+        for toast in toasts:
+            assert all(not toast.overlaps(region) for region in covered), (toast, covered)
