@@ -80,6 +80,7 @@ def __getattr__(name: str) -> Any:
 def __dir__() -> list[str]:
     return sorted({*globals(), *_SOURCES})
 
+
 __all__ = [
     "build",
     "build_from_counts",

@@ -16,6 +16,7 @@ COMMAND_MODULES = (
     "model_commands",
     "count_commands",
     "measure_commands",
+    "sweep_commands",
     "compare_commands",
     "learn_commands",
     "run_commands",
