@@ -347,7 +347,7 @@ def test_check_passes_a_good_model_and_names_the_problem_of_a_bad_one(original, 
     data = original[0]
     good = tmp_path / "good.model"
     good.write_bytes(data)
-    result = run_cli("check", good)
+    result = run_cli("check", "-m", good)
     assert result.code == 0 and "ok" in result.out and result.err == ""
     at = section(data, "l2.value")["offset"] + 3
     bad = tmp_path / "bad.model"

@@ -41,7 +41,7 @@ def _one_line(err: str) -> str:
 # ------------------------------------------------------------ outputs that are inputs
 def test_trace_onto_the_model_is_refused_and_the_model_kept(run_cli, model: Path) -> None:
     before = model.read_bytes()
-    result = run_cli("savings", model, TEXT, "--trace", model)
+    result = run_cli("savings", "-m", model, "-t", TEXT, "--trace", model)
     assert result.code == foretype.OutputError.exit_code
     assert "is also an input" in _one_line(result.err)
     assert model.read_bytes() == before
@@ -50,7 +50,7 @@ def test_trace_onto_the_model_is_refused_and_the_model_kept(run_cli, model: Path
 def test_trace_onto_the_test_text_is_refused(run_cli, model: Path, tmp_path: Path) -> None:
     text = tmp_path / "small.txt"
     text.write_text(TEXT.read_text(encoding="utf-8"), encoding="utf-8")
-    result = run_cli("savings", model, text, "--trace", text)
+    result = run_cli("savings", "-m", model, "-t", text, "--trace", text)
     assert result.code == foretype.OutputError.exit_code and "is also an input" in result.err
     assert text.read_text(encoding="utf-8") == TEXT.read_text(encoding="utf-8")
 
@@ -66,7 +66,7 @@ def test_build_onto_its_own_corpus_is_refused(run_cli, tmp_path: Path) -> None:
 def test_an_input_reached_through_a_link_is_still_an_input(run_cli, model: Path, tmp_path: Path) -> None:
     link = tmp_path / "alias.jsonl"
     link.symlink_to(model)
-    result = run_cli("savings", model, TEXT, "--trace", link)
+    result = run_cli("savings", "-m", model, "-t", TEXT, "--trace", link)
     assert result.code == foretype.OutputError.exit_code and "is also an input" in result.err
     assert link.is_symlink()
 
@@ -75,19 +75,19 @@ def test_an_input_reached_through_a_link_is_still_an_input(run_cli, model: Path,
 def test_trace_does_not_replace_another_kind_of_file_without_force(run_cli, model: Path, tmp_path: Path) -> None:
     notes = tmp_path / "notes.txt"
     notes.write_text("my notes\n", encoding="utf-8")
-    result = run_cli("savings", model, TEXT, "--trace", notes)
+    result = run_cli("savings", "-m", model, "-t", TEXT, "--trace", notes)
     assert result.code == foretype.OutputError.exit_code
     assert "--force" in _one_line(result.err) and "not a trace" in result.err
     assert notes.read_text(encoding="utf-8") == "my notes\n"
-    assert run_cli("savings", model, TEXT, "--trace", notes, "--force").code == 0
+    assert run_cli("savings", "-m", model, "-t", TEXT, "--trace", notes, "--force").code == 0
     assert json.loads(notes.read_text(encoding="utf-8").splitlines()[0])["word"]
 
 
 def test_a_trace_replaces_a_trace(run_cli, model: Path, tmp_path: Path) -> None:
     trace = tmp_path / "words.jsonl"
-    assert run_cli("savings", model, TEXT, "--trace", trace).code == 0
+    assert run_cli("savings", "-m", model, "-t", TEXT, "--trace", trace).code == 0
     first = trace.read_text(encoding="utf-8")
-    assert run_cli("savings", model, TEXT, "--trace", trace, "-k", "1").code == 0
+    assert run_cli("savings", "-m", model, "-t", TEXT, "--trace", trace, "-k", "1").code == 0
     assert trace.read_text(encoding="utf-8") != first
 
 
@@ -105,19 +105,19 @@ def test_build_replaces_a_model_but_not_a_text_file(run_cli, model: Path, tmp_pa
 def test_learned_export_does_not_replace_another_file(run_cli, model: Path, tmp_path: Path) -> None:
     other = tmp_path / "other.json"
     other.write_text('{"mine": 1}\n', encoding="utf-8")
-    result = run_cli("learned", model, "--export", other)
+    result = run_cli("learned", "export", "-m", model, "-o", other)
     assert result.code == foretype.OutputError.exit_code and "--force" in _one_line(result.err)
     assert other.read_text(encoding="utf-8") == '{"mine": 1}\n'
     export = tmp_path / "export.json"
-    assert run_cli("learned", model, "--export", export).code == 0
-    assert run_cli("learned", model, "--export", export).code == 0  # an export replaces an export
+    assert run_cli("learned", "export", "-m", model, "-o", export).code == 0
+    assert run_cli("learned", "export", "-m", model, "-o", export).code == 0  # an export replaces an export
     assert not list(tmp_path.glob("*.lock"))
 
 
 def test_save_user_refuses_another_file_and_leaves_no_lock(run_cli, model: Path, tmp_path: Path) -> None:
     other = tmp_path / "keep.txt"
     other.write_text("keep\n", encoding="utf-8")
-    result = run_cli("savings", model, TEXT, "--adapt", "--save-user", other)
+    result = run_cli("savings", "-m", model, "-t", TEXT, "--adapt", "--save-user", other)
     assert result.code == foretype.OutputError.exit_code and "--force" in _one_line(result.err)
     assert other.read_text(encoding="utf-8") == "keep\n"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["good.model", "keep.txt"]
@@ -126,7 +126,7 @@ def test_save_user_refuses_another_file_and_leaves_no_lock(run_cli, model: Path,
 # ------------------------------------------------------------ -, links, FIFOs, modes
 def test_dash_is_standard_output_for_a_trace(run_cli, model: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     monkeypatch.chdir(tmp_path)
-    result = run_cli("savings", model, TEXT, "--trace", "-")
+    result = run_cli("savings", "-m", model, "-t", TEXT, "--trace", "-")
     assert result.code == 0
     assert not (tmp_path / "-").exists()
     lines = result.out.splitlines()
@@ -150,7 +150,7 @@ def test_a_symlinked_output_stays_a_link_and_its_target_is_written(run_cli, mode
     target = tmp_path / "real.jsonl"
     link = tmp_path / "link.jsonl"
     link.symlink_to(target)
-    assert run_cli("savings", model, TEXT, "--trace", link).code == 0
+    assert run_cli("savings", "-m", model, "-t", TEXT, "--trace", link).code == 0
     assert link.is_symlink() and os.readlink(link) == str(target)
     assert json.loads(target.read_text(encoding="utf-8").splitlines()[0])["word"]
 
@@ -161,7 +161,7 @@ def test_a_fifo_is_written_into_not_replaced(model: Path, tmp_path: Path, run_cl
     received: list[bytes] = []
     reader = threading.Thread(target=lambda: received.append(fifo.read_bytes()))
     reader.start()
-    result = run_cli("savings", model, TEXT, "--trace", fifo)
+    result = run_cli("savings", "-m", model, "-t", TEXT, "--trace", fifo)
     reader.join(timeout=30)
     assert result.code == 0, result.err
     assert stat.S_ISFIFO(fifo.lstat().st_mode)

@@ -31,15 +31,19 @@ INTERNAL_ERROR = 70
 
 
 class _Parser(argparse.ArgumentParser):
-    """An argument parser whose usage errors are one line and exit code 2."""
+    """An argument parser whose usage errors are one line and exit code 2, naming the sub-command's help."""
+
+    deepest = ""
+    """The program name of the innermost sub-command parsed so far (arguments it left over are reported by the top parser)."""
+
+    def parse_known_args(self, args=None, namespace=None):  # type: ignore[no-untyped-def, override]
+        _Parser.deepest = self.prog
+        return super().parse_known_args(args, namespace)
 
     def error(self, message: str) -> None:  # type: ignore[override]
-        command = " ".join(["foretype", self._command()]).strip()
-        print(f"foretype: {message} (see '{command} --help')", file=sys.stderr)
+        prog = _Parser.deepest if message.startswith("unrecognized arguments") and _Parser.deepest.startswith(self.prog) else self.prog
+        print(f"foretype: {message} (see '{prog} --help')", file=sys.stderr)
         raise SystemExit(OptionError.exit_code)
-
-    def _command(self) -> str:
-        return self.prog.split(" ", 1)[1] if " " in self.prog else ""
 
 
 def make_parser() -> argparse.ArgumentParser:

@@ -75,7 +75,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     add_model_option(common, "the model whose learned file this is")
     common.add_argument("--user", metavar="FILE", help="the learned file (default: MODEL.learned beside the model)")
     add_json_option(common)
-    actions = group.add_subparsers(dest="action", parser_class=type(group), required=True)
+    actions = group.add_subparsers(dest="action", metavar="{" + ",".join(ACTIONS) + "}", parser_class=type(group), required=True)
 
     def action(name: str, summary: str, handler: Callable[[argparse.Namespace], int]) -> argparse.ArgumentParser:
         p = actions.add_parser(name, parents=[common], help=summary, description=summary[0].upper() + summary[1:] + ".")
@@ -83,7 +83,7 @@ def register(commands: argparse._SubParsersAction) -> None:
         return p
 
     p = action("show", "list what was learned: settings, counts, most used and new words, the never-suggest list", run_show)
-    p.add_argument("--words", type=positive_int, default=12, metavar="N", help="list the N most used words and new words (default 12)")
+    p.add_argument("--words", dest="top", type=positive_int, default=12, metavar="N", help="list the N most used words and new words (default 12)")
     p = action("feed", "learn from a text file of your own writing (kept whole or not at all)", run_feed)
     p.add_argument("text", metavar="TEXTFILE", help="the text to learn from ('-': standard input)")
     p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
@@ -158,7 +158,7 @@ def _change(args: argparse.Namespace, apply: Callable[[Any, list[str]], None]) -
 def _report(args: argparse.Namespace, model: Any, base: LanguageModel, path: Path, changes: list[str], stream: TextIO | None = None) -> int:
     from ..adapt.store import PRIVACY_NOTE, learned_file_facts
 
-    summary = _summary(model, base, path, learned_file_facts(path), getattr(args, "words", 12))
+    summary = _summary(model, base, path, learned_file_facts(path), getattr(args, "top", 12))
     if args.json and stream is None:
         print_json({"model": model_name(args.model), **summary, "changes": changes, "note": PRIVACY_NOTE})
         return 0

@@ -22,14 +22,10 @@ def register(commands: argparse._SubParsersAction) -> None:
     )
     add_model_option(p)
     p.add_argument("-k", type=positive_int, default=5, help="suggestions shown at each position, 1 to 9 (default 5)")
-    p.add_argument(
-        "--learn",
-        dest="learning",
-        action=argparse.BooleanOptionalAction,
-        default=None,
-        help="switch learning on (--learn) or off (--no-learn) before the pad opens (kept in MODEL.learned, like F6; default: as it was)",
-    )
-    p.set_defaults(handler=run_pad)
+    learn = p.add_mutually_exclusive_group()
+    learn.add_argument("--learn", dest="learning", action="store_const", const=True, help="switch learning on before the pad opens (kept in MODEL.learned, like F6)")
+    learn.add_argument("--no-learn", dest="learning", action="store_const", const=False, help="switch learning off before the pad opens (kept in MODEL.learned, like F6)")
+    p.set_defaults(handler=run_pad, learning=None)
 
 
 def run_pad(args: argparse.Namespace) -> int:
