@@ -250,3 +250,35 @@ def test_the_pads_save_writes_into_a_fifo_and_never_replaces_a_file(tmp_path: Pa
     finally:
         os.umask(old)
     assert stat.S_IMODE(fresh.stat().st_mode) == 0o644  # 0666 & ~022, common practice
+
+
+def _lock_files(folder: Path) -> list[str]:
+    return sorted(p.name for p in folder.iterdir() if p.name.endswith(".lock"))
+
+
+def test_a_learned_files_lock_goes_when_its_writer_is_done(run_cli, model: Path, tmp_path: Path) -> None:
+    for change in (["block", "dam*"], ["forget", "ferry"], ["off"], ["on"]):
+        assert run_cli("learned", change[0], "-m", model, *change[1:]).code == 0
+        assert _lock_files(tmp_path) == [] and Path(f"{model}.learned").is_file()
+    after = tmp_path / "after.learned"
+    assert run_cli("savings", "-m", model, "-t", TEXT, "--adapt", "--save-user", after).code == 0
+    assert after.is_file() and _lock_files(tmp_path) == []
+
+
+@pytest.mark.parametrize("action", [["show"], ["block", "dam*"], ["wipe"]])
+def test_no_lock_file_beside_a_refused_learned_path_and_nothing_of_it_touched(run_cli, model: Path, tmp_path: Path, action: list[str]) -> None:
+    notes = tmp_path / "notes.txt"
+    notes.write_text("my own notes\n", encoding="utf-8")
+    result = run_cli("learned", action[0], "-m", model, "--user", notes, *action[1:])
+    assert result.code == foretype.ModelFileError.exit_code and _one_line(result.err) == f"foretype: {notes}: not a foretype learned file"
+    assert notes.read_text(encoding="utf-8") == "my own notes\n" and _lock_files(tmp_path) == []
+
+
+def test_a_learned_file_cannot_go_to_standard_output_and_leaves_nothing_named_dash(run_cli, model: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.chdir(tmp_path)
+    before = sorted(p.name for p in tmp_path.iterdir())
+    saved = run_cli("savings", "-m", model, "-t", TEXT, "--adapt", "--save-user", "-")
+    assert saved.code == foretype.OptionError.exit_code and "cannot be '-'" in _one_line(saved.err)
+    kept = run_cli("learned", "block", "-m", model, "--user", "-", "dam*")
+    assert kept.code == foretype.OptionError.exit_code and "cannot be '-'" in _one_line(kept.err)
+    assert sorted(p.name for p in tmp_path.iterdir()) == before

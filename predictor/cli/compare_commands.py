@@ -11,9 +11,10 @@ from typing import Any
 from ..compare import ComparedSystem, compare_chart, comparison_csv, comparison_json, format_comparison, label_systems, run_comparison, sentences_csv
 from ..compare.runner import TESTS
 from ..errors import OptionError
-from ..outputs import KindCheck, check_output, write_text_output
+from ..outputs import KindCheck, check_output, is_stdout, write_text_output
 from ..simulate import TypistSettings
 from .access_options import add_access_options, scanning_settings
+from .measure_commands import report_stream
 from .output import (
     SVG_CHART,
     StageBars,
@@ -75,6 +76,8 @@ def run_compare(args: argparse.Namespace) -> int:
     """foretype compare."""
     paths: list[str | None] = list(args.model) or [None]
     outputs = [(path, render, kind, name) for path, render, kind, name in _outputs(args) if path]
+    if sum(is_stdout(path) for path, *_ in outputs) > 1:
+        raise OptionError("only one of --csv, --sentences and --chart can go to standard output ('-')")
     for path, _, kind, name in outputs:
         check_output(path, inputs=[args.test, *[p for p in paths if p is not None]], kind=kind, kind_name=name, force=args.force)
     if args.resamples < 1:
@@ -107,15 +110,16 @@ def run_compare(args: argparse.Namespace) -> int:
         stages.close()
     for path, render, _, _ in outputs:
         write_text_output(path, render(result))
-    written = [path for path, *_ in outputs]
-    if args.json:
-        print_json(comparison_json(result))
-        return 0
-    if None in paths:
-        print_demo_note(None)
-    print(format_comparison(result))
-    if written:
-        print("wrote " + ", ".join(written))
+    written = [path for path, *_ in outputs if not is_stdout(path)]
+    with report_stream(next((path for path, *_ in outputs if is_stdout(path)), None)):
+        if args.json:
+            print_json(comparison_json(result))
+            return 0
+        if None in paths:
+            print_demo_note(None)
+        print(format_comparison(result))
+        if written:
+            print("wrote " + ", ".join(written))
     return 0
 
 
