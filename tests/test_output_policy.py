@@ -282,3 +282,11 @@ def test_a_learned_file_cannot_go_to_standard_output_and_leaves_nothing_named_da
     kept = run_cli("learned", "block", "-m", model, "--user", "-", "dam*")
     assert kept.code == foretype.OptionError.exit_code and "cannot be '-'" in _one_line(kept.err)
     assert sorted(p.name for p in tmp_path.iterdir()) == before
+
+
+def test_a_learned_export_to_dash_goes_to_standard_output(run_cli, model: Path, tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.chdir(tmp_path)
+    assert run_cli("learned", "block", "-m", model, "dam*").code == 0
+    result = run_cli("learned", "export", "-m", model, "-o", "-")
+    assert result.code == 0 and json.loads(result.out)["never_suggest"] == ["dam*"]
+    assert "exported to standard output" in result.err and not (tmp_path / "-").exists()

@@ -13,7 +13,8 @@ from ..errors import OptionError
 from ..modelfile.encoding import ENCODINGS, FLOAT32
 from ..modelfile.format import check_target
 from ..outputs import check_output
-from .output import add_force_option, add_json_option, add_model_option, model_name, open_model, plural, print_demo_note, print_json
+from ..text import plural
+from .output import add_force_option, add_json_option, add_model_option, model_name, open_model, print_demo_note, print_json
 
 
 def register(commands: argparse._SubParsersAction) -> None:

@@ -18,7 +18,7 @@ from typing import Any, TextIO
 from ..errors import ModelFileError, OptionError, OutputError
 from ..outputs import check_output, is_stdout
 from ..query.model import LanguageModel
-from ..text import iter_sentences
+from ..text import iter_sentences, plural
 from .output import (
     add_force_option,
     add_json_option,
@@ -27,7 +27,6 @@ from .output import (
     is_learned_file,
     model_name,
     open_model,
-    plural,
     positive_int,
     print_demo_note,
     print_json,
@@ -201,7 +200,7 @@ def run_export(args: argparse.Namespace) -> int:
     base = open_model(args.model)
     model = load_learned(path, base)
     exported = export_learned(model, args.output)
-    changes = [f"exported to {args.output}: {plural(exported['words'], 'word')}, {plural(exported['bigrams'], 'bigram')}, {plural(exported['trigrams'], 'trigram')}"]
+    changes = [f"exported to {'standard output' if is_stdout(args.output) else args.output}: {plural(exported['words'], 'word')}, {plural(exported['bigrams'], 'bigram')}, {plural(exported['trigrams'], 'trigram')}"]
     return _report(args, model, base, path, changes, sys.stderr if is_stdout(args.output) else None)
 
 

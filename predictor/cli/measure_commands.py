@@ -11,6 +11,7 @@ from ..errors import OptionError
 from ..outputs import check_output, is_stdout
 from ..simulate import format_report, simulate, write_trace
 from ..simulate.report import is_trace_file
+from ..text import plural
 from .access_options import add_access_options, run_scanning_savings, scanning_settings
 from .learn_commands import add_adapt_options, check_adapt_options, check_learned_output, run_adaptive_savings
 from .output import (
@@ -20,7 +21,6 @@ from .output import (
     describe_rule,
     model_name,
     open_model,
-    plural,
     print_demo_note,
     print_json,
     progress_bar,

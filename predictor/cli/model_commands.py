@@ -19,6 +19,7 @@ from ..modelfile.encoding import ENCODINGS
 from ..modelfile.format import check_target
 from ..outputs import is_stdout
 from ..query.verify import verify_model
+from ..text import plural
 from .output import (
     add_corpus_options,
     add_json_option,
@@ -29,7 +30,6 @@ from .output import (
     is_model_file,
     model_name,
     open_model,
-    plural,
     positive_int,
     print_demo_note,
     print_json,

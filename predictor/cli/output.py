@@ -68,11 +68,6 @@ def print_demo_note(path: str | None, stream: TextIO | None = None) -> None:
         print(note, file=stream if stream is not None else sys.stdout)
 
 
-def plural(count: int, noun: str, nouns: str | None = None) -> str:
-    """``1 file``, ``2 files``: a count with its noun in the right number (thousands separated)."""
-    return f"{count:,} {noun if count == 1 else nouns or noun + 's'}"
-
-
 def probability(value: float) -> str:
     """A probability for text output with four significant digits (``0.0003125``, never ``0.000000``)."""
     return f"{value:.4g}"

@@ -12,7 +12,8 @@ from ..counting.memory import parse_size
 from ..errors import OptionError
 from ..modelfile.format import check_target
 from ..query.model import LanguageModel, load
-from .output import add_json_option, add_model_option, model_name, open_model, plural, positive_int, print_demo_note, print_json
+from ..text import plural
+from .output import add_json_option, add_model_option, model_name, open_model, positive_int, print_demo_note, print_json
 
 SHRINK_CRITERIA = ("entropy", "prediction")
 """Criteria ``shrink`` offers on a built model (count cutoffs need the counts: ``build --cutoffs``)."""

@@ -11,8 +11,9 @@ from typing import TYPE_CHECKING
 from ..errors import OptionError
 from ..estimate import METHODS
 from ..outputs import check_output_folder
+from ..text import plural
 from .access_options import add_access_options, scanning_settings
-from .output import StageBars, add_force_option, add_json_option, add_test_option, plural, print_json, read_words
+from .output import StageBars, add_force_option, add_json_option, add_test_option, print_json, read_words
 from .typist_options import add_typist_options, typist_settings, whole_number
 
 if TYPE_CHECKING:
