@@ -79,7 +79,8 @@ def run_compare(args: argparse.Namespace) -> int:
     if sum(is_stdout(path) for path, *_ in outputs) > 1:
         raise OptionError("only one of --csv, --sentences and --chart can go to standard output ('-')")
     for path, _, kind, name in outputs:
-        check_output(path, inputs=[args.test, *[p for p in paths if p is not None]], kind=kind, kind_name=name, force=args.force)
+        option = name.split(" ")[0]
+        check_output(path, inputs=[args.test, *[p for p in paths if p is not None]], kind=kind, kind_name=name.split(" ", 1)[1], force=args.force, option=option)
     if args.resamples < 1:
         raise OptionError(f"--resamples must be at least 1, not {args.resamples}")
     if not 0 < args.confidence < 1:
@@ -124,9 +125,9 @@ def run_compare(args: argparse.Namespace) -> int:
 
 
 def _outputs(args: argparse.Namespace) -> list[tuple[str | None, Callable[[Any], str], KindCheck, str]]:
-    """Each file compare may write: (path, how it is rendered, what it may replace, what it is called)."""
+    """Each file compare may write: (path, how it is rendered, what it may replace, its option and what it is called)."""
     return [
-        (args.csv, comparison_csv, SUMMARY_CSV, "comparison CSV"),
-        (args.sentences, sentences_csv, SENTENCES_CSV, "per-sentence CSV"),
-        (args.chart, compare_chart, SVG_CHART, "SVG chart"),
+        (args.csv, comparison_csv, SUMMARY_CSV, "--csv comparison CSV"),
+        (args.sentences, sentences_csv, SENTENCES_CSV, "--sentences per-sentence CSV"),
+        (args.chart, compare_chart, SVG_CHART, "--chart SVG chart"),
     ]
