@@ -92,7 +92,7 @@ def test_sigint_while_the_command_line_starts_is_one_line_and_exit_130(tmp_path:
     for _ in range(8):
         process = subprocess.Popen(command, stdout=subprocess.PIPE, stderr=subprocess.PIPE)
         assert process.stdout is not None and process.stdout.readline() == b"started\n"
-        time.sleep(rng.uniform(0.05, 0.8 * whole))  # past Python's search for the package, before the command ends
+        time.sleep(rng.uniform(0.1, 0.8 * whole))  # past Python's search for the package, before the command ends
         process.send_signal(signal.SIGINT)
         out, err = process.communicate(timeout=60)
         codes.append(process.returncode)
