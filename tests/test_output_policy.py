@@ -290,3 +290,14 @@ def test_a_learned_export_to_dash_goes_to_standard_output(run_cli, model: Path, 
     result = run_cli("learned", "export", "-m", model, "-o", "-")
     assert result.code == 0 and json.loads(result.out)["never_suggest"] == ["dam*"]
     assert "exported to standard output" in result.err and not (tmp_path / "-").exists()
+
+
+def test_a_second_writer_is_refused_while_the_first_holds_the_lock(run_cli, model: Path, tmp_path: Path) -> None:
+    from foretype.adapt.store import LearnedFile
+
+    with LearnedFile(Path(f"{model}.learned"), foretype.load(model)):
+        refused = run_cli("learned", "block", "-m", model, "dam*")
+        assert refused.code == foretype.OutputError.exit_code and "in use by another foretype process" in _one_line(refused.err)
+        assert _lock_files(tmp_path) == [f"{model.name}.learned.lock"]  # the holder's lock stays while it writes
+    assert _lock_files(tmp_path) == []
+    assert run_cli("learned", "block", "-m", model, "dam*").code == 0 and _lock_files(tmp_path) == []
