@@ -15,6 +15,7 @@ import sys
 
 TYPE_CHECKING = False  # kept light: see the module docstring
 if TYPE_CHECKING:
+    import argparse
     from collections.abc import Sequence
 
 INTERRUPTED = 130
@@ -40,7 +41,7 @@ def interrupted() -> int:
     return INTERRUPTED
 
 
-def make_parser():  # type: ignore[no-untyped-def]
+def make_parser() -> argparse.ArgumentParser:
     """Build the argument parser with every subcommand (see :func:`foretype.cli.app.make_parser`)."""
     from .app import make_parser as make
 
