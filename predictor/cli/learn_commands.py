@@ -200,7 +200,9 @@ def run_export(args: argparse.Namespace) -> int:
     base = open_model(args.model)
     model = load_learned(path, base)
     exported = export_learned(model, args.output)
-    changes = [f"exported to {'standard output' if is_stdout(args.output) else args.output}: {plural(exported['words'], 'word')}, {plural(exported['bigrams'], 'bigram')}, {plural(exported['trigrams'], 'trigram')}"]
+    changes = [
+        f"exported to {'standard output' if is_stdout(args.output) else args.output}: {plural(exported['words'], 'word')}, {plural(exported['bigrams'], 'bigram')}, {plural(exported['trigrams'], 'trigram')}"
+    ]
     return _report(args, model, base, path, changes, sys.stderr if is_stdout(args.output) else None)
 
 
