@@ -110,3 +110,23 @@ def test_info_json_has_the_documented_keys(corpus, tmp_path, run_cli):
     assert set(info["ngrams"]) == {"1", "2", "3"}
     assert info["file_bytes"] == path.stat().st_size
     assert info["possible_trigrams"] == 802**3
+
+
+def test_every_section_a_model_file_holds_is_a_declared_field_of_its_arrays(corpus, tmp_path):
+    # The typed arrays are the one list of sections: each section written is a field whose declared
+    # dtypes allow what the build produced, and the arrays read back are read-only views of those bytes.
+    from foretype.modelfile.format import read_model_file
+    from foretype.modelfile.model_arrays import SPECS
+
+    path = tmp_path / "kjv.model"
+    foretype.build([corpus], vocab_size=500).save(path)
+    raw = read_model_file(path).sections
+    declared = {spec.section: spec for spec in SPECS}
+    assert set(raw) <= set(declared)
+    for name, array in raw.items():
+        assert array.dtype.name in declared[name].dtypes
+    loaded = foretype.load(path)
+    for name, array in raw.items():
+        field = getattr(loaded.arrays, declared[name].field)
+        assert np.array_equal(field, array) and field.dtype == array.dtype and not field.flags.writeable
+    assert loaded.sections.keys() == raw.keys()

@@ -125,7 +125,7 @@ cdef class QueryCore:
     """Exact top-k, probabilities and orders over one model's arrays (see the module docstring).
 
     Args:
-        sections: the model's arrays after the load checks (or as built).
+        arrays: the model's arrays (``ModelArrays``) after the load checks (or as built).
         interpolated: whether stored values add to the lower order (else they replace it).
         table2, table3: float64 value of every code of the level's stored
             values (8- or 16-bit codes), or None where the level stores float32.
@@ -153,26 +153,26 @@ cdef class QueryCore:
         self.best.a3 = NULL
         self.capacity = 0
 
-    def __init__(self, sections, bint interpolated, table2, table3):
+    def __init__(self, arrays, bint interpolated, table2, table3):
         keep = []
         self.interpolated = interpolated
-        self.size = len(sections["vocab.words_off"]) - 1
+        self.size = len(arrays.vocab_words_off) - 1
         self.start = self.size + 2
-        self.n2 = len(sections["l2.word"])
-        p1 = np.ascontiguousarray(sections["p1"], dtype=np.float64)
-        off2 = np.ascontiguousarray(sections["l2.off"], dtype=np.int64)
-        g2 = np.ascontiguousarray(sections["l2.gamma"], dtype=np.float64)
+        self.n2 = len(arrays.l2_word)
+        p1 = np.ascontiguousarray(arrays.p1, dtype=np.float64)
+        off2 = np.ascontiguousarray(arrays.l2_off, dtype=np.int64)
+        g2 = np.ascontiguousarray(arrays.l2_gamma, dtype=np.float64)
         self._set(&self.p1, p1, keep)
         self._set(&self.off2, off2, keep)
         self._set(&self.g2, g2, keep)
-        self._set(&self.w2, sections["l2.word"], keep)
-        self._set(&self.a2, sections["l2.value"], keep)
-        self._set(&self.off3, sections["l3.off"], keep)
-        self._set(&self.w3, sections["l3.word"], keep)
-        self._set(&self.a3, sections["l3.value"], keep)
-        self._set(&self.g3, sections["l3.gamma"], keep)
-        self._set(&self.order, sections["vocab.order"], keep)
-        for level, values, table in (("l2", sections["l2.value"], table2), ("l3", sections["l3.value"], table3)):
+        self._set(&self.w2, arrays.l2_word, keep)
+        self._set(&self.a2, arrays.l2_value, keep)
+        self._set(&self.off3, arrays.l3_off, keep)
+        self._set(&self.w3, arrays.l3_word, keep)
+        self._set(&self.a3, arrays.l3_value, keep)
+        self._set(&self.g3, arrays.l3_gamma, keep)
+        self._set(&self.order, arrays.vocab_order, keep)
+        for level, values, table in (("l2", arrays.l2_value, table2), ("l3", arrays.l3_value, table3)):
             codes = {"uint8": 256, "uint16": 65536}.get(values.dtype.name)
             if codes is None and values.dtype.name != "float32":
                 raise ValueError(f"{level} values of type {values.dtype.name} are not read by the compiled core")
@@ -180,13 +180,13 @@ cdef class QueryCore:
                 raise ValueError(f"{level} values need a table of {codes} entries")
         self._set(&self.table2, np.ascontiguousarray(table2 if table2 is not None else np.zeros(1), dtype=np.float64), keep)
         self._set(&self.table3, np.ascontiguousarray(table3 if table3 is not None else np.zeros(1), dtype=np.float64), keep)
-        self.ranked = "rank2.off" in sections
+        self.ranked = arrays.rank2_off is not None
         if self.ranked:
-            self._set(&self.r2off, np.ascontiguousarray(sections["rank2.off"], dtype=np.int64), keep)
-            self._set(&self.r2ids, sections["rank2.ids"], keep)
-            self._set(&self.r3slot, np.ascontiguousarray(sections["rank3.slot"], dtype=np.int64), keep)
-            self._set(&self.r3off, np.ascontiguousarray(sections["rank3.off"], dtype=np.int64), keep)
-            self._set(&self.r3ids, sections["rank3.ids"], keep)
+            self._set(&self.r2off, np.ascontiguousarray(arrays.rank2_off, dtype=np.int64), keep)
+            self._set(&self.r2ids, arrays.rank2_ids, keep)
+            self._set(&self.r3slot, np.ascontiguousarray(arrays.rank3_slot, dtype=np.int64), keep)
+            self._set(&self.r3off, np.ascontiguousarray(arrays.rank3_off, dtype=np.int64), keep)
+            self._set(&self.r3ids, arrays.rank3_ids, keep)
         self._keep = keep
         self.ctx.u = -1
         self.ctx.v = -1

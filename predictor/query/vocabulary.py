@@ -20,6 +20,7 @@ import marisa_trie
 import numpy as np
 
 from ..arrays import offsets_dtype, pack_strings, unpack_string, word_id_dtype
+from ..modelfile.model_arrays import ModelArrays
 from ..text import model_form
 
 START = "<s>"
@@ -58,29 +59,30 @@ class PrefixRange:
 class Vocabulary:
     """The suggestable words of a model, their display forms and the prefix index."""
 
-    def __init__(self, sections: dict[str, np.ndarray]) -> None:
-        """Wrap the vocabulary sections of a model (built or memory-mapped).
+    def __init__(self, arrays: ModelArrays) -> None:
+        """Wrap the vocabulary arrays of a model (built or memory-mapped).
 
         Args:
-            sections: the ``vocab.*`` arrays described in :func:`vocabulary_sections`.
+            arrays: the model's arrays (the ``vocab_*`` ones described in
+                :func:`vocabulary_sections`, and ``p1``).
         """
         self._trie = marisa_trie.Trie()
-        self._trie.map(sections["vocab.trie"].data)
-        self._key_lo = sections["vocab.key_lo"]
-        self._key_hi = sections["vocab.key_hi"]
-        self._key_order = sections["vocab.key_order"]
-        self.order = sections["vocab.order"]
-        self._unlisted = int(np.iinfo(sections["vocab.key_order"].dtype).max)
-        """int32 array: per prefix, the range's word ids by unigram probability (root first)."""
-        self._words_blob = sections["vocab.words_blob"]
-        self._words_off = sections["vocab.words_off"]
-        self._display_blob = sections["vocab.display_blob"]
-        self._display_off = sections["vocab.display_off"]
+        self._trie.map(arrays.vocab_trie.data)
+        self._key_lo = arrays.vocab_key_lo
+        self._key_hi = arrays.vocab_key_hi
+        self._key_order = arrays.vocab_key_order
+        self.order = arrays.vocab_order
+        """Per prefix, the range's word ids by unigram probability (root first)."""
+        self._unlisted = int(np.iinfo(arrays.vocab_key_order.dtype).max)
+        self._words_blob = arrays.vocab_words_blob
+        self._words_off = arrays.vocab_words_off
+        self._display_blob = arrays.vocab_display_blob
+        self._display_off = arrays.vocab_display_off
         self.size = len(self._words_off) - 1
         """How many suggestable words there are (V)."""
         self._word_cache: dict[int, str] = {}
         self._display_cache: dict[int, str] = {}
-        self._unigram = sections["p1"]
+        self._unigram = arrays.p1
         self._root = PrefixRange(0, self.size, 0)
 
     @property

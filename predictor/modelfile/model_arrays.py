@@ -1,0 +1,222 @@
+"""The arrays of a model: one typed, frozen structure with a field per file section.
+
+Each field's declaration says everything the load checks need to know about
+its section: the section's name in the file, the dtypes it may have (from the
+field's ``NDArray[...]`` annotation), whether it is required (a field typed
+``... | None`` is optional), which group an optional section belongs to
+(ranked lists come all or none; codebooks come with 8-bit values) and how long
+it must be, given the vocabulary size and the number of stored entries.
+:mod:`foretype.modelfile.integrity` reads its per-section tables from here, so
+a new section is declared once.
+
+Level 1 is a dense unigram array over the V + 2 outcomes; level 2 lists, per
+context word v, the words stored after it (sorted by id) with a value each and
+one lower-order weight per context; level 3 lists, per bigram entry (plus one
+slot for ``START START``), the words stored after the pair.  The ``vocab_*``
+fields are the prefix index and the string tables
+(:func:`foretype.query.vocabulary.vocabulary_sections`); the ``rank*`` fields
+the ranked continuation lists (:mod:`foretype.query.ranked`).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import types
+import typing
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass
+from typing import Any, NamedTuple
+
+import numpy as np
+from numpy.typing import NDArray
+
+from ..errors import ModelFileError
+
+WordIds = NDArray[np.uint16 | np.int32]
+"""Word ids: uint16 while the V + 3 ids fit, else int32."""
+Offsets = NDArray[np.uint32 | np.uint64]
+"""Where each context's (or string's, or list's) entries start, with one end entry."""
+Floats = NDArray[np.float32 | np.float64]
+Values = NDArray[np.uint8 | np.uint16 | np.float32]
+"""Stored values: 8-bit codebook codes, 16-bit log codes or float32 (the header's ``value_encoding``)."""
+Bytes = NDArray[np.uint8]
+Bounds = NDArray[np.int32]
+
+REQUIRED = "required"
+RANKED = "ranked"
+"""The group of the ranked-list sections: a model has all of them or none."""
+CODEBOOKS = "codebooks"
+"""The group of the codebooks: present exactly where the values are 8-bit codes."""
+
+
+class Counts(NamedTuple):
+    """The numbers the sections' lengths follow from.
+
+    Attributes:
+        words: V, the number of suggestable words.
+        n2: stored bigram entries (length of ``l2.word``).
+        n3: stored trigram entries (length of ``l3.word``).
+        keys: prefix-index keys (length of ``vocab.key_lo``).
+        ranked3: context pairs with a ranked list (length of ``rank3.slot``).
+    """
+
+    words: int
+    n2: int
+    n3: int
+    keys: int
+    ranked3: int
+
+
+Length = Callable[[Counts], int]
+
+
+def _section(name: str, length: Length | None = None, group: str = REQUIRED) -> Any:
+    """Declare a field as the file section ``name`` (``length``: its length given the counts, None: free)."""
+    return dataclasses.field(metadata={"section": name, "length": length, "group": group})
+
+
+def _optional(name: str, group: str, length: Length | None = None) -> Any:
+    return dataclasses.field(default=None, metadata={"section": name, "length": length, "group": group})
+
+
+@dataclass(frozen=True, eq=False)
+class ModelArrays:
+    """A model's arrays (read-only views of the mapped file, or arrays just built).
+
+    Every array is one-dimensional.  Lengths (V words, n2 bigram entries, n3
+    trigram entries) are those the load checks enforce.
+    """
+
+    p1: Floats = _section("p1", lambda n: n.words + 2)
+    """Unigram probability of each outcome: words, UNKNOWN, END (V + 2)."""
+    l2_off: Offsets = _section("l2.off", lambda n: n.words + 4)
+    """Per context word (V + 3 contexts), where its bigram entries start; one end entry."""
+    l2_word: WordIds = _section("l2.word", lambda n: n.n2)
+    """The word of each bigram entry, sorted within a context."""
+    l2_value: Values = _section("l2.value", lambda n: n.n2)
+    """The stored value of each bigram entry."""
+    l2_gamma: Floats = _section("l2.gamma", lambda n: n.words + 3)
+    """The lower-order weight of each context word."""
+    l3_off: Offsets = _section("l3.off", lambda n: n.n2 + 2)
+    """Per bigram entry (plus the ``START START`` slot), where its trigram entries start; one end entry."""
+    l3_word: WordIds = _section("l3.word", lambda n: n.n3)
+    """The word of each trigram entry, sorted within a context pair."""
+    l3_value: Values = _section("l3.value", lambda n: n.n3)
+    """The stored value of each trigram entry."""
+    l3_gamma: Floats = _section("l3.gamma", lambda n: n.n2 + 1)
+    """The lower-order weight of each context pair."""
+    vocab_trie: Bytes = _section("vocab.trie")
+    """The marisa-trie image holding every prefix of every word."""
+    vocab_key_lo: Bounds = _section("vocab.key_lo")
+    """Per trie key: the first id with the prefix, or ``-(first id) - 1`` when the key is not itself a word."""
+    vocab_key_hi: Bounds = _section("vocab.key_hi", lambda n: n.keys)
+    """Per trie key: one past the last id with the prefix."""
+    vocab_key_order: Offsets = _section("vocab.key_order", lambda n: n.keys)
+    """Per trie key: where its range's unigram list starts in ``vocab_order`` (the dtype's maximum: no list)."""
+    vocab_order: WordIds = _section("vocab.order")
+    """The whole vocabulary by unigram probability, then the lists of the longer prefix ranges."""
+    vocab_words_blob: Bytes = _section("vocab.words_blob")
+    """The words' model forms, UTF-8, concatenated."""
+    vocab_words_off: Offsets = _section("vocab.words_off", lambda n: n.words + 1)
+    vocab_display_blob: Bytes = _section("vocab.display_blob")
+    """The words' display forms, UTF-8, concatenated."""
+    vocab_display_off: Offsets = _section("vocab.display_off", lambda n: n.words + 1)
+    l2_codebook: NDArray[np.float64] | None = _optional("l2.codebook", CODEBOOKS, lambda n: 256)
+    """The 256 levels of 8-bit bigram values."""
+    l3_codebook: NDArray[np.float64] | None = _optional("l3.codebook", CODEBOOKS, lambda n: 256)
+    """The 256 levels of 8-bit trigram values."""
+    rank2_off: Offsets | None = _optional("rank2.off", RANKED, lambda n: n.words + 4)
+    """Per context word, where its ranked list starts in ``rank2_ids``."""
+    rank2_ids: WordIds | None = _optional("rank2.ids", RANKED)
+    rank3_slot: Offsets | None = _optional("rank3.slot", RANKED)
+    """The bigram entries (context pairs) that have a ranked list, increasing."""
+    rank3_off: Offsets | None = _optional("rank3.off", RANKED, lambda n: n.ranked3 + 1)
+    rank3_ids: WordIds | None = _optional("rank3.ids", RANKED)
+
+    @property
+    def ranked(self) -> bool:
+        """Whether the model carries ranked lists."""
+        return self.rank2_off is not None
+
+    @classmethod
+    def from_sections(cls, sections: Mapping[str, np.ndarray], name: object = "model") -> ModelArrays:
+        """The arrays of a model from its sections by name (sections no field names are left out).
+
+        Raises:
+            ModelFileError: a required section is missing (``name`` names the file in the message).
+        """
+        values: dict[str, np.ndarray] = {}
+        for spec in SPECS:
+            array = sections.get(spec.section)
+            if array is None:
+                if spec.group == REQUIRED:
+                    raise ModelFileError(f"{name}: corrupt (missing section {spec.section})")
+                continue
+            values[spec.field] = array
+        return cls(**values)
+
+    def sections(self) -> dict[str, np.ndarray]:
+        """The arrays by section name, in declaration order (absent optional sections left out), as a file stores them."""
+        out: dict[str, np.ndarray] = {}
+        for spec in SPECS:
+            array = getattr(self, spec.field)
+            if array is not None:
+                out[spec.section] = array
+        return out
+
+    def vocabulary_sections(self) -> dict[str, np.ndarray]:
+        """The ``vocab.*`` sections alone (what does not change when n-grams are pruned)."""
+        return {name: array for name, array in self.sections().items() if name.startswith("vocab.")}
+
+    def nbytes(self) -> int:
+        """The bytes of every array."""
+        return sum(int(array.nbytes) for array in self.sections().values())
+
+
+class SectionSpec(NamedTuple):
+    """What a field's declaration says about its section (read by the load checks).
+
+    Attributes:
+        field: the attribute of :class:`ModelArrays`.
+        section: the section's name in the file.
+        dtypes: the dtype names it may have.
+        group: :data:`REQUIRED`, :data:`RANKED` or :data:`CODEBOOKS`.
+        length: its length given the counts, or None where no count fixes it.
+        word_ids: it holds word ids (so its width must fit the vocabulary).
+    """
+
+    field: str
+    section: str
+    dtypes: frozenset[str]
+    group: str
+    length: Length | None
+    word_ids: bool
+
+
+def _dtype_names(hint: Any) -> tuple[frozenset[str], bool]:
+    """The dtype names an ``NDArray[...]`` annotation allows, and whether it is optional."""
+    optional = False
+    if isinstance(hint, types.UnionType) or typing.get_origin(hint) is typing.Union:
+        arms = [arm for arm in typing.get_args(hint) if arm is not type(None)]
+        optional = len(arms) < len(typing.get_args(hint))
+        (hint,) = arms
+    (scalar,) = typing.get_args(typing.get_args(hint)[1])
+    scalars = typing.get_args(scalar) or (scalar,)
+    return frozenset(np.dtype(s).name for s in scalars), optional
+
+
+def _specs() -> tuple[SectionSpec, ...]:
+    hints = typing.get_type_hints(ModelArrays)
+    word_ids, _ = _dtype_names(WordIds)
+    specs = []
+    for item in dataclasses.fields(ModelArrays):
+        dtypes, optional = _dtype_names(hints[item.name])
+        group = item.metadata["group"]
+        if optional == (group == REQUIRED):
+            raise TypeError(f"field {item.name}: optional fields need a group, required ones none")
+        specs.append(SectionSpec(item.name, item.metadata["section"], dtypes, group, item.metadata["length"], dtypes == word_ids))
+    return tuple(specs)
+
+
+SPECS = _specs()
+"""One entry per field of :class:`ModelArrays`, in declaration order."""
