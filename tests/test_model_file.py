@@ -130,3 +130,65 @@ def test_every_section_a_model_file_holds_is_a_declared_field_of_its_arrays(corp
         field = getattr(loaded.arrays, declared[name].field)
         assert np.array_equal(field, array) and field.dtype == array.dtype and not field.flags.writeable
     assert loaded.sections.keys() == raw.keys()
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.integers(0, 70_000), min_size=0, max_size=400), st.sampled_from([0xFFFF, 40, 0]))
+def test_offsets_stored_in_blocks_give_back_every_offset(steps, limit):
+    # Exactness against the plain array itself: every entry, one at a time and all at once,
+    # including blocks stored in full (a low limit makes many of them).
+    from foretype.modelfile.blocked import BlockedOffsets, from_blocks, to_blocks
+
+    offsets = np.concatenate(([0], np.cumsum(steps))).astype(np.uint32)
+    base, delta, wide = to_blocks(offsets, limit=limit)
+    assert np.array_equal(from_blocks(base, delta, wide), offsets.astype(np.int64))
+    reader = BlockedOffsets(base, delta, wide)
+    assert [reader.item(i) for i in range(len(offsets))] == offsets.tolist()
+    assert delta.dtype == np.uint16 and base.dtype == np.uint32 and len(base) == (len(offsets) + 63) // 64
+
+
+def test_a_version_2_file_with_plain_offsets_still_loads_and_answers_the_same(corpus, tmp_path):
+    # Format versions 1 and 2 store level 3's offsets whole; version 3 in blocks.
+    import struct
+
+    from foretype.modelfile.format import write_model_file
+
+    built = foretype.build([corpus], vocab_size=800)
+    path = tmp_path / "new.model"
+    built.save(path)
+    new = foretype.load(path)
+    assert new.arrays.l3_off is None and new.arrays.l3_off_delta is not None
+    old_path = tmp_path / "old.model"
+    write_model_file(old_path, built.meta, built.arrays.sections())
+    data = bytearray(old_path.read_bytes())
+    struct.pack_into("<I", data, 8, 2)  # the preamble's version (outside the header's checksum)
+    old_path.write_bytes(bytes(data))
+    old = foretype.load(old_path)
+    assert old.arrays.l3_off is not None
+    for context in PROBES:
+        assert np.array_equal(old.distribution(context), new.distribution(context))
+        assert np.array_equal(old.distribution(context), built.distribution(context))
+        for prefix in ("", "th"):
+            assert old.suggest(context, prefix, 6) == new.suggest(context, prefix, 6) == built.suggest(context, prefix, 6)
+    assert new.file_bytes < old.file_bytes
+
+
+def test_blocked_offsets_that_point_outside_their_arrays_are_refused(corpus, tmp_path):
+    import dataclasses
+
+    from foretype.errors import ModelFileError
+    from foretype.modelfile.blocked import WIDE, to_blocks
+    from foretype.modelfile.format import write_model_file
+
+    built = foretype.build([corpus], vocab_size=800)
+    base, delta, wide = to_blocks(built.arrays.l3_off)
+    cases = {
+        "points past": (np.where(np.arange(len(base)) == len(base) - 1, WIDE + len(wide), base).astype(np.uint32), delta),
+        "decreases": (base, np.where(np.arange(len(delta)) == 5, delta[5] + 1000, delta).astype(np.uint16)),
+    }
+    for phrase, (bad_base, bad_delta) in cases.items():
+        arrays = dataclasses.replace(built.arrays, l3_off=None, l3_off_base=bad_base, l3_off_delta=bad_delta, l3_off_wide=wide)
+        path = tmp_path / "bad.model"
+        write_model_file(path, built.meta, arrays.sections())
+        with pytest.raises(ModelFileError, match=phrase):
+            foretype.load(path)

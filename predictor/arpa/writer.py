@@ -95,7 +95,7 @@ def model_tables(model: LanguageModel) -> _Tables:
     off2 = s.l2_off.astype(np.int64)
     w2 = s.l2_word.astype(np.int64)
     g2 = s.l2_gamma.astype(np.float64)
-    off3 = s.l3_off.astype(np.int64)
+    off3 = s.level3_offsets()
     w3 = s.l3_word.astype(np.int64)
     g3 = s.l3_gamma.astype(np.float64)
     n2 = len(w2)

@@ -32,9 +32,10 @@ import marisa_trie
 import numpy as np
 
 from ..errors import ModelFileError
+from .blocked import wide_indices_fit
 from .format import ModelFile
 from .limits import MAX_VOCABULARY
-from .model_arrays import CODEBOOKS, RANKED, SPECS, Counts, ModelArrays
+from .model_arrays import BLOCKED3, CODEBOOKS, PLAIN3, RANKED, SPECS, Counts, ModelArrays
 
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
 _TRIE_MAGIC = b"We love Marisa."
@@ -77,9 +78,13 @@ def _check_section_types(name: object, arrays: ModelArrays) -> None:
 
 def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
     """Ranked lists all or none; values as the header's encoding says, with codebooks exactly where it needs them."""
-    ranked = [spec.section for spec in SPECS if spec.group == RANKED and getattr(arrays, spec.field) is not None]
-    if ranked and len(ranked) != sum(spec.group == RANKED for spec in SPECS):
+    if _group_state(arrays, RANKED) == "part":
         raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
+    plain, blocked = _group_state(arrays, PLAIN3), _group_state(arrays, BLOCKED3)
+    if plain == "none" and blocked == "none":
+        raise ModelFileError(f"{name}: corrupt (missing section l3.off)")
+    if "part" in (plain, blocked) or plain == blocked:
+        raise ModelFileError(f"{name}: corrupt (level-3 offsets are incomplete or stored twice)")
     for section, values in (("l2.value", arrays.l2_value), ("l3.value", arrays.l3_value)):
         if values.dtype.name not in _VALUE_TYPES[encoding]:
             raise ModelFileError(f"{name}: corrupt (section {section} does not hold {encoding} values)")
@@ -87,6 +92,12 @@ def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
         for spec in SPECS:
             if spec.group == CODEBOOKS and getattr(arrays, spec.field) is None:
                 raise ModelFileError(f"{name}: corrupt (missing section {spec.section})")
+
+
+def _group_state(arrays: ModelArrays, group: str) -> str:
+    """Whether a group's sections are ``all`` present, ``none`` or only ``part``."""
+    present = [getattr(arrays, spec.field) is not None for spec in SPECS if spec.group == group]
+    return "all" if all(present) else "none" if not any(present) else "part"
 
 
 def _check_widths(name: object, arrays: ModelArrays, size: int) -> None:
@@ -113,7 +124,9 @@ def _check_lengths(name: object, arrays: ModelArrays, size: int) -> None:
 def _check_levels(name: object, s: ModelArrays, size: int) -> None:
     """Levels 1 to 3: offsets span their entries, word ids are in range, probabilities and weights are finite."""
     _offsets(name, "l2.off", s.l2_off, len(s.l2_word))
-    _offsets(name, "l3.off", s.l3_off, len(s.l3_word))
+    if s.l3_off_base is not None and s.l3_off_wide is not None and not wide_indices_fit(s.l3_off_base, len(s.l2_word) + 2, len(s.l3_off_wide)):
+        raise ModelFileError(f"{name}: corrupt (section l3.off_base points past section l3.off_wide)")
+    _offsets(name, "l3.off", s.level3_offsets(), len(s.l3_word))
     # Predicted words are 0 .. V + 1 (words, UNKNOWN, END); START is context only.
     _ids(name, "l2.word", s.l2_word, size + 1)
     _ids(name, "l3.word", s.l3_word, size + 1)
@@ -253,7 +266,7 @@ def check_thoroughly(model: ModelFile, arrays: ModelArrays) -> None:
     s = arrays
     size = int(model.meta["vocab_size"])
     _sorted_within(name, "l2.word", s.l2_word, s.l2_off)
-    _sorted_within(name, "l3.word", s.l3_word, s.l3_off)
+    _sorted_within(name, "l3.word", s.l3_word, s.level3_offsets())
     words = _unpack_all(s.vocab_words_blob, s.vocab_words_off)
     if any(words[i] >= words[i + 1] for i in range(len(words) - 1)):
         raise ModelFileError(f"{name}: corrupt (the vocabulary is not sorted and unique)")
@@ -340,7 +353,7 @@ def _check_ranked_lists(name: object, s: ModelArrays, size: int) -> None:
         listed = s.rank2_ids[rank2[v] : rank2[v + 1]]
         if not np.array_equal(np.sort(listed), stored[stored < size]):
             raise ModelFileError(f"{name}: corrupt (the ranked list of context word {v} is not its words)")
-    off3 = s.l3_off.astype(np.int64)
+    off3 = s.level3_offsets()
     rank3 = s.rank3_off.astype(np.int64)
     for index, slot in enumerate(s.rank3_slot.astype(np.int64)):
         stored = s.l3_word[off3[slot] : off3[slot + 1]]

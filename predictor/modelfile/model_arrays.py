@@ -31,6 +31,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from ..errors import ModelFileError
+from .blocked import BlockedOffsets, blocks_for, from_blocks, to_blocks
 
 WordIds = NDArray[np.uint16 | np.int32]
 """Word ids: uint16 while the V + 3 ids fit, else int32."""
@@ -47,6 +48,10 @@ RANKED = "ranked"
 """The group of the ranked-list sections: a model has all of them or none."""
 CODEBOOKS = "codebooks"
 """The group of the codebooks: present exactly where the values are 8-bit codes."""
+PLAIN3 = "plain level-3 offsets"
+BLOCKED3 = "blocked level-3 offsets"
+"""The two layouts of level 3's offsets (a model has exactly one): ``l3.off`` in full, or in blocks
+(:mod:`foretype.modelfile.blocked`, format version 3 on)."""
 
 
 class Counts(NamedTuple):
@@ -97,8 +102,6 @@ class ModelArrays:
     """The stored value of each bigram entry."""
     l2_gamma: Floats = _section("l2.gamma", lambda n: n.words + 3)
     """The lower-order weight of each context word."""
-    l3_off: Offsets = _section("l3.off", lambda n: n.n2 + 2)
-    """Per bigram entry (plus the ``START START`` slot), where its trigram entries start; one end entry."""
     l3_word: WordIds = _section("l3.word", lambda n: n.n3)
     """The word of each trigram entry, sorted within a context pair."""
     l3_value: Values = _section("l3.value", lambda n: n.n3)
@@ -121,6 +124,15 @@ class ModelArrays:
     vocab_display_blob: Bytes = _section("vocab.display_blob")
     """The words' display forms, UTF-8, concatenated."""
     vocab_display_off: Offsets = _section("vocab.display_off", lambda n: n.words + 1)
+    l3_off: Offsets | None = _optional("l3.off", PLAIN3, lambda n: n.n2 + 2)
+    """Per bigram entry (plus the ``START START`` slot), where its trigram entries start; one end entry
+    (or, in blocks, the next three fields; :meth:`level3_offsets` reads either)."""
+    l3_off_base: NDArray[np.uint32] | None = _optional("l3.off_base", BLOCKED3, lambda n: blocks_for(n.n2 + 2))
+    """Level-3 offsets in blocks: one base per 64 entries (flagged :data:`~foretype.modelfile.blocked.WIDE`: stored in full)."""
+    l3_off_delta: NDArray[np.uint16] | None = _optional("l3.off_delta", BLOCKED3, lambda n: n.n2 + 2)
+    """Level-3 offsets in blocks: each entry's step from its block's base."""
+    l3_off_wide: NDArray[np.uint32] | None = _optional("l3.off_wide", BLOCKED3)
+    """Level-3 offsets in blocks: the full offsets of the blocks that span more than 16 bits."""
     l2_codebook: NDArray[np.float64] | None = _optional("l2.codebook", CODEBOOKS, lambda n: 256)
     """The 256 levels of 8-bit bigram values."""
     l3_codebook: NDArray[np.float64] | None = _optional("l3.codebook", CODEBOOKS, lambda n: 256)
@@ -132,6 +144,30 @@ class ModelArrays:
     """The bigram entries (context pairs) that have a ranked list, increasing."""
     rank3_off: Offsets | None = _optional("rank3.off", RANKED, lambda n: n.ranked3 + 1)
     rank3_ids: WordIds | None = _optional("rank3.ids", RANKED)
+
+    def level3_offsets(self) -> NDArray[np.int64]:
+        """Level 3's offsets in full, as int64, whichever layout stores them."""
+        if self.l3_off is not None:
+            return self.l3_off.astype(np.int64)
+        assert self.l3_off_base is not None and self.l3_off_delta is not None and self.l3_off_wide is not None
+        return from_blocks(self.l3_off_base, self.l3_off_delta, self.l3_off_wide)
+
+    def level3_offset_reader(self) -> np.ndarray | BlockedOffsets:
+        """Level 3's offsets for reading one entry at a time (``.item(i)``), without expanding them."""
+        if self.l3_off is not None:
+            return self.l3_off
+        assert self.l3_off_base is not None and self.l3_off_delta is not None and self.l3_off_wide is not None
+        return BlockedOffsets(self.l3_off_base, self.l3_off_delta, self.l3_off_wide)
+
+    def compact(self) -> ModelArrays:
+        """The same model in the current file layout: level-3 offsets in blocks where they fit."""
+        if self.l3_off is None:
+            return self
+        blocks = to_blocks(self.l3_off)
+        if blocks is None:
+            return self
+        base, delta, wide = blocks
+        return dataclasses.replace(self, l3_off=None, l3_off_base=base, l3_off_delta=delta, l3_off_wide=wide)
 
     @property
     def ranked(self) -> bool:

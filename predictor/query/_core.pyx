@@ -23,7 +23,8 @@ Memory safety: every index this core computes lies inside its array provided
 the load checks (``integrity.check_structure``) passed: offsets start at 0,
 never decrease and end at their array's length; stored and listed word ids
 are below the vocabulary's outcome count; ranked-list slots are increasing and
-below the bigram count.  Sortedness is not assumed for safety: a binary search
+below the bigram count; level-3 offsets stored in blocks decode (wide blocks
+inside their array) to offsets with those properties.  Sortedness is not assumed for safety: a binary search
 over an unsorted slice stays inside the slice.  What callers pass (context
 ids, id ranges, outcome ids) is checked on entry.
 """
@@ -49,6 +50,9 @@ SCORE_ALL_WORDS = SCORE_ALL
 
 cdef enum:
     SCORE_ALL = 96  # a class with at most this many words in range is scored whole (lists start above it)
+
+
+cdef int64_t WIDE_BLOCK = 2147483648  # modelfile.blocked.WIDE: a block base whose block is stored in full
 
 
 cdef struct Arr:
@@ -135,7 +139,8 @@ cdef class QueryCore:
     """
 
     cdef Arr p1, off2, w2, a2, g2, off3, w3, a3, g3, r2off, r2ids, r3slot, r3off, r3ids, order, table2, table3
-    cdef bint interpolated, ranked
+    cdef Arr o3base, o3delta, o3wide
+    cdef bint interpolated, ranked, blocked3
     cdef int64_t size, n2, start
     cdef Ctx ctx
     cdef Best best
@@ -167,7 +172,13 @@ cdef class QueryCore:
         self._set(&self.g2, g2, keep)
         self._set(&self.w2, arrays.l2_word, keep)
         self._set(&self.a2, arrays.l2_value, keep)
-        self._set(&self.off3, arrays.l3_off, keep)
+        self.blocked3 = arrays.l3_off is None
+        if self.blocked3:
+            self._set(&self.o3base, arrays.l3_off_base, keep)
+            self._set(&self.o3delta, arrays.l3_off_delta, keep)
+            self._set(&self.o3wide, arrays.l3_off_wide, keep)
+        else:
+            self._set(&self.off3, arrays.l3_off, keep)
         self._set(&self.w3, arrays.l3_word, keep)
         self._set(&self.a3, arrays.l3_value, keep)
         self._set(&self.g3, arrays.l3_gamma, keep)
@@ -236,8 +247,8 @@ cdef class QueryCore:
         c.has3 = False
         c.lo3 = c.hi3 = 0
         if c.slot >= 0:
-            c.lo3 = iget(&self.off3, c.slot)
-            c.hi3 = iget(&self.off3, c.slot + 1)
+            c.lo3 = self._off3(c.slot)
+            c.hi3 = self._off3(c.slot + 1)
             c.has3 = c.hi3 > c.lo3
         if not c.has3:
             c.slot = -1
@@ -261,6 +272,16 @@ cdef class QueryCore:
                     c.r3hi = iget(&self.r3off, lo + 1)
         c.u = u
         return 0
+
+    cdef inline int64_t _off3(self, int64_t i) noexcept nogil:
+        """Level 3's offset i, stored in full or in blocks (see modelfile/blocked.py)."""
+        cdef int64_t base
+        if not self.blocked3:
+            return iget(&self.off3, i)
+        base = iget(&self.o3base, i >> 6)
+        if base >= WIDE_BLOCK:
+            return iget(&self.o3wide, base - WIDE_BLOCK + (i & 63))
+        return base + iget(&self.o3delta, i)
 
     # -------------------------------------------------------------- scoring
     cdef inline double _value(self, const Arr* values, const Arr* table, int64_t i) noexcept nogil:

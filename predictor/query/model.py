@@ -144,7 +144,7 @@ class LanguageModel:
         self._core = core
         # The core's arrays and arithmetic, bound once: queries call them many times each.
         self._p1, self._off2, self._w2, self._a2, self._g2 = core._p1, core._off2, core._w2, core._a2, core._g2
-        self._off3, self._w3, self._a3, self._g3 = core._off3, core._w3, core._a3, core._g3
+        self._w3, self._a3, self._g3 = core._w3, core._a3, core._g3
         self._interpolated, self._n2, self._table = core._interpolated, core._n2, core._table
         self._slots, self._gamma3, self._scores = core.slots, core.gamma3, core.scores
         self._unstored_scores, self._stored, self._orders = core.unstored_scores, core.stored, core.orders
@@ -611,7 +611,7 @@ class LanguageModel:
         if self._keys is None:
             base = self._size + 3
             key2 = np.repeat(np.arange(base, dtype=np.int64), np.diff(self._off2)) * base + self._w2
-            off3 = self._off3.astype(np.int64)
+            off3 = self._core.level3_offsets()
             key3 = np.repeat(np.arange(self._n2 + 1, dtype=np.int64), np.diff(off3)) * base + self._w3
             self._keys = (key2, key3)
         return self._keys
@@ -636,7 +636,7 @@ class LanguageModel:
         p2 = np.where(has2, p2, p)
         pos_ctx = np.minimum(np.searchsorted(key2, u * base + v), len(key2) - 1)
         slot = np.where(v == start, self._n2, np.where(key2[pos_ctx] == u * base + v, pos_ctx, -1))
-        off3 = self._off3
+        off3 = self._core.level3_offsets()
         safe = np.maximum(slot, 0)
         has3 = (slot >= 0) & (off3[safe + 1] > off3[safe])
         if not len(key3):
@@ -737,7 +737,7 @@ class LanguageModel:
 
         ``force`` replaces an existing file that is not a model file.
         """
-        size = write_model_file(path, self.meta, self.arrays.sections(), force=force)
+        size = write_model_file(path, self.meta, self.arrays.compact().sections(), force=force)
         return size
 
 

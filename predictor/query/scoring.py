@@ -53,7 +53,9 @@ class ScoringCore:
         self._w2: np.ndarray = arrays.l2_word
         self._a2: np.ndarray = arrays.l2_value
         self._g2 = arrays.l2_gamma.astype(np.float64)
-        self._off3 = arrays.l3_off
+        self._off3 = arrays.level3_offset_reader()
+        self._arrays = arrays
+        self._off3_full: np.ndarray | None = None
         self._w3: np.ndarray = arrays.l3_word
         self._a3: np.ndarray = arrays.l3_value
         self._g3 = arrays.l3_gamma
@@ -61,6 +63,12 @@ class ScoringCore:
         self._n2 = len(self._w2)
         self._table = value_table(arrays.l2_value, arrays.l2_codebook)
         self._table3 = value_table(arrays.l3_value, arrays.l3_codebook)
+
+    def level3_offsets(self) -> np.ndarray:
+        """Level 3's offsets in full (int64; expanded once, for vectorised scoring)."""
+        if self._off3_full is None:
+            self._off3_full = self._arrays.level3_offsets()
+        return self._off3_full
 
     def slots(self, u: int, v: int) -> Slots:
         """Where the entries of context (u, v) live (v = START means the sentence start)."""

@@ -168,7 +168,7 @@ def backoff_tables(model: LanguageModel) -> BackoffTables:
     w2 = s.l2_word.astype(np.int64)
     a2 = _decode_values(model, "l2")
     g2 = s.l2_gamma.astype(np.float64)
-    off3 = s.l3_off.astype(np.int64)
+    off3 = s.level3_offsets()
     w3 = s.l3_word.astype(np.int64)
     a3 = _decode_values(model, "l3")
     g3 = s.l3_gamma.astype(np.float64)
