@@ -192,3 +192,30 @@ def test_blocked_offsets_that_point_outside_their_arrays_are_refused(corpus, tmp
         write_model_file(path, built.meta, arrays.sections())
         with pytest.raises(ModelFileError, match=phrase):
             foretype.load(path)
+
+
+def test_the_compact_prefix_index_and_sparse_display_forms_answer_as_a_scan_of_the_words(corpus, tmp_path):
+    # Reference: brute force over the sorted word list (ranges of ids sharing a prefix, unigram order
+    # with ties by id) and the corpus's own display forms (KJV capitalises names: "God", "Moses").
+    path = tmp_path / "kjv.model"
+    built = foretype.build([corpus], vocab_size=1200)
+    built.save(path)
+    model = foretype.load(path)
+    assert model.arrays.vocab_key_first is not None and model.arrays.vocab_key_lo is None
+    words = model.vocabulary
+    assert words == sorted(words)
+    shown = [model.vocab.display(i) for i in range(len(words))]
+    assert "God" in shown and all(s.casefold() == w.casefold() for s, w in zip(shown, words))
+    assert model.arrays.vocab_display_ids is not None and 0 < len(model.arrays.vocab_display_ids) < len(words)
+    p1 = np.asarray(model.arrays.p1[: len(words)], dtype=np.float64)
+    prefixes = sorted({w[:n] for w in words for n in range(1, len(w) + 1)})
+    for prefix in prefixes + ["qqz", "zzzz"]:
+        inside = [i for i, w in enumerate(words) if w.startswith(prefix)]
+        found = model.vocab.prefix_range(prefix)
+        if not inside:
+            assert found is None
+            continue
+        assert (found.lo, found.hi) == (inside[0], inside[-1] + 1), prefix
+        expected = sorted(inside, key=lambda i: (-p1[i], i))
+        assert model.vocab.ranked_range(found).tolist() == expected, prefix
+        assert model.vocab.id(prefix) == (words.index(prefix) if prefix in words else None)

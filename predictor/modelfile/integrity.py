@@ -35,7 +35,7 @@ from ..errors import ModelFileError
 from .blocked import wide_indices_fit
 from .format import ModelFile
 from .limits import MAX_VOCABULARY
-from .model_arrays import BLOCKED3, CODEBOOKS, PLAIN3, RANKED, SPECS, Counts, ModelArrays
+from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, PLAIN3, RANKED, SPECS, Counts, ModelArrays
 
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
 _TRIE_MAGIC = b"We love Marisa."
@@ -80,11 +80,8 @@ def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
     """Ranked lists all or none; values as the header's encoding says, with codebooks exactly where it needs them."""
     if _group_state(arrays, RANKED) == "part":
         raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
-    plain, blocked = _group_state(arrays, PLAIN3), _group_state(arrays, BLOCKED3)
-    if plain == "none" and blocked == "none":
-        raise ModelFileError(f"{name}: corrupt (missing section l3.off)")
-    if "part" in (plain, blocked) or plain == blocked:
-        raise ModelFileError(f"{name}: corrupt (level-3 offsets are incomplete or stored twice)")
+    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off")):
+        _check_one_layout(name, arrays, older, newer, first)
     for section, values in (("l2.value", arrays.l2_value), ("l3.value", arrays.l3_value)):
         if values.dtype.name not in _VALUE_TYPES[encoding]:
             raise ModelFileError(f"{name}: corrupt (section {section} does not hold {encoding} values)")
@@ -92,6 +89,15 @@ def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
         for spec in SPECS:
             if spec.group == CODEBOOKS and getattr(arrays, spec.field) is None:
                 raise ModelFileError(f"{name}: corrupt (missing section {spec.section})")
+
+
+def _check_one_layout(name: object, arrays: ModelArrays, older: str, newer: str, first: str) -> None:
+    """Exactly one of two layouts of the same data is present, whole (``first``: the older layout's first section)."""
+    states = (_group_state(arrays, older), _group_state(arrays, newer))
+    if states == ("none", "none"):
+        raise ModelFileError(f"{name}: corrupt (missing section {first})")
+    if "part" in states or states[0] == states[1]:
+        raise ModelFileError(f"{name}: corrupt ({older} or {newer}: incomplete, or both present)")
 
 
 def _group_state(arrays: ModelArrays, group: str) -> str:
@@ -111,7 +117,9 @@ def _check_widths(name: object, arrays: ModelArrays, size: int) -> None:
 def _check_lengths(name: object, arrays: ModelArrays, size: int) -> None:
     """Each section's length follows from the vocabulary size and the number of stored entries (as its field declares)."""
     ranked3 = len(arrays.rank3_slot) if arrays.rank3_slot is not None else 0
-    counts = Counts(words=size, n2=len(arrays.l2_word), n3=len(arrays.l3_word), keys=len(arrays.vocab_key_lo), ranked3=ranked3)
+    listed = int(np.count_nonzero(arrays.vocab_key_span == 0)) if arrays.vocab_key_span is not None else 0
+    displayed = len(arrays.vocab_display_ids) if arrays.vocab_display_ids is not None else size
+    counts = Counts(size, len(arrays.l2_word), len(arrays.l3_word), arrays.key_count, ranked3, listed, displayed)
     for spec in SPECS:
         array = getattr(arrays, spec.field)
         if array is None or spec.length is None:
@@ -212,17 +220,18 @@ def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
     if len(order) < size:
         raise ModelFileError(f"{name}: corrupt (section vocab.order is shorter than the vocabulary)")
     _ids(name, "vocab.order", order, size - 1)
-    key_lo = s.vocab_key_lo.astype(np.int64)
-    key_hi = s.vocab_key_hi.astype(np.int64)
-    first = np.where(key_lo >= 0, key_lo, -key_lo - 1)
-    if len(first) and (int(first.min()) < 0 or int(key_hi.max()) > size or bool(np.any(key_hi <= first))):
+    if s.vocab_display_ids is not None:
+        _ids(name, "vocab.display_ids", s.vocab_display_ids, size - 1)
+        _increasing(name, "vocab.display_ids", s.vocab_display_ids)
+    index = s.prefix_index()
+    first, hi = index.first, index.hi
+    if len(first) and (int(first.min()) < 0 or int(hi.max()) > size or bool(np.any(hi <= first))):
         raise ModelFileError(f"{name}: corrupt (the prefix index holds bad id ranges)")
-    key_order = s.vocab_key_order
-    if len(key_order):
-        listed = key_order != np.iinfo(key_order.dtype).max
-        ends = key_order[listed].astype(np.uint64) + (key_hi - first)[listed].astype(np.uint64)
-        if len(ends) and int(ends.max()) > len(order):
-            raise ModelFileError(f"{name}: corrupt (section vocab.key_order points past the order list)")
+    starts = index.order_start[index.listed]
+    if len(starts):
+        ends = starts + (hi - first)[index.listed]
+        if int(starts.min()) < 0 or int(ends.max()) > len(order):
+            raise ModelFileError(f"{name}: corrupt (the prefix index points past the order list)")
     image = s.vocab_trie
     if len(image) < 64 or bytes(image[: len(_TRIE_MAGIC)]) != _TRIE_MAGIC:
         raise ModelFileError(f"{name}: corrupt (section vocab.trie is not a trie image)")
@@ -231,8 +240,8 @@ def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
         trie.map(image.data)
     except Exception:  # noqa: BLE001 - the library raises several types for bad images
         raise ModelFileError(f"{name}: corrupt (section vocab.trie cannot be read)") from None
-    if len(trie) != len(key_lo):
-        raise ModelFileError(f"{name}: corrupt (the trie holds {len(trie):,} keys but the prefix index {len(key_lo):,})")
+    if len(trie) != len(first):
+        raise ModelFileError(f"{name}: corrupt (the trie holds {len(trie):,} keys but the prefix index {len(first):,})")
 
 
 def _strings(name: object, section: str, blob: np.ndarray, offsets: np.ndarray) -> None:
@@ -311,9 +320,11 @@ def _check_prefix_index(name: object, s: ModelArrays, words: list[str]) -> None:
     is_word = np.zeros(len(prefixes), dtype=bool)
     inside = lo < len(words)
     is_word[inside] = sorted_words[lo[inside]] == prefixes[inside]
-    stored_lo = s.vocab_key_lo[key_ids].astype(np.int64)
-    stored_hi = s.vocab_key_hi[key_ids].astype(np.int64)
-    if not (np.array_equal(stored_lo, np.where(is_word, lo, -lo - 1)) and np.array_equal(stored_hi, hi)):
+    index = s.prefix_index()
+    agrees = np.array_equal(index.first[key_ids], lo) and np.array_equal(index.hi[key_ids], hi)
+    if index.is_word is not None:
+        agrees = agrees and np.array_equal(index.is_word[key_ids], is_word)
+    if not agrees:
         raise ModelFileError(f"{name}: corrupt (the prefix index disagrees with the words)")
 
 
@@ -321,12 +332,10 @@ def _check_unigram_lists(name: object, s: ModelArrays, size: int) -> None:
     """The root list and every listed prefix range: its ids, by unigram probability, ties by id."""
     order = s.vocab_order.astype(np.int64)
     p1 = s.p1[:size].astype(np.float64)
-    key_order = s.vocab_key_order
-    listed = np.flatnonzero(key_order != np.iinfo(key_order.dtype).max)
-    key_lo = s.vocab_key_lo.astype(np.int64)[listed]
-    first = np.where(key_lo >= 0, key_lo, -key_lo - 1)
-    spans = s.vocab_key_hi.astype(np.int64)[listed] - first
-    starts = np.concatenate(([0], key_order[listed].astype(np.int64)))
+    index = s.prefix_index()
+    first = index.first[index.listed]
+    spans = index.hi[index.listed] - first
+    starts = np.concatenate(([0], index.order_start[index.listed]))
     firsts = np.concatenate(([0], first))
     spans = np.concatenate(([size], spans))
     owner = np.repeat(np.arange(len(spans)), spans)

@@ -48,6 +48,11 @@ RANKED = "ranked"
 """The group of the ranked-list sections: a model has all of them or none."""
 CODEBOOKS = "codebooks"
 """The group of the codebooks: present exactly where the values are 8-bit codes."""
+DENSE_INDEX = "prefix index with three integers per key"
+COMPACT_INDEX = "prefix index with a first id and a span per key"
+"""The two layouts of the prefix index (a model has exactly one; the compact one from format version 3 on)."""
+SPARSE_DISPLAY = "display forms where they differ"
+"""With ``vocab.display_ids``, display forms are stored only for those ids (the others show their model form)."""
 PLAIN3 = "plain level-3 offsets"
 BLOCKED3 = "blocked level-3 offsets"
 """The two layouts of level 3's offsets (a model has exactly one): ``l3.off`` in full, or in blocks
@@ -61,8 +66,10 @@ class Counts(NamedTuple):
         words: V, the number of suggestable words.
         n2: stored bigram entries (length of ``l2.word``).
         n3: stored trigram entries (length of ``l3.word``).
-        keys: prefix-index keys (length of ``vocab.key_lo``).
+        keys: prefix-index keys (length of ``vocab.key_lo`` or ``vocab.key_first``).
         ranked3: context pairs with a ranked list (length of ``rank3.slot``).
+        listed: keys of the compact prefix index whose range has a stored list (span 0).
+        displayed: words with a stored display form (V unless ``vocab.display_ids`` says fewer).
     """
 
     words: int
@@ -70,6 +77,8 @@ class Counts(NamedTuple):
     n3: int
     keys: int
     ranked3: int
+    listed: int = 0
+    displayed: int = 0
 
 
 Length = Callable[[Counts], int]
@@ -110,12 +119,6 @@ class ModelArrays:
     """The lower-order weight of each context pair."""
     vocab_trie: Bytes = _section("vocab.trie")
     """The marisa-trie image holding every prefix of every word."""
-    vocab_key_lo: Bounds = _section("vocab.key_lo")
-    """Per trie key: the first id with the prefix, or ``-(first id) - 1`` when the key is not itself a word."""
-    vocab_key_hi: Bounds = _section("vocab.key_hi", lambda n: n.keys)
-    """Per trie key: one past the last id with the prefix."""
-    vocab_key_order: Offsets = _section("vocab.key_order", lambda n: n.keys)
-    """Per trie key: where its range's unigram list starts in ``vocab_order`` (the dtype's maximum: no list)."""
     vocab_order: WordIds = _section("vocab.order")
     """The whole vocabulary by unigram probability, then the lists of the longer prefix ranges."""
     vocab_words_blob: Bytes = _section("vocab.words_blob")
@@ -123,7 +126,23 @@ class ModelArrays:
     vocab_words_off: Offsets = _section("vocab.words_off", lambda n: n.words + 1)
     vocab_display_blob: Bytes = _section("vocab.display_blob")
     """The words' display forms, UTF-8, concatenated."""
-    vocab_display_off: Offsets = _section("vocab.display_off", lambda n: n.words + 1)
+    vocab_display_off: Offsets = _section("vocab.display_off", lambda n: n.displayed + 1)
+    vocab_key_lo: Bounds | None = _optional("vocab.key_lo", DENSE_INDEX)
+    """Per trie key: the first id with the prefix, or ``-(first id) - 1`` when the key is not itself a word."""
+    vocab_key_hi: Bounds | None = _optional("vocab.key_hi", DENSE_INDEX, lambda n: n.keys)
+    """Per trie key: one past the last id with the prefix."""
+    vocab_key_order: Offsets | None = _optional("vocab.key_order", DENSE_INDEX, lambda n: n.keys)
+    """Per trie key: where its range's unigram list starts in ``vocab_order`` (the dtype's maximum: no list)."""
+    vocab_key_first: WordIds | None = _optional("vocab.key_first", COMPACT_INDEX)
+    """Per trie key: the first id with the prefix (the key is a word when that word is the key itself)."""
+    vocab_key_span: NDArray[np.uint8] | None = _optional("vocab.key_span", COMPACT_INDEX, lambda n: n.keys)
+    """Per trie key: how many words have the prefix, or 0 for a range with a stored list (more than 12 words)."""
+    vocab_listed_span: Offsets | None = _optional("vocab.listed_span", COMPACT_INDEX, lambda n: n.listed)
+    """Per key of span 0, in key order: how many words have the prefix."""
+    vocab_listed_order: Offsets | None = _optional("vocab.listed_order", COMPACT_INDEX, lambda n: n.listed)
+    """Per key of span 0, in key order: where its range's list starts in ``vocab_order``."""
+    vocab_display_ids: WordIds | None = _optional("vocab.display_ids", SPARSE_DISPLAY)
+    """The ids whose display form differs from the model form, increasing (their forms are the display strings)."""
     l3_off: Offsets | None = _optional("l3.off", PLAIN3, lambda n: n.n2 + 2)
     """Per bigram entry (plus the ``START START`` slot), where its trigram entries start; one end entry
     (or, in blocks, the next three fields; :meth:`level3_offsets` reads either)."""
@@ -144,6 +163,30 @@ class ModelArrays:
     """The bigram entries (context pairs) that have a ranked list, increasing."""
     rank3_off: Offsets | None = _optional("rank3.off", RANKED, lambda n: n.ranked3 + 1)
     rank3_ids: WordIds | None = _optional("rank3.ids", RANKED)
+
+    @property
+    def key_count(self) -> int:
+        """How many keys the prefix index has."""
+        keys = self.vocab_key_lo if self.vocab_key_lo is not None else self.vocab_key_first
+        return len(keys) if keys is not None else 0
+
+    def prefix_index(self) -> PrefixIndex:
+        """The prefix index in full, per trie key, whichever layout stores it (for checks and tools)."""
+        if self.vocab_key_lo is not None:
+            assert self.vocab_key_hi is not None and self.vocab_key_order is not None
+            lo = self.vocab_key_lo.astype(np.int64)
+            order = self.vocab_key_order
+            listed = order != np.iinfo(order.dtype).max
+            return PrefixIndex(np.where(lo >= 0, lo, -lo - 1), self.vocab_key_hi.astype(np.int64), np.where(listed, order, 0).astype(np.int64), listed, lo >= 0)
+        assert self.vocab_key_first is not None and self.vocab_key_span is not None
+        assert self.vocab_listed_span is not None and self.vocab_listed_order is not None
+        first = self.vocab_key_first.astype(np.int64)
+        span = self.vocab_key_span.astype(np.int64)
+        listed = span == 0
+        starts = np.zeros(len(span), dtype=np.int64)
+        span[listed] = self.vocab_listed_span
+        starts[listed] = self.vocab_listed_order
+        return PrefixIndex(first, first + span, starts, listed, None)
 
     def level3_offsets(self) -> NDArray[np.int64]:
         """Level 3's offsets in full, as int64, whichever layout stores them."""
@@ -207,6 +250,24 @@ class ModelArrays:
     def nbytes(self) -> int:
         """The bytes of every array."""
         return sum(int(array.nbytes) for array in self.sections().values())
+
+
+class PrefixIndex(NamedTuple):
+    """The prefix index per trie key, expanded (int64 arrays of one entry per key).
+
+    Attributes:
+        first: the first id with the prefix.
+        hi: one past the last.
+        order_start: where the range's list starts in ``vocab_order`` (where ``listed``).
+        listed: whether the range has a stored list.
+        is_word: whether the key is itself a word (None where the layout does not store it).
+    """
+
+    first: NDArray[np.int64]
+    hi: NDArray[np.int64]
+    order_start: NDArray[np.int64]
+    listed: NDArray[np.bool_]
+    is_word: NDArray[np.bool_] | None
 
 
 class SectionSpec(NamedTuple):
