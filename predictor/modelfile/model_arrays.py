@@ -147,11 +147,11 @@ class ModelArrays:
     """Per bigram entry (plus the ``START START`` slot), where its trigram entries start; one end entry
     (or, in blocks, the next three fields; :meth:`level3_offsets` reads either)."""
     l3_off_base: NDArray[np.uint32] | None = _optional("l3.off_base", BLOCKED3, lambda n: blocks_for(n.n2 + 2))
-    """Level-3 offsets in blocks: one base per 64 entries (flagged :data:`~foretype.modelfile.blocked.WIDE`: stored in full)."""
-    l3_off_delta: NDArray[np.uint16] | None = _optional("l3.off_delta", BLOCKED3, lambda n: n.n2 + 2)
+    """Level-3 offsets in blocks: one base per 32 entries (flagged :data:`~foretype.modelfile.blocked.WIDE`: stored in full)."""
+    l3_off_delta: NDArray[np.uint8] | None = _optional("l3.off_delta", BLOCKED3, lambda n: n.n2 + 2)
     """Level-3 offsets in blocks: each entry's step from its block's base."""
     l3_off_wide: NDArray[np.uint32] | None = _optional("l3.off_wide", BLOCKED3)
-    """Level-3 offsets in blocks: the full offsets of the blocks that span more than 16 bits."""
+    """Level-3 offsets in blocks: the full offsets of the blocks that span more than 8 bits."""
     l2_codebook: NDArray[np.float64] | None = _optional("l2.codebook", CODEBOOKS, lambda n: 256)
     """The 256 levels of 8-bit bigram values."""
     l3_codebook: NDArray[np.float64] | None = _optional("l3.codebook", CODEBOOKS, lambda n: 256)

@@ -65,6 +65,8 @@ cdef inline int64_t iget(const Arr* a, int64_t i) noexcept nogil:
     """An integer element of an id or offset array."""
     if a.kind == K_U16:
         return (<const uint16_t*>a.p)[i]
+    if a.kind == K_U8:
+        return (<const uint8_t*>a.p)[i]
     if a.kind == K_I32:
         return (<const int32_t*>a.p)[i]
     if a.kind == K_U32:
@@ -278,9 +280,9 @@ cdef class QueryCore:
         cdef int64_t base
         if not self.blocked3:
             return iget(&self.off3, i)
-        base = iget(&self.o3base, i >> 6)
+        base = iget(&self.o3base, i >> 5)
         if base >= WIDE_BLOCK:
-            return iget(&self.o3wide, base - WIDE_BLOCK + (i & 63))
+            return iget(&self.o3wide, base - WIDE_BLOCK + (i & 31))
         return base + iget(&self.o3delta, i)
 
     # -------------------------------------------------------------- scoring
