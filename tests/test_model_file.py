@@ -147,11 +147,13 @@ def test_offsets_stored_in_blocks_give_back_every_offset(steps, limit):
     assert delta.dtype == np.uint8 and base.dtype == np.uint32 and len(base) == (len(offsets) + 31) // 32
 
 
-def test_a_version_2_file_with_plain_offsets_still_loads_and_answers_the_same(corpus, tmp_path):
-    # Format versions 1 and 2 store level 3's offsets whole; version 3 in blocks.
+def test_a_version_2_file_still_loads_and_answers_the_same(corpus, tmp_path):
+    # Format versions 1 and 2 store level 3's offsets whole, three integers per prefix key and every
+    # display form; version 3 offsets in blocks, a first id and a span per key, differing display forms.
     import struct
 
     from foretype.modelfile.format import write_model_file
+    from foretype.query.verify import verify_model
 
     built = foretype.build([corpus], vocab_size=800)
     path = tmp_path / "new.model"
@@ -159,7 +161,7 @@ def test_a_version_2_file_with_plain_offsets_still_loads_and_answers_the_same(co
     new = foretype.load(path)
     assert new.arrays.l3_off is None and new.arrays.l3_off_delta is not None
     old_path = tmp_path / "old.model"
-    write_model_file(old_path, built.meta, built.arrays.sections())
+    write_model_file(old_path, built.meta, _format_2_sections(built))
     data = bytearray(old_path.read_bytes())
     struct.pack_into("<I", data, 8, 2)  # the preamble's version (outside the header's checksum)
     old_path.write_bytes(bytes(data))
@@ -171,6 +173,31 @@ def test_a_version_2_file_with_plain_offsets_still_loads_and_answers_the_same(co
         for prefix in ("", "th"):
             assert old.suggest(context, prefix, 6) == new.suggest(context, prefix, 6) == built.suggest(context, prefix, 6)
     assert new.file_bytes < old.file_bytes
+    assert [old.vocab.display(i) for i in range(old.vocab_size)] == [new.vocab.display(i) for i in range(new.vocab_size)]
+    for path_checked in (path, old_path):
+        verify_model(path_checked)  # the thorough checks (`foretype check`) accept both layouts
+
+
+def _format_2_sections(model):
+    """The sections a format-2 engine wrote: plain level-3 offsets, three integers per prefix key, every display form."""
+    import marisa_trie
+
+    from foretype.arrays import pack_strings
+
+    arrays = model.arrays
+    index = arrays.prefix_index()
+    trie = marisa_trie.Trie()
+    trie.map(arrays.vocab_trie.data)
+    words = model.vocabulary
+    is_word = np.zeros(len(index.first), dtype=bool)
+    for key, key_id in trie.items():
+        is_word[key_id] = words[index.first[key_id]] == key
+    sections = {name: a for name, a in arrays.sections().items() if name not in ("vocab.key_first", "vocab.key_span", "vocab.listed_span", "vocab.listed_order", "vocab.display_ids")}
+    sections["vocab.key_lo"] = np.where(is_word, index.first, -index.first - 1).astype(np.int32)
+    sections["vocab.key_hi"] = index.hi.astype(np.int32)
+    sections["vocab.key_order"] = np.where(index.listed, index.order_start, 2**32 - 1).astype(np.uint32)
+    sections["vocab.display_blob"], sections["vocab.display_off"] = pack_strings([model.vocab.display(i) for i in range(model.vocab_size)])
+    return sections
 
 
 def test_blocked_offsets_that_point_outside_their_arrays_are_refused(corpus, tmp_path):
