@@ -89,6 +89,7 @@ def main() -> None:
     parser.add_argument("--keep-bytes", default="0.6,0.35,0.2,0.12", help="shares of the full model's bytes")
     parser.add_argument("--methods", default="kneser-ney,katz")
     parser.add_argument("--skip-encodings", action="store_true", help="only the size sweep")
+    parser.add_argument("--skip-sweep", action="store_true", help="only the value encodings and the byte breakdown")
     args = parser.parse_args()
     machine_start = machine_facts()
     train, heldout = synthetic_corpus(args.tokens, 100_000)
@@ -99,7 +100,7 @@ def main() -> None:
     test_file = folder / "test.txt"
     test_file.write_text(text, encoding="utf-8")
     started = time.perf_counter()
-    result = run_sweep(
+    result = None if args.skip_sweep else run_sweep(
         [train],
         text,
         out=folder / "sweep",
@@ -113,10 +114,11 @@ def main() -> None:
         keep_bytes=[float(x) for x in args.keep_bytes.split(",")],
     )
     sweep_seconds = time.perf_counter() - started
-    print(format_table(result.rows))
-    rows = [r.to_json() for r in result.rows]
-    chart = size_chart(rows, k=settings.k, title=f"Keystroke savings by model size ({args.tokens:,}-token synthetic corpus, {args.vocab_size:,} words)")
-    (OUT / "shrink.svg").write_text(chart, encoding="utf-8")
+    if result is not None:
+        print(format_table(result.rows))
+        rows = [r.to_json() for r in result.rows]
+        chart = size_chart(rows, k=settings.k, title=f"Keystroke savings by model size ({args.tokens:,}-token synthetic corpus, {args.vocab_size:,} words)")
+        (OUT / "shrink.svg").write_text(chart, encoding="utf-8")
     encodings: list[dict] = []
     if not args.skip_encodings:
         counts = foretype.count_corpus([train])
@@ -132,7 +134,7 @@ def main() -> None:
                 f"{r['perplexity']:>11.2f} {100 * r['ksr']:>6.2f}% {r['latency_p50_us']:>7.0f} {r['latency_p99_us']:>7.0f}"
             )
         for r in encodings:
-            top = ", ".join(f"{k} {v:.2f}" for k, v in list(r["bytes_per_ngram_by_section"].items())[:8])
+            top = ", ".join(f"{k} {v:.2f}" for k, v in r["bytes_per_ngram_by_section"].items())
             print(f"  {r['model']} {r['values']}: bytes per n-gram by section: {top}")
     out = {
         "tokens": args.tokens,
@@ -141,11 +143,12 @@ def main() -> None:
         "sweep_seconds": sweep_seconds,
         "machine_start": machine_start,
         "machine_end": machine_facts(),
-        "sweep": result.to_json(),
+        "sweep": result.to_json() if result is not None else None,
         "encodings": encodings,
     }
-    (OUT / "shrink.json").write_text(json.dumps(out, indent=2) + "\n", encoding="utf-8")
-    print(f"\nwrote {OUT / 'shrink.json'} and {OUT / 'shrink.svg'}")
+    name = "shrink-encodings.json" if result is None else "shrink.json"
+    (OUT / name).write_text(json.dumps(out, indent=2) + "\n", encoding="utf-8")
+    print(f"\nwrote {OUT / name}" + ("" if result is None else f" and {OUT / 'shrink.svg'}"))
 
 
 if __name__ == "__main__":

@@ -193,3 +193,29 @@ def test_bad_ids_from_a_caller_raise_instead_of_reading_outside_the_arrays(count
         compiled.probabilities_of(0, 0, np.array([size + 2], dtype=np.int64))
     with pytest.raises(IndexError):
         compiled.probabilities_of(0, 0, np.array([-1], dtype=np.int64))
+
+
+@pytest.mark.parametrize("limit", [255, 30, 0])
+def test_both_paths_agree_on_level_3_offsets_stored_in_blocks(counts, positions, limit):
+    # Reference: the numpy path over the same blocked arrays, and both paths over the plain
+    # offsets the blocks were made from; a low limit stores many blocks in full (wide).
+    import dataclasses
+
+    from foretype.modelfile.blocked import WIDE, to_blocks
+
+    plain = foretype.build_from_counts(counts["narrow"], method="kneser-ney")
+    base, delta, wide = to_blocks(plain.arrays.l3_off, limit=limit)
+    offsets = plain.arrays.l3_off.astype(np.int64)
+    spans = offsets[31::32] - offsets[::32][: len(offsets[31::32])]  # from each whole block's first entry to its last
+    assert np.array_equal(base[: len(spans)] >= WIDE, spans > limit)  # blocks stored whole exactly where steps overflow
+    arrays = dataclasses.replace(plain.arrays, l3_off=None, l3_off_base=base, l3_off_delta=delta, l3_off_wide=wide)
+    compiled = LanguageModel(arrays, plain.meta, compiled=True)
+    reference = LanguageModel(arrays, plain.meta, compiled=False)
+    assert compiled.query_path == "compiled" and reference.query_path == "numpy"
+    for context, prefix, k in queries(plain, positions, 300, seed=11):
+        expected = plain.suggest(context, prefix, k)
+        assert compiled.suggest(context, prefix, k) == expected and reference.suggest(context, prefix, k) == expected, (context, prefix, k)
+        u, v = reference.context_ids(context)
+        outcomes = np.arange(0, plain.vocab_size + 2, 7, dtype=np.int64)
+        assert np.array_equal(compiled.probabilities_of(u, v, outcomes), plain.probabilities_of(u, v, outcomes))
+    assert reference.perplexity("and the lord said unto moses\n") == plain.perplexity("and the lord said unto moses\n")

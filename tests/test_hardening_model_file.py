@@ -328,14 +328,14 @@ def test_a_crafted_unsorted_word_list_loads_but_the_full_check_finds_it(original
     # Per-context word lists must be sorted for binary search; sorting is checked by
     # `foretype check`, not on every load (it costs a pass over the largest arrays).
     data = original[0]
-    entry = section(data, "l3.word")
-    off = section(data, "l3.off")
+    entry = section(data, "l2.word")
+    off = section(data, "l2.off")
     offsets = np.frombuffer(data, dtype=off["dtype"], count=off["shape"][0], offset=off["offset"])
     words = np.frombuffer(data, dtype=entry["dtype"], count=entry["shape"][0], offset=entry["offset"])
     slot = int(np.flatnonzero(np.diff(offsets.astype(np.int64)) >= 2)[0])
     start = int(offsets[slot])
     swapped = np.array([words[start + 1], words[start]], dtype=words.dtype).tobytes()
-    crafted = with_section_bytes(data, "l3.word", start * words.itemsize, swapped)
+    crafted = with_section_bytes(data, "l2.word", start * words.itemsize, swapped)
     path = tmp_path / "unsorted.model"
     path.write_bytes(crafted)
     foretype.load(path)

@@ -135,8 +135,8 @@ def normalisation_warning(model: LanguageModel, samples: int = 32) -> str | None
     size = model.vocab_size
     outcomes = np.arange(size + 2)
     start = size + 2
-    w2 = model.sections["l2.word"]
-    off2 = model.sections["l2.off"].astype(np.int64)
+    w2 = model.arrays.l2_word
+    off2 = model.arrays.l2_off.astype(np.int64)
     contexts = [(start, start)]
     if len(w2):
         for position in np.linspace(0, len(w2) - 1, num=min(samples, len(w2))).astype(np.int64):

@@ -88,21 +88,21 @@ def model_tables(model: LanguageModel) -> _Tables:
     Returns:
         The tables; unigrams cover the V + 2 outcomes (words, UNKNOWN, END) in id order.
     """
-    s = model.sections
+    s = model.arrays
     size = model.vocab_size
     start = size + 2
-    p1 = s["p1"].astype(np.float64)
-    off2 = s["l2.off"].astype(np.int64)
-    w2 = s["l2.word"].astype(np.int64)
-    g2 = s["l2.gamma"].astype(np.float64)
-    off3 = s["l3.off"].astype(np.int64)
-    w3 = s["l3.word"].astype(np.int64)
-    g3 = s["l3.gamma"].astype(np.float64)
+    p1 = s.p1.astype(np.float64)
+    off2 = s.l2_off.astype(np.int64)
+    w2 = s.l2_word.astype(np.int64)
+    g2 = s.l2_gamma.astype(np.float64)
+    off3 = s.level3_offsets()
+    w3 = s.l3_word.astype(np.int64)
+    g3 = s.l3_gamma.astype(np.float64)
     n2 = len(w2)
     ctx2 = np.repeat(np.arange(size + 3, dtype=np.int64), np.diff(off2))
     # P2(w | v) with the arithmetic of the query core (query/scoring.py).
-    codes = value_table(s, "l2")
-    a2 = codes[s["l2.value"]] if codes is not None else s["l2.value"].astype(np.float64)
+    codes = value_table(s.l2_value, s.l2_codebook)
+    a2 = codes[s.l2_value] if codes is not None else s.l2_value.astype(np.float64)
     p2 = a2 + g2[ctx2] * p1[w2] if model.meta["interpolated"] else a2
     has2 = np.diff(off2) > 0
     has3 = np.diff(off3) > 0

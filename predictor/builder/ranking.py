@@ -21,14 +21,14 @@ def rank_sections(model: LanguageModel, minimum: int = RANKED_MIN) -> dict[str, 
         ``rank2.off`` (offsets per context word, shape (V + 4,)), ``rank2.ids``,
         ``rank3.slot`` (sorted slots that have lists), ``rank3.off`` and ``rank3.ids``.
     """
-    core = ScoringCore(model.sections, model.meta, model.vocab_size)
+    core = ScoringCore(model.arrays, model.meta, model.vocab_size)
     size = model.vocab_size
-    word_dtype = model.sections["l2.word"].dtype
-    off2 = model.sections["l2.off"].astype(np.int64)
-    w2 = model.sections["l2.word"]
-    off3 = model.sections["l3.off"].astype(np.int64)
-    w3 = model.sections["l3.word"]
-    g3 = model.sections["l3.gamma"]
+    word_dtype = model.arrays.l2_word.dtype
+    off2 = model.arrays.l2_off.astype(np.int64)
+    w2 = model.arrays.l2_word
+    off3 = model.arrays.level3_offsets()
+    w3 = model.arrays.l3_word
+    g3 = model.arrays.l3_gamma
     contexts = len(off2) - 1
     lists2: list[np.ndarray] = []
     lengths2 = np.zeros(contexts, dtype=np.int64)

@@ -16,8 +16,6 @@ distribution still sums to 1.
 
 from __future__ import annotations
 
-from collections.abc import Mapping
-
 import numpy as np
 
 LOG16 = "log16"
@@ -63,17 +61,18 @@ def decode_one(stored: np.ndarray, index: int) -> float:
     return float(value)
 
 
-def value_table(sections: Mapping[str, np.ndarray], level: str) -> np.ndarray | None:
+def value_table(stored: np.ndarray, codebook: np.ndarray | None) -> np.ndarray | None:
     """The float64 value of every code of a level's stored values, or None for float32 values.
 
     Args:
-        sections: a model's sections.
-        level: ``"l2"`` or ``"l3"``.
+        stored: the level's stored values (``l2_value`` or ``l3_value``).
+        codebook: the level's codebook (``l2_codebook`` or ``l3_codebook``), if any.
 
     16-bit codes use the fixed logarithmic table; 8-bit codes the level's own
     codebook (:data:`CODEBOOK8`).
     """
-    stored = sections[f"{level}.value"]
     if stored.dtype == np.uint8:
-        return np.asarray(sections[f"{level}.codebook"], dtype=np.float64)
+        if codebook is None:
+            raise ValueError("8-bit values need their codebook")
+        return np.asarray(codebook, dtype=np.float64)
     return DECODE_TABLE if stored.dtype == np.uint16 else None

@@ -32,41 +32,12 @@ import marisa_trie
 import numpy as np
 
 from ..errors import ModelFileError
+from .blocked import wide_indices_fit
 from .format import ModelFile
 from .limits import MAX_VOCABULARY
+from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, PLAIN3, RANKED, SPECS, Counts, ModelArrays
 
-_WORD_TYPES = {"uint16", "int32"}
-_OFFSET_TYPES = {"uint32", "uint64"}
-_FLOAT_TYPES = {"float32", "float64"}
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
-_CODEBOOK_LEVELS = 256
-_SECTION_TYPES = {
-    "p1": _FLOAT_TYPES,
-    "l2.off": _OFFSET_TYPES,
-    "l2.word": _WORD_TYPES,
-    "l2.value": {"uint8", "uint16", "float32"},
-    "l2.gamma": _FLOAT_TYPES,
-    "l3.off": _OFFSET_TYPES,
-    "l3.word": _WORD_TYPES,
-    "l3.value": {"uint8", "uint16", "float32"},
-    "l3.gamma": _FLOAT_TYPES,
-    "vocab.trie": {"uint8"},
-    "vocab.key_lo": {"int32"},
-    "vocab.key_hi": {"int32"},
-    "vocab.key_order": _OFFSET_TYPES,
-    "vocab.order": _WORD_TYPES,
-    "vocab.words_blob": {"uint8"},
-    "vocab.words_off": _OFFSET_TYPES,
-    "vocab.display_blob": {"uint8"},
-    "vocab.display_off": _OFFSET_TYPES,
-}
-_RANK_TYPES = {
-    "rank2.off": _OFFSET_TYPES,
-    "rank2.ids": _WORD_TYPES,
-    "rank3.slot": _OFFSET_TYPES,
-    "rank3.off": _OFFSET_TYPES,
-    "rank3.ids": _WORD_TYPES,
-}
 _TRIE_MAGIC = b"We love Marisa."
 """The first bytes of every marisa-trie image."""
 
@@ -74,123 +45,119 @@ SUM_TOLERANCE = 2e-3
 """How far from 1 a sampled distribution may sum (16-bit value codes round each value down by up to 0.034%)."""
 
 
-def check_structure(model: ModelFile) -> None:
+def check_structure(model: ModelFile) -> ModelArrays:
     """Raise ModelFileError unless the model's arrays are mutually consistent (cheap; every load).
 
     Args:
         model: a model file as read by :func:`foretype.modelfile.format.read_model_file`.
+
+    Returns:
+        The file's arrays as one typed structure, checked.
     """
     name = model.path
     size = _check_meta(name, model.meta)
-    s = model.sections
-    ranked = _check_section_types(name, s)
-    _check_value_types(name, s, model.meta["value_encoding"])
-    _check_widths(name, s, size)
-    _check_lengths(name, s, size, ranked=ranked)
-    _check_levels(name, s, size)
-    if ranked:
-        _check_ranked_ranges(name, s, size)
-    _check_vocabulary(name, s, size)
+    arrays = ModelArrays.from_sections(model.sections, name)
+    _check_section_types(name, arrays)
+    _check_groups(name, arrays, model.meta["value_encoding"])
+    _check_widths(name, arrays, size)
+    _check_lengths(name, arrays, size)
+    _check_levels(name, arrays, size)
+    if arrays.ranked:
+        _check_ranked_ranges(name, arrays, size)
+    _check_vocabulary(name, arrays, size)
+    return arrays
 
 
-def _check_section_types(name: object, s: dict[str, np.ndarray]) -> bool:
-    """Every required section is present with an allowed type; ranked lists all or none.
+def _check_section_types(name: object, arrays: ModelArrays) -> None:
+    """Every section present is one-dimensional with a dtype its field allows."""
+    for spec in SPECS:
+        array = getattr(arrays, spec.field)
+        if array is not None:
+            _check_type(name, spec.section, array, spec.dtypes)
 
-    Returns:
-        Whether the model carries ranked lists.
-    """
-    for section, allowed in _SECTION_TYPES.items():
-        if section not in s:
-            raise ModelFileError(f"{name}: corrupt (missing section {section})")
-        _check_type(name, section, s[section], allowed)
-    present_ranks = [section for section in _RANK_TYPES if section in s]
-    if present_ranks and len(present_ranks) != len(_RANK_TYPES):
+
+def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
+    """Ranked lists all or none; values as the header's encoding says, with codebooks exactly where it needs them."""
+    if _group_state(arrays, RANKED) == "part":
         raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
-    for section in present_ranks:
-        _check_type(name, section, s[section], _RANK_TYPES[section])
-    return bool(present_ranks)
-
-
-def _check_value_types(name: object, s: dict[str, np.ndarray], encoding: str) -> None:
-    """The value sections hold what the header's value encoding says, with codebooks where it needs them."""
-    for section in ("l2.value", "l3.value"):
-        if s[section].dtype.name not in _VALUE_TYPES[encoding]:
+    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off")):
+        _check_one_layout(name, arrays, older, newer, first)
+    for section, values in (("l2.value", arrays.l2_value), ("l3.value", arrays.l3_value)):
+        if values.dtype.name not in _VALUE_TYPES[encoding]:
             raise ModelFileError(f"{name}: corrupt (section {section} does not hold {encoding} values)")
-    _check_codebooks(name, s, encoding)
+    if encoding == "codebook8":
+        for spec in SPECS:
+            if spec.group == CODEBOOKS and getattr(arrays, spec.field) is None:
+                raise ModelFileError(f"{name}: corrupt (missing section {spec.section})")
 
 
-def _check_widths(name: object, s: dict[str, np.ndarray], size: int) -> None:
+def _check_one_layout(name: object, arrays: ModelArrays, older: str, newer: str, first: str) -> None:
+    """Exactly one of two layouts of the same data is present, whole (``first``: the older layout's first section)."""
+    states = (_group_state(arrays, older), _group_state(arrays, newer))
+    if states == ("none", "none"):
+        raise ModelFileError(f"{name}: corrupt (missing section {first})")
+    if "part" in states or states[0] == states[1]:
+        raise ModelFileError(f"{name}: corrupt ({older} or {newer}: incomplete, or both present)")
+
+
+def _group_state(arrays: ModelArrays, group: str) -> str:
+    """Whether a group's sections are ``all`` present, ``none`` or only ``part``."""
+    present = [getattr(arrays, spec.field) is not None for spec in SPECS if spec.group == group]
+    return "all" if all(present) else "none" if not any(present) else "part"
+
+
+def _check_widths(name: object, arrays: ModelArrays, size: int) -> None:
     """Sections of word ids stored as uint16 must fit every id the vocabulary needs (V + 3 symbols)."""
-    for section in ("l2.word", "l3.word", "vocab.order", "rank2.ids", "rank3.ids"):
-        if section in s and s[section].dtype == np.uint16 and size + 3 > 2**16:
-            raise ModelFileError(f"{name}: corrupt (section {section} is too narrow for {size:,} words)")
+    for spec in SPECS:
+        array = getattr(arrays, spec.field)
+        if spec.word_ids and array is not None and array.dtype == np.uint16 and size + 3 > 2**16:
+            raise ModelFileError(f"{name}: corrupt (section {spec.section} is too narrow for {size:,} words)")
 
 
-def _check_lengths(name: object, s: dict[str, np.ndarray], size: int, *, ranked: bool) -> None:
-    """Each section's length follows from the vocabulary size and the number of stored entries."""
-    n2 = len(s["l2.word"])
-    n3 = len(s["l3.word"])
-    keys = len(s["vocab.key_lo"])
-    expect = {
-        "p1": size + 2,
-        "l2.off": size + 4,
-        "l2.value": n2,
-        "l2.gamma": size + 3,
-        "l3.off": n2 + 2,
-        "l3.value": n3,
-        "l3.gamma": n2 + 1,
-        "vocab.words_off": size + 1,
-        "vocab.display_off": size + 1,
-        "vocab.key_hi": keys,
-        "vocab.key_order": keys,
-    }
-    if ranked:
-        expect["rank2.off"] = size + 4
-        expect["rank3.off"] = len(s["rank3.slot"]) + 1
-    for section, length in expect.items():
-        if len(s[section]) != length:
-            raise ModelFileError(f"{name}: corrupt (section {section} has {len(s[section]):,} entries, expected {length:,})")
+def _check_lengths(name: object, arrays: ModelArrays, size: int) -> None:
+    """Each section's length follows from the vocabulary size and the number of stored entries (as its field declares)."""
+    ranked3 = len(arrays.rank3_slot) if arrays.rank3_slot is not None else 0
+    listed = int(np.count_nonzero(arrays.vocab_key_span == 0)) if arrays.vocab_key_span is not None else 0
+    displayed = len(arrays.vocab_display_ids) if arrays.vocab_display_ids is not None else size
+    counts = Counts(size, len(arrays.l2_word), len(arrays.l3_word), arrays.key_count, ranked3, listed, displayed)
+    for spec in SPECS:
+        array = getattr(arrays, spec.field)
+        if array is None or spec.length is None:
+            continue
+        length = spec.length(counts)
+        if len(array) != length:
+            raise ModelFileError(f"{name}: corrupt (section {spec.section} has {len(array):,} entries, expected {length:,})")
 
 
-def _check_levels(name: object, s: dict[str, np.ndarray], size: int) -> None:
+def _check_levels(name: object, s: ModelArrays, size: int) -> None:
     """Levels 1 to 3: offsets span their entries, word ids are in range, probabilities and weights are finite."""
-    n2 = len(s["l2.word"])
-    n3 = len(s["l3.word"])
-    _offsets(name, "l2.off", s["l2.off"], n2)
-    _offsets(name, "l3.off", s["l3.off"], n3)
+    _offsets(name, "l2.off", s.l2_off, len(s.l2_word))
+    if s.l3_off_base is not None and s.l3_off_wide is not None and not wide_indices_fit(s.l3_off_base, len(s.l2_word) + 2, len(s.l3_off_wide)):
+        raise ModelFileError(f"{name}: corrupt (section l3.off_base points past section l3.off_wide)")
+    _offsets(name, "l3.off", s.level3_offsets(), len(s.l3_word))
     # Predicted words are 0 .. V + 1 (words, UNKNOWN, END); START is context only.
-    _ids(name, "l2.word", s["l2.word"], size + 1)
-    _ids(name, "l3.word", s["l3.word"], size + 1)
-    _probabilities(name, "p1", s["p1"], upper=1.0)
-    _probabilities(name, "l2.gamma", s["l2.gamma"])
-    _probabilities(name, "l3.gamma", s["l3.gamma"])
-    for section in ("l2.value", "l3.value"):
-        if s[section].dtype.kind == "f":
-            _probabilities(name, section, s[section], upper=1.0)
+    _ids(name, "l2.word", s.l2_word, size + 1)
+    _ids(name, "l3.word", s.l3_word, size + 1)
+    _probabilities(name, "p1", s.p1, upper=1.0)
+    _probabilities(name, "l2.gamma", s.l2_gamma)
+    _probabilities(name, "l3.gamma", s.l3_gamma)
+    for section, values in (("l2.value", s.l2_value), ("l3.value", s.l3_value)):
+        if values.dtype.kind == "f":
+            _probabilities(name, section, values, upper=1.0)
+    for section, book in (("l2.codebook", s.l2_codebook), ("l3.codebook", s.l3_codebook)):
+        if book is not None:
+            _probabilities(name, section, book, upper=1.0)
 
 
-def _check_ranked_ranges(name: object, s: dict[str, np.ndarray], size: int) -> None:
+def _check_ranked_ranges(name: object, s: ModelArrays, size: int) -> None:
     """The ranked lists: offsets span their ids, ids are words, slots name level-2 entries in increasing order."""
-    n2 = len(s["l2.word"])
-    _offsets(name, "rank2.off", s["rank2.off"], len(s["rank2.ids"]))
-    _offsets(name, "rank3.off", s["rank3.off"], len(s["rank3.ids"]))
-    _ids(name, "rank2.ids", s["rank2.ids"], size - 1)
-    _ids(name, "rank3.ids", s["rank3.ids"], size - 1)
-    _ids(name, "rank3.slot", s["rank3.slot"], n2)
-    _increasing(name, "rank3.slot", s["rank3.slot"])
-
-
-def _check_codebooks(name: object, s: dict[str, np.ndarray], encoding: str) -> None:
-    """8-bit values need both codebooks: 256 float64 levels in [0, 1] each."""
-    if encoding != "codebook8":
-        return
-    for section in ("l2.codebook", "l3.codebook"):
-        if section not in s:
-            raise ModelFileError(f"{name}: corrupt (missing section {section})")
-        _check_type(name, section, s[section], {"float64"})
-        if len(s[section]) != _CODEBOOK_LEVELS:
-            raise ModelFileError(f"{name}: corrupt (section {section} has {len(s[section]):,} entries, expected {_CODEBOOK_LEVELS})")
-        _probabilities(name, section, s[section], upper=1.0)
+    assert s.rank2_off is not None and s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
+    _offsets(name, "rank2.off", s.rank2_off, len(s.rank2_ids))
+    _offsets(name, "rank3.off", s.rank3_off, len(s.rank3_ids))
+    _ids(name, "rank2.ids", s.rank2_ids, size - 1)
+    _ids(name, "rank3.ids", s.rank3_ids, size - 1)
+    _ids(name, "rank3.slot", s.rank3_slot, len(s.l2_word))
+    _increasing(name, "rank3.slot", s.rank3_slot)
 
 
 def _check_meta(name: object, meta: dict[str, Any]) -> int:
@@ -214,7 +181,7 @@ def _check_meta(name: object, meta: dict[str, Any]) -> int:
     return int(size)
 
 
-def _check_type(name: object, section: str, array: np.ndarray, allowed: set[str]) -> None:
+def _check_type(name: object, section: str, array: np.ndarray, allowed: frozenset[str]) -> None:
     if array.ndim != 1 or array.dtype.name not in allowed:
         raise ModelFileError(f"{name}: corrupt (section {section} has the wrong type)")
 
@@ -245,26 +212,27 @@ def _probabilities(name: object, section: str, values: np.ndarray, upper: float 
         raise ModelFileError(f"{name}: corrupt (section {section} holds values out of range)")
 
 
-def _check_vocabulary(name: object, s: dict[str, np.ndarray], size: int) -> None:
+def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
     """The prefix index and string tables: ranges, listed words, UTF-8, the trie image."""
-    _strings(name, "vocab.words", s["vocab.words_blob"], s["vocab.words_off"])
-    _strings(name, "vocab.display", s["vocab.display_blob"], s["vocab.display_off"])
-    order = s["vocab.order"]
+    _strings(name, "vocab.words", s.vocab_words_blob, s.vocab_words_off)
+    _strings(name, "vocab.display", s.vocab_display_blob, s.vocab_display_off)
+    order = s.vocab_order
     if len(order) < size:
         raise ModelFileError(f"{name}: corrupt (section vocab.order is shorter than the vocabulary)")
     _ids(name, "vocab.order", order, size - 1)
-    key_lo = s["vocab.key_lo"].astype(np.int64)
-    key_hi = s["vocab.key_hi"].astype(np.int64)
-    first = np.where(key_lo >= 0, key_lo, -key_lo - 1)
-    if len(first) and (int(first.min()) < 0 or int(key_hi.max()) > size or bool(np.any(key_hi <= first))):
+    if s.vocab_display_ids is not None:
+        _ids(name, "vocab.display_ids", s.vocab_display_ids, size - 1)
+        _increasing(name, "vocab.display_ids", s.vocab_display_ids)
+    index = s.prefix_index()
+    first, hi = index.first, index.hi
+    if len(first) and (int(first.min()) < 0 or int(hi.max()) > size or bool(np.any(hi <= first))):
         raise ModelFileError(f"{name}: corrupt (the prefix index holds bad id ranges)")
-    key_order = s["vocab.key_order"]
-    if len(key_order):
-        listed = key_order != np.iinfo(key_order.dtype).max
-        ends = key_order[listed].astype(np.uint64) + (key_hi - first)[listed].astype(np.uint64)
-        if len(ends) and int(ends.max()) > len(order):
-            raise ModelFileError(f"{name}: corrupt (section vocab.key_order points past the order list)")
-    image = s["vocab.trie"]
+    starts = index.order_start[index.listed]
+    if len(starts):
+        ends = starts + (hi - first)[index.listed]
+        if int(starts.min()) < 0 or int(ends.max()) > len(order):
+            raise ModelFileError(f"{name}: corrupt (the prefix index points past the order list)")
+    image = s.vocab_trie
     if len(image) < 64 or bytes(image[: len(_TRIE_MAGIC)]) != _TRIE_MAGIC:
         raise ModelFileError(f"{name}: corrupt (section vocab.trie is not a trie image)")
     trie = marisa_trie.Trie()
@@ -272,8 +240,8 @@ def _check_vocabulary(name: object, s: dict[str, np.ndarray], size: int) -> None
         trie.map(image.data)
     except Exception:  # noqa: BLE001 - the library raises several types for bad images
         raise ModelFileError(f"{name}: corrupt (section vocab.trie cannot be read)") from None
-    if len(trie) != len(key_lo):
-        raise ModelFileError(f"{name}: corrupt (the trie holds {len(trie):,} keys but the prefix index {len(key_lo):,})")
+    if len(trie) != len(first):
+        raise ModelFileError(f"{name}: corrupt (the trie holds {len(trie):,} keys but the prefix index {len(first):,})")
 
 
 def _strings(name: object, section: str, blob: np.ndarray, offsets: np.ndarray) -> None:
@@ -291,8 +259,12 @@ def _strings(name: object, section: str, blob: np.ndarray, offsets: np.ndarray) 
 
 
 # ---------------------------------------------------------------- full check (structure; query.verify adds the sums)
-def check_thoroughly(model: ModelFile) -> None:
+def check_thoroughly(model: ModelFile, arrays: ModelArrays) -> None:
     """The checks too slow for every load (run after :func:`check_structure`).
+
+    Args:
+        model: the model file (its path and header).
+        arrays: its arrays, as :func:`check_structure` returned them.
 
     Raises:
         ModelFileError: a sorted list is unsorted, the prefix index disagrees with
@@ -300,17 +272,17 @@ def check_thoroughly(model: ModelFile) -> None:
             sampled distribution does not sum to 1.
     """
     name = model.path
-    s = model.sections
+    s = arrays
     size = int(model.meta["vocab_size"])
-    _sorted_within(name, "l2.word", s["l2.word"], s["l2.off"])
-    _sorted_within(name, "l3.word", s["l3.word"], s["l3.off"])
-    words = _unpack_all(s["vocab.words_blob"], s["vocab.words_off"])
+    _sorted_within(name, "l2.word", s.l2_word, s.l2_off)
+    _sorted_within(name, "l3.word", s.l3_word, s.level3_offsets())
+    words = _unpack_all(s.vocab_words_blob, s.vocab_words_off)
     if any(words[i] >= words[i + 1] for i in range(len(words) - 1)):
         raise ModelFileError(f"{name}: corrupt (the vocabulary is not sorted and unique)")
     _check_prefix_index(name, s, words)
     _check_unigram_lists(name, s, size)
-    if "rank2.off" in s:
-        _check_ranked_lists(name, model)
+    if s.ranked:
+        _check_ranked_lists(name, s, size)
 
 
 def _sorted_within(name: object, section: str, words: np.ndarray, offsets: np.ndarray) -> None:
@@ -330,10 +302,10 @@ def _unpack_all(blob: np.ndarray, offsets: np.ndarray) -> list[str]:
     return [data[bounds[i] : bounds[i + 1]].decode("utf-8") for i in range(len(bounds) - 1)]
 
 
-def _check_prefix_index(name: object, s: dict[str, np.ndarray], words: list[str]) -> None:
+def _check_prefix_index(name: object, s: ModelArrays, words: list[str]) -> None:
     """Every trie key is a prefix of a word, and its entry records that prefix's id range."""
     trie = marisa_trie.Trie()
-    trie.map(s["vocab.trie"].data)
+    trie.map(s.vocab_trie.data)
     items = trie.items()
     prefixes = np.array([key for key, _ in items], dtype=object)
     key_ids = np.array([key_id for _, key_id in items], dtype=np.int64)
@@ -348,22 +320,22 @@ def _check_prefix_index(name: object, s: dict[str, np.ndarray], words: list[str]
     is_word = np.zeros(len(prefixes), dtype=bool)
     inside = lo < len(words)
     is_word[inside] = sorted_words[lo[inside]] == prefixes[inside]
-    stored_lo = s["vocab.key_lo"][key_ids].astype(np.int64)
-    stored_hi = s["vocab.key_hi"][key_ids].astype(np.int64)
-    if not (np.array_equal(stored_lo, np.where(is_word, lo, -lo - 1)) and np.array_equal(stored_hi, hi)):
+    index = s.prefix_index()
+    agrees = np.array_equal(index.first[key_ids], lo) and np.array_equal(index.hi[key_ids], hi)
+    if index.is_word is not None:
+        agrees = agrees and np.array_equal(index.is_word[key_ids], is_word)
+    if not agrees:
         raise ModelFileError(f"{name}: corrupt (the prefix index disagrees with the words)")
 
 
-def _check_unigram_lists(name: object, s: dict[str, np.ndarray], size: int) -> None:
+def _check_unigram_lists(name: object, s: ModelArrays, size: int) -> None:
     """The root list and every listed prefix range: its ids, by unigram probability, ties by id."""
-    order = s["vocab.order"].astype(np.int64)
-    p1 = s["p1"][:size].astype(np.float64)
-    key_order = s["vocab.key_order"]
-    listed = np.flatnonzero(key_order != np.iinfo(key_order.dtype).max)
-    key_lo = s["vocab.key_lo"].astype(np.int64)[listed]
-    first = np.where(key_lo >= 0, key_lo, -key_lo - 1)
-    spans = s["vocab.key_hi"].astype(np.int64)[listed] - first
-    starts = np.concatenate(([0], key_order[listed].astype(np.int64)))
+    order = s.vocab_order.astype(np.int64)
+    p1 = s.p1[:size].astype(np.float64)
+    index = s.prefix_index()
+    first = index.first[index.listed]
+    spans = index.hi[index.listed] - first
+    starts = np.concatenate(([0], index.order_start[index.listed]))
     firsts = np.concatenate(([0], first))
     spans = np.concatenate(([size], spans))
     owner = np.repeat(np.arange(len(spans)), spans)
@@ -380,21 +352,20 @@ def _check_unigram_lists(name: object, s: dict[str, np.ndarray], size: int) -> N
         raise ModelFileError(f"{name}: corrupt (a prefix's word list is out of order)")
 
 
-def _check_ranked_lists(name: object, model: ModelFile) -> None:
+def _check_ranked_lists(name: object, s: ModelArrays, size: int) -> None:
     """Each ranked list holds its context's stored words (below V) exactly once."""
-    s = model.sections
-    size = int(model.meta["vocab_size"])
-    off2 = s["l2.off"].astype(np.int64)
-    rank2 = s["rank2.off"].astype(np.int64)
+    assert s.rank2_off is not None and s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
+    off2 = s.l2_off.astype(np.int64)
+    rank2 = s.rank2_off.astype(np.int64)
     for v in np.flatnonzero(np.diff(rank2) > 0):
-        stored = s["l2.word"][off2[v] : off2[v + 1]]
-        listed = s["rank2.ids"][rank2[v] : rank2[v + 1]]
+        stored = s.l2_word[off2[v] : off2[v + 1]]
+        listed = s.rank2_ids[rank2[v] : rank2[v + 1]]
         if not np.array_equal(np.sort(listed), stored[stored < size]):
             raise ModelFileError(f"{name}: corrupt (the ranked list of context word {v} is not its words)")
-    off3 = s["l3.off"].astype(np.int64)
-    rank3 = s["rank3.off"].astype(np.int64)
-    for index, slot in enumerate(s["rank3.slot"].astype(np.int64)):
-        stored = s["l3.word"][off3[slot] : off3[slot + 1]]
-        listed = s["rank3.ids"][rank3[index] : rank3[index + 1]]
+    off3 = s.level3_offsets()
+    rank3 = s.rank3_off.astype(np.int64)
+    for index, slot in enumerate(s.rank3_slot.astype(np.int64)):
+        stored = s.l3_word[off3[slot] : off3[slot + 1]]
+        listed = s.rank3_ids[rank3[index] : rank3[index + 1]]
         if not np.array_equal(np.sort(listed), stored[stored < size]):
             raise ModelFileError(f"{name}: corrupt (the ranked list of context slot {slot} is not its words)")

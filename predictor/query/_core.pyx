@@ -23,7 +23,8 @@ Memory safety: every index this core computes lies inside its array provided
 the load checks (``integrity.check_structure``) passed: offsets start at 0,
 never decrease and end at their array's length; stored and listed word ids
 are below the vocabulary's outcome count; ranked-list slots are increasing and
-below the bigram count.  Sortedness is not assumed for safety: a binary search
+below the bigram count; level-3 offsets stored in blocks decode (wide blocks
+inside their array) to offsets with those properties.  Sortedness is not assumed for safety: a binary search
 over an unsorted slice stays inside the slice.  What callers pass (context
 ids, id ranges, outcome ids) is checked on entry.
 """
@@ -51,6 +52,9 @@ cdef enum:
     SCORE_ALL = 96  # a class with at most this many words in range is scored whole (lists start above it)
 
 
+cdef int64_t WIDE_BLOCK = 2147483648  # modelfile.blocked.WIDE: a block base whose block is stored in full
+
+
 cdef struct Arr:
     const char* p
     int kind
@@ -61,6 +65,8 @@ cdef inline int64_t iget(const Arr* a, int64_t i) noexcept nogil:
     """An integer element of an id or offset array."""
     if a.kind == K_U16:
         return (<const uint16_t*>a.p)[i]
+    if a.kind == K_U8:
+        return (<const uint8_t*>a.p)[i]
     if a.kind == K_I32:
         return (<const int32_t*>a.p)[i]
     if a.kind == K_U32:
@@ -125,7 +131,7 @@ cdef class QueryCore:
     """Exact top-k, probabilities and orders over one model's arrays (see the module docstring).
 
     Args:
-        sections: the model's arrays after the load checks (or as built).
+        arrays: the model's arrays (``ModelArrays``) after the load checks (or as built).
         interpolated: whether stored values add to the lower order (else they replace it).
         table2, table3: float64 value of every code of the level's stored
             values (8- or 16-bit codes), or None where the level stores float32.
@@ -135,7 +141,8 @@ cdef class QueryCore:
     """
 
     cdef Arr p1, off2, w2, a2, g2, off3, w3, a3, g3, r2off, r2ids, r3slot, r3off, r3ids, order, table2, table3
-    cdef bint interpolated, ranked
+    cdef Arr o3base, o3delta, o3wide
+    cdef bint interpolated, ranked, blocked3
     cdef int64_t size, n2, start
     cdef Ctx ctx
     cdef Best best
@@ -153,26 +160,32 @@ cdef class QueryCore:
         self.best.a3 = NULL
         self.capacity = 0
 
-    def __init__(self, sections, bint interpolated, table2, table3):
+    def __init__(self, arrays, bint interpolated, table2, table3):
         keep = []
         self.interpolated = interpolated
-        self.size = len(sections["vocab.words_off"]) - 1
+        self.size = len(arrays.vocab_words_off) - 1
         self.start = self.size + 2
-        self.n2 = len(sections["l2.word"])
-        p1 = np.ascontiguousarray(sections["p1"], dtype=np.float64)
-        off2 = np.ascontiguousarray(sections["l2.off"], dtype=np.int64)
-        g2 = np.ascontiguousarray(sections["l2.gamma"], dtype=np.float64)
+        self.n2 = len(arrays.l2_word)
+        p1 = np.ascontiguousarray(arrays.p1, dtype=np.float64)
+        off2 = np.ascontiguousarray(arrays.l2_off, dtype=np.int64)
+        g2 = np.ascontiguousarray(arrays.l2_gamma, dtype=np.float64)
         self._set(&self.p1, p1, keep)
         self._set(&self.off2, off2, keep)
         self._set(&self.g2, g2, keep)
-        self._set(&self.w2, sections["l2.word"], keep)
-        self._set(&self.a2, sections["l2.value"], keep)
-        self._set(&self.off3, sections["l3.off"], keep)
-        self._set(&self.w3, sections["l3.word"], keep)
-        self._set(&self.a3, sections["l3.value"], keep)
-        self._set(&self.g3, sections["l3.gamma"], keep)
-        self._set(&self.order, sections["vocab.order"], keep)
-        for level, values, table in (("l2", sections["l2.value"], table2), ("l3", sections["l3.value"], table3)):
+        self._set(&self.w2, arrays.l2_word, keep)
+        self._set(&self.a2, arrays.l2_value, keep)
+        self.blocked3 = arrays.l3_off is None
+        if self.blocked3:
+            self._set(&self.o3base, arrays.l3_off_base, keep)
+            self._set(&self.o3delta, arrays.l3_off_delta, keep)
+            self._set(&self.o3wide, arrays.l3_off_wide, keep)
+        else:
+            self._set(&self.off3, arrays.l3_off, keep)
+        self._set(&self.w3, arrays.l3_word, keep)
+        self._set(&self.a3, arrays.l3_value, keep)
+        self._set(&self.g3, arrays.l3_gamma, keep)
+        self._set(&self.order, arrays.vocab_order, keep)
+        for level, values, table in (("l2", arrays.l2_value, table2), ("l3", arrays.l3_value, table3)):
             codes = {"uint8": 256, "uint16": 65536}.get(values.dtype.name)
             if codes is None and values.dtype.name != "float32":
                 raise ValueError(f"{level} values of type {values.dtype.name} are not read by the compiled core")
@@ -180,13 +193,13 @@ cdef class QueryCore:
                 raise ValueError(f"{level} values need a table of {codes} entries")
         self._set(&self.table2, np.ascontiguousarray(table2 if table2 is not None else np.zeros(1), dtype=np.float64), keep)
         self._set(&self.table3, np.ascontiguousarray(table3 if table3 is not None else np.zeros(1), dtype=np.float64), keep)
-        self.ranked = "rank2.off" in sections
+        self.ranked = arrays.rank2_off is not None
         if self.ranked:
-            self._set(&self.r2off, np.ascontiguousarray(sections["rank2.off"], dtype=np.int64), keep)
-            self._set(&self.r2ids, sections["rank2.ids"], keep)
-            self._set(&self.r3slot, np.ascontiguousarray(sections["rank3.slot"], dtype=np.int64), keep)
-            self._set(&self.r3off, np.ascontiguousarray(sections["rank3.off"], dtype=np.int64), keep)
-            self._set(&self.r3ids, sections["rank3.ids"], keep)
+            self._set(&self.r2off, np.ascontiguousarray(arrays.rank2_off, dtype=np.int64), keep)
+            self._set(&self.r2ids, arrays.rank2_ids, keep)
+            self._set(&self.r3slot, np.ascontiguousarray(arrays.rank3_slot, dtype=np.int64), keep)
+            self._set(&self.r3off, np.ascontiguousarray(arrays.rank3_off, dtype=np.int64), keep)
+            self._set(&self.r3ids, arrays.rank3_ids, keep)
         self._keep = keep
         self.ctx.u = -1
         self.ctx.v = -1
@@ -236,8 +249,8 @@ cdef class QueryCore:
         c.has3 = False
         c.lo3 = c.hi3 = 0
         if c.slot >= 0:
-            c.lo3 = iget(&self.off3, c.slot)
-            c.hi3 = iget(&self.off3, c.slot + 1)
+            c.lo3 = self._off3(c.slot)
+            c.hi3 = self._off3(c.slot + 1)
             c.has3 = c.hi3 > c.lo3
         if not c.has3:
             c.slot = -1
@@ -261,6 +274,16 @@ cdef class QueryCore:
                     c.r3hi = iget(&self.r3off, lo + 1)
         c.u = u
         return 0
+
+    cdef inline int64_t _off3(self, int64_t i) noexcept nogil:
+        """Level 3's offset i, stored in full or in blocks (see modelfile/blocked.py)."""
+        cdef int64_t base
+        if not self.blocked3:
+            return iget(&self.off3, i)
+        base = iget(&self.o3base, i >> 5)
+        if base >= WIDE_BLOCK:
+            return iget(&self.o3wide, base - WIDE_BLOCK + (i & 31))
+        return base + iget(&self.o3delta, i)
 
     # -------------------------------------------------------------- scoring
     cdef inline double _value(self, const Arr* values, const Arr* table, int64_t i) noexcept nogil:

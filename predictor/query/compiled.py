@@ -12,9 +12,8 @@ from __future__ import annotations
 import os
 from typing import Any
 
-import numpy as np
-
 from ..modelfile.encoding import value_table
+from ..modelfile.model_arrays import ModelArrays
 
 PURE_ENV = "FORETYPE_PURE"
 """Set to 1 to make every model answer on the numpy path."""
@@ -54,7 +53,7 @@ def describe_path(path: str) -> str:
     return "the numpy path"
 
 
-def make_core(sections: dict[str, np.ndarray], interpolated: bool) -> Any:
+def make_core(arrays: ModelArrays, interpolated: bool) -> Any:
     """A compiled core over a model's arrays (which passed the load checks or were just built).
 
     Raises:
@@ -63,4 +62,4 @@ def make_core(sections: dict[str, np.ndarray], interpolated: bool) -> Any:
     """
     if QueryCore is None:
         raise RuntimeError("the compiled query core is not built")
-    return QueryCore(sections, interpolated, value_table(sections, "l2"), value_table(sections, "l3"))
+    return QueryCore(arrays, interpolated, value_table(arrays.l2_value, arrays.l2_codebook), value_table(arrays.l3_value, arrays.l3_codebook))

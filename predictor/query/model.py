@@ -19,12 +19,13 @@ share the prefix.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 import threading
-from collections.abc import Iterable, Sequence
+from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any, NamedTuple
+from typing import Any, NamedTuple, cast
 
 import numpy as np
 
@@ -32,6 +33,7 @@ from ..errors import OptionError
 from ..modelfile.encoding import decode
 from ..modelfile.format import FORMAT_VERSION, read_model_file, write_model_file
 from ..modelfile.integrity import check_structure
+from ..modelfile.model_arrays import ModelArrays
 from ..text import capitalise, iter_sentences, model_form, split_before_cursor
 from .compiled import COMPILED, NUMPY, default_path, describe_path, make_core
 from .ranked import RANKED_MIN, RankLists
@@ -108,7 +110,7 @@ class LanguageModel:
 
     def __init__(
         self,
-        sections: dict[str, np.ndarray],
+        arrays: ModelArrays | Mapping[str, np.ndarray],
         meta: dict[str, Any],
         *,
         path: Path | None = None,
@@ -118,7 +120,8 @@ class LanguageModel:
         """Wrap model arrays; use :func:`foretype.builder` or :func:`foretype.load` to get one.
 
         Args:
-            sections: the model's named arrays (see :mod:`foretype.modelfile.format`).
+            arrays: the model's arrays, or its sections by name (see
+                :mod:`foretype.modelfile.model_arrays`).
             meta: the header fields.
             path: the file the arrays are mapped from, if any.
             file_bytes: that file's size.
@@ -129,23 +132,25 @@ class LanguageModel:
         Raises:
             RuntimeError: ``compiled=True`` but the compiled core is not built.
         """
+        if not isinstance(arrays, ModelArrays):
+            arrays = ModelArrays.from_sections(arrays)
+        self.arrays = arrays
         self.meta = meta
-        self.sections = sections
         self.path = path
         self.file_bytes = file_bytes
-        self.vocab = Vocabulary(sections)
+        self.vocab = Vocabulary(arrays)
         self._size = self.vocab.size
-        core = ScoringCore(sections, meta, self._size)
+        core = ScoringCore(arrays, meta, self._size)
         self._core = core
         # The core's arrays and arithmetic, bound once: queries call them many times each.
         self._p1, self._off2, self._w2, self._a2, self._g2 = core._p1, core._off2, core._w2, core._a2, core._g2
-        self._off3, self._w3, self._a3, self._g3 = core._off3, core._w3, core._a3, core._g3
+        self._w3, self._a3, self._g3 = core._w3, core._a3, core._g3
         self._interpolated, self._n2, self._table = core._interpolated, core._n2, core._table
         self._slots, self._gamma3, self._scores = core.slots, core.gamma3, core.scores
         self._unstored_scores, self._stored, self._orders = core.unstored_scores, core.stored, core.orders
         self._class_b_score = core.class_b_score
         self._keys: tuple[np.ndarray, np.ndarray] | None = None
-        self._ranks = RankLists(sections)
+        self._ranks = RankLists(arrays)
         self._root_values: np.ndarray | None = None
         self._last_context: tuple[int, int, Slots, float] = (-1, -1, Slots(-1, 0, 0, -1, 0, 0, False), 1.0)
         self._prefixes: dict[str, PrefixRange | None] = {}
@@ -156,9 +161,11 @@ class LanguageModel:
         # Python objects may let another thread run: one query at a time per model.
         self._core_lock = threading.Lock()
         if compiled if compiled is not None else default_path() == COMPILED:
-            arrays = {**sections, "p1": self._p1, "l2.off": self._off2, "l2.gamma": self._g2}
+            # The core reads these three widened, as the numpy path does: convert them once.
+            # (int64 offsets are no file dtype, hence the cast: this structure never reaches a file.)
+            widened = dataclasses.replace(arrays, p1=self._p1, l2_off=cast(Any, self._off2), l2_gamma=self._g2)
             try:
-                self._compiled = make_core(arrays, self._interpolated)
+                self._compiled = make_core(widened, self._interpolated)
             except ValueError:
                 if compiled:
                     raise
@@ -166,6 +173,11 @@ class LanguageModel:
             if self._compiled is not None:
                 tail = tuple(Suggestion._field_defaults[name] for name in Suggestion._fields[4:])
                 self._compiled.bind_suggestions(Suggestion, self.vocab.display, tail)
+
+    @property
+    def sections(self) -> dict[str, np.ndarray]:
+        """The model's arrays by section name, as a model file stores them."""
+        return self.arrays.sections()
 
     @property
     def query_path(self) -> str:
@@ -195,7 +207,7 @@ class LanguageModel:
     def info(self) -> dict[str, Any]:
         """The facts ``foretype info`` reports (see README for each key)."""
         ngrams = self.ngram_counts()
-        size = self.file_bytes if self.file_bytes is not None else sum(int(a.nbytes) for a in self.sections.values())
+        size = self.file_bytes if self.file_bytes is not None else self.arrays.nbytes()
         total = sum(ngrams.values())
         return {
             "format_version": FORMAT_VERSION,
@@ -599,7 +611,7 @@ class LanguageModel:
         if self._keys is None:
             base = self._size + 3
             key2 = np.repeat(np.arange(base, dtype=np.int64), np.diff(self._off2)) * base + self._w2
-            off3 = self._off3.astype(np.int64)
+            off3 = self._core.level3_offsets()
             key3 = np.repeat(np.arange(self._n2 + 1, dtype=np.int64), np.diff(off3)) * base + self._w3
             self._keys = (key2, key3)
         return self._keys
@@ -624,7 +636,7 @@ class LanguageModel:
         p2 = np.where(has2, p2, p)
         pos_ctx = np.minimum(np.searchsorted(key2, u * base + v), len(key2) - 1)
         slot = np.where(v == start, self._n2, np.where(key2[pos_ctx] == u * base + v, pos_ctx, -1))
-        off3 = self._off3
+        off3 = self._core.level3_offsets()
         safe = np.maximum(slot, 0)
         has3 = (slot >= 0) & (off3[safe + 1] > off3[safe])
         if not len(key3):
@@ -725,7 +737,7 @@ class LanguageModel:
 
         ``force`` replaces an existing file that is not a model file.
         """
-        size = write_model_file(path, self.meta, self.sections, force=force)
+        size = write_model_file(path, self.meta, self.arrays.compact().sections(), force=force)
         return size
 
 
@@ -742,8 +754,8 @@ def load(path: str | Path) -> LanguageModel:
         ModelVersionError: a format version this engine cannot read.
     """
     loaded = read_model_file(path)
-    check_structure(loaded)
-    return LanguageModel(loaded.sections, loaded.meta, path=loaded.path, file_bytes=loaded.file_bytes)
+    arrays = check_structure(loaded)
+    return LanguageModel(arrays, loaded.meta, path=loaded.path, file_bytes=loaded.file_bytes)
 
 
 __all__ = ["LanguageModel", "Suggestion", "TextScore", "load", "START", "END", "UNKNOWN"]

@@ -13,6 +13,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..modelfile.model_arrays import ModelArrays
+
 RANKED_MIN = 96
 """Contexts with more continuations than this get a ranked list."""
 
@@ -20,13 +22,13 @@ RANKED_MIN = 96
 class RankLists:
     """Read access to the ranked lists of a model (absent sections mean no lists)."""
 
-    def __init__(self, sections: dict[str, np.ndarray]) -> None:
-        """Wrap the ``rank2.*`` and ``rank3.*`` sections, if the model has them."""
-        self._off2 = sections.get("rank2.off")
-        self._ids2 = sections.get("rank2.ids")
-        self._slots3 = sections.get("rank3.slot")
-        self._off3 = sections.get("rank3.off")
-        self._ids3 = sections.get("rank3.ids")
+    def __init__(self, arrays: ModelArrays) -> None:
+        """Wrap a model's ``rank2_*`` and ``rank3_*`` arrays, if it has them."""
+        self._off2 = arrays.rank2_off
+        self._ids2 = arrays.rank2_ids
+        self._slots3 = arrays.rank3_slot
+        self._off3 = arrays.rank3_off
+        self._ids3 = arrays.rank3_ids
 
     def bigram_list(self, v: int) -> np.ndarray | None:
         """Words stored after context word v, best first, or None if v has no list."""

@@ -19,6 +19,7 @@ from typing import Any, NamedTuple
 import numpy as np
 
 from ..modelfile.encoding import value_table
+from ..modelfile.model_arrays import ModelArrays
 
 
 class Slots(NamedTuple):
@@ -36,29 +37,38 @@ class Slots(NamedTuple):
 class ScoringCore:
     """The level arrays of one model and the arithmetic over them."""
 
-    def __init__(self, sections: Mapping[str, np.ndarray], meta: Mapping[str, Any], vocab_size: int) -> None:
-        """Take a model's sections and header fields.
+    def __init__(self, arrays: ModelArrays, meta: Mapping[str, Any], vocab_size: int) -> None:
+        """Take a model's arrays and header fields.
 
         Args:
-            sections: the ``p1``, ``l2.*`` and ``l3.*`` arrays.
+            arrays: the model's arrays (``p1``, ``l2_*`` and ``l3_*`` are read).
             meta: the header fields (``interpolated`` is read).
             vocab_size: V, the number of suggestable words; START is V + 2.
         """
         self.size = vocab_size
         self.start_id = vocab_size + 2
-        self._p1 = sections["p1"].astype(np.float64)
-        self._off2 = sections["l2.off"].astype(np.int64)
-        self._w2 = sections["l2.word"]
-        self._a2 = sections["l2.value"]
-        self._g2 = sections["l2.gamma"].astype(np.float64)
-        self._off3 = sections["l3.off"]
-        self._w3 = sections["l3.word"]
-        self._a3 = sections["l3.value"]
-        self._g3 = sections["l3.gamma"]
+        self._p1 = arrays.p1.astype(np.float64)
+        self._off2 = arrays.l2_off.astype(np.int64)
+        # Plain arrays to the arithmetic below: ids of either width, values of any encoding.
+        self._w2: np.ndarray = arrays.l2_word
+        self._a2: np.ndarray = arrays.l2_value
+        self._g2 = arrays.l2_gamma.astype(np.float64)
+        self._off3 = arrays.level3_offset_reader()
+        self._arrays = arrays
+        self._off3_full: np.ndarray | None = None
+        self._w3: np.ndarray = arrays.l3_word
+        self._a3: np.ndarray = arrays.l3_value
+        self._g3 = arrays.l3_gamma
         self._interpolated = bool(meta["interpolated"])
         self._n2 = len(self._w2)
-        self._table = value_table(sections, "l2")
-        self._table3 = value_table(sections, "l3")
+        self._table = value_table(arrays.l2_value, arrays.l2_codebook)
+        self._table3 = value_table(arrays.l3_value, arrays.l3_codebook)
+
+    def level3_offsets(self) -> np.ndarray:
+        """Level 3's offsets in full (int64; expanded once, for vectorised scoring)."""
+        if self._off3_full is None:
+            self._off3_full = self._arrays.level3_offsets()
+        return self._off3_full
 
     def slots(self, u: int, v: int) -> Slots:
         """Where the entries of context (u, v) live (v = START means the sentence start)."""

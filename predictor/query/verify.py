@@ -26,24 +26,23 @@ def verify_model(path: str | os.PathLike[str]) -> ModelFile:
         ModelVersionError: a format version this engine cannot read.
     """
     loaded = read_model_file(path, checksums=True)
-    check_structure(loaded)
-    check_thoroughly(loaded)
-    check_sums(loaded)
+    arrays = check_structure(loaded)
+    check_thoroughly(loaded, arrays)
+    check_sums(LanguageModel(arrays, loaded.meta, path=loaded.path, file_bytes=loaded.file_bytes))
     return loaded
 
 
-def check_sums(model: ModelFile, samples: int = 48) -> None:
+def check_sums(lm: LanguageModel, samples: int = 48) -> None:
     """The distribution after the sentence start and after sampled contexts sums to 1 (within SUM_TOLERANCE).
 
     Raises:
         ModelFileError: a sampled distribution does not sum to 1.
     """
-    name = model.path
-    lm = LanguageModel(model.sections, model.meta, path=model.path, file_bytes=model.file_bytes)
+    name = lm.path
     size = lm.vocab_size
     start = size + 2
-    w2 = model.sections["l2.word"]
-    off2 = model.sections["l2.off"].astype(np.int64)
+    w2 = lm.arrays.l2_word
+    off2 = lm.arrays.l2_off.astype(np.int64)
     rng = np.random.default_rng(0)
     contexts = [(start, start)]
     if len(w2):

@@ -20,6 +20,7 @@ import marisa_trie
 import numpy as np
 
 from ..arrays import offsets_dtype, pack_strings, unpack_string, word_id_dtype
+from ..modelfile.model_arrays import ModelArrays
 from ..text import model_form
 
 START = "<s>"
@@ -58,29 +59,38 @@ class PrefixRange:
 class Vocabulary:
     """The suggestable words of a model, their display forms and the prefix index."""
 
-    def __init__(self, sections: dict[str, np.ndarray]) -> None:
-        """Wrap the vocabulary sections of a model (built or memory-mapped).
+    def __init__(self, arrays: ModelArrays) -> None:
+        """Wrap the vocabulary arrays of a model (built or memory-mapped).
 
         Args:
-            sections: the ``vocab.*`` arrays described in :func:`vocabulary_sections`.
+            arrays: the model's arrays (the ``vocab_*`` ones described in
+                :func:`vocabulary_sections`, and ``p1``).
         """
         self._trie = marisa_trie.Trie()
-        self._trie.map(sections["vocab.trie"].data)
-        self._key_lo = sections["vocab.key_lo"]
-        self._key_hi = sections["vocab.key_hi"]
-        self._key_order = sections["vocab.key_order"]
-        self.order = sections["vocab.order"]
-        self._unlisted = int(np.iinfo(sections["vocab.key_order"].dtype).max)
-        """int32 array: per prefix, the range's word ids by unigram probability (root first)."""
-        self._words_blob = sections["vocab.words_blob"]
-        self._words_off = sections["vocab.words_off"]
-        self._display_blob = sections["vocab.display_blob"]
-        self._display_off = sections["vocab.display_off"]
+        self._trie.map(arrays.vocab_trie.data)
+        # The prefix index: three integers per key (format versions 1 and 2), or a first id and a
+        # span per key with the longer ranges' spans and list starts apart (version 3).
+        self._key_lo = arrays.vocab_key_lo
+        self._key_hi = arrays.vocab_key_hi
+        self._key_order = arrays.vocab_key_order
+        self._unlisted = int(np.iinfo(arrays.vocab_key_order.dtype).max) if arrays.vocab_key_order is not None else 0
+        self._key_first = arrays.vocab_key_first
+        self._key_span = arrays.vocab_key_span
+        self._listed_keys = np.flatnonzero(arrays.vocab_key_span == 0) if arrays.vocab_key_span is not None else None
+        self._listed_span = arrays.vocab_listed_span
+        self._listed_order = arrays.vocab_listed_order
+        self.order = arrays.vocab_order
+        """Per prefix, the range's word ids by unigram probability (root first)."""
+        self._words_blob = arrays.vocab_words_blob
+        self._words_off = arrays.vocab_words_off
+        self._display_blob = arrays.vocab_display_blob
+        self._display_off = arrays.vocab_display_off
+        self._display_ids = arrays.vocab_display_ids
         self.size = len(self._words_off) - 1
         """How many suggestable words there are (V)."""
         self._word_cache: dict[int, str] = {}
         self._display_cache: dict[int, str] = {}
-        self._unigram = sections["p1"]
+        self._unigram = arrays.p1
         self._root = PrefixRange(0, self.size, 0)
 
     @property
@@ -115,8 +125,12 @@ class Vocabulary:
         if cached is None:
             if word_id >= self.size:
                 cached = self.word(word_id)
-            else:
+            elif self._display_ids is None:
                 cached = unpack_string(self._display_blob, self._display_off, word_id)
+            else:
+                at = int(self._display_ids.searchsorted(word_id))
+                stored = at < len(self._display_ids) and int(self._display_ids[at]) == word_id
+                cached = unpack_string(self._display_blob, self._display_off, at) if stored else self.word(word_id)
             self._display_cache[word_id] = cached
         return cached
 
@@ -129,8 +143,12 @@ class Vocabulary:
         key = self._trie_key(word)
         if key is None:
             return None
-        lo = int(self._key_lo[key])
-        return lo if lo >= 0 else None
+        if self._key_lo is not None:
+            lo = int(self._key_lo[key])
+            return lo if lo >= 0 else None
+        assert self._key_first is not None
+        first = int(self._key_first[key])
+        return first if self.word(first) == word else None
 
     def id_or_unknown(self, word: str) -> int:
         """Return the id of a written word or symbol; out-of-vocabulary words give UNKNOWN."""
@@ -158,9 +176,18 @@ class Vocabulary:
         key = self._trie_key(prefix)
         if key is None:
             return None
-        lo = self._key_lo.item(key)
-        start = self._key_order.item(key)
-        return PrefixRange(lo if lo >= 0 else -lo - 1, self._key_hi.item(key), NO_ORDER_LIST if start == self._unlisted else start)
+        if self._key_lo is not None and self._key_hi is not None and self._key_order is not None:
+            lo = self._key_lo.item(key)
+            start = self._key_order.item(key)
+            return PrefixRange(lo if lo >= 0 else -lo - 1, self._key_hi.item(key), NO_ORDER_LIST if start == self._unlisted else start)
+        assert self._key_first is not None and self._key_span is not None and self._listed_keys is not None
+        assert self._listed_span is not None and self._listed_order is not None
+        first = self._key_first.item(key)
+        span = self._key_span.item(key)
+        if span:
+            return PrefixRange(first, first + span, NO_ORDER_LIST)
+        at = int(self._listed_keys.searchsorted(key))
+        return PrefixRange(first, first + self._listed_span.item(at), self._listed_order.item(at))
 
     def ranked_range(self, found: PrefixRange) -> np.ndarray:
         """The word ids of a prefix range, most probable (unigram) first, ties by id.
@@ -229,12 +256,15 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
 
     Returns:
         The ``vocab.*`` sections: ``trie`` (marisa-trie bytes of every prefix),
-        ``key_lo`` (int32 per trie key: first id, or ``-(first id) - 1`` when the
-        key is not itself a word), ``key_hi`` (int32 per key), ``key_order``
-        (per key, start in ``order``), ``order`` (int32), and the string blobs.
+        per trie key ``key_first`` (its first id) and ``key_span`` (uint8: how
+        many words share it, 0 for a range longer than :data:`SHORT_RANGE`,
+        whose span and start in ``order`` are in ``listed_span`` and
+        ``listed_order``, in key order), ``order`` (the root list, then the
+        longer ranges' lists), the model forms, and the display forms of the
+        ids in ``display_ids`` (those whose display form differs).
     """
     size = len(words)
-    prefixes, lo, hi, is_word = _prefix_ranges(words)
+    prefixes, lo, hi, _ = _prefix_ranges(words)
     trie = marisa_trie.Trie(prefixes)
     keys = len(prefixes)
     # Rank of each word in the global unigram order (probability descending, id ascending).
@@ -252,25 +282,24 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
     by_owner_rank = np.lexsort((rank[member], owner))
     id_dtype = word_id_dtype(size)
     order = np.concatenate((global_order, member[by_owner_rank])).astype(id_dtype)
-    total = int(order.shape[0])
-    order_dtype = offsets_dtype(total + 1)
-    unlisted = np.iinfo(order_dtype).max
-    key_lo = np.empty(keys, dtype=np.int32)
-    key_hi = np.empty(keys, dtype=np.int32)
-    key_order = np.empty(keys, dtype=order_dtype)
-    key_lo[trie_ids] = np.where(is_word, lo, -lo - 1)
-    key_hi[trie_ids] = hi
-    key_order[trie_ids] = np.where(listed, starts, unlisted)
+    key_first = np.empty(keys, dtype=id_dtype)
+    key_span = np.empty(keys, dtype=np.uint8)
+    key_first[trie_ids] = lo
+    key_span[trie_ids] = np.where(listed, 0, sizes)
+    by_key = np.argsort(trie_ids[listed])
     words_blob, words_off = pack_strings(words)
-    display_blob, display_off = pack_strings(display)
+    differs = [i for i, (shown, word) in enumerate(zip(display, words)) if shown != word]
+    display_blob, display_off = pack_strings([display[i] for i in differs])
     return {
         "vocab.trie": np.frombuffer(trie.tobytes(), dtype=np.uint8),
-        "vocab.key_lo": key_lo,
-        "vocab.key_hi": key_hi,
-        "vocab.key_order": key_order,
+        "vocab.key_first": key_first,
+        "vocab.key_span": key_span,
+        "vocab.listed_span": sizes[listed][by_key].astype(np.uint32),
+        "vocab.listed_order": starts[listed][by_key].astype(offsets_dtype(len(order))),
         "vocab.order": order,
         "vocab.words_blob": words_blob,
         "vocab.words_off": words_off,
+        "vocab.display_ids": np.array(differs, dtype=id_dtype),
         "vocab.display_blob": display_blob,
         "vocab.display_off": display_off,
     }

@@ -53,7 +53,7 @@ def simulate(
     run = typist.type_passage(passage, progress=progress, keep_traces=keep_traces, after_word=after_word)
     view = VocabularyView.of(model)
     oracle = oracle_keystrokes(passage, view, settings)
-    baseline = baseline_keystrokes(passage, view, model.sections["p1"][: vocab.size], settings)
+    baseline = baseline_keystrokes(passage, view, model.arrays.p1[: vocab.size], settings)
     words = len(passage.words)
     characters = passage.characters
     ksr = 1.0 - run.keystrokes / characters

@@ -222,7 +222,7 @@ def letter_frequencies(model: LanguageModel) -> dict[str, float]:
         character -> expected uses per predicted token.
     """
     vocab = model.vocab
-    p1 = np.asarray(model.sections["p1"], dtype=np.float64)
+    p1 = np.asarray(model.arrays.p1, dtype=np.float64)
     weights: dict[str, float] = {}
     for word_id, word in enumerate(vocab.words()):
         weight = float(p1[word_id])

@@ -157,7 +157,7 @@ def _check_options(model: LanguageModel, encoding: str, pruning: bool, threshold
 
 
 def _estimated_bytes(model: LanguageModel, tables: BackoffTables, encoding: str, ranked_min: int, meta: dict[str, Any]) -> int:
-    fixed = {name: int(a.nbytes) for name, a in model.sections.items() if name.startswith("vocab.")}
+    fixed = {name: int(a.nbytes) for name, a in model.arrays.vocabulary_sections().items()}
     return file_bytes_of(meta, {**fixed, **level_bytes(tables, encoding, ranked_min)})
 
 

@@ -9,6 +9,7 @@ from typing import Any
 import numpy as np
 
 from ...arrays import offsets_dtype, word_id_dtype
+from ...modelfile.blocked import to_blocks
 from .quantise import CODEBOOK8, LEVELS
 from .tables import BackoffTables
 
@@ -51,7 +52,7 @@ def level_bytes(tables: BackoffTables, encoding: str, ranked_min: int) -> dict[s
         "l2.word": word * n2,
         "l2.value": value * n2,
         "l2.gamma": 4 * (size + 3),
-        "l3.off": offsets_dtype(n3).itemsize * (n2 + 2),
+        **_level3_offset_bytes(tables.off3),
         "l3.word": word * n3,
         "l3.value": value * n3,
         "l3.gamma": 4 * (n2 + 1),
@@ -64,6 +65,14 @@ def level_bytes(tables: BackoffTables, encoding: str, ranked_min: int) -> dict[s
     if encoding == CODEBOOK8:
         out["l2.codebook"] = out["l3.codebook"] = 8 * LEVELS
     return out
+
+
+def _level3_offset_bytes(offsets: np.ndarray) -> dict[str, int]:
+    """Bytes of level 3's offsets as the file stores them (in blocks where they fit)."""
+    blocks = to_blocks(offsets)
+    if blocks is None:
+        return {"l3.off": offsets_dtype(int(offsets[-1])).itemsize * len(offsets)}
+    return {"l3.off_base": blocks[0].nbytes, "l3.off_delta": blocks[1].nbytes, "l3.off_wide": blocks[2].nbytes}
 
 
 def _suggestable(words: np.ndarray, offsets: np.ndarray, contexts: np.ndarray, size: int) -> int:

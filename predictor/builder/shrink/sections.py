@@ -117,7 +117,7 @@ def shrunk_model(source: LanguageModel, tables: BackoffTables, *, encoding: str,
         shrink_meta: what the header records about the shrinking (``info`` shows it).
         ranked_min: contexts with more stored words than this get a ranked list.
     """
-    sections = {name: array for name, array in source.sections.items() if name.startswith("vocab.")}
+    sections = source.arrays.vocabulary_sections()
     sections.update(backoff_sections(tables, encoding))
     meta = {key: value for key, value in source.meta.items() if key != "shrink"}
     meta.update(interpolated=False, value_encoding=encoding, shrink=shrink_meta)

@@ -160,18 +160,18 @@ def backoff_tables(model: LanguageModel) -> BackoffTables:
     Args:
         model: any model; an interpolated one is converted, a back-off one read as is.
     """
-    s = model.sections
+    s = model.arrays
     size = model.vocab_size
     base = size + 3
-    p1 = s["p1"].astype(np.float64)
-    off2 = s["l2.off"].astype(np.int64)
-    w2 = s["l2.word"].astype(np.int64)
+    p1 = s.p1.astype(np.float64)
+    off2 = s.l2_off.astype(np.int64)
+    w2 = s.l2_word.astype(np.int64)
     a2 = _decode_values(model, "l2")
-    g2 = s["l2.gamma"].astype(np.float64)
-    off3 = s["l3.off"].astype(np.int64)
-    w3 = s["l3.word"].astype(np.int64)
+    g2 = s.l2_gamma.astype(np.float64)
+    off3 = s.level3_offsets()
+    w3 = s.l3_word.astype(np.int64)
     a3 = _decode_values(model, "l3")
-    g3 = s["l3.gamma"].astype(np.float64)
+    g3 = s.l3_gamma.astype(np.float64)
     v2 = np.repeat(np.arange(len(off2) - 1, dtype=np.int64), np.diff(off2))
     interpolated = bool(model.meta["interpolated"])
     p2 = a2 + g2[v2] * p1[w2] if interpolated else a2.copy()
@@ -185,6 +185,6 @@ def backoff_tables(model: LanguageModel) -> BackoffTables:
 
 def _decode_values(model: LanguageModel, level: str) -> np.ndarray:
     """Decode a level's stored values whatever their encoding (codebooks included)."""
-    stored = model.sections[f"{level}.value"]
-    table = value_table(model.sections, level)
+    stored, codebook = (model.arrays.l2_value, model.arrays.l2_codebook) if level == "l2" else (model.arrays.l3_value, model.arrays.l3_codebook)
+    table = value_table(stored, codebook)
     return table[stored] if table is not None else decode(stored)

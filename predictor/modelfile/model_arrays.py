@@ -1,0 +1,319 @@
+"""The arrays of a model: one typed, frozen structure with a field per file section.
+
+Each field's declaration says everything the load checks need to know about
+its section: the section's name in the file, the dtypes it may have (from the
+field's ``NDArray[...]`` annotation), whether it is required (a field typed
+``... | None`` is optional), which group an optional section belongs to
+(ranked lists come all or none; codebooks come with 8-bit values) and how long
+it must be, given the vocabulary size and the number of stored entries.
+:mod:`foretype.modelfile.integrity` reads its per-section tables from here, so
+a new section is declared once.
+
+Level 1 is a dense unigram array over the V + 2 outcomes; level 2 lists, per
+context word v, the words stored after it (sorted by id) with a value each and
+one lower-order weight per context; level 3 lists, per bigram entry (plus one
+slot for ``START START``), the words stored after the pair.  The ``vocab_*``
+fields are the prefix index and the string tables
+(:func:`foretype.query.vocabulary.vocabulary_sections`); the ``rank*`` fields
+the ranked continuation lists (:mod:`foretype.query.ranked`).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import types
+import typing
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass
+from typing import Any, NamedTuple
+
+import numpy as np
+from numpy.typing import NDArray
+
+from ..errors import ModelFileError
+from .blocked import BlockedOffsets, blocks_for, from_blocks, to_blocks
+
+WordIds = NDArray[np.uint16 | np.int32]
+"""Word ids: uint16 while the V + 3 ids fit, else int32."""
+Offsets = NDArray[np.uint32 | np.uint64]
+"""Where each context's (or string's, or list's) entries start, with one end entry."""
+Floats = NDArray[np.float32 | np.float64]
+Values = NDArray[np.uint8 | np.uint16 | np.float32]
+"""Stored values: 8-bit codebook codes, 16-bit log codes or float32 (the header's ``value_encoding``)."""
+Bytes = NDArray[np.uint8]
+Bounds = NDArray[np.int32]
+
+REQUIRED = "required"
+RANKED = "ranked"
+"""The group of the ranked-list sections: a model has all of them or none."""
+CODEBOOKS = "codebooks"
+"""The group of the codebooks: present exactly where the values are 8-bit codes."""
+DENSE_INDEX = "prefix index with three integers per key"
+COMPACT_INDEX = "prefix index with a first id and a span per key"
+"""The two layouts of the prefix index (a model has exactly one; the compact one from format version 3 on)."""
+SPARSE_DISPLAY = "display forms where they differ"
+"""With ``vocab.display_ids``, display forms are stored only for those ids (the others show their model form)."""
+PLAIN3 = "plain level-3 offsets"
+BLOCKED3 = "blocked level-3 offsets"
+"""The two layouts of level 3's offsets (a model has exactly one): ``l3.off`` in full, or in blocks
+(:mod:`foretype.modelfile.blocked`, format version 3 on)."""
+
+
+class Counts(NamedTuple):
+    """The numbers the sections' lengths follow from.
+
+    Attributes:
+        words: V, the number of suggestable words.
+        n2: stored bigram entries (length of ``l2.word``).
+        n3: stored trigram entries (length of ``l3.word``).
+        keys: prefix-index keys (length of ``vocab.key_lo`` or ``vocab.key_first``).
+        ranked3: context pairs with a ranked list (length of ``rank3.slot``).
+        listed: keys of the compact prefix index whose range has a stored list (span 0).
+        displayed: words with a stored display form (V unless ``vocab.display_ids`` says fewer).
+    """
+
+    words: int
+    n2: int
+    n3: int
+    keys: int
+    ranked3: int
+    listed: int = 0
+    displayed: int = 0
+
+
+Length = Callable[[Counts], int]
+
+
+def _section(name: str, length: Length | None = None, group: str = REQUIRED) -> Any:
+    """Declare a field as the file section ``name`` (``length``: its length given the counts, None: free)."""
+    return dataclasses.field(metadata={"section": name, "length": length, "group": group})
+
+
+def _optional(name: str, group: str, length: Length | None = None) -> Any:
+    return dataclasses.field(default=None, metadata={"section": name, "length": length, "group": group})
+
+
+@dataclass(frozen=True, eq=False)
+class ModelArrays:
+    """A model's arrays (read-only views of the mapped file, or arrays just built).
+
+    Every array is one-dimensional.  Lengths (V words, n2 bigram entries, n3
+    trigram entries) are those the load checks enforce.
+    """
+
+    p1: Floats = _section("p1", lambda n: n.words + 2)
+    """Unigram probability of each outcome: words, UNKNOWN, END (V + 2)."""
+    l2_off: Offsets = _section("l2.off", lambda n: n.words + 4)
+    """Per context word (V + 3 contexts), where its bigram entries start; one end entry."""
+    l2_word: WordIds = _section("l2.word", lambda n: n.n2)
+    """The word of each bigram entry, sorted within a context."""
+    l2_value: Values = _section("l2.value", lambda n: n.n2)
+    """The stored value of each bigram entry."""
+    l2_gamma: Floats = _section("l2.gamma", lambda n: n.words + 3)
+    """The lower-order weight of each context word."""
+    l3_word: WordIds = _section("l3.word", lambda n: n.n3)
+    """The word of each trigram entry, sorted within a context pair."""
+    l3_value: Values = _section("l3.value", lambda n: n.n3)
+    """The stored value of each trigram entry."""
+    l3_gamma: Floats = _section("l3.gamma", lambda n: n.n2 + 1)
+    """The lower-order weight of each context pair."""
+    vocab_trie: Bytes = _section("vocab.trie")
+    """The marisa-trie image holding every prefix of every word."""
+    vocab_order: WordIds = _section("vocab.order")
+    """The whole vocabulary by unigram probability, then the lists of the longer prefix ranges."""
+    vocab_words_blob: Bytes = _section("vocab.words_blob")
+    """The words' model forms, UTF-8, concatenated."""
+    vocab_words_off: Offsets = _section("vocab.words_off", lambda n: n.words + 1)
+    vocab_display_blob: Bytes = _section("vocab.display_blob")
+    """The words' display forms, UTF-8, concatenated."""
+    vocab_display_off: Offsets = _section("vocab.display_off", lambda n: n.displayed + 1)
+    vocab_key_lo: Bounds | None = _optional("vocab.key_lo", DENSE_INDEX)
+    """Per trie key: the first id with the prefix, or ``-(first id) - 1`` when the key is not itself a word."""
+    vocab_key_hi: Bounds | None = _optional("vocab.key_hi", DENSE_INDEX, lambda n: n.keys)
+    """Per trie key: one past the last id with the prefix."""
+    vocab_key_order: Offsets | None = _optional("vocab.key_order", DENSE_INDEX, lambda n: n.keys)
+    """Per trie key: where its range's unigram list starts in ``vocab_order`` (the dtype's maximum: no list)."""
+    vocab_key_first: WordIds | None = _optional("vocab.key_first", COMPACT_INDEX)
+    """Per trie key: the first id with the prefix (the key is a word when that word is the key itself)."""
+    vocab_key_span: NDArray[np.uint8] | None = _optional("vocab.key_span", COMPACT_INDEX, lambda n: n.keys)
+    """Per trie key: how many words have the prefix, or 0 for a range with a stored list (more than 12 words)."""
+    vocab_listed_span: Offsets | None = _optional("vocab.listed_span", COMPACT_INDEX, lambda n: n.listed)
+    """Per key of span 0, in key order: how many words have the prefix."""
+    vocab_listed_order: Offsets | None = _optional("vocab.listed_order", COMPACT_INDEX, lambda n: n.listed)
+    """Per key of span 0, in key order: where its range's list starts in ``vocab_order``."""
+    vocab_display_ids: WordIds | None = _optional("vocab.display_ids", SPARSE_DISPLAY)
+    """The ids whose display form differs from the model form, increasing (their forms are the display strings)."""
+    l3_off: Offsets | None = _optional("l3.off", PLAIN3, lambda n: n.n2 + 2)
+    """Per bigram entry (plus the ``START START`` slot), where its trigram entries start; one end entry
+    (or, in blocks, the next three fields; :meth:`level3_offsets` reads either)."""
+    l3_off_base: NDArray[np.uint32] | None = _optional("l3.off_base", BLOCKED3, lambda n: blocks_for(n.n2 + 2))
+    """Level-3 offsets in blocks: one base per 32 entries (flagged :data:`~foretype.modelfile.blocked.WIDE`: stored in full)."""
+    l3_off_delta: NDArray[np.uint8] | None = _optional("l3.off_delta", BLOCKED3, lambda n: n.n2 + 2)
+    """Level-3 offsets in blocks: each entry's step from its block's base."""
+    l3_off_wide: NDArray[np.uint32] | None = _optional("l3.off_wide", BLOCKED3)
+    """Level-3 offsets in blocks: the full offsets of the blocks that span more than 8 bits."""
+    l2_codebook: NDArray[np.float64] | None = _optional("l2.codebook", CODEBOOKS, lambda n: 256)
+    """The 256 levels of 8-bit bigram values."""
+    l3_codebook: NDArray[np.float64] | None = _optional("l3.codebook", CODEBOOKS, lambda n: 256)
+    """The 256 levels of 8-bit trigram values."""
+    rank2_off: Offsets | None = _optional("rank2.off", RANKED, lambda n: n.words + 4)
+    """Per context word, where its ranked list starts in ``rank2_ids``."""
+    rank2_ids: WordIds | None = _optional("rank2.ids", RANKED)
+    rank3_slot: Offsets | None = _optional("rank3.slot", RANKED)
+    """The bigram entries (context pairs) that have a ranked list, increasing."""
+    rank3_off: Offsets | None = _optional("rank3.off", RANKED, lambda n: n.ranked3 + 1)
+    rank3_ids: WordIds | None = _optional("rank3.ids", RANKED)
+
+    @property
+    def key_count(self) -> int:
+        """How many keys the prefix index has."""
+        keys = self.vocab_key_lo if self.vocab_key_lo is not None else self.vocab_key_first
+        return len(keys) if keys is not None else 0
+
+    def prefix_index(self) -> PrefixIndex:
+        """The prefix index in full, per trie key, whichever layout stores it (for checks and tools)."""
+        if self.vocab_key_lo is not None:
+            assert self.vocab_key_hi is not None and self.vocab_key_order is not None
+            lo = self.vocab_key_lo.astype(np.int64)
+            order = self.vocab_key_order
+            listed = order != np.iinfo(order.dtype).max
+            return PrefixIndex(np.where(lo >= 0, lo, -lo - 1), self.vocab_key_hi.astype(np.int64), np.where(listed, order, 0).astype(np.int64), listed, lo >= 0)
+        assert self.vocab_key_first is not None and self.vocab_key_span is not None
+        assert self.vocab_listed_span is not None and self.vocab_listed_order is not None
+        first = self.vocab_key_first.astype(np.int64)
+        span = self.vocab_key_span.astype(np.int64)
+        listed = span == 0
+        starts = np.zeros(len(span), dtype=np.int64)
+        span[listed] = self.vocab_listed_span
+        starts[listed] = self.vocab_listed_order
+        return PrefixIndex(first, first + span, starts, listed, None)
+
+    def level3_offsets(self) -> NDArray[np.int64]:
+        """Level 3's offsets in full, as int64, whichever layout stores them."""
+        if self.l3_off is not None:
+            return self.l3_off.astype(np.int64)
+        assert self.l3_off_base is not None and self.l3_off_delta is not None and self.l3_off_wide is not None
+        return from_blocks(self.l3_off_base, self.l3_off_delta, self.l3_off_wide)
+
+    def level3_offset_reader(self) -> np.ndarray | BlockedOffsets:
+        """Level 3's offsets for reading one entry at a time (``.item(i)``), without expanding them."""
+        if self.l3_off is not None:
+            return self.l3_off
+        assert self.l3_off_base is not None and self.l3_off_delta is not None and self.l3_off_wide is not None
+        return BlockedOffsets(self.l3_off_base, self.l3_off_delta, self.l3_off_wide)
+
+    def compact(self) -> ModelArrays:
+        """The same model in the current file layout: level-3 offsets in blocks where they fit."""
+        if self.l3_off is None:
+            return self
+        blocks = to_blocks(self.l3_off)
+        if blocks is None:
+            return self
+        base, delta, wide = blocks
+        return dataclasses.replace(self, l3_off=None, l3_off_base=base, l3_off_delta=delta, l3_off_wide=wide)
+
+    @property
+    def ranked(self) -> bool:
+        """Whether the model carries ranked lists."""
+        return self.rank2_off is not None
+
+    @classmethod
+    def from_sections(cls, sections: Mapping[str, np.ndarray], name: object = "model") -> ModelArrays:
+        """The arrays of a model from its sections by name (sections no field names are left out).
+
+        Raises:
+            ModelFileError: a required section is missing (``name`` names the file in the message).
+        """
+        values: dict[str, np.ndarray] = {}
+        for spec in SPECS:
+            array = sections.get(spec.section)
+            if array is None:
+                if spec.group == REQUIRED:
+                    raise ModelFileError(f"{name}: corrupt (missing section {spec.section})")
+                continue
+            values[spec.field] = array
+        return cls(**values)
+
+    def sections(self) -> dict[str, np.ndarray]:
+        """The arrays by section name, in declaration order (absent optional sections left out), as a file stores them."""
+        out: dict[str, np.ndarray] = {}
+        for spec in SPECS:
+            array = getattr(self, spec.field)
+            if array is not None:
+                out[spec.section] = array
+        return out
+
+    def vocabulary_sections(self) -> dict[str, np.ndarray]:
+        """The ``vocab.*`` sections alone (what does not change when n-grams are pruned)."""
+        return {name: array for name, array in self.sections().items() if name.startswith("vocab.")}
+
+    def nbytes(self) -> int:
+        """The bytes of every array."""
+        return sum(int(array.nbytes) for array in self.sections().values())
+
+
+class PrefixIndex(NamedTuple):
+    """The prefix index per trie key, expanded (int64 arrays of one entry per key).
+
+    Attributes:
+        first: the first id with the prefix.
+        hi: one past the last.
+        order_start: where the range's list starts in ``vocab_order`` (where ``listed``).
+        listed: whether the range has a stored list.
+        is_word: whether the key is itself a word (None where the layout does not store it).
+    """
+
+    first: NDArray[np.int64]
+    hi: NDArray[np.int64]
+    order_start: NDArray[np.int64]
+    listed: NDArray[np.bool_]
+    is_word: NDArray[np.bool_] | None
+
+
+class SectionSpec(NamedTuple):
+    """What a field's declaration says about its section (read by the load checks).
+
+    Attributes:
+        field: the attribute of :class:`ModelArrays`.
+        section: the section's name in the file.
+        dtypes: the dtype names it may have.
+        group: :data:`REQUIRED`, :data:`RANKED` or :data:`CODEBOOKS`.
+        length: its length given the counts, or None where no count fixes it.
+        word_ids: it holds word ids (so its width must fit the vocabulary).
+    """
+
+    field: str
+    section: str
+    dtypes: frozenset[str]
+    group: str
+    length: Length | None
+    word_ids: bool
+
+
+def _dtype_names(hint: Any) -> tuple[frozenset[str], bool]:
+    """The dtype names an ``NDArray[...]`` annotation allows, and whether it is optional."""
+    optional = False
+    if isinstance(hint, types.UnionType) or typing.get_origin(hint) is typing.Union:
+        arms = [arm for arm in typing.get_args(hint) if arm is not type(None)]
+        optional = len(arms) < len(typing.get_args(hint))
+        (hint,) = arms
+    (scalar,) = typing.get_args(typing.get_args(hint)[1])
+    scalars = typing.get_args(scalar) or (scalar,)
+    return frozenset(np.dtype(s).name for s in scalars), optional
+
+
+def _specs() -> tuple[SectionSpec, ...]:
+    hints = typing.get_type_hints(ModelArrays)
+    word_ids, _ = _dtype_names(WordIds)
+    specs = []
+    for item in dataclasses.fields(ModelArrays):
+        dtypes, optional = _dtype_names(hints[item.name])
+        group = item.metadata["group"]
+        if optional == (group == REQUIRED):
+            raise TypeError(f"field {item.name}: optional fields need a group, required ones none")
+        specs.append(SectionSpec(item.name, item.metadata["section"], dtypes, group, item.metadata["length"], dtypes == word_ids))
+    return tuple(specs)
+
+
+SPECS = _specs()
+"""One entry per field of :class:`ModelArrays`, in declaration order."""
