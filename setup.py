@@ -1,4 +1,4 @@
-"""Build hook: the compiled query core, where a C compiler exists (the numpy path answers otherwise).
+"""Build hook: the compiled query core and the combined model's merge, where a C compiler exists (the numpy path answers otherwise).
 
 Everything else about the package is declared in pyproject.toml.
 """
@@ -17,7 +17,8 @@ def extensions():
     # Multiply-then-add must round twice, as numpy does: no fused multiply-add.
     flags = [] if os.name == "nt" else ["-O2", "-ffp-contract=off"]
     core = Extension("foretype.query._core", ["predictor/query/_core.pyx"], extra_compile_args=flags, optional=True)
-    return cythonize([core], quiet=True, compiler_directives={"language_level": "3"})
+    merge = Extension("foretype.adapt._merge", ["predictor/adapt/_merge.pyx"], extra_compile_args=flags, optional=True)
+    return cythonize([core, merge], quiet=True, compiler_directives={"language_level": "3"})
 
 
 setup(ext_modules=extensions())
