@@ -18,8 +18,7 @@ import pytest
 from public_text import kjv_split
 
 import foretype
-from foretype.adapt import AdaptedModel, AdaptSettings, NeverList, UserModel
-from foretype.adapt import compiled_merge
+from foretype.adapt import AdaptedModel, AdaptSettings, NeverList, UserModel, compiled_merge
 from foretype.demo import demo_corpus
 from foretype.text import iter_sentences, model_form
 

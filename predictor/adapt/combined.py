@@ -81,11 +81,11 @@ from ..query.model import LanguageModel, Suggestion
 from ..query.vocabulary import END, START, Vocabulary
 from ..text import capitalise, split_before_cursor
 from .combination import base_context, base_probabilities, combine, responsibility
+from .compiled_merge import context_merge, merge_available
 from .listings import LearnedWord, learned_words
 from .never_list import NeverList
 from .settings import AdaptSettings
 from .suggestable import Suggestable, derive
-from .compiled_merge import context_merge, merge_available
 from .top_k import GUARD, PreparedContext, Row, exact_top, prepare
 from .user_model import UserModel
 
