@@ -204,7 +204,8 @@ cdef class ContextMerge:
     cdef double mu, m
     cdef int64_t ub, vb, end_id, base_size, first_new, n_where
 
-    def __init__(self, core, lock, int64_t ub, int64_t vb, double mu, keys, ids, p_user, floors, where, blocked,
+    def __init__(self, core, lock, int64_t ub, int64_t vb, double mu, const int64_t[::1] keys, const int64_t[::1] ids,
+                 const double[::1] p_user, const double[::1] floors, where, blocked,
                  int64_t end_id, int64_t base_size, int64_t first_new, display, order_of, user_context, made, dict forms):
         self.core = core
         self.lock = lock
@@ -212,16 +213,16 @@ cdef class ContextMerge:
         self.vb = vb
         self.mu = mu
         self.m = 1.0 - mu
-        self.keys = np.ascontiguousarray(keys, dtype=np.int64)
-        self.ids = np.ascontiguousarray(ids, dtype=np.int64)
-        self.p_user = np.ascontiguousarray(p_user, dtype=np.float64)
-        self.floors = np.ascontiguousarray(floors, dtype=np.float64)
-        n = self.keys.shape[0]
-        if self.ids.shape[0] != n or self.p_user.shape[0] != n or self.floors.shape[0] != n:
+        n = keys.shape[0]
+        if ids.shape[0] != n or p_user.shape[0] != n or floors.shape[0] != n:
             raise ValueError("the pool's arrays differ in length")
+        self.keys, self.ids, self.p_user, self.floors = keys, ids, p_user, floors
         self.use_where = where is not None
-        self.where = np.ascontiguousarray(where if where is not None else np.zeros(0), dtype=np.int64)
-        self.n_where = self.where.shape[0]
+        if where is not None:
+            self.where = where
+            self.n_where = self.where.shape[0]
+        else:
+            self.n_where = 0
         self.blocked = blocked
         self.end_id = end_id
         self.base_size = base_size
