@@ -1,4 +1,4 @@
-"""Build hook: the compiled query core, the combined model's merge and the build's tokeniser, where a C compiler exists (the numpy path answers otherwise).
+"""Build hook: the compiled query core, the combined model's merge, the build's tokeniser and prefix index, where a C compiler exists (the numpy path answers otherwise).
 
 Everything else about the package is declared in pyproject.toml.
 """
@@ -19,7 +19,8 @@ def extensions():
     core = Extension("foretype.query._core", ["predictor/query/_core.pyx"], extra_compile_args=flags, optional=True)
     merge = Extension("foretype.adapt._merge", ["predictor/adapt/_merge.pyx"], extra_compile_args=flags, optional=True)
     tokenise = Extension("foretype.counting._tokenise", ["predictor/counting/_tokenise.pyx"], extra_compile_args=flags, optional=True)
-    return cythonize([core, merge, tokenise], quiet=True, compiler_directives={"language_level": "3"})
+    prefixes = Extension("foretype.query._prefixes", ["predictor/query/_prefixes.pyx"], extra_compile_args=flags, optional=True)
+    return cythonize([core, merge, tokenise, prefixes], quiet=True, compiler_directives={"language_level": "3"})
 
 
 setup(ext_modules=extensions())
