@@ -404,3 +404,54 @@ cdef class ContextMerge:
             fields = ((form, rows[i].score, order, w, own, w >= self.first_new),)
             out.append(base.tp_new(made, <PyObject*>fields, NULL))
         return out
+
+
+def pool_user(const double[::1] share, double g2, double g3, double mu, const int64_t[::1] where,
+              const int64_t[::1] ids2, const double[::1] weights2, double total2,
+              const int64_t[::1] ids3, const double[::1] weights3, double total3,
+              const double[::1] w1, double total1):
+    """P_user and floors of the pool after a context, as ``top_k.prepare`` computes them (mu > 0, N > 0).
+
+    Outside the words seen after (u, v) or v, P_user is ``g3 * (g2 * share)``;
+    a follower's is the Witten-Bell chain of ``UserModel.followers``, with
+    the same operations in the same order.
+
+    Returns:
+        ``(p_user, floors)``, float64 arrays shaped like ``share``; or None where
+        the general path must answer (a follower the pool lacks, or words seen
+        after (u, v) that are not among those seen after v).
+    """
+    cdef Py_ssize_t n = share.shape[0], n2 = ids2.shape[0], n3 = ids3.shape[0], i, j, t, at
+    cdef int64_t w, n_where = where.shape[0], n_w1 = w1.shape[0]
+    cdef double p2, p3
+    if n2 == 0 and n3 > 0:
+        return None
+    # Every follower must have a place in the pool, and every word after (u, v) must follow v too.
+    j = 0
+    for i in range(n2):
+        w = ids2[i]
+        if w < 0 or w >= n_where or w >= n_w1 or where[w] < 0 or where[w] >= n:
+            return None
+    for t in range(n3):
+        while j < n2 and ids2[j] < ids3[t]:
+            j += 1
+        if j >= n2 or ids2[j] != ids3[t]:
+            return None
+    p_user_array = np.empty(n, dtype=np.float64)
+    floors_array = np.empty(n, dtype=np.float64)
+    cdef double[::1] p_user = p_user_array, floors = floors_array
+    for i in range(n):
+        p_user[i] = g3 * (g2 * share[i])
+    j = 0
+    for i in range(n2):
+        w = ids2[i]
+        p2 = (1.0 - g2) * (weights2[i] / total2) + g2 * (w1[w] / total1)
+        p3 = g3 * p2
+        while j < n3 and ids3[j] < w:
+            j += 1
+        if j < n3 and ids3[j] == w:
+            p3 = (1.0 - g3) * (weights3[j] / total3) + p3
+        p_user[where[w]] = p3
+    for i in range(n):
+        floors[i] = mu * p_user[i]
+    return p_user_array, floors_array

@@ -81,7 +81,7 @@ from ..query.model import LanguageModel, Suggestion
 from ..query.vocabulary import END, START, Vocabulary
 from ..text import capitalise, split_before_cursor
 from .combination import base_context, base_probabilities, combine, responsibility
-from .compiled_merge import context_merge, merge_available
+from .compiled_merge import context_merge, merge_available, prepare_compiled
 from .listings import LearnedWord, learned_words
 from .never_list import NeverList
 from .settings import AdaptSettings
@@ -222,7 +222,7 @@ class AdaptedModel:
             view = self._view = derive(view, user, self.never, self.base.vocab)
         prepared = view.memo.get("context")
         if prepared is None or prepared.u != u or prepared.v != v:
-            prepared = view.memo["context"] = prepare(view, u, v)
+            prepared = view.memo["context"] = prepare_compiled(view, u, v) if self._merge_on and self.base.compiled_core() is not None else prepare(view, u, v)
         return view, prepared
 
     def _prepared(self, u: int, v: int) -> PreparedContext:

@@ -14,18 +14,51 @@ from __future__ import annotations
 from typing import Any
 
 from ..query.model import LanguageModel, Suggestion
+from .combination import base_context
 from .suggestable import Suggestable
-from .top_k import PreparedContext
+from .top_k import PreparedContext, prepare
 
 try:
-    from ._merge import ContextMerge
+    from ._merge import ContextMerge, pool_user
 except ImportError:  # not built: no compiler at install time, or an unusual platform
-    ContextMerge = None  # type: ignore[assignment,misc]
+    ContextMerge = pool_user = None  # type: ignore[assignment,misc]
 
 
 def merge_available() -> bool:
     """Whether the compiled merge was built and imports."""
     return ContextMerge is not None
+
+
+def prepare_compiled(view: Suggestable, u: int, v: int) -> PreparedContext:
+    """:func:`~foretype.adapt.top_k.prepare` with the pool's user probabilities computed in one compiled pass.
+
+    Where the user model has no share or no counts yet, or a follower lies outside the pool, the Python
+    preparation answers.
+    """
+    user = view.user
+    uctx = user.context(u, v)
+    mu = user.share(uctx)
+    if pool_user is None or mu <= 0.0 or uctx.total1 <= 0:
+        return prepare(view, u, v)
+    found = pool_user(
+        view.unigram_share(uctx.total1),
+        uctx.gamma2,
+        uctx.gamma3,
+        mu,
+        view.pool_where,
+        uctx.ids2,
+        uctx.weights2,
+        uctx.total2,
+        uctx.ids3,
+        uctx.weights3,
+        uctx.total3,
+        user.unigram_weight_array(),
+        uctx.total1,
+    )
+    if found is None:
+        return prepare(view, u, v)
+    ub, vb = base_context(u, v, user.first_learned_id, user.unknown_id)
+    return PreparedContext(u, v, mu, uctx, ub, vb, view.pool_keys, view.pool_ids, found[0], found[1])
 
 
 def context_merge(base: LanguageModel, view: Suggestable, prepared: PreparedContext) -> Any:
@@ -66,4 +99,4 @@ def context_merge(base: LanguageModel, view: Suggestable, prepared: PreparedCont
     return merge
 
 
-__all__ = ["context_merge", "merge_available"]
+__all__ = ["context_merge", "merge_available", "prepare_compiled"]
