@@ -1,7 +1,7 @@
 """Build throughput end to end, with the compiled tokeniser and without it, side by side in one run.
 
-Builds the synthetic corpus of ``bench/corpus.py`` (5 million tokens by
-default) end to end: count (tokenising workers), estimate and index, write.
+Builds the synthetic corpus of ``bench/corpus.py`` (5 million tokens and
+50,000 words by default, as bench/bench_engine.py) end to end: count (tokenising workers), estimate and index, write.
 Rounds alternate between the default path (the compiled tokeniser where it is
 built) and ``FORETYPE_PURE=1`` (the regular expression and the dictionary),
 so both see the same machine load; the counts of both must be identical.
@@ -9,7 +9,7 @@ Prints the median seconds of each phase, tokens per second and their ratio,
 with the load average and the machine yardstick (bench/machine.py), and
 writes bench/out/build-<time>.json and bench/out/build-latest.json.
 
-    python bench/bench_build.py [--tokens 5000000] [--rounds 2]
+    python bench/bench_build.py [--tokens 5000000] [--rounds 2] [--vocab 50000]
 """
 
 from __future__ import annotations
@@ -41,7 +41,7 @@ PATHS = ("compiled", "pure")
 TARGET_TOKENS_PER_SECOND = 2_000_000
 
 
-def build_once(corpus: Path, out: Path, pure: bool) -> tuple[dict[str, float], Any]:
+def build_once(corpus: Path, out: Path, pure: bool, vocab_size: int | None) -> tuple[dict[str, float], Any]:
     """One build end to end; returns the seconds of each phase and the counts."""
     if pure:
         os.environ[tokenisers.PURE_ENV] = "1"
@@ -52,7 +52,7 @@ def build_once(corpus: Path, out: Path, pure: bool) -> tuple[dict[str, float], A
         t0 = time.perf_counter()
         counts = foretype.count_corpus([corpus])
         t1 = time.perf_counter()
-        model = foretype.build_from_counts(counts)
+        model = foretype.build_from_counts(counts, vocab_size=vocab_size)
         t2 = time.perf_counter()
         model.save(out, force=True)
         t3 = time.perf_counter()
@@ -73,6 +73,7 @@ def main(argv: list[str] | None = None) -> int:
     parser = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     parser.add_argument("--tokens", type=int, default=5_000_000, help="synthetic corpus tokens")
     parser.add_argument("--rounds", type=int, default=2, help="builds per path (alternating)")
+    parser.add_argument("--vocab", type=int, default=50_000, help="vocabulary size (0: every word; default 50,000, as bench_engine.py)")
     args = parser.parse_args(argv)
     bench_corpus.OUT.mkdir(parents=True, exist_ok=True)
     results: dict[str, Any] = {"machine": machine_facts(), "compiled_tokeniser_built": tokenisers.number_tokens is not None}
@@ -85,7 +86,7 @@ def main(argv: list[str] | None = None) -> int:
             order = PATHS if round_number % 2 == 0 else PATHS[::-1]
             found = {}
             for name in order:
-                seconds, counts = build_once(corpus, Path(folder) / f"{name}.model", name == "pure")
+                seconds, counts = build_once(corpus, Path(folder) / f"{name}.model", name == "pure", args.vocab or None)
                 runs[name].append(seconds)
                 found[name] = counts
                 tokens = counts.corpus_tokens
@@ -94,6 +95,7 @@ def main(argv: list[str] | None = None) -> int:
             del found
     finish_facts(results["machine"])
     results["corpus_tokens"] = tokens
+    results["vocab_size"] = args.vocab or "every word"
     results["counts_identical"] = identical
     for name in PATHS:
         medians = {phase: statistics.median(r[phase] for r in runs[name]) for phase in runs[name][0]}
@@ -102,7 +104,7 @@ def main(argv: list[str] | None = None) -> int:
     machine = results["machine"]
     print(f"\nload average {machine['load_average_at_start']} -> {machine['load_average_at_end']} on {machine['cpus']} cores")
     print(f"{describe(machine['yardstick_at_start'])} at start; {describe(machine['yardstick_at_end'])} at end")
-    print(f"{tokens:,} tokens, {args.rounds} rounds per path, medians in seconds")
+    print(f"{tokens:,} tokens, vocabulary {results['vocab_size']}, {args.rounds} rounds per path, medians in seconds")
     for name in PATHS:
         m = results[name]["median_seconds"]
         print(
