@@ -424,6 +424,8 @@ def pool_user(const double[::1] share, double g2, double g3, double mu, const in
     cdef Py_ssize_t n = share.shape[0], n2 = ids2.shape[0], n3 = ids3.shape[0], i, j, t, at
     cdef int64_t w, n_where = where.shape[0], n_w1 = w1.shape[0]
     cdef double p2, p3
+    if weights2.shape[0] != n2 or weights3.shape[0] != n3:
+        raise ValueError("follower ids and weights differ in length")
     if n2 == 0 and n3 > 0:
         return None
     # Every follower must have a place in the pool, and every word after (u, v) must follow v too.
