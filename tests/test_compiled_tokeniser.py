@@ -8,12 +8,16 @@ the last trigram).
 
 from __future__ import annotations
 
+import subprocess
+import sys
+
 import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from test_counting import assert_same_counts
 
+import foretype
 from foretype import counting
 from foretype.counting import tokenisers
 from foretype.counting.memory import MemoryBudget
@@ -77,3 +81,33 @@ def test_counts_with_and_without_the_compiled_tokeniser_are_identical(tmp_path, 
     assert not tokenisers.compiled_tokeniser()
     pure = counting.count_corpus([corpus])
     assert_same_counts(compiled, pure)
+
+
+CHILD = """
+import sys
+sys.modules["foretype.counting._tokenise"] = None  # blocked: as if the install had found no compiler
+sys.modules["foretype.query._prefixes"] = None
+from foretype import counting
+from foretype.counting import tokenisers
+from foretype.query import vocabulary
+assert tokenisers.number_tokens is None and not tokenisers.compiled_tokeniser()
+assert vocabulary._compiled_prefix_ranges is None
+counting.run.PARALLEL_MIN_BYTES = counting.run.PARALLEL_MIN_BUDGET = 0
+import foretype
+model = foretype.build_from_counts(counting.count_corpus([sys.argv[1]]))
+print(repr((model.vocabulary, [tuple(s) for s in model.suggest(["the"], "", 5)], model.ngram_counts())))
+"""
+
+
+def test_build_without_the_compiled_steps_gives_the_same_model(tmp_path, monkeypatch) -> None:
+    # Reference: the same build in this process, with the compiled tokeniser and prefix walk.
+
+    lines = [f"Crossing {i % 97} leaves at 7:{i % 60:02d}, don’t be late! Wörd{i % 313} and the café-{i % 7}." for i in range(2000)]
+    corpus = tmp_path / "corpus.txt"
+    corpus.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    done = subprocess.run([sys.executable, "-c", CHILD, str(corpus)], capture_output=True, text=True, timeout=300)
+    assert done.returncode == 0, done.stderr
+    monkeypatch.setattr(counting.run, "PARALLEL_MIN_BYTES", 0)
+    monkeypatch.setattr(counting.run, "PARALLEL_MIN_BUDGET", 0)
+    model = foretype.build_from_counts(counting.count_corpus([corpus]))
+    assert done.stdout.strip() == repr((model.vocabulary, [tuple(s) for s in model.suggest(["the"], "", 5)], model.ngram_counts()))
