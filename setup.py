@@ -1,4 +1,4 @@
-"""Build hook: the compiled query core, where a C compiler exists (the numpy path answers otherwise).
+"""Build hook: the compiled query core, the combined model's merge, the build's tokeniser and prefix index, where a C compiler exists (the numpy path answers otherwise).
 
 Everything else about the package is declared in pyproject.toml.
 """
@@ -9,7 +9,7 @@ from setuptools import Extension, setup
 
 
 def extensions():
-    """The optional extension: a failed compile leaves the install to the numpy path."""
+    """The optional extensions: a failed compile leaves the install to the numpy path."""
     try:
         from Cython.Build import cythonize
     except ImportError:
@@ -17,7 +17,10 @@ def extensions():
     # Multiply-then-add must round twice, as numpy does: no fused multiply-add.
     flags = [] if os.name == "nt" else ["-O2", "-ffp-contract=off"]
     core = Extension("foretype.query._core", ["predictor/query/_core.pyx"], extra_compile_args=flags, optional=True)
-    return cythonize([core], quiet=True, compiler_directives={"language_level": "3"})
+    merge = Extension("foretype.adapt._merge", ["predictor/adapt/_merge.pyx"], extra_compile_args=flags, optional=True)
+    tokenise = Extension("foretype.counting._tokenise", ["predictor/counting/_tokenise.pyx"], extra_compile_args=flags, optional=True)
+    prefixes = Extension("foretype.query._prefixes", ["predictor/query/_prefixes.pyx"], extra_compile_args=flags, optional=True)
+    return cythonize([core, merge, tokenise, prefixes], quiet=True, compiler_directives={"language_level": "3"})
 
 
 setup(ext_modules=extensions())

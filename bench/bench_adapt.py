@@ -33,12 +33,16 @@ same text, every query is put to both, alternating which goes first, their
 whole answers (ids, probabilities, orders, marks) must be identical, and the
 table adds the ratio of their medians measured side by side.  It also puts
 the same queries to both after random edits on a small model (never-suggest
-entries, forgetting, pruning, settings changed).
+entries, forgetting, pruning, settings changed).  ``--python-walk`` does the
+same with the combined model answering on the Python walk instead of the
+compiled merge (``AdaptedModel(base, compiled=False)``): the "earlier" column
+is then the Python walk, and every answer of the two must be identical.
 """
 
 from __future__ import annotations
 
 import argparse
+import functools
 import importlib
 import json
 import random
@@ -318,8 +322,11 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--words", type=int, default=None, help="words typed per run (default 3,000)")
     parser.add_argument("--tokens", type=int, default=5_000_000, help="synthetic base corpus tokens")
     parser.add_argument("--against", metavar="MODULE", help="an earlier copy of predictor/adapt (e.g. foretype._adapt_old) to compare with, side by side")
+    parser.add_argument("--python-walk", action="store_true", help="compare with the combined model on the Python walk (no compiled merge), side by side")
     args = parser.parse_args(argv)
     earlier_class = importlib.import_module(f"{args.against}.combined").AdaptedModel if args.against else None
+    if args.python_walk:
+        earlier_class = functools.partial(AdaptedModel, compiled=False)
     learn_tokens = args.learn or (5_000 if args.quick else 20_000)
     words = args.words or (500 if args.quick else 3_000)
     bench_corpus.OUT.mkdir(parents=True, exist_ok=True)

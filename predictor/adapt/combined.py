@@ -81,11 +81,12 @@ from ..query.model import LanguageModel, Suggestion
 from ..query.vocabulary import END, START, Vocabulary
 from ..text import capitalise, split_before_cursor
 from .combination import base_context, base_probabilities, combine, responsibility
+from .compiled_merge import context_merge, merge_available, prepare_compiled
 from .listings import LearnedWord, learned_words
 from .never_list import NeverList
 from .settings import AdaptSettings
 from .suggestable import Suggestable, derive
-from .top_k import PreparedContext, Row, exact_top, prepare
+from .top_k import GUARD, PreparedContext, Row, exact_top, prepare
 from .user_model import UserModel
 
 AdaptedSuggestion = Suggestion
@@ -97,17 +98,24 @@ the user model's) and ``new_word`` (the base vocabulary lacks the word) set; the
 class AdaptedModel:
     """Suggestions and probabilities from a base model combined with what a person's text taught."""
 
-    def __init__(self, base: LanguageModel, user: UserModel | None = None, never: NeverList | None = None) -> None:
+    def __init__(self, base: LanguageModel, user: UserModel | None = None, never: NeverList | None = None, *, compiled: bool | None = None) -> None:
         """Combine a base model with a user model and a never-suggest list.
 
         Args:
             base: the trained model.
             user: the learned counts (default: empty, bound to ``base``'s vocabulary).
             never: words and patterns never suggested (default: none).
+            compiled: walk to the top k with the compiled merge (True), the
+                Python walk (False), or the default (None: the compiled merge
+                where it is built and the base model answers on its compiled core).
 
         Raises:
             OptionError: ``user`` is bound to a different vocabulary size.
+            RuntimeError: ``compiled=True`` but the compiled merge or the base model's compiled core is missing.
         """
+        if compiled and (not merge_available() or base.compiled_core() is None):
+            raise RuntimeError("the compiled merge needs the compiled merge and the base model's compiled core built")
+        self._merge_on = compiled is not False
         self.base = base
         self.user = user if user is not None else UserModel(base.vocab)
         if self.user.base_size != base.vocab_size:
@@ -214,7 +222,7 @@ class AdaptedModel:
             view = self._view = derive(view, user, self.never, self.base.vocab)
         prepared = view.memo.get("context")
         if prepared is None or prepared.u != u or prepared.v != v:
-            prepared = view.memo["context"] = prepare(view, u, v)
+            prepared = view.memo["context"] = prepare_compiled(view, u, v) if self._merge_on and self.base.compiled_core() is not None else prepare(view, u, v)
         return view, prepared
 
     def _prepared(self, u: int, v: int) -> PreparedContext:
@@ -304,6 +312,11 @@ class AdaptedModel:
         span, key_range = view.ranges_of(prefix, self.base.vocab)
         if key_range is None:
             return []
+        merge = context_merge(self.base, view, prepared) if self._merge_on else None
+        if merge is not None:
+            if span is None:
+                return merge.suggest(False, 0, 0, -1, key_range[0], key_range[1], k, GUARD)  # type: ignore[no-any-return]
+            return merge.suggest(True, span.lo, span.hi, span.order_start, key_range[0], key_range[1], k, GUARD)  # type: ignore[no-any-return]
         chosen, base_orders = exact_top(self.base, view, prepared, span, key_range, k)
         return self._results(prepared, chosen, base_orders)
 

@@ -88,6 +88,8 @@ class Suggestable:
     """How many base words sort before each new word (shared by every snapshot of one user model)."""
     _prefixes: dict[str, tuple[PrefixRange | None, tuple[int, int] | None]] = field(repr=False)
     """Typed prefixes' ranges (shared while the suggestable new words stay the same)."""
+    _spans: dict[str, tuple[str, PrefixRange | None]] = field(repr=False)
+    """Typed prefixes' model forms and base id ranges (shared by every snapshot of one user model)."""
     memo: dict[str, Any] = field(default_factory=dict, repr=False)
 
     # ------------------------------------------------------------ queries
@@ -102,8 +104,13 @@ class Suggestable:
         """The base id range and the sort-key range of a typed prefix (None where it has none)."""
         found = self._prefixes.get(prefix)
         if found is None:
-            form = model_form(prefix)
-            span = vocab.prefix_range(form)
+            known = self._spans.get(prefix)
+            if known is None:
+                if len(self._spans) >= _PREFIX_MEMO:
+                    self._spans.clear()
+                form = model_form(prefix)
+                known = self._spans[prefix] = (form, vocab.prefix_range(form))
+            form, span = known
             found = (span, self._key_range(form, span))
             if len(self._prefixes) >= _PREFIX_MEMO:
                 self._prefixes.clear()
@@ -181,6 +188,7 @@ def derive(previous: Suggestable | None, user: UserModel, never: NeverList, voca
     else:
         seen_ok = _unblocked(user.seen_base_ids(), blocked_base)
     insertion = old._insertion if old is not None else {}
+    spans = old._spans if old is not None else {}
     ready_state = (user.ready_epoch, never_version)
     ready_forms: tuple[str, ...]
     ready_ids: tuple[int, ...]
@@ -223,6 +231,7 @@ def derive(previous: Suggestable | None, user: UserModel, never: NeverList, voca
         _states=states,
         _insertion=insertion,
         _prefixes=prefixes,
+        _spans=spans,
     )
 
 

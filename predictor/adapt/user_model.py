@@ -475,6 +475,10 @@ class UserModel:
         share1 = context.gamma3 * context.gamma2 * p1
         return 3 if share3 >= share2 and share3 >= share1 else 2 if share2 >= share1 else 1
 
+    def unigram_weight_array(self) -> np.ndarray:
+        """The inflated unigram count of every id, indexed by id (its length may exceed the ids in use); do not modify."""
+        return self._w1
+
     def unigram_weights(self, ids: np.ndarray) -> np.ndarray:
         """The inflated unigram counts of ids (float64 array of the same shape)."""
         return self._w1[np.asarray(ids, dtype=np.int64)]

@@ -25,7 +25,15 @@ from typing import Any, NamedTuple
 
 import numpy as np
 
-from ..text import tokens
+from ..text import prepare, tokens
+
+try:
+    from ._tokenise import number_tokens
+except ImportError:  # not built: no compiler at install time; the regular expression and the dictionary answer
+    number_tokens = None
+
+PURE_ENV = "FORETYPE_PURE"
+"""Set to 1 to tokenise with the regular expression and the dictionary, as without the compiled tokeniser."""
 
 WORKER_FORM_BYTES = 64 << 20
 """A worker's dictionary of written forms starts afresh once it holds more than this (64 MiB)."""
@@ -97,16 +105,25 @@ def tokenise_part(text: str, wrapped: bool) -> TokenisedPart:
         The forms new to this worker and every token's number.
     """
     global _numbers
-    found = tokens(text, wrapped=wrapped)
     if _numbers.bytes > WORKER_FORM_BYTES:
         _numbers = _FormNumbers()
     numbers = _numbers
     first = len(numbers)
-    # One pass numbers every token, new forms included (__missing__ numbers them).
-    positions = np.fromiter(map(numbers.__getitem__, found), dtype=np.int32, count=len(found))
+    if compiled_tokeniser():
+        # One compiled pass finds the tokens and numbers them (new forms go to numbers.fresh).
+        positions = number_tokens(prepare(text, wrapped=wrapped), numbers, numbers.fresh)
+    else:
+        found = tokens(text, wrapped=wrapped)
+        # One pass numbers every token, new forms included (__missing__ numbers them).
+        positions = np.fromiter(map(numbers.__getitem__, found), dtype=np.int32, count=len(found))
     new, numbers.fresh = numbers.fresh, []
     numbers.bytes += sum(map(sys.getsizeof, new)) + FORM_BYTES * len(new)
     return TokenisedPart(os.getpid(), first, new, positions)
+
+
+def compiled_tokeniser() -> bool:
+    """Whether the compiled tokeniser is built and ``FORETYPE_PURE`` does not turn it off."""
+    return number_tokens is not None and os.environ.get(PURE_ENV, "").strip() in ("", "0")
 
 
 @contextmanager

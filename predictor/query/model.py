@@ -184,6 +184,10 @@ class LanguageModel:
         """Which path answers queries: ``compiled`` (the compiled core) or ``numpy``."""
         return COMPILED if self._compiled is not None else NUMPY
 
+    def compiled_core(self) -> tuple[Any, threading.Lock] | None:
+        """The compiled core and the lock that keeps it to one query at a time (None on the numpy path)."""
+        return None if self._compiled is None else (self._compiled, self._core_lock)
+
     # ----------------------------------------------------------------- facts
     @property
     def vocabulary(self) -> list[str]:

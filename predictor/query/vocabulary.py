@@ -22,6 +22,12 @@ import numpy as np
 from ..arrays import offsets_dtype, pack_strings, unpack_string, word_id_dtype
 from ..modelfile.model_arrays import ModelArrays
 from ..text import model_form
+from .compiled import forced_pure
+
+try:
+    from ._prefixes import prefix_ranges as _compiled_prefix_ranges
+except ImportError:  # not built: the Python walk below answers
+    _compiled_prefix_ranges = None
 
 START = "<s>"
 """The sentence-start symbol: pads the context, never predicted."""
@@ -264,7 +270,8 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
         ids in ``display_ids`` (those whose display form differs).
     """
     size = len(words)
-    prefixes, lo, hi, _ = _prefix_ranges(words)
+    walk = _compiled_prefix_ranges if _compiled_prefix_ranges is not None and not forced_pure() else _prefix_ranges
+    prefixes, lo, hi, _ = walk(words)
     trie = marisa_trie.Trie(prefixes)
     keys = len(prefixes)
     # Rank of each word in the global unigram order (probability descending, id ascending).
