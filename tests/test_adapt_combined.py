@@ -174,9 +174,10 @@ def test_a_learned_word_completes_like_any_other_word_once_used_often_enough(bas
 
 
 def test_the_share_of_the_user_model_grows_with_evidence_and_follows_its_worth(bases, user_sentences):
-    # worth = (R + prior_worth * beta) / (n + beta), share = worth * n / (n + beta)
+    # The online rule: worth = (R + prior_worth * beta) / (n + beta), share = worth * n / (n + beta)
+    # (the EM responsibility of Jelinek & Mercer 1980, averaged with a prior).
     base = bases["kneser-ney"]
-    model = AdaptedModel(base)
+    model = AdaptedModel(base, UserModel(base.vocab, AdaptSettings(share_rule="online", prior_tokens=100.0)))
     assert model.share(("unto", "the")) == 0.0
     shares = []
     _, heldout = kjv_split()
