@@ -79,6 +79,5 @@ def test_no_word_is_offered_twice_within_a_word_when_passed_over_words_are_left_
     assert again > 0  # without the option the exact top k does repeat words
 
 
-def test_passed_over_words_are_left_out_by_default_in_the_typist_and_the_pad(base):
+def test_the_simulated_typist_leaves_passed_over_words_out_by_default():
     assert TypistSettings().skip_passed
-    assert PadSession(base).skip_passed

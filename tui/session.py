@@ -154,7 +154,7 @@ def plan_acceptance(offer: Offer, index: int) -> Acceptance:
 class PadSession:
     """Suggestions, highlight and tally of one typing session."""
 
-    def __init__(self, source: SuggestionSource, *, k: int = 5, clock: Callable[[], int] = time.perf_counter_ns, skip_passed: bool = True) -> None:
+    def __init__(self, source: SuggestionSource, *, k: int = 5, clock: Callable[[], int] = time.perf_counter_ns, skip_passed: bool = False) -> None:
         """Start a session.
 
         Args:
