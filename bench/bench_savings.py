@@ -34,9 +34,10 @@ from corpus import OUT, public_corpus, synthetic_corpus  # noqa: E402
 from machine import describe, reference_speed  # noqa: E402
 
 import foretype  # noqa: E402
+from foretype.cli.sweep_commands import format_table  # noqa: E402
 from foretype.demo import demo_heldout, demo_model  # noqa: E402
 from foretype.simulate import TypistSettings, simulate  # noqa: E402
-from foretype.sweep import format_table, run_sweep  # noqa: E402
+from foretype.sweep import run_sweep  # noqa: E402
 
 WORDS = 20_000
 SWEEP_SIZES = (1000, 2000, 5000, 10000, 20000, 50000)

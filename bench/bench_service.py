@@ -171,7 +171,7 @@ def summary(samples: list[int], seconds: float | None = None) -> dict[str, Any]:
 
 def start_service(model_path: str | None, profiles: Path) -> tuple[subprocess.Popen, int]:
     """``foretype serve`` on a free loopback port, in its own process."""
-    command = [*FORETYPE, "serve", *([model_path] if model_path else []), "--port", "0", "--profiles", str(profiles)]
+    command = [*FORETYPE, "serve", *(["-m", model_path] if model_path else []), "--port", "0", "--profiles", str(profiles)]
     process = subprocess.Popen(command, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
     first = process.stdout.readline() if process.stdout else ""
     found = re.search(r"http://127\.0\.0\.1:(\d+)", first)

@@ -32,9 +32,10 @@ from machine import machine_facts  # noqa: E402
 
 import foretype  # noqa: E402
 from foretype.builder.shrink import shrink  # noqa: E402
+from foretype.cli.sweep_commands import format_table  # noqa: E402
 from foretype.simulate import TypistSettings, simulate  # noqa: E402
 from foretype.size_chart import size_chart  # noqa: E402
-from foretype.sweep import format_table, run_sweep  # noqa: E402
+from foretype.sweep import run_sweep  # noqa: E402
 
 
 def held_out_words(path: Path, words: int) -> str:

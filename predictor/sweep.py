@@ -55,7 +55,6 @@ from .compare import ksr_interval
 from .counting import count_corpus
 from .counting.store import open_count_store, store_wrapped
 from .errors import CapacityError, OptionError
-from .estimate import METHODS
 from .outputs import prepare_folder, write_text_atomic
 from .query.model import load
 from .simulate import TypistSettings, read_passage, simulate
@@ -181,44 +180,6 @@ class SweepResult:
             "complete": self.complete,
             "rows": [row.to_json() for row in self.rows],
         }
-
-
-def parse_vocab_sizes(text: str) -> list[int]:
-    """Parse ``--vocab-sizes``: positive whole numbers separated by commas.
-
-    Raises:
-        OptionError: an entry is not a positive whole number, or the list is empty.
-    """
-    sizes = []
-    for part in text.split(","):
-        part = part.strip().replace("_", "")
-        if not part:
-            continue
-        try:
-            value = int(part)
-        except ValueError:
-            raise OptionError(f"--vocab-sizes takes whole numbers separated by commas, not {part!r}") from None
-        if value < 1:
-            raise OptionError(f"--vocab-sizes entries must be at least 1, not {value}")
-        sizes.append(value)
-    if not sizes:
-        raise OptionError("--vocab-sizes is empty")
-    return list(dict.fromkeys(sizes))  # a size given twice is built once
-
-
-def parse_methods(text: str) -> list[str]:
-    """Parse ``--methods``: estimator names separated by commas.
-
-    Raises:
-        OptionError: an unknown method, or an empty list.
-    """
-    methods = [part.strip() for part in text.split(",") if part.strip()]
-    if not methods:
-        raise OptionError("--methods is empty")
-    for method in methods:
-        if method not in METHODS:
-            raise OptionError(f"unknown method {method!r}; choose one of {', '.join(METHODS)}")
-    return methods
 
 
 def _rss() -> int:
@@ -628,28 +589,6 @@ def _row_label(number: int, planned: int, method: str, size: int, step: tuple[st
     return label
 
 
-def parse_shares(text: str) -> list[float]:
-    """Parse ``--keep-bytes``: shares of the full model's bytes in (0, 1], comma-separated.
-
-    Raises:
-        OptionError: an entry is not a number in (0, 1], or the list is empty.
-    """
-    shares = []
-    for part in (p.strip() for p in text.split(",")):
-        if not part:
-            continue
-        try:
-            value = float(part)
-        except ValueError:
-            raise OptionError(f"--keep-bytes takes shares of the full model's bytes such as 0.5,0.1, not {part!r}") from None
-        if not 0 < value <= 1:
-            raise OptionError(f"--keep-bytes entries must lie in (0, 1], not {part}")
-        shares.append(value)
-    if not shares:
-        raise OptionError("--keep-bytes is empty")
-    return shares
-
-
 def _check_size_axis(methods: Sequence[str], criteria: Sequence[str], shares: Sequence[float], encodings: Sequence[str]) -> None:
     """Reject a size axis the sweep could not build, before counting."""
     for criterion in criteria:
@@ -664,82 +603,3 @@ def _check_size_axis(methods: Sequence[str], criteria: Sequence[str], shares: Se
         raise OptionError("--keep-bytes below 1 needs --prune (the criteria that decide which n-grams go)")
     if criteria and "mle" in methods:
         raise OptionError("mle models cannot be pruned: leave mle out of --methods or drop --prune")
-
-
-def format_table(rows: Sequence[SweepRow]) -> str:
-    """The rows as an aligned text table."""
-    adapted = any(row.adapted_ksr is not None for row in rows)
-    headers: tuple[str, ...] = (
-        "method",
-        "asked",
-        "vocab",
-        "n-grams",
-        "file MB",
-        "RSS MB",
-        "build s",
-        "load ms",
-        "perplexity",
-        "OOV",
-        "KSR",
-        "oracle",
-        "baseline",
-        "p50 µs",
-        "p99 µs",
-    )
-    if adapted:
-        headers += ("learning KSR", "learning p99 µs")
-    sized = any(row.keep_bytes is not None for row in rows)
-    if sized:
-        headers += ("shrunk", "values")
-    headers += _extra_headers(rows)
-    lines = []
-    for row in rows:
-        line: tuple[str, ...] = (
-            row.method,
-            f"{row.requested_vocab_size:,}",
-            f"{row.vocab_size:,}",
-            f"{row.unigrams + row.bigrams + row.trigrams:,}",
-            f"{row.file_bytes / 1e6:.1f}",
-            f"{row.rss_bytes / 1e6:.1f}",
-            f"{row.build_seconds:.2f}",
-            f"{row.load_ms:.1f}",
-            "inf" if row.perplexity is None else f"{row.perplexity:.1f}",
-            f"{100 * row.oov_rate:.2f}%",
-            f"{100 * row.ksr:.1f}%",
-            f"{100 * row.oracle_ksr:.1f}%",
-            f"{100 * row.baseline_ksr:.1f}%",
-            "n/a" if row.latency_p50_us is None else f"{row.latency_p50_us:,.0f}",
-            "n/a" if row.latency_p99_us is None else f"{row.latency_p99_us:,.0f}",
-        )
-        if adapted:
-            line += (
-                "" if row.adapted_ksr is None else f"{100 * row.adapted_ksr:.1f}%",
-                "n/a" if row.adapted_latency_p99_us is None else f"{row.adapted_latency_p99_us:,.0f}",
-            )
-        if sized:
-            line += ("full" if row.keep_bytes is None else f"{row.criterion} to {row.keep_bytes:g}", row.value_encoding)
-        line += _extra_cells(row, rows)
-        lines.append(line)
-    widths = [max(len(h), *(len(line[i]) for line in lines)) if lines else len(h) for i, h in enumerate(headers)]
-    out = ["  ".join(h.ljust(w) if i == 0 else h.rjust(w) for i, (h, w) in enumerate(zip(headers, widths)))]
-    for line in lines:
-        out.append("  ".join(v.ljust(w) if i == 0 else v.rjust(w) for i, (v, w) in enumerate(zip(line, widths))))
-    return "\n".join(out)
-
-
-def _extra_headers(rows: Sequence[SweepRow]) -> tuple[str, ...]:
-    headers: tuple[str, ...] = ()
-    if any(row.ksr_low is not None for row in rows):
-        headers += ("KSR 95%",)
-    if any(row.scan_steps_per_char is not None for row in rows):
-        headers += ("scan steps/char", "unaided", "scan wpm", "unaided wpm")
-    return headers
-
-
-def _extra_cells(row: SweepRow, rows: Sequence[SweepRow]) -> tuple[str, ...]:
-    cells: tuple[str, ...] = ()
-    if any(r.ksr_low is not None for r in rows):
-        cells += ("" if row.ksr_low is None or row.ksr_high is None else f"{100 * row.ksr_low:.1f}-{100 * row.ksr_high:.1f}%",)
-    if any(r.scan_steps_per_char is not None for r in rows):
-        cells += tuple("" if v is None else f"{v:.2f}" for v in (row.scan_steps_per_char, row.scan_steps_per_char_unaided, row.scan_wpm, row.scan_wpm_unaided))
-    return cells

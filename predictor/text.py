@@ -162,3 +162,9 @@ def split_before_cursor(text: str) -> tuple[list[str], str]:
 def capitalise(word: str) -> str:
     """The word with its first letter in upper case (as at a sentence start)."""
     return word[:1].upper() + word[1:]
+
+
+def plural(count: float, noun: str, nouns: str | None = None) -> str:
+    """A count with its noun in the right number for reports: ``1 file``, ``2 files``, ``1.5 keystrokes`` (thousands separated)."""
+    shown = f"{count:,}" if isinstance(count, int) else f"{count:,g}"
+    return f"{shown} {noun if count == 1 else nouns or noun + 's'}"

@@ -147,11 +147,11 @@ def test_round_trip_in_log16_is_within_the_encodings_precision(models, held_out,
 def test_maximum_likelihood_is_refused_unless_approximated(models, tmp_path, run_cli):
     model_path = tmp_path / "mle.model"
     models["mle"].save(model_path)
-    refused = run_cli("export", model_path, "-o", tmp_path / "mle.arpa")
+    refused = run_cli("export", "-m", model_path, "-o", tmp_path / "mle.arpa")
     assert refused.code == 2
     assert refused.err.count("\n") == 1 and "maximum-likelihood" in refused.err and "--approximate" in refused.err
     assert not (tmp_path / "mle.arpa").exists()
-    allowed = run_cli("export", model_path, "-o", tmp_path / "mle.arpa", "--approximate")
+    allowed = run_cli("export", "-m", model_path, "-o", tmp_path / "mle.arpa", "--approximate")
     assert allowed.code == 0 and "approximated" in allowed.err and "-99" in allowed.err
     back, _ = model_from_arpa(tmp_path / "mle.arpa")
     # foretype's own reader takes -99 as zero, so the round trip keeps the zeros.
@@ -161,16 +161,16 @@ def test_maximum_likelihood_is_refused_unless_approximated(models, tmp_path, run
 def test_export_to_standard_output_and_compressed_file(models, tmp_path, run_cli):
     model_path = tmp_path / "kn.model"
     models["kneser-ney"].save(model_path)
-    printed = run_cli("export", model_path, "-o", "-")
+    printed = run_cli("export", "-m", model_path, "-o", "-")
     assert printed.code == 0
-    written = run_cli("export", model_path, "-o", tmp_path / "kn.arpa.gz", "--json")
+    written = run_cli("export", "-m", model_path, "-o", tmp_path / "kn.arpa.gz", "--json")
     assert written.code == 0 and '"compressed": true' in written.out
     assert gzip.open(tmp_path / "kn.arpa.gz", "rt", encoding="utf-8").read() == printed.out
     assert run_cli("import", tmp_path / "kn.arpa.gz", "-o", tmp_path / "back.model").code == 0
-    assert run_cli("check", tmp_path / "back.model").code == 0  # every distribution sums to 1 again
+    assert run_cli("check", "-m", tmp_path / "back.model").code == 0  # every distribution sums to 1 again
     assert "\\end\\" in printed.out
     before = model_path.read_bytes()
-    refused = run_cli("export", model_path, "-o", model_path)
+    refused = run_cli("export", "-m", model_path, "-o", model_path)
     assert refused.code == 8 and "is also an input" in refused.err and model_path.read_bytes() == before and "\n\\data\\\nngram 1=403\n" in printed.out
 
 

@@ -300,16 +300,16 @@ def test_import_command_writes_a_model_every_command_reads(tmp_path, run_cli, ha
     target = tmp_path / "hand.model"
     result = run_cli("import", hand_file, "-o", target, "--json")
     assert result.code == 0 and '"order": 3' in result.out
-    assert run_cli("info", target).code == 0
-    suggested = run_cli("suggest", target, "a ", "--json")
+    assert run_cli("info", "-m", target).code == 0
+    suggested = run_cli("suggest", "-m", target, "a ", "--json")
     assert suggested.code == 0 and '"word": "b"' in suggested.out
     text = tmp_path / "text.txt"
     text.write_text("a b\nc a\n", encoding="utf-8")
-    scored = run_cli("score", target, text, "--json")
+    scored = run_cli("score", "-m", target, "-t", text, "--json")
     assert scored.code == 0
     by_hand = -(HAND_SENTENCES[0][1] + HAND_SENTENCES[1][1]) * math.log2(10) / 6
     assert json.loads(scored.out)["cross_entropy_bits"] == pytest.approx(by_hand, abs=1e-5)
-    assert run_cli("savings", target, text, "--json").code == 0
+    assert run_cli("savings", "-m", target, "-t", text, "--json").code == 0
 
 
 def test_a_back_off_weight_above_one_is_kept(tmp_path):

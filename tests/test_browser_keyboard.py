@@ -69,7 +69,7 @@ def start_server(folder: Path, model: Path, *extra: str) -> Server:
     profiles = folder / "profiles"
     profiles.mkdir()
     port = _free_port()
-    command = [sys.executable, "-c", "from foretype.cli import main; raise SystemExit(main())", "serve", str(model), "--port", str(port), "--profiles", str(profiles), "--phrases", str(phrases), *extra]
+    command = [sys.executable, "-c", "from foretype.cli import main; raise SystemExit(main())", "serve", "-m", str(model), "--port", str(port), "--profiles", str(profiles), "--phrases", str(phrases), *extra]
     process = subprocess.Popen(command, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
     base = f"http://127.0.0.1:{port}"
     for _ in range(1200):  # up to two minutes on a busy two-core machine

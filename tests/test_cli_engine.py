@@ -169,7 +169,7 @@ def damaged(good_model: Path, how: str) -> Path:
 
 
 @pytest.mark.parametrize("how", ["truncated", "header-only", "corrupt-header", "not-a-model", "empty"])
-@pytest.mark.parametrize("command", [["suggest", "{model}", "and the "], ["score", "{model}", "{text}"], ["info", "{model}"], ["check", "{model}"]])
+@pytest.mark.parametrize("command", [["suggest", "-m", "{model}", "and the "], ["score", "-m", "{model}", "-t", "{text}"], ["info", "-m", "{model}"], ["check", "-m", "{model}"]])
 def test_a_damaged_model_file_is_one_line_with_the_model_file_exit_code(how, command, good_model, verses_file, run_cli):
     model = damaged(good_model, how)
     args = [a.format(model=model, text=verses_file) for a in command]
@@ -178,7 +178,7 @@ def test_a_damaged_model_file_is_one_line_with_the_model_file_exit_code(how, com
     assert str(model) in result.err
 
 
-@pytest.mark.parametrize("command", [["suggest", "{model}", "and the "], ["info", "{model}"], ["check", "{model}"]])
+@pytest.mark.parametrize("command", [["suggest", "-m", "{model}", "and the "], ["info", "-m", "{model}"], ["check", "-m", "{model}"]])
 def test_a_model_of_a_newer_format_version_says_so(command, good_model, run_cli):
     model = damaged(good_model, "newer-version")
     result = run_cli(*[a.format(model=model) for a in command])
@@ -187,21 +187,21 @@ def test_a_model_of_a_newer_format_version_says_so(command, good_model, run_cli)
 
 
 def test_a_missing_model_file_and_a_folder_as_model_are_model_file_errors(tmp_path, run_cli):
-    assert_one_line_failure(run_cli("info", tmp_path / "missing.model"), foretype.ModelFileError)
-    assert_one_line_failure(run_cli("suggest", tmp_path, "and the "), foretype.ModelFileError)
+    assert_one_line_failure(run_cli("info", "-m", tmp_path / "missing.model"), foretype.ModelFileError)
+    assert_one_line_failure(run_cli("suggest", "-m", tmp_path, "and the "), foretype.ModelFileError)
 
 
 def test_k_zero_and_bad_arguments_are_usage_errors(good_model, run_cli):
-    assert_one_line_failure(run_cli("suggest", good_model, "and the ", "-k", "0"), foretype.OptionError)
-    assert_one_line_failure(run_cli("suggest", good_model, "and", "the", "extra"), foretype.OptionError)
+    assert_one_line_failure(run_cli("suggest", "-m", good_model, "and the ", "-k", "0"), foretype.OptionError)
+    assert_one_line_failure(run_cli("suggest", "-m", good_model, "and", "the", "extra"), foretype.OptionError)
     assert_one_line_failure(run_cli("frobnicate"), foretype.OptionError)
 
 
 def test_scoring_a_missing_or_binary_text_is_a_corpus_error(good_model, tmp_path, run_cli):
-    assert_one_line_failure(run_cli("score", good_model, tmp_path / "missing.txt"), foretype.CorpusError)
+    assert_one_line_failure(run_cli("score", "-m", good_model, "-t", tmp_path / "missing.txt"), foretype.CorpusError)
     binary = tmp_path / "data.bin"
     binary.write_bytes(b"\x00\x01\x02\x03")
-    assert_one_line_failure(run_cli("score", good_model, binary), foretype.CorpusError)
+    assert_one_line_failure(run_cli("score", "-m", good_model, "-t", binary), foretype.CorpusError)
 
 
 def test_the_installed_command_prints_no_traceback_on_bad_input(tmp_path):
@@ -223,7 +223,7 @@ def test_build_suggest_score_and_info_print_the_documented_json(verses_file, tmp
     summary = json.loads(built.out)
     assert summary["vocab_size"] == 2000 and summary["corpus_tokens"] > 30_000
 
-    found = json.loads(run_cli("suggest", model, "And God said unto Mo", "--json", "-k", "3").out)
+    found = json.loads(run_cli("suggest", "-m", model, "And God said unto Mo", "--json", "-k", "3").out)
     assert found["context"] == ["said", "unto"] and found["prefix"] == "Mo"
     assert found["suggestions"][0]["word"] == "Moses"
     assert set(found["suggestions"][0]) == {"word", "prob", "order"}
@@ -231,13 +231,14 @@ def test_build_suggest_score_and_info_print_the_documented_json(verses_file, tmp
 
     _, heldout = kjv_split()
     text = write_lines(heldout[:100], tmp_path / "heldout.txt")
-    scored = json.loads(run_cli("score", model, text, "--json").out)
-    assert set(scored) == {"wrapped", "sentences", "tokens", "oov", "oov_rate", "cross_entropy_bits", "perplexity"}
+    scored = json.loads(run_cli("score", "-m", model, "-t", text, "--json").out)
+    assert set(scored) == {"model", "wrapped", "sentences", "tokens", "oov", "oov_rate", "cross_entropy_bits", "perplexity"}
+    assert scored["model"] == str(model)
     assert scored["perplexity"] == pytest.approx(2 ** scored["cross_entropy_bits"])
     direct = foretype.load(model).score(text.read_text(encoding="utf-8"))
     assert scored["tokens"] == direct.tokens and scored["perplexity"] == pytest.approx(direct.perplexity)
 
-    info = json.loads(run_cli("info", model, "--json").out)
-    assert info["ngrams"] == summary["ngrams"]
-    checked = run_cli("check", model)
+    info = json.loads(run_cli("info", "-m", model, "--json").out)
+    assert info["ngrams"] == summary["ngrams"] and info["model"] == info["path"] == str(model)
+    checked = run_cli("check", "-m", model)
     assert checked.code == 0 and "ok" in checked.out

@@ -39,7 +39,7 @@ def files(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Path]:
 
 def test_compare_prints_json_csv_and_a_chart_that_agree(run_cli, files: dict[str, Path], tmp_path: Path) -> None:
     table, chart = tmp_path / "summary.csv", tmp_path / "chart.svg"
-    result = run_cli("compare", files["test"], "-m", files["kn"], "-m", files["katz"], "-k", "3", "--resamples", "300", "--csv", table, "--chart", chart, "--json")
+    result = run_cli("compare", "-t", files["test"], "-m", files["kn"], "-m", files["katz"], "-k", "3", "--resamples", "300", "--csv", table, "--chart", chart, "--json")
     assert result.code == 0, result.err
     data = json.loads(result.out)
     assert [s["label"] for s in data["systems"]] == ["kn", "katz"]
@@ -59,7 +59,7 @@ def test_compare_prints_json_csv_and_a_chart_that_agree(run_cli, files: dict[str
 
 def test_compare_text_table_runs_several_list_sizes_of_one_model(run_cli, files: dict[str, Path], tmp_path: Path) -> None:
     sentences = tmp_path / "sentences.csv"
-    result = run_cli("compare", files["test"], "-m", files["kn"], "-k", "1,4", "--resamples", "200", "--sentences", sentences)
+    result = run_cli("compare", "-t", files["test"], "-m", files["kn"], "-k", "1,4", "--resamples", "200", "--sentences", sentences)
     assert result.code == 0, result.err
     assert "kn k=1" in result.out and "kn k=4" in result.out
     assert "the same for every system: perplexity" in result.out  # one model: perplexity cannot differ
@@ -69,7 +69,7 @@ def test_compare_text_table_runs_several_list_sizes_of_one_model(run_cli, files:
 
 
 def test_compare_with_the_same_seed_prints_the_same_result(run_cli, files: dict[str, Path]) -> None:
-    args = ("compare", files["test"], "-m", files["kn"], "-m", files["katz"], "--resamples", "200", "--seed", "4", "--test", "randomisation", "--json")
+    args = ("compare", "-t", files["test"], "-m", files["kn"], "-m", files["katz"], "--resamples", "200", "--seed", "4", "--significance", "randomisation", "--json")
     first, second = run_cli(*args), run_cli(*args)
     assert first.code == second.code == 0
     assert first.out == second.out
@@ -77,7 +77,7 @@ def test_compare_with_the_same_seed_prints_the_same_result(run_cli, files: dict[
 
 
 def test_compare_scanning_reports_steps_per_character_with_intervals(run_cli, files: dict[str, Path]) -> None:
-    result = run_cli("compare", files["test"], "-m", files["kn"], "-k", "2,6", "--access", "scanning", "--list-position", "first", "--resamples", "200", "--json")
+    result = run_cli("compare", "-t", files["test"], "-m", files["kn"], "-k", "2,6", "--access", "scanning", "--list-position", "first", "--resamples", "200", "--json")
     assert result.code == 0, result.err
     data = json.loads(result.out)
     assert data["access"] == "scanning"
@@ -99,7 +99,7 @@ def test_compare_scanning_reports_steps_per_character_with_intervals(run_cli, fi
 def test_compare_failures_are_one_line_with_their_exit_code(run_cli, files: dict[str, Path], extra: tuple[str, ...], code: int, words: str, monkeypatch: pytest.MonkeyPatch) -> None:
     (files["folder"] / "bad-grid.txt").write_text("a bb\n", encoding="utf-8")
     monkeypatch.chdir(files["folder"])
-    args = ("compare", files["test"], *extra) if extra[0] == "-m" else ("compare", files["test"], "-m", files["kn"], *extra)
+    args = ("compare", "-t", files["test"], *extra) if extra[0] == "-m" else ("compare", "-t", files["test"], "-m", files["kn"], *extra)
     result = run_cli(*args)
     assert result.code == code
     assert words in result.err and len(result.err.strip().splitlines()) == 1
@@ -108,7 +108,7 @@ def test_compare_failures_are_one_line_with_their_exit_code(run_cli, files: dict
 def test_savings_with_scanning_prints_both_sides(run_cli, tmp_path: Path) -> None:
     path = tmp_path / "worked.model"
     foretype.build([SAVINGS / "worked-corpus.txt"], method="mle").save(path)
-    args = ("savings", path, SAVINGS / "worked-text.txt", "-k", "2", "--text-mode", "words", "--access", "scanning", "--layout", SCANNING / "worked-grid.txt")
+    args = ("savings", "-m", path, "-t", SAVINGS / "worked-text.txt", "-k", "2", "--text-mode", "words", "--access", "scanning", "--layout", SCANNING / "worked-grid.txt")
     data = json.loads(run_cli(*args, "--json").out)
     assert data["scan_steps"] == 90 and data["scan_steps_unaided"] == 191  # the hand count of test_scanning.py
     text = run_cli(*args).out

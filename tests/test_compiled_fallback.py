@@ -56,14 +56,14 @@ def commands(folder: Path, tag: str) -> list[list[str]]:
     corpus, text = DATA / "worked-corpus.txt", DATA / "worked-text.txt"
     return [
         ["build", str(corpus), "-o", str(model)],
-        ["info", str(model), "--json"],
-        ["check", str(model), "--json"],
-        ["suggest", str(model), "the ", "--json"],
-        ["suggest", str(model), "the f", "-k", "3", "--json"],
-        ["score", str(model), str(text), "--json"],
-        ["savings", str(model), str(text), "--json"],
+        ["info", "-m", str(model), "--json"],
+        ["check", "-m", str(model), "--json"],
+        ["suggest", "-m", str(model), "the ", "--json"],
+        ["suggest", "-m", str(model), "the f", "-k", "3", "--json"],
+        ["score", "-m", str(model), "-t", str(text), "--json"],
+        ["savings", "-m", str(model), "-t", str(text), "--json"],
         ["sweep", str(corpus), "--test", str(text), "--vocab-sizes", "5,10", "-o", str(folder / f"{tag}-sweep")],
-        ["learned", str(model)],
+        ["learned", "show", "-m", str(model)],
         ["--version"],
     ]
 

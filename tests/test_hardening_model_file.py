@@ -156,7 +156,7 @@ def test_a_folder_a_missing_file_and_a_pipe_are_refused_without_waiting(tmp_path
     os.mkfifo(pipe)
     # In a child with a timeout: opening a pipe without a writer would block forever.
     child = subprocess.run(
-        [sys.executable, "-m", "foretype", "info", str(pipe)], capture_output=True, text=True, timeout=60
+        [sys.executable, "-m", "foretype", "info", "-m", str(pipe)], capture_output=True, text=True, timeout=60
     )
     assert child.returncode == ModelFileError.exit_code
     assert "not a regular file" in child.stderr and str(pipe) in child.stderr
@@ -347,13 +347,13 @@ def test_check_passes_a_good_model_and_names_the_problem_of_a_bad_one(original, 
     data = original[0]
     good = tmp_path / "good.model"
     good.write_bytes(data)
-    result = run_cli("check", good)
+    result = run_cli("check", "-m", good)
     assert result.code == 0 and "ok" in result.out and result.err == ""
     at = section(data, "l2.value")["offset"] + 3
     bad = tmp_path / "bad.model"
     bad.write_bytes(data[:at] + bytes([data[at] ^ 0x40]) + data[at + 1 :])
     for command in ("check", "info", "suggest"):
-        result = run_cli(command, bad, *(["the "] if command == "suggest" else []))
+        result = run_cli(command, "-m", bad, *(["the "] if command == "suggest" else []))
         assert result.code == ModelFileError.exit_code
         assert result.err.count("\n") == 1 and str(bad) in result.err and "l2.value checksum mismatch" in result.err
         assert "Traceback" not in result.err

@@ -41,8 +41,8 @@ def test_running_engine_commands_loads_neither_textual_nor_tui(tmp_path: Path):
 from foretype.cli import main
 import contextlib, io
 with contextlib.redirect_stdout(io.StringIO()):
-    for args in (["build", {str(corpus)!r}, "-o", {str(model)!r}], ["suggest", {str(model)!r}, "and the "],
-                 ["score", {str(model)!r}, {str(corpus)!r}], ["info", {str(model)!r}], ["check", {str(model)!r}]):
+    for args in (["build", {str(corpus)!r}, "-o", {str(model)!r}], ["suggest", "-m", {str(model)!r}, "and the "],
+                 ["score", "-m", {str(model)!r}, "-t", {str(corpus)!r}], ["info", "-m", {str(model)!r}], ["check", "-m", {str(model)!r}]):
         assert main(args) == 0, args
 """
     assert loaded_interface_modules(body) == []

@@ -71,3 +71,35 @@ def test_sigint_at_random_moments_of_a_parallel_build(tmp_path: Path) -> None:
         assert sorted(p.name for p in out.parent.iterdir()) == ["m.model"]  # no temporary file left
         assert out.read_bytes() == before  # the same corpus builds the same model; an interrupted build keeps it
     assert interrupted >= 2
+
+
+WORKED = Path(__file__).resolve().parent / "data" / "savings"
+
+
+def test_sigint_while_the_command_line_starts_is_one_line_and_exit_130(tmp_path: Path) -> None:
+    """Ctrl-C while the engine's modules load or the model opens: the same one line as at any later moment."""
+    model = tmp_path / "m.model"
+    subprocess.run([sys.executable, "-m", "foretype", "build", str(WORKED / "worked-corpus.txt"), "-o", str(model)], check=True, capture_output=True)
+    # The console script's own lines, with a mark once the interpreter runs them: what comes before
+    # (the interpreter starting, Python finding the package) is no code of ours.
+    script = "import sys\nprint('started', flush=True)\nfrom foretype.cli import main\nsys.exit(main())\n"
+    command = [sys.executable, "-c", script, "score", "-m", str(model), "-t", str(WORKED / "worked-text.txt")]
+    started = time.monotonic()
+    subprocess.run(command, check=True, capture_output=True)
+    whole = time.monotonic() - started
+    rng = random.Random(7)
+    codes = []
+    for _ in range(8):
+        process = subprocess.Popen(command, stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+        assert process.stdout is not None and process.stdout.readline() == b"started\n"
+        time.sleep(rng.uniform(0.1, 0.8 * whole))  # past Python's search for the package, before the command ends
+        process.send_signal(signal.SIGINT)
+        out, err = process.communicate(timeout=60)
+        codes.append(process.returncode)
+        if process.returncode == 130:
+            assert err.decode() == "foretype: interrupted\n" and out == b""
+        elif process.returncode == -signal.SIGINT:
+            assert err.decode() == ""  # the interpreter was already shutting down (see the test above)
+        else:
+            assert process.returncode == 0, err.decode()
+    assert codes.count(130) >= 4, codes

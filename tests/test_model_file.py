@@ -100,7 +100,7 @@ def test_info_json_has_the_documented_keys(corpus, tmp_path, run_cli):
     # docs/models.md, "JSON shapes": info.
     path = tmp_path / "kjv.model"
     foretype.build([corpus], vocab_size=800).save(path)
-    result = run_cli("info", path, "--json")
+    result = run_cli("info", "-m", path, "--json")
     assert result.code == 0 and result.err == ""
     info = json.loads(result.out)
     for key in ("format_version", "method", "vocab_size", "ngrams", "file_bytes", "bytes_per_ngram", "corpus_tokens"):

@@ -33,7 +33,7 @@ def worked_model_file(tmp_path_factory: pytest.TempPathFactory) -> Path:
 
 
 def test_savings_prints_the_hand_counted_figures_and_the_estimate_note(run_cli, worked_model_file: Path) -> None:
-    result = run_cli("savings", worked_model_file, DATA / "worked-text.txt", "-k", "2")
+    result = run_cli("savings", "-m", worked_model_file, "-t", DATA / "worked-text.txt", "-k", "2")
     assert result.code == 0, result.err
     assert "58.0%" in result.out  # KSR counted by hand (docs/savings.md worked example)
     assert "60.0%" in result.out  # oracle
@@ -42,7 +42,7 @@ def test_savings_prints_the_hand_counted_figures_and_the_estimate_note(run_cli, 
 
 
 def test_savings_json_has_every_documented_key(run_cli, worked_model_file: Path) -> None:
-    result = run_cli("savings", worked_model_file, DATA / "worked-text.txt", "-k", "2", "--json")
+    result = run_cli("savings", "-m", worked_model_file, "-t", DATA / "worked-text.txt", "-k", "2", "--json")
     assert result.code == 0, result.err
     payload = json.loads(result.out)
     assert set(REPORT_KEYS) <= set(payload)
@@ -54,7 +54,7 @@ def test_savings_json_has_every_documented_key(run_cli, worked_model_file: Path)
 
 def test_savings_trace_writes_one_json_line_per_word(run_cli, worked_model_file: Path, tmp_path: Path) -> None:
     trace = tmp_path / "words.jsonl"
-    result = run_cli("savings", worked_model_file, DATA / "worked-text.txt", "-k", "2", "--trace", trace)
+    result = run_cli("savings", "-m", worked_model_file, "-t", DATA / "worked-text.txt", "-k", "2", "--trace", trace)
     assert result.code == 0, result.err
     lines = [json.loads(line) for line in trace.read_text(encoding="utf-8").splitlines()]
     assert [line["word"] for line in lines] == ["The", "ferry", "is", "late", "Maren", "See", "you", "at", "the", "slipway"]
@@ -74,7 +74,7 @@ def test_savings_trace_writes_one_json_line_per_word(run_cli, worked_model_file:
     ],
 )
 def test_savings_rejects_bad_options_in_one_line(capsys, worked_model_file: Path, arguments: list[str], code: int, message: str) -> None:
-    status, err = run_main(capsys, "savings", worked_model_file, DATA / "worked-text.txt", *arguments)
+    status, err = run_main(capsys, "savings", "-m", worked_model_file, "-t", DATA / "worked-text.txt", *arguments)
     assert status == code
     assert message in err
     assert len(err.strip().splitlines()) == 1 and "Traceback" not in err
@@ -83,19 +83,19 @@ def test_savings_rejects_bad_options_in_one_line(capsys, worked_model_file: Path
 @pytest.mark.parametrize("content", ["", "\n\n", "... !!! ,,, ?\n— « »\n"])
 def test_savings_rejects_a_test_file_without_words(run_cli, worked_model_file: Path, write_file, content: str) -> None:
     empty = write_file(content, "empty.txt")
-    result = run_cli("savings", worked_model_file, empty)
+    result = run_cli("savings", "-m", worked_model_file, "-t", empty)
     assert result.code == foretype.CorpusError.exit_code
     assert result.err.strip() == f"foretype: {empty}: holds no words"
 
 
 def test_savings_rejects_an_unwritable_trace_before_simulating(run_cli, worked_model_file: Path, tmp_path: Path) -> None:
-    result = run_cli("savings", worked_model_file, DATA / "worked-text.txt", "--trace", tmp_path / "missing" / "t.jsonl")
+    result = run_cli("savings", "-m", worked_model_file, "-t", DATA / "worked-text.txt", "--trace", tmp_path / "missing" / "t.jsonl")
     assert result.code == foretype.OutputError.exit_code
     assert "cannot write" in result.err and len(result.err.strip().splitlines()) == 1
 
 
 def test_savings_names_a_missing_test_file(run_cli, worked_model_file: Path, tmp_path: Path) -> None:
-    result = run_cli("savings", worked_model_file, tmp_path / "nope.txt")
+    result = run_cli("savings", "-m", worked_model_file, "-t", tmp_path / "nope.txt")
     assert result.code == foretype.CorpusError.exit_code
     assert "nope.txt" in result.err and len(result.err.strip().splitlines()) == 1
 

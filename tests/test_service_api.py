@@ -67,7 +67,7 @@ def test_suggestions_equal_the_command_line_and_brute_force(client, models, run_
     answer = client.post("/api/suggest", json={"model": "ferry", "text": text, "k": k})
     assert answer.status_code == 200, answer.text
     got = answer.json()
-    printed = run_cli("suggest", models["ferry"], text, "-k", str(k), "--json")
+    printed = run_cli("suggest", "-m", models["ferry"], text, "-k", str(k), "--json")
     assert printed.code == 0, printed.err
     expected = json.loads(printed.out)
     assert got["context"] == expected["context"] and got["prefix"] == expected["prefix"]
@@ -121,7 +121,7 @@ def test_a_zero_probability_sentence_has_no_perplexity(client):
 
 
 def test_model_facts_are_those_of_info(client, models, run_cli):
-    printed = json.loads(run_cli("info", models["worked"], "--json").out)
+    printed = json.loads(run_cli("info", "-m", models["worked"], "--json").out)
     got = client.get("/api/models/worked").json()
     assert got["name"] == "worked"
     for key in ("method", "vocab_size", "ngrams", "corpus_tokens", "value_encoding"):
@@ -150,7 +150,7 @@ def test_learning_events_then_suggestions_equal_suggest_adapt(client, service, m
     assert answer.json()["tokens"] == 9 and answer.json()["learning"] is True
     got = client.post("/api/suggest", json={"model": "ferry", "profile": "p07", "text": "see you at the Q", "k": 5}).json()
     learned_file = service.app.state.service.profiles.folder / "p07" / "ferry.learned"
-    printed = run_cli("suggest", models["ferry"], "see you at the Q", "--adapt", "--user", learned_file, "--json")
+    printed = run_cli("suggest", "-m", models["ferry"], "see you at the Q", "--adapt", "--user", learned_file, "--json")
     expected = json.loads(printed.out)
     assert got["suggestions"] == expected["suggestions"] and got["user_share"] == expected["user_share"]
     assert got["suggestions"][0]["word"] == "Quillon" and got["suggestions"][0]["new_word"] is True

@@ -65,7 +65,7 @@ def stop(process: subprocess.Popen, sig: int) -> tuple[int, str]:
 def test_serve_answers_then_sigterm_closes_the_store_and_exits_0(model_path, tmp_path):
     profiles = tmp_path / "profiles"
     (profiles / "p01").mkdir(parents=True)
-    process, url = start(model_path, "--profiles", profiles)
+    process, url = start("-m", model_path, "--profiles", profiles)
     try:
         assert httpx.get(f"{url}/api/health").json()["models"] == ["harbour"]
         assert httpx.post(f"{url}/api/suggest", json={"text": "see you at the "}).json()["suggestions"]
@@ -87,7 +87,7 @@ def test_serve_answers_then_sigterm_closes_the_store_and_exits_0(model_path, tmp
 
 
 def test_ctrl_c_exits_130(model_path, tmp_path):
-    process, url = start(model_path, "--profiles", tmp_path)
+    process, url = start("-m", model_path, "--profiles", tmp_path)
     assert httpx.get(f"{url}/api/health").status_code == 200
     code, err = stop(process, signal.SIGINT)
     assert code == 130, err
@@ -95,7 +95,7 @@ def test_ctrl_c_exits_130(model_path, tmp_path):
 
 
 def test_two_models_by_name_behind_a_given_token(model_path, tmp_path):
-    process, url = start(f"a={model_path}", f"b={model_path}", "--profiles", tmp_path, "--token", "t0ken")
+    process, url = start("-m", f"a={model_path}", "-m", f"b={model_path}", "--profiles", tmp_path, "--token", "t0ken")
     try:
         assert httpx.get(f"{url}/api/health").status_code == 401
         with httpx.Client(headers={"authorization": "Bearer t0ken"}) as client:
@@ -110,7 +110,7 @@ def test_a_port_in_use_is_one_line_and_exit_2(model_path, tmp_path):
     taken.bind(("127.0.0.1", 0))
     taken.listen(1)
     try:
-        done = subprocess.run([*FORETYPE, "serve", str(model_path), "--port", str(taken.getsockname()[1])], capture_output=True, text=True, timeout=120)
+        done = subprocess.run([*FORETYPE, "serve", "-m", str(model_path), "--port", str(taken.getsockname()[1])], capture_output=True, text=True, timeout=120)
     finally:
         taken.close()
     assert done.returncode == 2
@@ -118,9 +118,9 @@ def test_a_port_in_use_is_one_line_and_exit_2(model_path, tmp_path):
 
 
 def test_bad_arguments_exit_with_their_codes(run_cli, model_path, tmp_path):
-    missing = run_cli("serve", tmp_path / "missing.model", "--port", "0")
+    missing = run_cli("serve", "-m", tmp_path / "missing.model", "--port", "0")
     assert missing.code == 5 and len(missing.err.strip().splitlines()) == 1
-    twice = run_cli("serve", model_path, model_path, "--port", "0")
+    twice = run_cli("serve", "-m", model_path, "-m", model_path, "--port", "0")
     assert twice.code == 2 and "two models named 'harbour'" in twice.err
     assert run_cli("serve", "--port", "70000").code == 2
 

@@ -61,7 +61,7 @@ def test_each_reply_carries_its_seq_and_equals_suggest(service, model_path, run_
 
     for seq, (text, reply) in enumerate(zip(texts, run(talk())), start=10):
         assert reply["type"] == "suggestions" and reply["seq"] == seq and reply["dropped"] == 0
-        expected = json.loads(run_cli("suggest", model_path, text, "-k", "3", "--json").out)
+        expected = json.loads(run_cli("suggest", "-m", model_path, text, "-k", "3", "--json").out)
         assert reply["context"] == expected["context"] and reply["prefix"] == expected["prefix"]
         assert [{k: s[k] for k in ("word", "prob", "order")} for s in reply["suggestions"]] == expected["suggestions"]
 
@@ -155,7 +155,7 @@ def test_a_learning_session_learns_in_order_and_suggests_the_new_word(service, m
     assert [r["seq"] for r in learned] == [1, 2, 3, 4] and [r["tokens"] for r in learned] == [1, 2, 3, 4]
     assert suggested["suggestions"][0]["word"] == "Wendlecombe" and suggested["suggestions"][0]["new_word"] is True
     learned_file = service.app.state.service.profiles.folder / "p01" / "worked.learned"
-    expected = json.loads(run_cli("suggest", model_path, "see you at the w", "--adapt", "--user", learned_file, "--json").out)
+    expected = json.loads(run_cli("suggest", "-m", model_path, "see you at the w", "--adapt", "--user", learned_file, "--json").out)
     assert suggested["suggestions"] == expected["suggestions"] and suggested["user_share"] == expected["user_share"]
 
 

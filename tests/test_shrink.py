@@ -318,16 +318,16 @@ def test_shrink_and_info_on_the_command_line(katz_model, tmp_path, run_cli):
     full = tmp_path / "full.model"
     katz_model.save(full)
     small = tmp_path / "small.model"
-    result = run_cli("shrink", full, "-o", small, "--threshold", "1e-4", "--values", "codebook8")
+    result = run_cli("shrink", "-m", full, "-o", small, "--threshold", "1e-4", "--values", "codebook8")
     assert result.code == 0, result.err
     assert "entropy pruning" in result.out
-    info = run_cli("info", small, "--json")
+    info = run_cli("info", "-m", small, "--json")
     assert '"criterion": "entropy"' in info.out
-    text = run_cli("info", small)
+    text = run_cli("info", "-m", small)
     assert "shrunk" in text.out and "codebook8" in text.out
-    assert run_cli("shrink", full, "-o", small, "--max-bytes", "1K").code == CapacityError.exit_code
-    assert run_cli("shrink", full, "-o", small, "--max-bytes", "lots").code == OptionError.exit_code
-    assert run_cli("check", small).code == 0
+    assert run_cli("shrink", "-m", full, "-o", small, "--max-bytes", "1K").code == CapacityError.exit_code
+    assert run_cli("shrink", "-m", full, "-o", small, "--max-bytes", "lots").code == OptionError.exit_code
+    assert run_cli("check", "-m", small).code == 0
 
 
 def test_the_size_sweep_writes_rows_per_criterion_and_a_chart(tmp_path):

@@ -59,7 +59,7 @@ def test_compare_equals_foretype_savings_on_the_same_phrase(run_cli, tiny_model:
     rows = json.loads(result.out)["sessions"][0]["phrases"]
     phrase = tmp_path / "phrase.txt"
     phrase.write_text(rows[0]["presented"], encoding="utf-8")
-    savings = run_cli("savings", tiny_model, phrase, "-k", "3", "--json")
+    savings = run_cli("savings", "-m", tiny_model, "-t", phrase, "-k", "3", "--json")
     assert savings.code == 0, savings.err
     expected = json.loads(savings.out)
     assert rows[0]["simulated_ksr"] == pytest.approx(expected["ksr"])

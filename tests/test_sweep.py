@@ -122,7 +122,7 @@ def test_the_learning_column_is_what_savings_with_adaptation_reports_for_the_sav
     test_file.write_text(test_text, encoding="utf-8")
     for row in rows:
         model = out / f"kneser-ney-v{row['requested_vocab_size']}.model"
-        result = run_cli("savings", model, test_file, "-k", "3", "--adapt", "--json")
+        result = run_cli("savings", "-m", model, "-t", test_file, "-k", "3", "--adapt", "--json")
         assert result.code == 0, result.err
         report = json.loads(result.out)
         assert row["adapted_ksr"] == report["adaptation"]["ksr_adapted"]

@@ -6,7 +6,7 @@ import json
 import os
 from typing import BinaryIO
 
-from ..modelfile.atomic import replace_atomically
+from ..outputs import write_output
 from .combined import AdaptedModel
 
 PRIVACY_NOTE = (
@@ -18,7 +18,7 @@ PRIVACY_NOTE = (
 
 
 def export_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> dict[str, int]:
-    """Write everything a combined model learned to a plain JSON file (atomically).
+    """Write everything a combined model learned to a plain JSON file (atomically; "-": standard output).
 
     The export lists the settings, the never-suggest list, and every word,
     bigram and trigram with its decayed count, raw uses and last-seen time,
@@ -54,7 +54,7 @@ def export_learned(model: AdaptedModel, path: str | os.PathLike[str]) -> dict[st
     def write(out: BinaryIO) -> None:
         out.write(data)
 
-    replace_atomically(path, write)
+    write_output(path, write)  # the output policy: "-" is standard output; links followed, devices written into
     return {"words": len(words), "bigrams": len(grams[2]), "trigrams": len(grams[3])}
 
 

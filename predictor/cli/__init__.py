@@ -1,98 +1,48 @@
 """The ``foretype`` command line: thin commands over the engine.
 
-Each command module registers its subcommands with :func:`register`; a handler
+Each command module registers its subcommands with ``register``; a handler
 takes the parsed arguments and returns an exit code.  Every
 :class:`~foretype.errors.ForetypeError` becomes one line on stderr and the
 error class's exit code (README lists them).
+
+This module stays light: the parser and the engine load inside :func:`main`,
+so a Ctrl-C while they load is caught like one at any later moment.
 """
 
 from __future__ import annotations
 
-import argparse
-import importlib
-import os
 import sys
-from collections.abc import Sequence
 
-from ..errors import ForetypeError, OptionError
-from ..query.compiled import default_path, describe_path
-from ..version import __version__
+TYPE_CHECKING = False  # kept light: see the module docstring
+if TYPE_CHECKING:
+    import argparse
+    from collections.abc import Sequence
 
-COMMAND_MODULES = (
-    "model_commands",
-    "count_commands",
-    "measure_commands",
-    "compare_commands",
-    "learn_commands",
-    "run_commands",
-    "shrink_commands",
-    "arpa_commands",
-    "serve_commands",
-    "study_commands",
-)
-"""The modules whose ``register(subparsers)`` adds commands, in help order."""
-
-INTERNAL_ERROR = 70
 INTERRUPTED = 130
-
-
-class _Parser(argparse.ArgumentParser):
-    """An argument parser whose usage errors are one line and exit code 2."""
-
-    def error(self, message: str) -> None:  # type: ignore[override]
-        command = " ".join(["foretype", self._command()]).strip()
-        print(f"foretype: {message} (see '{command} --help')", file=sys.stderr)
-        raise SystemExit(OptionError.exit_code)
-
-    def _command(self) -> str:
-        return self.prog.split(" ", 1)[1] if " " in self.prog else ""
-
-
-def make_parser() -> argparse.ArgumentParser:
-    """Build the argument parser with every subcommand."""
-    parser = _Parser(
-        prog="foretype",
-        description="Train trigram models for predictive text entry and measure what they save. With no command, opens the typing pad on the demo model.",
-    )
-    parser.add_argument("--version", action="version", version=f"foretype {__version__}; queries answered by {describe_path(default_path())}")
-    commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
-    for name in COMMAND_MODULES:
-        importlib.import_module(f"{__name__}.{name}").register(commands)
-    return parser
+"""Exit code after Ctrl-C (128 + SIGINT), at any moment of any command."""
 
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
-    arguments = list(sys.argv[1:] if argv is None else argv)
-    if not arguments:
-        arguments = ["pad"]
-    parser = make_parser()
     try:
-        args = parser.parse_args(arguments)
-        if getattr(args, "handler", None) is None:
-            parser.print_help()
-            return 0
-        return int(args.handler(args) or 0)
-    except ForetypeError as error:
-        print(f"foretype: {error}", file=sys.stderr)
-        return error.exit_code
+        from .app import run  # the engine and every command load here
+
+        return run(argv)
     except KeyboardInterrupt:
-        print("foretype: interrupted", file=sys.stderr)
-        return INTERRUPTED
-    except BrokenPipeError:
-        _silence_stdout()
-        return 0
-    except Exception as error:  # noqa: BLE001 - the last line of defence: one line, never a traceback
-        if os.environ.get("FORETYPE_DEBUG"):
-            raise
-        print(f"foretype: internal error: {type(error).__name__}: {error} (set FORETYPE_DEBUG=1 for details)", file=sys.stderr)
-        return INTERNAL_ERROR
+        return interrupted()
 
 
-def _silence_stdout() -> None:
-    # After a closed pipe, point stdout at /dev/null so interpreter shutdown does not complain.
+def interrupted() -> int:
+    """Say that the command was interrupted (one line) and return the exit code."""
     try:
-        devnull = os.open(os.devnull, os.O_WRONLY)
-        os.dup2(devnull, sys.stdout.fileno())
-    except OSError:
+        print("foretype: interrupted", file=sys.stderr)
+    except (KeyboardInterrupt, OSError, ValueError):
         pass
+    return INTERRUPTED
+
+
+def make_parser() -> argparse.ArgumentParser:
+    """Build the argument parser with every subcommand (see :func:`foretype.cli.app.make_parser`)."""
+    from .app import make_parser as make
+
+    return make()

@@ -8,7 +8,7 @@ from ..counting.corpus import read_text_file
 from ..query.model import LanguageModel
 from ..simulate.scanning import LIST_POSITIONS, ScanningSettings, format_scanning_report, parse_layout, simulate_scanning
 from ..simulate.typist import TypistSettings
-from .output import print_json, progress_bar
+from .output import model_name, print_demo_note, print_json, progress_bar
 
 ACCESS_CHOICES = ("keys", "scanning")
 """``--access`` values: keystrokes (default) or single-switch row-column scanning."""
@@ -51,7 +51,8 @@ def run_scanning_savings(args: argparse.Namespace, model: LanguageModel, text: s
     with progress_bar("scanning the test text") as update:
         report = simulate_scanning(model, text, settings, scanning, update)
     if args.json:
-        print_json(report.to_json())
+        print_json({"model": model_name(args.model), **report.to_json()})
     else:
+        print_demo_note(args.model)
         print(format_scanning_report(report))
     return 0

@@ -13,7 +13,8 @@ from ..errors import OptionError
 from ..modelfile.encoding import ENCODINGS, FLOAT32
 from ..modelfile.format import check_target
 from ..outputs import check_output
-from .output import add_force_option, add_json_option, open_model, print_json
+from ..text import plural
+from .output import add_force_option, add_json_option, add_model_option, model_name, open_model, print_demo_note, print_json
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -24,12 +25,12 @@ def register(commands: argparse._SubParsersAction) -> None:
         description="Write a model in the ARPA back-off text format that language-modelling toolkits read: the probability "
         "of every stored n-gram and each context's back-off weight, so every probability is the model's own. "
         "Words are written in their model (lower-case) form; display forms go in comment lines before \\data\\. "
-        "Example: foretype export chat.model -o chat.arpa.gz",
+        "Example: foretype export -m chat.model -o chat.arpa.gz",
     )
-    p.add_argument("model", help="the model file")
+    add_model_option(p, "the model to write out")
     p.add_argument("-o", "--output", required=True, help="the ARPA file to write (.gz: compressed; -: standard output)")
     add_force_option(p, "the output")
-    p.add_argument("--approximate", action="store_true", help="write a model with no exact ARPA form (mle) anyway, saying what is approximated")
+    p.add_argument("--approximate", action=argparse.BooleanOptionalAction, default=False, help="write a model with no exact ARPA form (mle) anyway, saying what is approximated")
     add_json_option(p)
     p.set_defaults(handler=run_export)
 
@@ -76,10 +77,11 @@ def run_export(args: argparse.Namespace) -> int:
         print(f"foretype: warning: approximated: {summary.approximated}", file=sys.stderr)
     to_stdout = args.output == "-"
     if args.json and not to_stdout:
-        print_json({"output": summary.target, "ngrams": summary.ngrams, "compressed": summary.compressed, "approximated": summary.approximated})
+        print_json({"model": model_name(args.model), "output": summary.target, "ngrams": summary.ngrams, "compressed": summary.compressed, "approximated": summary.approximated})
     elif not to_stdout:
         n = summary.ngrams
-        print(f"wrote {summary.target}: {n['1']:,} unigrams, {n['2']:,} bigrams, {n['3']:,} trigrams" + (" (exact)" if not summary.approximated else ""))
+        print_demo_note(args.model)
+        print(f"wrote {summary.target}: {plural(n['1'], 'unigram')}, {plural(n['2'], 'bigram')}, {plural(n['3'], 'trigram')}" + (" (exact)" if not summary.approximated else ""))
     return 0
 
 

@@ -7,7 +7,7 @@ import sys
 
 from ..counting.memory import parse_size
 from ..errors import OptionError
-from .output import add_json_option, positive_int, print_json, progress_bar
+from .output import add_corpus_options, add_json_option, positive_int, print_json, progress_bar
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -24,9 +24,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     where = p.add_mutually_exclusive_group()
     where.add_argument("--cluster", metavar="ADDRESS", default=None, help="count on this Dask scheduler, e.g. tcp://host:8786 (every worker must read the corpus paths)")
     where.add_argument("--workers", type=positive_int, default=None, metavar="N", help="count on a local Dask cluster of N processes")
-    p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces, blank lines end sentences")
-    p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
-    p.add_argument("--reject-binary", action="store_true", help="fail on binary files inside folders instead of skipping them")
+    add_corpus_options(p)
     p.add_argument("--max-memory", type=_size, default=None, metavar="SIZE", help="ceiling on this process's memory, e.g. 2G (default: half of the memory available)")
     p.add_argument("--spill-dir", default=None, metavar="DIR", help="where counts that outgrow memory go without Dask (default: the output's folder)")
     p.add_argument("--block-size", type=_size, default=None, metavar="SIZE", help="bytes of a file per Dask task (default 32M)")

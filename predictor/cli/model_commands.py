@@ -19,17 +19,24 @@ from ..modelfile.encoding import ENCODINGS
 from ..modelfile.format import check_target
 from ..outputs import is_stdout
 from ..query.verify import verify_model
+from ..text import plural
 from .output import (
+    add_corpus_options,
     add_json_option,
+    add_model_option,
+    add_test_option,
     add_text_options,
     describe_rule,
+    is_model_file,
+    model_name,
     open_model,
     positive_int,
+    print_demo_note,
     print_json,
+    probability,
     progress_bar,
     read_words,
     sentence_rule,
-    split_model_argument,
 )
 from .shrink_commands import describe_shrink
 
@@ -49,9 +56,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--min-count", type=positive_int, default=1, metavar="C", help="drop words seen fewer than C times (default 1)")
     p.add_argument("--method", choices=METHODS, default="kneser-ney", help="estimator (default kneser-ney)")
     p.add_argument("--add", type=float, default=0.1, metavar="K", help="k for --method additive (default 0.1)")
-    p.add_argument("--wrapped", action="store_true", help="hard-wrapped prose: single line breaks are spaces, blank lines end sentences")
-    p.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
-    p.add_argument("--reject-binary", action="store_true", help="fail on binary files inside folders instead of skipping them")
+    add_corpus_options(p)
     p.add_argument(
         "--values", choices=(*ENCODINGS, "codebook8"), default=None, help="stored value encoding (default log16; float32 for katz and mle; codebook8: one byte per value)"
     )
@@ -72,11 +77,17 @@ def register(commands: argparse._SubParsersAction) -> None:
         help="top-k next words or completions for the text before the cursor",
         description="Suggest words for the text before the cursor. If it ends inside a word, that word is completed; "
         "if it ends in a space, the next word is predicted. "
-        'Example: foretype suggest chat.model "see you at the sta"',
+        'Example: foretype suggest -m chat.model "see you at the sta"',
     )
-    p.add_argument("args", nargs="+", metavar="[MODEL] TEXT", help="model file (default: the demo model) and the text before the cursor")
+    add_model_option(p)
+    p.add_argument("text", metavar="TEXT", help="the text before the cursor")
     p.add_argument("-k", type=positive_int, default=5, help="how many suggestions (default 5)")
-    p.add_argument("--adapt", action="store_true", help="combine the model with what it learned from your typing (MODEL.learned beside it; read only)")
+    p.add_argument(
+        "--adapt",
+        action=argparse.BooleanOptionalAction,
+        default=False,
+        help="combine the model with what it learned from your typing (MODEL.learned beside it; read only; default off)",
+    )
     p.add_argument("--user", metavar="FILE", help="with --adapt: this learned file instead of MODEL.learned")
     add_json_option(p)
     p.set_defaults(handler=run_suggest)
@@ -85,20 +96,25 @@ def register(commands: argparse._SubParsersAction) -> None:
         "score",
         help="cross-entropy, perplexity and OOV rate of a text",
         description="Score a text file: cross-entropy in bits per token (words plus one end symbol per sentence), "
-        "perplexity and out-of-vocabulary rate. Example: foretype score chat.model heldout.txt",
+        "perplexity and out-of-vocabulary rate. Example: foretype score -m chat.model -t heldout.txt",
     )
-    p.add_argument("args", nargs="+", metavar="[MODEL] TEXTFILE", help="model file (default: the demo model) and the text to score ('-': standard input)")
+    add_model_option(p)
+    add_test_option(p, "the text to score")
     add_text_options(p)
     add_json_option(p)
     p.set_defaults(handler=run_score)
 
-    p = commands.add_parser("info", help="facts about a model file", description="Describe a model: method, vocabulary, n-grams stored, size.")
-    p.add_argument("args", nargs="*", metavar="[MODEL]")
+    p = commands.add_parser("info", help="facts about a model file", description="Describe a model: method, vocabulary, n-grams stored, size. Example: foretype info -m chat.model")
+    add_model_option(p)
     add_json_option(p)
     p.set_defaults(handler=run_info)
 
-    p = commands.add_parser("check", help="verify every checksum of a model file", description="Fully verify a model file: header, structure and every section's checksum.")
-    p.add_argument("model")
+    p = commands.add_parser(
+        "check",
+        help="verify every checksum of a model file",
+        description="Fully verify a model file: header, structure and every section's checksum. Example: foretype check -m chat.model",
+    )
+    add_model_option(p, "the model file to verify")
     add_json_option(p)
     p.set_defaults(handler=run_check)
 
@@ -193,13 +209,13 @@ def run_build(args: argparse.Namespace) -> int:
         print_json(summary)
     else:
         n = info["ngrams"]
-        skipped = f", skipped {summary['skipped_files']} binary files" if summary["skipped_files"] else ""
+        skipped = f", skipped {plural(summary['skipped_files'], 'binary file')}" if summary["skipped_files"] else ""
         if summary["unlisted_tokens"]:
             skipped += f", {summary['unlisted_tokens']:,} tokens of words first seen after the word table filled counted as unknown"
         print(
-            f"wrote {summary['model']}: {info['method']}, {info['vocab_size']:,} words, "
+            f"wrote {summary['model']}: {info['method']}, {plural(info['vocab_size'], 'word')}, "
             f"{n['1']:,}/{n['2']:,}/{n['3']:,} uni/bi/trigrams, {size / 1e6:.1f} MB; "
-            f"{tokens:,} tokens from {summary['corpus_files']} files{skipped} in {seconds:.1f} s"
+            f"{plural(tokens, 'token')} from {plural(summary['corpus_files'], 'file')}{skipped} in {seconds:.1f} s"
         )
     return 0
 
@@ -208,17 +224,21 @@ def run_suggest(args: argparse.Namespace) -> int:
     """foretype suggest (with --adapt: the combined model of the model and its learned file)."""
     if args.user and not args.adapt:
         raise OptionError("--user goes with --adapt")
-    model_path, (text,) = split_model_argument(args.args, 1, "suggest")
-    base = open_model(model_path)
-    adapted = None
+    text = args.text
+    if Path(text).is_file() and is_model_file(text):
+        raise OptionError(f'{text!r} is a model file, not the text before the cursor: name the model with -m (foretype suggest -m {text} "TEXT")')
+    base = open_model(args.model)
+    adapted = learned_file = None
     if args.adapt:
         from ..adapt.store import default_learned_path, load_learned
 
-        learned_file = Path(args.user) if args.user else default_learned_path(model_path)
+        learned_file = Path(args.user) if args.user else default_learned_path(args.model)
         adapted = load_learned(learned_file, base, must_exist=bool(args.user))
     model = adapted if adapted is not None else base
     context, prefix = model.parse_cursor_text(text)
     found = model.suggest_text(text, k=args.k)
+    # A never-suggest list may hide every candidate the model has here: say so rather than show an empty list.
+    blocked = adapted is not None and not found and bool(adapted.never.entries) and bool(base.suggest_text(text, k=1))
     if args.json:
         rows = []
         for s in found:
@@ -226,33 +246,41 @@ def run_suggest(args: argparse.Namespace) -> int:
             if adapted is not None:
                 row.update(learned=s.learned, new_word=s.new_word)
             rows.append(row)
-        payload: dict[str, Any] = {"context": context, "prefix": prefix, "suggestions": rows}
+        payload: dict[str, Any] = {"model": model_name(args.model), "context": context, "prefix": prefix, "suggestions": rows}
         if adapted is not None:
-            payload.update(learned_file=str(learned_file), user_share=adapted.share(context))
+            payload.update(learned_file=str(learned_file), user_share=adapted.share(context), all_blocked=blocked)
         print_json(payload)
         return 0
+    print_demo_note(args.model)
     shown = " ".join(context) if context else "(sentence start)"
     print(f"context: {shown}   prefix: {prefix!r}")
     if adapted is not None:
         tokens = adapted.user.raw_tokens
-        held = f"{tokens:,} tokens learned" if tokens else "nothing learned yet"
+        held = f"{plural(tokens, 'token')} learned" if tokens else "nothing learned yet"
         print(f"learned: {learned_file} ({held}; user model's share here {adapted.share(context):.1%}; • learned, + new word)")
-    if not found:
+        if blocked:
+            print(f"every candidate here is on the never-suggest list ({', '.join(adapted.never.entries)}); see 'foretype learned show'")
+    _print_suggestions(found, marks=adapted is not None, blocked=blocked)
+    return 0
+
+
+def _print_suggestions(found: list[Any], *, marks: bool, blocked: bool) -> None:
+    """The ranked suggestions as text: rank, word, probability (four significant digits), the n-gram order used."""
+    if not found and not blocked:
         print("no vocabulary word matches")
     for rank, s in enumerate(found, 1):
-        mark = ("+" if s.new_word else "•" if s.learned else " ") if adapted is not None else ""
-        print(f"{rank:>3}  {s.word:<24} {s.prob:>10.6f}  {s.order}-gram {mark}".rstrip())
-    return 0
+        mark = ("+" if s.new_word else "•" if s.learned else " ") if marks else ""
+        print(f"{rank:>3}  {s.word:<24} {probability(s.prob):>10}  order {s.order} {mark}".rstrip())
 
 
 def run_score(args: argparse.Namespace) -> int:
     """foretype score."""
-    model_path, (text_path,) = split_model_argument(args.args, 1, "score")
-    text = read_words(text_path, replace_bad_bytes=args.replace_bad_bytes)
-    model = open_model(model_path)
+    text = read_words(args.test, replace_bad_bytes=args.replace_bad_bytes)
+    model = open_model(args.model)
     wrapped = sentence_rule(args.wrapped, model)
     result = model.score(text, wrapped=wrapped)
     payload = {
+        "model": model_name(args.model),
         "wrapped": wrapped,
         "sentences": result.sentences,
         "tokens": result.tokens,
@@ -264,8 +292,9 @@ def run_score(args: argparse.Namespace) -> int:
     if args.json:
         print_json({k: (None if isinstance(v, float) and v != v or v == float("inf") else v) for k, v in payload.items()})
         return 0
+    print_demo_note(args.model)
     print(
-        f"{result.sentences:,} sentences, {result.tokens:,} tokens (words + one end per sentence), "
+        f"{plural(result.sentences, 'sentence')}, {plural(result.tokens, 'token')} (words + one end per sentence), "
         f"OOV {result.oov:,} ({result.oov_rate:.2%})\n"
         f"cross-entropy {result.cross_entropy_bits:.4f} bits/token, perplexity {result.perplexity:.2f}\n"
         f"sentences read as {describe_rule(wrapped)}"
@@ -275,24 +304,25 @@ def run_score(args: argparse.Namespace) -> int:
 
 def run_info(args: argparse.Namespace) -> int:
     """foretype info."""
-    model_path, _ = split_model_argument(args.args, 0, "info")
-    model = open_model(model_path)
+    model = open_model(args.model)
     info = model.info()
-    info["model"] = str(model.path) if model.path else None
+    info["model"] = model_name(args.model)
+    info["path"] = str(model.path) if model.path else None
     info["shrink"] = model.meta.get("shrink")
     if args.json:
         print_json(info)
         return 0
+    print_demo_note(args.model)
     n = info["ngrams"]
     print(
-        f"{info['model']}\n"
+        f"{info['path']}\n"
         f"  format version   {info['format_version']}\n"
         f"  method           {info['method']}  (values {info['value_encoding']})\n"
-        f"  vocabulary       {info['vocab_size']:,} words (+ unknown, end of sentence)\n"
-        f"  n-grams stored   {n['1']:,} unigrams, {n['2']:,} bigrams, {n['3']:,} trigrams\n"
+        f"  vocabulary       {plural(info['vocab_size'], 'word')} (+ unknown, end of sentence)\n"
+        f"  n-grams stored   {plural(n['1'], 'unigram')}, {plural(n['2'], 'bigram')}, {plural(n['3'], 'trigram')}\n"
         f"  possible         {info['possible_trigrams']:.3g} trigrams over this vocabulary\n"
-        f"  file             {info['file_bytes']:,} bytes, {info['bytes_per_ngram']:.2f} bytes per stored n-gram\n"
-        f"  corpus           {info['corpus_tokens']:,} tokens\n"
+        f"  file             {plural(info['file_bytes'], 'byte')}, {info['bytes_per_ngram']:.2f} bytes per stored n-gram\n"
+        f"  corpus           {plural(info['corpus_tokens'], 'token')}\n"
         f"  queries          answered by {info['query_path_note']}"
     )
     shrunk = describe_shrink(model)
@@ -303,13 +333,21 @@ def run_info(args: argparse.Namespace) -> int:
 
 def run_check(args: argparse.Namespace) -> int:
     """foretype check."""
-    loaded = verify_model(args.model)
+    if args.model is None:
+        open_model(None, quiet=args.json)  # builds the demo model on first use
+        from ..demo import demo_model_path
+
+        path = str(demo_model_path())
+    else:
+        path = args.model
+    loaded = verify_model(path)
     sections = len(loaded.sections)
     if args.json:
-        print_json({"model": args.model, "ok": True, "sections": sections, "file_bytes": loaded.file_bytes})
+        print_json({"model": model_name(args.model), "path": path, "ok": True, "sections": sections, "file_bytes": loaded.file_bytes})
     else:
+        print_demo_note(args.model)
         print(
-            f"{args.model}: ok ({sections} sections, {loaded.file_bytes:,} bytes): every checksum matches, "
+            f"{path}: ok ({plural(sections, 'section')}, {plural(loaded.file_bytes, 'byte')}): every checksum matches, "
             "the arrays are consistent and sorted, the prefix index agrees with the words, "
             "and sampled distributions sum to 1"
         )

@@ -6,12 +6,12 @@ import argparse
 import json
 import sys
 from collections.abc import Callable, Iterator
-from contextlib import contextmanager
+from contextlib import AbstractContextManager, contextmanager
 from pathlib import Path
-from typing import Any
+from typing import Any, TextIO
 
 from ..counting.corpus import read_text_file
-from ..errors import CorpusError, OptionError
+from ..errors import CorpusError
 from ..modelfile.format import MAGIC
 from ..query.model import LanguageModel, load
 from ..text import WORD_RE
@@ -42,20 +42,35 @@ def is_model_file(path: str) -> bool:
         return False
 
 
-def split_model_argument(values: list[str], rest: int, command: str) -> tuple[str | None, list[str]]:
-    """Split positional arguments into an optional model path and the ``rest`` that follow it.
+DEMO_MODEL = "demo"
+"""How JSON output names the bundled demo model when it answered (no ``-m`` given)."""
 
-    With ``rest + 1`` values the first is the model; with ``rest`` values the
-    demo model is meant.
 
-    Raises:
-        OptionError: any other number of values.
-    """
-    if len(values) == rest + 1:
-        return values[0], values[1:]
-    if len(values) == rest:
-        return None, values
-    raise OptionError(f"{command} takes {'[MODEL] ' + ' '.join(['ARG'] * rest) if rest else '[MODEL]'}; got {len(values)} arguments")
+def add_model_option(parser: argparse.ArgumentParser, what: str = "the model file") -> None:
+    """Add ``-m/--model MODEL``: the one way every command names the model it reads (none: the demo model)."""
+    parser.add_argument("-m", "--model", metavar="MODEL", default=None, help=f"{what} (default: the bundled demo model)")
+
+
+def model_name(path: str | None) -> str:
+    """The model that answered, as JSON output names it: its path, or ``"demo"``."""
+    return DEMO_MODEL if path is None else str(path)
+
+
+def demo_note(path: str | None) -> str | None:
+    """The line text output adds when the bundled demo model answered (None for a model of one's own)."""
+    return None if path is not None else "model: the bundled demo model (give -m MODEL to use your own)"
+
+
+def print_demo_note(path: str | None, stream: TextIO | None = None) -> None:
+    """Print :func:`demo_note`'s line when the demo model answered."""
+    note = demo_note(path)
+    if note is not None:
+        print(note, file=stream if stream is not None else sys.stdout)
+
+
+def probability(value: float) -> str:
+    """A probability for text output with four significant digits (``0.0003125``, never ``0.000000``)."""
+    return f"{value:.4g}"
 
 
 def open_model(path: str | None, *, quiet: bool = False) -> LanguageModel:
@@ -93,6 +108,33 @@ def progress_bar(label: str) -> Iterator[Callable[[int, int], None]]:
             progress.update(task, completed=done, total=total or None)
 
         yield update
+
+
+class StageBars:
+    """A progress bar per stage of a long job, reusing :func:`progress_bar` (a new bar when the label changes).
+
+    Call it with (label, done, total); :meth:`close` ends the last bar.
+    """
+
+    def __init__(self) -> None:
+        self._label: str | None = None
+        self._bar: AbstractContextManager[Callable[[int, int], None]] | None = None
+        self._update: Callable[[int, int], None] | None = None
+
+    def __call__(self, label: str, done: int, total: int) -> None:
+        if label != self._label:
+            self.close()
+            self._bar = progress_bar(label)
+            self._update = self._bar.__enter__()
+            self._label = label
+        assert self._update is not None
+        self._update(done, total)
+
+    def close(self) -> None:
+        """End the current bar, if any."""
+        if self._bar is not None:
+            self._bar.__exit__(None, None, None)
+        self._bar = self._update = self._label = None
 
 
 def positive_int(text: str) -> int:
@@ -133,6 +175,43 @@ def is_learned_export(path: Path) -> bool:
     except (OSError, ValueError):
         return False
     return isinstance(payload, dict) and payload.get("format") == "foretype-learned-export"
+
+
+def starts_with(*starts: bytes) -> Callable[[Path], bool]:
+    """A kind check for the output policy: an existing file may be replaced when it begins with one of ``starts``."""
+
+    def check(path: Path) -> bool:
+        try:
+            with open(path, "rb") as handle:
+                head = handle.read(256).lstrip()
+        except OSError:
+            return False
+        return head.startswith(starts)
+
+    return check
+
+
+SVG_CHART = starts_with(b"<svg", b"<?xml")
+"""An SVG file: the kind a ``--chart`` option writes (and may replace)."""
+
+
+def add_test_option(parser: argparse.ArgumentParser, what: str = "the held-out text to type and score") -> None:
+    """Add ``-t/--test TEXTFILE``: the held-out text, given the same way to every command that measures a model on one."""
+    parser.add_argument("-t", "--test", required=True, metavar="TEXTFILE", help=f"{what} ('-': standard input)")
+
+
+def add_corpus_options(parser: argparse.ArgumentParser) -> None:
+    """Add how a corpus is read: ``--wrapped/--no-wrapped``, ``--replace-bad-bytes``, ``--reject-binary/--no-reject-binary``."""
+    parser.add_argument(
+        "--wrapped",
+        action=argparse.BooleanOptionalAction,
+        default=False,
+        help="hard-wrapped prose: single line breaks are spaces, blank lines end sentences (default: each line break ends a sentence)",
+    )
+    parser.add_argument("--replace-bad-bytes", action="store_true", help="replace invalid UTF-8 instead of failing")
+    parser.add_argument(
+        "--reject-binary", action=argparse.BooleanOptionalAction, default=False, help="fail on binary files inside folders instead of skipping them (default: skip them)"
+    )
 
 
 def add_text_options(parser: argparse.ArgumentParser) -> None:

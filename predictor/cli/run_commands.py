@@ -6,7 +6,7 @@ import argparse
 import sys
 
 from ..errors import OptionError
-from .output import open_model, positive_int
+from .output import add_model_option, open_model, positive_int
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -18,9 +18,9 @@ def register(commands: argparse._SubParsersAction) -> None:
         "context and the letters typed, take them with Tab or alt+1..9, and watch the keystrokes saved. "
         "F1 inside lists every key. The pad learns the words you finish into MODEL.learned beside the model "
         "(on this machine only; F6 switches learning on and off, F7 lists what was learned). "
-        "Example: foretype pad chat.model -k 7",
+        "Example: foretype pad -m chat.model -k 7",
     )
-    p.add_argument("model", nargs="?", help="model file (default: the demo model)")
+    add_model_option(p)
     p.add_argument("-k", type=positive_int, default=5, help="suggestions shown at each position, 1 to 9 (default 5)")
     learn = p.add_mutually_exclusive_group()
     learn.add_argument("--learn", dest="learning", action="store_const", const=True, help="switch learning on before the pad opens (kept in MODEL.learned, like F6)")

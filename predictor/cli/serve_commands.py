@@ -37,9 +37,17 @@ def register(commands: argparse._SubParsersAction) -> None:
         description="Serve one or more models to a prototype keyboard in any language: HTTP/JSON suggestions, "
         "probabilities, model facts and learning events, and a WebSocket per typing session (docs/service.md). "
         "Listens on 127.0.0.1 unless told otherwise; any other address requires a token. "
-        "Example: foretype serve chat.model other.model --port 8470",
+        "Example: foretype serve -m chat.model -m other.model --port 8470",
     )
-    p.add_argument("models", nargs="*", metavar="MODEL", help="model files, or NAME=FILE (default: the demo model, as 'demo'); the first is the default")
+    p.add_argument(
+        "-m",
+        "--model",
+        dest="models",
+        action="append",
+        default=[],
+        metavar="MODEL",
+        help="a model file, or NAME=FILE; repeat for each model (default: the bundled demo model, as 'demo'); the first is the default",
+    )
     p.add_argument("--host", default="127.0.0.1", help="address to listen on (default 127.0.0.1; any other needs a token)")
     p.add_argument("--port", type=_port, default=8470, help="port (default 8470; 0: any free port)")
     p.add_argument("--token", default=None, help="require this token on every request (default: $FORETYPE_TOKEN; generated when not on loopback)")
@@ -51,7 +59,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("--max-text", type=positive_int, default=10_000, metavar="CHARS", help="longest text before the cursor (default 10000)")
     p.add_argument("--max-k", type=positive_int, default=50, metavar="N", help="most suggestions per request (default 50)")
     p.add_argument("--max-connections", type=positive_int, default=64, metavar="N", help="concurrent requests and sockets (default 64)")
-    p.add_argument("--access-log", action="store_true", help="log every request line on stderr (paths only, never text)")
+    p.add_argument("--access-log", action=argparse.BooleanOptionalAction, default=False, help="log every request line on stderr (paths only, never text; default off)")
     p.add_argument(
         "--phrases",
         default=None,

@@ -12,7 +12,8 @@ from ..counting.memory import parse_size
 from ..errors import OptionError
 from ..modelfile.format import check_target
 from ..query.model import LanguageModel, load
-from .output import add_json_option, open_model, positive_int, print_json
+from ..text import plural
+from .output import add_json_option, add_model_option, model_name, open_model, positive_int, print_demo_note, print_json
 
 SHRINK_CRITERIA = ("entropy", "prediction")
 """Criteria ``shrink`` offers on a built model (count cutoffs need the counts: ``build --cutoffs``)."""
@@ -25,9 +26,9 @@ def register(commands: argparse._SubParsersAction) -> None:
         help="prune a model and store its values in fewer bits, to fit a byte budget",
         description="Write a smaller copy of a model: remove the bigrams and trigrams that matter least "
         "(relative entropy, or the keystrokes lost from the top-k lists) and store values in fewer bits. "
-        "Example: foretype shrink chat.model -o small.model --max-bytes 500K --values codebook8",
+        "Example: foretype shrink -m chat.model -o small.model --max-bytes 500K --values codebook8",
     )
-    p.add_argument("model", help="the model to shrink (left unchanged)")
+    add_model_option(p, "the model to shrink (left unchanged)")
     p.add_argument("-o", "--output", required=True, help="the smaller model to write")
     p.add_argument("--criterion", choices=SHRINK_CRITERIA, default="entropy", help="what decides which n-grams go first (default entropy)")
     p.add_argument("--threshold", type=float, default=None, metavar="THETA", help="remove every n-gram scoring below THETA (entropy: relative perplexity increase, e.g. 1e-7)")
@@ -74,8 +75,6 @@ def describe_shrink(model: LanguageModel) -> str | None:
 def run_shrink(args: argparse.Namespace) -> int:
     """foretype shrink."""
     started = time.perf_counter()
-    if Path(args.output).resolve() == Path(args.model).resolve():
-        raise OptionError("--output must differ from the model being shrunk")
     check_target(args.output, inputs=[args.model])
     source = open_model(args.model)
     smaller = shrink(source, criterion=args.criterion, threshold=args.threshold, max_bytes=args.max_bytes, encoding=args.values, k=args.k)
@@ -83,7 +82,7 @@ def run_shrink(args: argparse.Namespace) -> int:
     info = load(args.output).info()
     payload: dict[str, Any] = {
         "model": str(Path(args.output)),
-        "source": str(Path(args.model)),
+        "source": model_name(args.model),
         "source_file_bytes": source.file_bytes,
         "file_bytes": size,
         "ngrams": info["ngrams"],
@@ -96,5 +95,6 @@ def run_shrink(args: argparse.Namespace) -> int:
         print_json(payload)
         return 0
     was = f" (was {source.file_bytes:,})" if source.file_bytes else ""
-    print(f"wrote {payload['model']}: {size:,} bytes{was}, {info['bytes_per_ngram']:.2f} bytes per stored n-gram; {describe_shrink(smaller)}")
+    print_demo_note(args.model)
+    print(f"wrote {payload['model']}: {plural(size, 'byte')}{was}, {info['bytes_per_ngram']:.2f} bytes per stored n-gram; {describe_shrink(smaller)}")
     return 0

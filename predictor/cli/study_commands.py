@@ -3,10 +3,11 @@
 from __future__ import annotations
 
 import argparse
-from typing import BinaryIO
+from typing import Any
 
 from ..errors import OptionError
-from .output import add_json_option, open_model, print_json, progress_bar
+from ..outputs import check_output, write_text_output
+from .output import SVG_CHART, add_force_option, add_json_option, add_model_option, model_name, open_model, print_demo_note, print_json, progress_bar
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -30,12 +31,14 @@ def register(commands: argparse._SubParsersAction) -> None:
     )
     p.add_argument("logs", nargs="+", metavar="LOG", help="session log files (JSON lines)")
     p.add_argument("--chart", metavar="FILE", help="write an SVG chart of the entry rate per phrase (and savings, with --compare)")
+    add_force_option(p, "the --chart file")
     p.add_argument(
         "--compare",
-        action="store_true",
+        action=argparse.BooleanOptionalAction,
+        default=False,
         help="type the same phrases with the simulated typist of 'foretype savings' (same k) and show its savings beside the measured",
     )
-    p.add_argument("--model", metavar="MODEL", help="the model for --compare (default: the demo model)")
+    add_model_option(p, "the model for --compare")
     p.add_argument("-k", type=int, default=None, help="suggestions per list for --compare (default: the session's own)")
     add_json_option(p)
     p.set_defaults(handler=run_study_report)
@@ -49,15 +52,14 @@ def _no_action(parser: argparse.ArgumentParser) -> int:
 
 def run_study_report(args: argparse.Namespace) -> int:
     """foretype study report."""
-    from ..simulate.writing import check_writable_file
-    from ..study import compare_with_simulation, entry_rate_chart, format_reports, reports_json, session_report
+    from ..study import compare_with_simulation, entry_rate_chart, session_report
 
     if args.model and not args.compare:
-        raise OptionError("--model is only used with --compare")
+        raise OptionError("-m/--model is only used with --compare")
     if args.k is not None and not 1 <= args.k <= 9:
         raise OptionError(f"-k must be 1 to 9, not {args.k}")
     if args.chart:
-        check_writable_file(args.chart)
+        check_output(args.chart, inputs=args.logs, kind=SVG_CHART, kind_name="SVG chart", force=args.force, option="--chart")
     reports = [session_report(path) for path in args.logs]
     if args.compare:
         model = open_model(args.model, quiet=args.json)
@@ -66,27 +68,24 @@ def run_study_report(args: argparse.Namespace) -> int:
                 compare_with_simulation(report, model, args.k)
                 update(done, len(reports))
     if args.chart:
-        _write_chart(args.chart, entry_rate_chart(reports))
-    if args.json:
-        payload = reports_json(reports)
-        payload["chart"] = args.chart
-        print_json(payload)
-    else:
-        print(format_reports(reports))
-        if args.chart:
-            print(f"chart: {args.chart}")
-        print("Session logs are personal data: they stay on this machine unless you move them.")
+        write_text_output(args.chart, entry_rate_chart(reports))
+    _print_reports(args, reports)
     return 0
 
 
-def _write_chart(path: str, svg: str) -> None:
-    from ..errors import OutputError
-    from ..modelfile.atomic import replace_atomically
+def _print_reports(args: argparse.Namespace, reports: list[Any]) -> None:
+    from ..study import format_reports, reports_json
 
-    def write(handle: BinaryIO) -> None:
-        handle.write(svg.encode("utf-8"))
-
-    try:
-        replace_atomically(path, write)
-    except OSError as error:
-        raise OutputError(f"{path}: cannot write the chart ({error.strerror or error})") from None
+    if args.json:
+        payload = reports_json(reports)
+        payload["chart"] = args.chart
+        if args.compare:
+            payload["model"] = model_name(args.model)
+        print_json(payload)
+        return
+    if args.compare:
+        print_demo_note(args.model)
+    print(format_reports(reports))
+    if args.chart:
+        print(f"chart: {args.chart}")
+    print("Session logs are personal data: they stay on this machine unless you move them.")

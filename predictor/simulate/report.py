@@ -11,6 +11,7 @@ from typing import Any
 import numpy as np
 
 from ..outputs import write_text_output
+from ..text import plural
 from .typist import WordTrace
 
 ESTIMATE_NOTE = (
@@ -166,8 +167,8 @@ def format_report(report: SavingsReport) -> str:
     wpm_with = rate["wpm_with_prediction"]
     lines = [
         f"text: {report.words:,} words, {report.characters:,} characters ({settings.get('text_mode', 'full')} mode); {_percent(report.oov_rate)} of words outside the vocabulary",
-        f"typist: k={settings.get('k')}, pick costs {settings.get('select_cost')} keystroke(s), "
-        f"automatic space {'on' if settings.get('autospace') else 'off'}, looks after {settings.get('min_prefix')} letter(s)",
+        f"typist: k={settings.get('k')}, pick costs {plural(settings.get('select_cost', 1.0), 'keystroke')}, "
+        f"automatic space {'on' if settings.get('autospace') else 'off'}, looks after {plural(settings.get('min_prefix', 0), 'letter')}",
         "",
         f"keystroke savings (KSR)  {_percent(report.ksr)}   {report.keystrokes:,.0f} keystrokes, {report.keystrokes_per_char:.3f} per character, "
         f"{report.mean_keystrokes_per_word:.2f} per word",

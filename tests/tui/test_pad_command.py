@@ -24,13 +24,13 @@ def launched(monkeypatch: pytest.MonkeyPatch) -> list[tuple[object, int]]:
 
 def test_the_pad_without_a_terminal_says_so_in_one_line(run_cli, tiny_model_file, monkeypatch: pytest.MonkeyPatch) -> None:
     monkeypatch.setattr("tui.launch.run_pad", lambda *a, **k: pytest.fail("the pad must not start without a terminal"))
-    result = run_cli("pad", tiny_model_file)  # captured stdout is no terminal
+    result = run_cli("pad", "-m", tiny_model_file)  # captured stdout is no terminal
     assert result.code == 2 and result.out == ""
     assert result.err.strip().splitlines() == ["foretype: the pad needs a terminal: standard output is not one (in a pipe, use suggest, score or savings)"]
 
 
 def test_pad_opens_the_named_model_with_the_chosen_number_of_suggestions(run_cli, launched, tiny_model_file) -> None:
-    result = run_cli("pad", tiny_model_file, "-k", "7")
+    result = run_cli("pad", "-m", tiny_model_file, "-k", "7")
     assert result.code == 0
     (model, k), = launched
     assert model.path == tiny_model_file and k == 7
@@ -42,12 +42,12 @@ learning_choices: list[bool | None] = []
 
 @pytest.mark.parametrize(("options", "choice"), [((), None), (("--learn",), True), (("--no-learn",), False)])
 def test_learn_and_no_learn_reach_the_pad_and_neither_keeps_the_learned_files_setting(run_cli, launched, tiny_model_file, options, choice) -> None:
-    assert run_cli("pad", tiny_model_file, *options).code == 0
+    assert run_cli("pad", "-m", tiny_model_file, *options).code == 0
     assert learning_choices == [choice]
 
 
 def test_learn_and_no_learn_together_are_refused(run_cli, launched, tiny_model_file) -> None:
-    result = run_cli("pad", tiny_model_file, "--learn", "--no-learn")
+    result = run_cli("pad", "-m", tiny_model_file, "--learn", "--no-learn")
     assert result.code == 2 and "not allowed with argument" in result.err
     assert launched == []
 
@@ -67,7 +67,7 @@ def test_more_ranks_than_chords_is_one_clear_error(run_cli, launched) -> None:
 
 
 def test_a_missing_model_file_is_one_line_and_its_exit_code(run_cli, launched, tmp_path) -> None:
-    result = run_cli("pad", tmp_path / "absent.model")
+    result = run_cli("pad", "-m", tmp_path / "absent.model")
     assert result.code == 5
     assert result.err.strip() == f"foretype: {tmp_path / 'absent.model'}: no such model file"
     assert launched == []
