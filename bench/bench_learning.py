@@ -18,22 +18,23 @@ Each text is typed as written and as a typo-injected copy
 person types its typos and the user model learns them.  Learning settings
 compared, each against the base model alone:
 
-* ``old``: the learning defaults before this change (a new word after 2 uses, online share);
-* ``uses1``: the same with a new word after 1 use;
-* ``guard``: a new word after 1 use unless it is one edit from a known word
-  (:mod:`foretype.adapt.slips`), then after 2;
-* ``default``: the current defaults (:class:`foretype.adapt.AdaptSettings`);
-* ``fixed<s>``: the default rule but the user model's share fixed at s wherever it has evidence;
+* ``old``: the learning defaults the issue started from (a new word after 2 uses, online share, beta 100);
+* ``previous``: the defaults before the share rule changed (a new word after 1 use unless it may be
+  a slip, :mod:`foretype.adapt.slips`; online share, beta 100);
+* ``default``: the current defaults (:class:`foretype.adapt.AdaptSettings`: the sharpened share,
+  :mod:`foretype.adapt.share_rule`);
+* ``fixed<s>``: the default word rule but the user model's share fixed at s wherever it has evidence;
 * ``tuned``: the fixed share that did best on a separate tuning text of the same kind;
 * ``cache<w>``: the plain textbook cache (tests/cache_reference.py) at weight w.
 
-and, with the typist leaving out words passed over within a word
-(``skip_passed``), ``base+skip`` and ``guard+skip``.
+and, with the typist leaving out words passed over within a word or not
+(``skip_passed``), ``base`` / ``base-skip`` and ``default`` / ``default-skip``
+(the other designs use the typist's default setting).
 
 Also counted on typo text: how many suggestion lists offered a typo (a typed
 form that is no word of the typo-free text, offered while another word was meant).  The
 JSON (with the block curves) goes to bench/out/learning-<time>.json and
-bench/out/learning-latest.json; the chart to docs/learning-curve.svg with ``--chart``.
+bench/out/learning-<tag>.json; the charts come from bench/learning_chart.py.
 """
 
 from __future__ import annotations
@@ -43,7 +44,7 @@ import json
 import re
 import sys
 import time
-from dataclasses import fields
+from dataclasses import fields, replace
 from pathlib import Path
 from typing import Any
 
@@ -58,7 +59,6 @@ from rich.console import Console  # noqa: E402
 
 import foretype  # noqa: E402
 from foretype.adapt import AdaptedModel, AdaptSettings  # noqa: E402
-from foretype.adapt.slips import looks_like_slip  # noqa: E402
 from foretype.adapt.simulation import BLOCK_WORDS, LearningObserver, block_savings  # noqa: E402
 from foretype.adapt.user_model import UserModel  # noqa: E402
 from foretype.demo import demo_heldout, demo_model  # noqa: E402
@@ -68,7 +68,8 @@ from foretype.text import model_form  # noqa: E402
 
 OUT = HERE / "out"
 TYPIST = TypistSettings(k=5, text_mode="words")
-OLD = {"min_uses": 2}
+OLD = {"min_uses": 2, "hold_slips": False, "share_rule": "online", "prior_tokens": 100.0}
+PREVIOUS = {"min_uses": 1, "hold_slips": True, "share_rule": "online", "prior_tokens": 100.0}
 FIXED_SHARES = (0.1, 0.2, 0.3, 0.4)
 CACHE_WEIGHTS = (0.2, 0.3)
 console = Console(stderr=True)
@@ -96,30 +97,9 @@ def texts(count: int) -> dict[str, tuple[str, str]]:
     }
 
 
-class GuardedUser(UserModel):
-    """Prototype of the slip guard: with min_uses 1, a once-used word one edit from a known word waits for a second use."""
-
-    def _known(self, form: str) -> bool:
-        if self.vocab is not None and self.vocab.id(form) is not None:
-            return True  # any base word (the engine's rule asks for one the person typed)
-        word_id = self._learned.get(form)
-        return word_id is not None and self._n1[word_id] >= 2
-
-    def _mark_ready(self, word_id: int) -> None:
-        form = self._forms[word_id - self.first_learned_id]
-        if self._n1[word_id] < 2 and looks_like_slip(form, self._known):
-            return
-        super()._mark_ready(word_id)
-
-    def _count(self, u: int, v: int, w: int, when: int, credit: float | None) -> None:
-        super()._count(u, v, w, when, credit)
-        if w >= self.first_learned_id and self._n1[w] == 2:
-            self._mark_ready(w)
-
-
-def adapted(base: foretype.LanguageModel, settings: AdaptSettings, fixed: float | None = None, guard: bool = False) -> AdaptedModel:
+def adapted(base: foretype.LanguageModel, settings: AdaptSettings, fixed: float | None = None) -> AdaptedModel:
     """A combined model with an empty user model; with ``fixed`` its share is that constant wherever it has evidence."""
-    user = (GuardedUser if guard else UserModel)(base.vocab, settings)
+    user = UserModel(base.vocab, settings)
     if fixed is not None:
         online = user.share
 
@@ -151,9 +131,8 @@ def sources(base: foretype.LanguageModel, tuned: float | None) -> dict[str, Any]
     defaults = AdaptSettings()
     chosen: dict[str, Any] = {
         "old": adapted(base, defaults.changed(**OLD)),
-        "uses1": adapted(base, defaults.changed(min_uses=1)),
+        "previous": adapted(base, defaults.changed(**PREVIOUS)),
         "default": adapted(base, defaults),
-        "guard": adapted(base, defaults.changed(min_uses=1), guard=True),
     }
     if tuned is not None:
         chosen["tuned"] = adapted(base, defaults, fixed=tuned)
@@ -199,9 +178,10 @@ def main() -> int:
             figures = {"base": run(base, text, None, typo_forms)}
             for name, source in sources(base, tuned).items():
                 figures[name] = run(base, text, source, typo_forms)
-            skipping = TypistSettings(k=TYPIST.k, text_mode=TYPIST.text_mode, skip_passed=True)
-            figures["base+skip"] = run(base, text, None, typo_forms, skipping)
-            figures["guard+skip"] = run(base, text, adapted(base, AdaptSettings(min_uses=1), guard=True), typo_forms, skipping)
+            other = replace(TYPIST, skip_passed=not TYPIST.skip_passed)
+            flip = "skip" if other.skip_passed else "noskip"
+            figures[f"base-{flip}"] = run(base, text, None, typo_forms, other)
+            figures[f"default-{flip}"] = run(base, text, adapted(base, AdaptSettings()), typo_forms, other)
             row[variant] = figures
             line = "  ".join(f"{name} {100 * f['ksr']:.2f}" for name, f in figures.items())
             console.print(f"{pair:10} {variant:5} {line}  ({time.perf_counter() - started:.0f} s)")

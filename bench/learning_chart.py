@@ -16,7 +16,12 @@ from pathlib import Path
 from typing import Any
 from xml.sax.saxutils import escape
 
-SERIES = (("base", "no learning", "#888888", "4 3"), ("old", "old default (2 uses)", "#d62728", ""), ("new", "new default", "#1f77b4", ""))
+SERIES = (
+    ("base", "no learning", "#888888", "4 3"),
+    ("old", "first default (2 uses)", "#d62728", ""),
+    ("previous", "previous default (online share)", "#ff7f0e", "6 2"),
+    ("new", "new default (sharpened share)", "#1f77b4", ""),
+)
 PANEL_W, PANEL_H, LEFT, TOP, GAP = 340, 220, 50, 40, 40
 
 
@@ -53,12 +58,12 @@ def learning_chart(pair: str, row: dict[str, Any], new: str = "default", block_w
     panels = {}
     for variant in ("clean", "typos"):
         figures = row[variant]
-        panels[variant] = {"base": figures["base"]["curve"], "old": figures["old"]["curve"], "new": figures[new]["curve"]}
+        panels[variant] = {key: figures[name]["curve"] for key, name in (("base", "base"), ("old", "old"), ("previous", "previous"), ("new", new)) if name in figures}
     values = [v for p in panels.values() for c in p.values() for v in c]
     lo = max(0.0, (int(min(values) * 20) / 20))
     hi = (int(max(values) * 20) + 1) / 20
     width = LEFT + 2 * PANEL_W + GAP + 20
-    height = TOP + PANEL_H + 70
+    height = TOP + PANEL_H + 90
     model, text = pair.split(">")
     parts = [
         f'<svg xmlns="http://www.w3.org/2000/svg" width="{width}" height="{height}" font-family="sans-serif">',
@@ -68,11 +73,11 @@ def learning_chart(pair: str, row: dict[str, Any], new: str = "default", block_w
     parts += _panel(LEFT, "typo-free text", panels["clean"], lo, hi)
     parts += _panel(LEFT + PANEL_W + GAP, "1 word in 40 with a typo", panels["typos"], lo, hi)
     parts.append(f'<text x="{LEFT + PANEL_W + GAP / 2}" y="{TOP + PANEL_H + 30}" text-anchor="middle" font-size="11">block</text>')
-    x = LEFT
-    for _, label, colour, dash in SERIES:
-        parts.append(f'<line x1="{x}" y1="{height - 14}" x2="{x + 24}" y2="{height - 14}" stroke="{colour}" stroke-width="2" stroke-dasharray="{dash}"/>')
-        parts.append(f'<text x="{x + 30}" y="{height - 10}" font-size="11">{escape(label)}</text>')
-        x += 190
+    for i, (_, label, colour, dash) in enumerate(SERIES):
+        x = LEFT + (i % 2) * 300
+        y = height - 34 + (i // 2) * 20
+        parts.append(f'<line x1="{x}" y1="{y}" x2="{x + 24}" y2="{y}" stroke="{colour}" stroke-width="2" stroke-dasharray="{dash}"/>')
+        parts.append(f'<text x="{x + 30}" y="{y + 4}" font-size="11">{escape(label)}</text>')
     parts.append("</svg>")
     return "\n".join(parts) + "\n"
 

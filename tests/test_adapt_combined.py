@@ -77,12 +77,14 @@ NEVER_ENTRIES = ["the", "t*", "*ing", "[a-c]*", "lord", "gorbalt", "q?illmere"]
     half_life=st.sampled_from([None, 40.0]),
     min_uses=st.integers(1, 3),
     prior_tokens=st.sampled_from([5.0, 100.0]),
+    share_rule=st.sampled_from(["sharpened", "online"]),
     never=st.lists(st.sampled_from(NEVER_ENTRIES), max_size=3, unique=True),
     plan=st.lists(st.tuples(st.integers(0, 10**6), st.lists(st.tuples(st.integers(0, 10**6), st.integers(0, 3), st.sampled_from([1, 3, 5, 12])), min_size=1, max_size=4)), min_size=1, max_size=10),
 )
-def test_suggest_equals_brute_force_while_the_person_writes(bases, user_sentences, method, half_life, min_uses, prior_tokens, never, plan):
+def test_suggest_equals_brute_force_while_the_person_writes(bases, user_sentences, method, half_life, min_uses, prior_tokens, share_rule, never, plan):
     base = bases[method]
-    model = AdaptedModel(base, UserModel(base.vocab, AdaptSettings(min_uses=min_uses, prior_tokens=prior_tokens, half_life=half_life)), NeverList(never))
+    settings_ = AdaptSettings(min_uses=min_uses, prior_tokens=prior_tokens, half_life=half_life, share_rule=share_rule)
+    model = AdaptedModel(base, UserModel(base.vocab, settings_), NeverList(never))
     pool = user_sentences
     for pick, queries in plan:
         model.learn(pool[pick % len(pool)], end=True)
@@ -174,9 +176,10 @@ def test_a_learned_word_completes_like_any_other_word_once_used_often_enough(bas
 
 
 def test_the_share_of_the_user_model_grows_with_evidence_and_follows_its_worth(bases, user_sentences):
-    # worth = (R + prior_worth * beta) / (n + beta), share = worth * n / (n + beta)
+    # The online rule: worth = (R + prior_worth * beta) / (n + beta), share = worth * n / (n + beta)
+    # (the EM responsibility of Jelinek & Mercer 1980, averaged with a prior).
     base = bases["kneser-ney"]
-    model = AdaptedModel(base)
+    model = AdaptedModel(base, UserModel(base.vocab, AdaptSettings(share_rule="online", prior_tokens=100.0)))
     assert model.share(("unto", "the")) == 0.0
     shares = []
     _, heldout = kjv_split()

@@ -74,6 +74,10 @@ def test_no_word_is_offered_twice_within_a_word_when_passed_over_words_are_left_
             shown_twice += len(seen & {model_form(f) for f in forms})
             seen |= {model_form(f) for f in forms}
     assert shown_twice == 0
-    plain = simulate(base, text, TypistSettings(text_mode="words"))
+    plain = simulate(base, text, TypistSettings(text_mode="words", skip_passed=False))
     again = sum(len(set(a) & set(b)) for t in plain.trace for a, b in zip(t.shown, t.shown[1:]))
     assert again > 0  # without the option the exact top k does repeat words
+
+
+def test_the_simulated_typist_leaves_passed_over_words_out_by_default():
+    assert TypistSettings().skip_passed

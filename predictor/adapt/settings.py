@@ -7,6 +7,7 @@ from dataclasses import asdict, dataclass, fields, replace
 from typing import Any
 
 from ..errors import OptionError
+from .share_rule import SHARE_RULES
 
 
 @dataclass(frozen=True)
@@ -21,18 +22,20 @@ class AdaptSettings:
         hold_slips: a new word that at its first use lies one edit from a
             word the person has used (so may be a typo of it) waits for a second use
             (:mod:`foretype.adapt.slips`; docs/learning.md has the figures).
-        prior_tokens: beta, the evidence (in learned tokens) at which the user
-            model's share reaches half of its estimated worth; the same number
-            of tokens weighs the prior of the worth estimate.
+        prior_tokens: beta, the number of tokens the prior of the worth
+            estimate weighs (and, under the ``online`` rule, the evidence at
+            which the share reaches half of the worth).
         prior_worth: the worth assumed before any evidence (the EM prior).
         half_life: decay of old counts, in learned tokens: a count halves after
             this many further tokens (None: no decay).
+        share_rule: how the share mu follows from the worth estimate:
+            ``sharpened`` (default) or ``online`` (:mod:`foretype.adapt.share_rule`).
 
     The combined probability (README "Learning from your own text" and
     :mod:`foretype.adapt.combined`)::
 
         P(w | u v) = (1 - mu) * P_base(w | u' v') + mu * P_user(w | u v)
-        mu = worth_b * n_b / (n_b + beta)
+        mu = user_share(share_rule, worth_b, n_b, ...)   (foretype.adapt.share_rule)
         worth_b = (R_b + prior_worth * beta) / (n_b + beta)
 
     for the context's evidence bucket b; n_b counts the tokens learned in
@@ -45,9 +48,10 @@ class AdaptSettings:
     learning: bool = True
     min_uses: int = 1
     hold_slips: bool = True
-    prior_tokens: float = 100.0
+    prior_tokens: float = 60.0
     prior_worth: float = 0.5
     half_life: float | None = None
+    share_rule: str = SHARE_RULES[0]
 
     def __post_init__(self) -> None:
         if not isinstance(self.learning, bool):
@@ -60,19 +64,25 @@ class AdaptSettings:
             raise OptionError(f"the prior token count must be a positive number, not {self.prior_tokens!r}")
         if not (isinstance(self.prior_worth, (int, float)) and 0.0 < self.prior_worth < 1.0):
             raise OptionError(f"the prior worth must lie strictly between 0 and 1, not {self.prior_worth!r}")
+        if self.share_rule not in SHARE_RULES:
+            raise OptionError(f"unknown share rule {self.share_rule!r}; choose one of {', '.join(SHARE_RULES)}")
         if self.half_life is not None and not (isinstance(self.half_life, (int, float)) and math.isfinite(self.half_life) and self.half_life > 0):
             raise OptionError(f"the half-life must be a positive number of tokens, not {self.half_life!r}")
 
     def to_json(self) -> dict[str, Any]:
-        """The settings as a JSON object (``hold_slips`` only when on: a file without it reads as before the check)."""
+        """The settings as a JSON object (``hold_slips`` only when on, ``share_rule`` only when not
+        ``online``: a file without them reads as before they existed)."""
         data = asdict(self)
         if not self.hold_slips:
             del data["hold_slips"]
+        if self.share_rule == "online":
+            del data["share_rule"]
         return data
 
     @staticmethod
     def from_json(data: Any) -> AdaptSettings:
-        """Settings from a JSON object; unknown keys are ignored, missing ones take defaults (``hold_slips``: off).
+        """Settings from a JSON object; unknown keys are ignored, missing ones take defaults
+        (except ``hold_slips``: off, and ``share_rule``: ``online``, the behaviour before they existed).
 
         Raises:
             OptionError: a value is out of range or of the wrong type.
@@ -83,6 +93,7 @@ class AdaptSettings:
         values = {key: value for key, value in data.items() if key in known}
         # Settings stored before the slip check existed keep the behaviour they were written with.
         values.setdefault("hold_slips", False)
+        values.setdefault("share_rule", "online")
         if "min_uses" in values and isinstance(values["min_uses"], float) and values["min_uses"].is_integer():
             values["min_uses"] = int(values["min_uses"])
         return AdaptSettings(**values)

@@ -56,6 +56,7 @@ from . import user_snapshot
 from .followers import Followers
 from .listings import NgramRow, WordRow
 from .settings import AdaptSettings
+from .share_rule import user_share
 from .slips import looks_like_slip
 from .witten_bell import EMPTY_IDS, EMPTY_WEIGHTS, UserContext, interpolate, level
 
@@ -364,21 +365,21 @@ class UserModel:
         return float(self._evidence[bucket] / self._scale)
 
     def share(self, context: UserContext) -> float:
-        """mu for a context: worth_b * n_b / (n_b + beta); 0 while learning is off or nothing is counted."""
+        """mu for a context (:func:`foretype.adapt.share_rule.user_share`); 0 while learning is off or nothing is counted."""
         if not self.settings.learning or self._total <= 0:
             return 0.0
         bucket = context.bucket
         n = self._evidence[bucket] / self._scale
-        beta = self.settings.prior_tokens
-        return float(self.worth(bucket) * (n / (n + beta)))
+        settings = self.settings
+        return float(user_share(settings.share_rule, float(self.worth(bucket)), float(n), settings.prior_tokens, context.base_knows))
 
     def shares(self) -> dict[str, float]:
-        """mu, worth and evidence per bucket (for reports)."""
+        """mu per evidence bucket, where the base model knows the context (for reports)."""
         out: dict[str, float] = {}
+        settings = self.settings
         for bucket, name in enumerate(("neither", "last_word", "both_words")):
             n = self.evidence(bucket)
-            beta = self.settings.prior_tokens
-            out[name] = float(self.worth(bucket) * n / (n + beta)) if self.settings.learning and n > 0 else 0.0
+            out[name] = user_share(settings.share_rule, float(self.worth(bucket)), n, settings.prior_tokens, True) if settings.learning and n > 0 else 0.0
         return out
 
     def _followers_of(self, table: Followers | None) -> tuple[Followers | None, np.ndarray, np.ndarray, float, float]:
@@ -394,7 +395,8 @@ class UserModel:
         three, ids3, weights3, total3, gamma3 = self._followers_of(self._ctx3.get((u, v)) if v != self.unknown_id else None)
         two, ids2, weights2, total2, gamma2 = self._followers_of(self._ctx2.get(v))
         bucket = 2 if total3 > 0 else 1 if total2 > 0 else 0
-        return UserContext(ids3, weights3, total3, gamma3, ids2, weights2, total2, gamma2, self._total, bucket, three, two)
+        base_knows = not (u == self.unknown_id or v == self.unknown_id or u >= self.first_learned_id or v >= self.first_learned_id)
+        return UserContext(ids3, weights3, total3, gamma3, ids2, weights2, total2, gamma2, self._total, bucket, three, two, base_knows)
 
     def components(self, ids: np.ndarray, context: UserContext) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """The three relative frequencies of outcome ids after a context.

@@ -27,6 +27,7 @@ class UserContext:
         total1: inflated count of every learned token (N).
         bucket: the evidence bucket: 2 if (u, v) was seen, 1 if only v was, else 0.
         three, two: the follower tables themselves (None if unseen), for single lookups.
+        base_knows: the base model knows both context words (no word of (u, v) reads as UNKNOWN to it).
     """
 
     ids3: np.ndarray
@@ -41,6 +42,7 @@ class UserContext:
     bucket: int
     three: Followers | None
     two: Followers | None
+    base_knows: bool = True
 
 
 EMPTY_IDS = np.zeros(0, dtype=np.int64)

@@ -49,7 +49,8 @@ class TypistSettings:
         wrapped: the text is hard-wrapped prose (single line breaks are spaces),
             as for a model built with ``--wrapped``.
         skip_passed: within one word, leave out the words already shown and
-            passed over (:mod:`foretype.query.passed_over`).
+            passed over (:mod:`foretype.query.passed_over`); on by default,
+            since it saved keystrokes on every text measured (docs/learning.md).
 
     Raises:
         OptionError: a value is out of range.
@@ -63,7 +64,7 @@ class TypistSettings:
     key_seconds: float = 1.0
     scan_seconds: float = 0.5
     wrapped: bool = False
-    skip_passed: bool = False
+    skip_passed: bool = True
 
     def __post_init__(self) -> None:
         if not isinstance(self.k, int) or self.k < 1:
