@@ -1,4 +1,4 @@
-"""The pad on a model imported from an ARPA file (the hand-worked model of tests/test_arpa_import.py)."""
+"""The pad on a model imported from an ARPA file (the hand-worked model of tests/arpa/test_arpa_import.py)."""
 
 from __future__ import annotations
 

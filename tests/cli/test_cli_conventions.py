@@ -16,7 +16,7 @@ import pytest
 import foretype
 from foretype.version import __version__
 
-DATA = Path(__file__).resolve().parent / "data" / "savings"
+DATA = Path(__file__).resolve().parents[1] / "data" / "savings"
 CORPUS = DATA / "worked-corpus.txt"
 TEXT = DATA / "worked-text.txt"
 

@@ -24,7 +24,7 @@ from foretype.adapt.store import LearnedFile, export_learned, learned_file_facts
 from foretype.errors import ModelFileError, OutputError
 
 CORPUS = "the tide is high\nthe ferry sails at dawn\nthe nets are dry\n"
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 FORMAT_1 = ROOT / "tests" / "data" / "learned_v1"
 
 

@@ -2,7 +2,7 @@
 
 References: Stolcke 1998, "Entropy-based Pruning of Backoff Language Models"
 (the closed form of D and the recomputed back-off weight, /work/shared/REFERENCES.md);
-brute force (scoring every word, as tests/test_suggest_exact.py does); the
+brute force (scoring every word, as tests/query/test_suggest_exact.py does); the
 definition of relative entropy, sum of P(h) p ln(p / p'), computed over every outcome.
 """
 
@@ -17,7 +17,7 @@ import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
-from test_suggest_exact import WORDS, brute_force, build_text, suggested
+from query.test_suggest_exact import WORDS, brute_force, build_text, suggested
 
 import foretype as predictor
 from foretype.builder.shrink import backoff_tables, shrink
@@ -147,7 +147,7 @@ corpora = st.lists(st.lists(st.sampled_from(WORDS), min_size=1, max_size=8), min
 )
 def test_every_pruned_or_quantised_model_sums_to_one_and_suggests_exactly(sentences, method, criterion, threshold, encoding, queries):
     # Properties: each distribution sums to 1 (weights recomputed from the stored values);
-    # suggest equals brute force (tests/test_suggest_exact.py's reference); pruning only removes.
+    # suggest equals brute force (tests/query/test_suggest_exact.py's reference); pruning only removes.
     text = "\n".join(" ".join(s) for s in sentences) + "\n"
     model = build_text(text, method=method)
     small = shrink(model, criterion=criterion, threshold=threshold, encoding=encoding)

@@ -18,7 +18,7 @@ import pytest
 import foretype
 from foretype.query import compiled
 
-DATA = Path(__file__).parent / "data" / "savings"
+DATA = Path(__file__).parents[1] / "data" / "savings"
 
 CHILD = """
 import contextlib, io, json, sys

@@ -18,7 +18,7 @@ from websockets.exceptions import InvalidStatus
 
 import foretype
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 WORKED_CORPUS = ROOT / "tests" / "data" / "savings" / "worked-corpus.txt"
 
 

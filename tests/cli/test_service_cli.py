@@ -28,7 +28,7 @@ from foretype.adapt import LearnedFile
 from foretype.cli.serve_commands import model_arguments, token_for
 from foretype.errors import OptionError
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 WORKED_CORPUS = ROOT / "tests" / "data" / "savings" / "worked-corpus.txt"
 FORETYPE = [sys.executable, "-c", "import sys; from foretype.cli import main; sys.exit(main())"]
 """The command line in a fresh interpreter (as the installed ``foretype`` script runs it)."""

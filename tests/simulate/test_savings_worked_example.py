@@ -16,8 +16,8 @@ import pytest
 import foretype
 from foretype.simulate import TypistSettings, simulate
 
-DATA = Path(__file__).parent / "data" / "savings"
-GUIDE = Path(__file__).resolve().parent.parent / "docs" / "savings.md"
+DATA = Path(__file__).parents[1] / "data" / "savings"
+GUIDE = Path(__file__).resolve().parents[2] / "docs" / "savings.md"
 
 # Counted by hand (docs/savings.md "Worked example"): word, keystrokes, prefix when picked, rank, lists shown (k = 2).
 HAND_COUNT_FULL = [

@@ -25,7 +25,7 @@ from foretype.simulate import TypistSettings, read_passage, simulate
 from foretype.simulate.sentences import sentence_characters, sentence_log_probs
 from foretype.stats import RatioMeasure, approximate_randomisation, paired_bootstrap
 
-DEMO = Path(__file__).resolve().parent.parent / "demo_vocab"
+DEMO = Path(__file__).resolve().parents[2] / "demo_vocab"
 
 
 def _one_minus(ratio: np.ndarray) -> np.ndarray:

@@ -9,7 +9,7 @@ from pathlib import Path
 
 import pytest
 
-HAND_LOG = Path(__file__).parent / "data" / "study-session.jsonl"
+HAND_LOG = Path(__file__).parents[1] / "data" / "study-session.jsonl"
 
 CORPUS = "See you at the slipway.\nSee you at the harbour.\nThe ferry is late.\nThe ferry leaves at noon.\nSee you at the slipway!\n"
 

@@ -23,7 +23,7 @@ from foretype.study import (
 from foretype.study.log import PhraseLog
 from foretype.study.measures import measure_phrase
 
-HAND_LOG = Path(__file__).parent / "data" / "study-session.jsonl"
+HAND_LOG = Path(__file__).parents[1] / "data" / "study-session.jsonl"
 
 
 # --- minimum string distance ------------------------------------------------

@@ -108,7 +108,7 @@ def test_a_damaged_or_newer_learned_file_is_one_line_and_exit_code_5_for_every_c
 
 def test_a_learned_file_of_the_earlier_format_is_converted_by_the_first_change_and_kept(run_cli, tmp_path):
     # tests/data/learned_v1: a file the journalled store wrote, beside the corpus of its base model.
-    source = Path(__file__).resolve().parent / "data" / "learned_v1"
+    source = Path(__file__).resolve().parents[1] / "data" / "learned_v1"
     corpus = tmp_path / "corpus.txt"
     corpus.write_bytes((source / "corpus.txt").read_bytes())
     model = tmp_path / "chat.model"

@@ -31,8 +31,8 @@ from foretype.simulate.scanning import (
     simulate_scanning,
 )
 
-SAVINGS = Path(__file__).parent / "data" / "savings"
-SCANNING = Path(__file__).parent / "data" / "scanning"
+SAVINGS = Path(__file__).parents[1] / "data" / "savings"
+SCANNING = Path(__file__).parents[1] / "data" / "scanning"
 
 
 @pytest.fixture(scope="module")

@@ -23,7 +23,7 @@ import foretype
 from foretype.text import model_form
 from foretype.version import __version__
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 WORKED_CORPUS = ROOT / "tests" / "data" / "savings" / "worked-corpus.txt"
 TEXTS = ["", "see you at the ", "see you at the sta", "The ferry is ", "the tide is hi", "Gorbalt wrote to the ", "x", "at the harbour. Se", "  "]
 

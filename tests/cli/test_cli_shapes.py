@@ -14,7 +14,7 @@ import pytest
 
 import foretype
 
-DATA = Path(__file__).resolve().parent / "data" / "savings"
+DATA = Path(__file__).resolve().parents[1] / "data" / "savings"
 CORPUS = DATA / "worked-corpus.txt"
 TEXT = DATA / "worked-text.txt"
 DEMO_LINE = "model: the bundled demo model (give -m MODEL to use your own)"

@@ -24,7 +24,7 @@ from websockets.exceptions import InvalidStatus
 import foretype
 from foretype.service import Limits
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]
 WORKED_CORPUS = ROOT / "tests" / "data" / "savings" / "worked-corpus.txt"
 TOKEN = "s3cret-token-for-tests"
 

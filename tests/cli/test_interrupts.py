@@ -17,7 +17,7 @@ from pathlib import Path
 
 import pytest
 
-DEMO = Path(__file__).resolve().parent.parent / "demo_vocab" / "corpus.txt"
+DEMO = Path(__file__).resolve().parents[2] / "demo_vocab" / "corpus.txt"
 
 
 def _group(pid: int) -> list[str]:
@@ -73,7 +73,7 @@ def test_sigint_at_random_moments_of_a_parallel_build(tmp_path: Path) -> None:
     assert interrupted >= 2
 
 
-WORKED = Path(__file__).resolve().parent / "data" / "savings"
+WORKED = Path(__file__).resolve().parents[1] / "data" / "savings"
 
 
 def test_sigint_while_the_command_line_starts_is_one_line_and_exit_130(tmp_path: Path) -> None:

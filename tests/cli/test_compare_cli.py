@@ -20,9 +20,9 @@ import foretype
 from foretype.simulate import TypistSettings, simulate
 from foretype.sweep import COLUMNS
 
-DEMO = Path(__file__).resolve().parent.parent / "demo_vocab"
-SAVINGS = Path(__file__).parent / "data" / "savings"
-SCANNING = Path(__file__).parent / "data" / "scanning"
+DEMO = Path(__file__).resolve().parents[2] / "demo_vocab"
+SAVINGS = Path(__file__).parents[1] / "data" / "savings"
+SCANNING = Path(__file__).parents[1] / "data" / "scanning"
 
 
 @pytest.fixture(scope="module")

@@ -10,7 +10,7 @@ import pytest
 import foretype
 from foretype.simulate import REPORT_KEYS
 
-DATA = Path(__file__).parent / "data" / "savings"
+DATA = Path(__file__).parents[1] / "data" / "savings"
 
 
 def run_main(capsys: pytest.CaptureFixture[str], *args: object) -> tuple[int, str]:

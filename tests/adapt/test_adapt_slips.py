@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 from hypothesis import given, settings
 from hypothesis import strategies as st
-from test_typos import damerau_distance
+from simulate.test_typos import damerau_distance
 
 from foretype.adapt.slips import looks_like_slip, one_edit_away
 from foretype.simulate.typos import misspell

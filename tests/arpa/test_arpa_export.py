@@ -23,7 +23,7 @@ from foretype.arpa import export_arpa, model_from_arpa
 from foretype.builder.shrink import shrink
 from foretype.text import iter_sentences
 
-ROOT = Path(__file__).resolve().parents[1]
+ROOT = Path(__file__).resolve().parents[2]
 TRAIN_LINES = 2500
 HELD_OUT_SENTENCES = 250
 

@@ -2,7 +2,7 @@
 
 Reference: the Python threshold walk (``foretype.adapt.top_k.exact_top`` and
 ``AdaptedModel._results``), itself checked against brute force over the whole
-distribution in tests/test_adapt_combined.py; one brute-force check here too.
+distribution in tests/adapt/test_adapt_combined.py; one brute-force check here too.
 Every field must be equal: words, probabilities (exact float equality), orders,
 ids and both marks.
 """
