@@ -88,7 +88,10 @@ def run_compare(args: argparse.Namespace) -> int:
     scanning = scanning_settings(args)
     plans = label_systems(paths, args.k, args.select_cost)
     # Check every setting before any model loads or any typing starts.
-    settings = {(k, cost): TypistSettings(k=k, text_mode=args.text_mode, select_cost=cost, autospace=args.autospace, min_prefix=args.min_prefix) for _, _, k, cost in plans}
+    settings = {
+        (k, cost): TypistSettings(k=k, text_mode=args.text_mode, select_cost=cost, autospace=args.autospace, min_prefix=args.min_prefix, skip_passed=args.skip_passed)
+        for _, _, k, cost in plans
+    }
     text = read_words(args.test, replace_bad_bytes=args.replace_bad_bytes)
     models = [open_model(path) for path in paths]
     systems = [

@@ -44,6 +44,12 @@ def add_typist_options(p: argparse.ArgumentParser, *, several: bool = False) -> 
         "--autospace", action=argparse.BooleanOptionalAction, default=True, help="a pick writes the space after the word (default: on; --no-autospace: the typist types it)"
     )
     p.add_argument("--min-prefix", type=whole_number, default=0, metavar="N", help="letters typed before the typist looks at suggestions (default 0)")
+    p.add_argument(
+        "--skip-passed",
+        action=argparse.BooleanOptionalAction,
+        default=True,
+        help="within a word, leave out words already shown and passed over (default: on; --no-skip-passed shows them again)",
+    )
     add_text_options(p)
 
 
@@ -55,6 +61,7 @@ def typist_settings(args: argparse.Namespace) -> TypistSettings:
         select_cost=args.select_cost,
         autospace=args.autospace,
         min_prefix=args.min_prefix,
+        skip_passed=args.skip_passed,
         key_seconds=getattr(args, "key_seconds", 1.0),
         scan_seconds=getattr(args, "scan_seconds", 0.5),
         wrapped=bool(args.wrapped),

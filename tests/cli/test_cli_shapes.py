@@ -13,6 +13,7 @@ from pathlib import Path
 import pytest
 
 import foretype
+from foretype.simulate import TypistSettings, simulate
 
 DATA = Path(__file__).resolve().parents[1] / "data" / "savings"
 CORPUS = DATA / "worked-corpus.txt"
@@ -139,3 +140,22 @@ def test_the_engine_sweep_keeps_only_the_measurement() -> None:
 
     for name in ("format_table", "parse_vocab_sizes", "parse_methods", "parse_shares"):
         assert not hasattr(engine, name) and callable(getattr(sweep_commands, name))
+
+
+def test_words_passed_over_are_left_out_unless_asked_to_show_them(run_cli, tmp_path: Path) -> None:
+    # The demo corpus and a held-out slice of it: long enough that some list re-offers a passed-over word.
+    demo = Path(__file__).resolve().parents[2] / "demo_vocab" / "corpus.txt"
+    lines = demo.read_text(encoding="utf-8").splitlines()
+    corpus, text = tmp_path / "corpus.txt", tmp_path / "text.txt"
+    corpus.write_text("\n".join(lines[:400]) + "\n", encoding="utf-8")
+    text.write_text("\n".join(lines[400:440]) + "\n", encoding="utf-8")
+    model = tmp_path / "demo.model"
+    built = foretype.build([corpus])
+    built.save(model)
+    settings = {flag: json.loads(run_cli("savings", "-m", model, "-t", text, "-k", "2", flag, "--json").out) for flag in ("--skip-passed", "--no-skip-passed")}
+    passage = text.read_text(encoding="utf-8")
+    for flag, skip in (("--skip-passed", True), ("--no-skip-passed", False)):
+        reference = simulate(built, passage, TypistSettings(k=2, skip_passed=skip))
+        assert settings[flag]["keystrokes"] == reference.keystrokes
+    default = json.loads(run_cli("savings", "-m", model, "-t", text, "-k", "2", "--json").out)
+    assert default["keystrokes"] == settings["--skip-passed"]["keystrokes"] != settings["--no-skip-passed"]["keystrokes"]
