@@ -89,7 +89,7 @@ def test_a_writer_killed_at_random_moments_loses_at_most_the_change_being_writte
     corpus = tmp_path / "corpus.txt"
     corpus.write_text(CORPUS, encoding="utf-8")
     path = tmp_path / "chat.model.learned"
-    script = WRITER.format(root=str(ROOT), tests=str(ROOT / "tests"), corpus=str(corpus), path=str(path))
+    script = WRITER.format(root=str(ROOT), tests=str(ROOT / "tests" / "adapt"), corpus=str(corpus), path=str(path))
     rng = random.Random(20261201)
     for _ in range(6):
         child = subprocess.Popen([sys.executable, "-c", script], stdout=subprocess.PIPE, text=True)
