@@ -9,19 +9,14 @@ from ..query.model import LanguageModel
 from ..simulate.scanning import LIST_POSITIONS, ScanningSettings, format_scanning_report, parse_layout, simulate_scanning
 from ..simulate.typist import TypistSettings
 from .output import model_name, print_demo_note, print_json, progress_bar
+from .typist_options import parse_finite
 
 ACCESS_CHOICES = ("keys", "scanning")
 """``--access`` values: keystrokes (default) or single-switch row-column scanning."""
 
 
 def _seconds(text: str) -> float:
-    try:
-        value = float(text)
-    except ValueError:
-        raise argparse.ArgumentTypeError(f"expected a number of seconds, got {text!r}") from None
-    if value != value or value in (float("inf"), float("-inf")):
-        raise argparse.ArgumentTypeError(f"expected a finite number, got {text!r}")
-    return value
+    return parse_finite(text, "a number of seconds")
 
 
 def add_access_options(p: argparse.ArgumentParser) -> None:

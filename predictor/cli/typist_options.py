@@ -8,15 +8,20 @@ from ..simulate import TEXT_MODES, TypistSettings
 from .output import add_text_options, positive_int
 
 
-def finite_number(text: str) -> float:
-    """argparse type: a finite number (range checks happen in TypistSettings, with one clear line)."""
+def parse_finite(text: str, noun: str = "a number") -> float:
+    """A finite number from an option's text, or argparse's error naming what was expected."""
     try:
         value = float(text)
     except ValueError:
-        raise argparse.ArgumentTypeError(f"expected a number, got {text!r}") from None
+        raise argparse.ArgumentTypeError(f"expected {noun}, got {text!r}") from None
     if value != value or value in (float("inf"), float("-inf")):
         raise argparse.ArgumentTypeError(f"expected a finite number, got {text!r}")
     return value
+
+
+def finite_number(text: str) -> float:
+    """argparse type: a finite number (range checks happen in TypistSettings, with one clear line)."""
+    return parse_finite(text)
 
 
 def whole_number(text: str) -> int:
