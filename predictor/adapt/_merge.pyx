@@ -10,9 +10,15 @@ time in the same order (the extension is compiled without fused multiply-add),
 and orders candidates by score descending, then sort key: the answer is the
 same list of suggestions, field for field.
 
+The pool's user probabilities are not stored per context: a word the context
+has not seen has ``P_user = g3 * (g2 * c(w) / N)`` (the unigram share is kept
+once per snapshot), computed as the word is read, and the context's followers
+(the words seen after it, tens to hundreds) are kept by pool position.  So
+preparing a context costs its followers, not the pool.
+
 Memory safety: every pool index read lies in the slice found by binary search
-inside the pool's arrays, and a word id is used as an index into the pool's
-positions table only after a bounds check.
+inside the pool's arrays, and a learned id indexes the table of learned sort
+keys only after a bounds check.
 """
 
 from cpython.object cimport PyObject, PyTypeObject
@@ -174,103 +180,222 @@ cdef class Buffers:
         return 0
 
 
-cdef class ContextMerge:
-    """One context's pool with the base core: answers ``suggest`` for any prefix typed after the context.
+cdef inline int64_t lower_bound_ptr(const int64_t* a, int64_t lo, int64_t hi, int64_t x) noexcept nogil:
+    """First position in [lo, hi) whose value is not below x (hi if none)."""
+    cdef int64_t mid
+    while lo < hi:
+        mid = lo + (hi - lo) // 2
+        if a[mid] < x:
+            lo = mid + 1
+        else:
+            hi = mid
+    return lo
+
+
+cdef struct Follower:
+    int64_t at  # its position in the pool
+    double pu  # its P_user after the context
+
+
+cdef int by_at(const void* x, const void* y) noexcept nogil:
+    cdef int64_t a = (<const Follower*>x).at
+    cdef int64_t b = (<const Follower*>y).at
+    return -1 if a < b else (1 if a > b else 0)
+
+
+cdef class Pool:
+    """One snapshot's pool (every suggestable counted word in sort-key order) and what its contexts share.
 
     Args:
         core: the base model's compiled query core (``top`` and ``probabilities``).
         lock: the lock that keeps the core to one query at a time.
-        ub, vb: the context as the base model sees it.
-        mu: the user model's share after the context.
-        keys, ids, p_user, floors: the pool after the context (as ``PreparedContext`` holds it).
-        where: the pool position of each id (int64), or None when the pool is not the snapshot's shared one.
+        keys, ids: the pool's sort keys (ascending) and ids.
+        values: per word c(w) / N, the unigram share (a context's P_user of a word it has not
+            seen is ``g3 * (g2 * value)``); or, for a context's own pool, its P_user (g2 = g3 = 1).
+        key_array: the sort key of each learned id offset (-1: not suggestable).
         blocked: the base ids the never-suggest list blocks (a set).
+        learning: whether new words may be suggested.
         end_id: the END id; larger ids have no base probability.
         base_size: V; first_new: the first learned id.
         display: maps an id to its display form.
-        order_of: ``UserModel.order_of``, and user_context its context (None: order 1).
         made: the suggestion type (a named tuple of word, prob, order, id, learned, new_word).
-        forms: display forms already asked for, by id (shared by the contexts of one snapshot).
+        base_forms: display forms of base words already asked for (shared by every snapshot).
+        forms: display forms of learned words already asked for (this snapshot's).
     """
 
-    cdef object core, lock, blocked, display, order_of, user_context, made
-    cdef dict forms, user_orders
+    cdef object core, lock, blocked, display, made
+    cdef dict base_forms, forms
     cdef const int64_t[::1] keys
     cdef const int64_t[::1] ids
-    cdef const int64_t[::1] where
-    cdef const double[::1] p_user
-    cdef const double[::1] floors
-    cdef bint use_where
-    cdef double mu, m
-    cdef int64_t ub, vb, end_id, base_size, first_new, n_where
+    cdef const double[::1] values
+    cdef const int64_t[::1] key_array
+    cdef bint learning
+    cdef int64_t end_id, base_size, first_new, n
 
-    def __init__(self, core, lock, int64_t ub, int64_t vb, double mu, const int64_t[::1] keys, const int64_t[::1] ids,
-                 const double[::1] p_user, const double[::1] floors, where, blocked,
-                 int64_t end_id, int64_t base_size, int64_t first_new, display, order_of, user_context, made, dict forms):
-        self.core = core
-        self.lock = lock
-        self.ub = ub
-        self.vb = vb
-        self.mu = mu
-        self.m = 1.0 - mu
-        n = keys.shape[0]
-        if ids.shape[0] != n or p_user.shape[0] != n or floors.shape[0] != n:
+    def __init__(self, core, lock, const int64_t[::1] keys, const int64_t[::1] ids, const double[::1] values,
+                 const int64_t[::1] key_array, blocked, bint learning, int64_t end_id, int64_t base_size,
+                 int64_t first_new, display, made, dict base_forms, dict forms):
+        self.n = keys.shape[0]
+        if ids.shape[0] != self.n or values.shape[0] != self.n:
             raise ValueError("the pool's arrays differ in length")
-        self.keys, self.ids, self.p_user, self.floors = keys, ids, p_user, floors
-        self.use_where = where is not None
-        if where is not None:
-            self.where = where
-            self.n_where = self.where.shape[0]
-        else:
-            self.n_where = 0
+        self.core, self.lock = core, lock
+        self.keys, self.ids, self.values, self.key_array = keys, ids, values, key_array
         self.blocked = blocked
-        self.end_id = end_id
-        self.base_size = base_size
-        self.first_new = first_new
-        self.display = display
-        self.order_of = order_of
-        self.user_context = user_context
-        self.made = made
-        self.forms = forms
-        self.user_orders = {}
+        self.learning = learning
+        self.end_id, self.base_size, self.first_new = end_id, base_size, first_new
+        self.display, self.made = display, made
+        self.base_forms, self.forms = base_forms, forms
+
+    cdef int64_t position(self, int64_t w) noexcept:
+        """The pool position of an id (-1: not in the pool)."""
+        cdef int64_t key, at
+        if w < 0:
+            return -1
+        if w < self.base_size:
+            key = (w << KEY_SHIFT) | BASE_KEY_LOW
+        elif w >= self.first_new and w - self.first_new < self.key_array.shape[0]:
+            key = self.key_array[w - self.first_new]
+            if key < 0:
+                return -1
+        else:
+            return -1
+        at = lower_bound(self.keys, 0, self.n, key)
+        if at < self.n and self.keys[at] == key and self.ids[at] == w:
+            return at
+        return -1
+
+    cdef bint could_suggest(self, int64_t w) except -1:
+        """As ``Suggestable.could_suggest``: an unblocked base word, or a new word ready while learning is on."""
+        if w < 0:
+            return False
+        if w < self.base_size:
+            return w not in self.blocked
+        if w < self.first_new:
+            return False
+        return self.learning and w - self.first_new < self.key_array.shape[0] and self.key_array[w - self.first_new] >= 0
+
+
+def context_merge(Pool pool, int64_t u, int64_t v, int64_t ub, int64_t vb, double mu, double g2, double g3,
+                  follower_ids, follower_probs, user_context, order_of):
+    """The merge of one context over a pool, or None where a suggestable follower lies outside the pool.
+
+    Args:
+        pool: the snapshot's pool.
+        u, v: the context ids; ub, vb: the context as the base model sees it.
+        mu: the user model's share after the context.
+        g2, g3: the Witten-Bell weights passed down by v and by (u, v).
+        follower_ids, follower_probs: the words seen after (u, v) or v and their P_user
+            (``UserModel.followers``), or None for none.
+        user_context: the user model's data about the context (None when mu is 0); order_of: ``UserModel.order_of``.
+    """
+    cdef const int64_t[::1] fids
+    cdef const double[::1] fprobs
+    cdef int64_t i, at, n = 0, w
+    cdef ContextMerge merge = ContextMerge.__new__(ContextMerge)
+    merge.pool = pool
+    merge.u, merge.v, merge.ub, merge.vb = u, v, ub, vb
+    merge.mu, merge.m, merge.g2, merge.g3 = mu, 1.0 - mu, g2, g3
+    merge.user, merge.order_of = user_context, order_of
+    merge.user_orders = {}
+    if follower_ids is not None and len(follower_ids):
+        fids = follower_ids
+        fprobs = follower_probs
+        if fprobs.shape[0] != fids.shape[0]:
+            raise ValueError("follower ids and probabilities differ in length")
+        merge.followers = <Follower*>malloc(fids.shape[0] * sizeof(Follower))
+        if merge.followers == NULL:
+            raise MemoryError()
+        for i in range(fids.shape[0]):
+            w = fids[i]
+            at = pool.position(w)
+            if at < 0:
+                if pool.could_suggest(w):
+                    return None
+                continue
+            merge.followers[n].at = at
+            merge.followers[n].pu = fprobs[i]
+            n += 1
+        qsort(merge.followers, n, sizeof(Follower), by_at)
+        merge.f_at = <int64_t*>malloc((n if n > 0 else 1) * sizeof(int64_t))
+        if merge.f_at == NULL:
+            raise MemoryError()
+        for i in range(n):
+            merge.f_at[i] = merge.followers[i].at
+    merge.nf = n
+    return merge
+
+
+cdef class ContextMerge:
+    """One context over a snapshot's pool: answers ``suggest`` for any prefix typed after the context.
+
+    A pool word's P_user is its follower value where the context has one, else
+    ``g3 * (g2 * value)``: the operations of ``top_k.prepare``, done as the word is read.
+    Made by :func:`context_merge`.
+
+    Attributes:
+        u, v, ub, vb, mu, user: as ``top_k.PreparedContext`` has them.
+    """
+
+    cdef Pool pool
+    cdef readonly int64_t u, v, ub, vb
+    cdef readonly double mu
+    cdef readonly object user
+    cdef object order_of
+    cdef dict user_orders
+    cdef double m, g2, g3
+    cdef Follower* followers
+    cdef int64_t* f_at
+    cdef int64_t nf
+
+    def __cinit__(self):
+        self.followers = NULL
+        self.f_at = NULL
+        self.nf = 0
+
+    def __dealloc__(self):
+        free(self.followers)
+        free(self.f_at)
+
+    cdef inline double _pu(self, int64_t at) noexcept:
+        """P_user of the pool word at a position."""
+        cdef int64_t j = lower_bound_ptr(self.f_at, 0, self.nf, at)
+        if j < self.nf and self.f_at[j] == at:
+            return self.followers[j].pu
+        return self.g3 * (self.g2 * self.pool.values[at])
 
     cdef double _a_user(self, int64_t w, int64_t lo, int64_t hi) noexcept:
         """P_user of a base word of list A (0 for a word the pool lacks)."""
-        cdef int64_t at, key
-        if self.use_where:
-            if w < 0 or w >= self.n_where:
-                return 0.0
-            at = self.where[w]
-            if at < 0 or at >= self.p_user.shape[0]:
-                return 0.0
-            return self.p_user[at]
-        key = (w << KEY_SHIFT) | BASE_KEY_LOW
-        at = lower_bound(self.keys, lo, hi, key)
-        if at < hi and self.keys[at] == key:
-            return self.p_user[at]
+        cdef int64_t key = (w << KEY_SHIFT) | BASE_KEY_LOW
+        cdef int64_t at = lower_bound(self.pool.keys, lo, hi, key)
+        if at < hi and self.pool.keys[at] == key:
+            return self._pu(at)
         return 0.0
 
     def suggest(self, bint has_span, int64_t span_lo, int64_t span_hi, int64_t order_start, int64_t key_lo, int64_t key_hi,
                 int64_t k, int64_t guard):
         """The k best suggestable words of a prefix (base id span, sort-key range), as suggestions, best first."""
-        cdef double mu = self.mu, m = self.m, a_last, threshold, edge, pb, pu, kth_score, z_bound
-        cdef int64_t lo, hi, a_depth, n_a, n_rows, n_reach, i, j, w, at, n_listed, n_pb, first_reach
+        cdef double mu = self.mu, m = self.m, g2 = self.g2, g3 = self.g3, a_last, threshold, edge, pb, pu, floor, kth_score, z_bound
+        cdef int64_t lo, hi, a_depth, n_a, n_rows, n_reach, i, j, w, n_listed, first_reach, f
         cdef bint a_done
         cdef Buffers buf = Buffers()
         cdef Cand* c
+        cdef Pool pool = self.pool
+        cdef const int64_t[::1] keys = pool.keys
+        cdef const int64_t[::1] ids = pool.ids
+        cdef const double[::1] values = pool.values
         cdef list a_ids = [], a_probs = [], a_orders = []
         if k < 1:
             raise ValueError("k must be positive")
-        lo = lower_bound(self.keys, 0, self.keys.shape[0], key_lo)
-        hi = lower_bound(self.keys, lo, self.keys.shape[0], key_hi + 1)
+        lo = lower_bound(keys, 0, pool.n, key_lo)
+        hi = lower_bound(keys, lo, pool.n, key_hi + 1)
         a_depth = k + guard
         while True:
             if has_span:
-                self.lock.acquire()
+                pool.lock.acquire()
                 try:
-                    a_ids, a_probs, a_orders = self.core.top(self.ub, self.vb, span_lo, span_hi, order_start, a_depth)
+                    a_ids, a_probs, a_orders = pool.core.top(self.ub, self.vb, span_lo, span_hi, order_start, a_depth)
                 finally:
-                    self.lock.release()
+                    pool.lock.release()
             n_a = len(a_ids)
             a_done = n_a < a_depth
             a_last = <double>a_probs[n_a - 1] if n_a > 0 and not a_done else 0.0
@@ -280,7 +405,7 @@ cdef class ContextMerge:
             for i in range(n_a):
                 w = <int64_t>a_ids[i]
                 buf.listed[i] = w
-                if w in self.blocked:
+                if w in pool.blocked:
                     continue
                 pb = <double>a_probs[i]
                 pu = self._a_user(w, lo, hi)
@@ -301,14 +426,21 @@ cdef class ContextMerge:
             # The slice's words outside A whose bound m * a_last + mu * P_user reaches the threshold.
             edge = m * a_last
             first_reach = n_rows
+            f = lower_bound_ptr(self.f_at, 0, self.nf, lo)
             for i in range(lo, hi):
-                if self.floors[i] + edge >= threshold and not sorted_has(buf.listed, n_listed, self.ids[i]):
+                if f < self.nf and self.f_at[f] == i:
+                    pu = self.followers[f].pu
+                    f += 1
+                else:
+                    pu = g3 * (g2 * values[i])
+                floor = mu * pu
+                if floor + edge >= threshold and not sorted_has(buf.listed, n_listed, ids[i]):
                     c = &buf.rows[n_rows]
-                    c.id = self.ids[i]
-                    c.key = self.keys[i]
-                    c.pu = self.p_user[i]
+                    c.id = ids[i]
+                    c.key = keys[i]
+                    c.pu = pu
                     c.a_at = -1
-                    buf.floors[n_rows - first_reach] = self.floors[i]
+                    buf.floors[n_rows - first_reach] = floor
                     n_rows += 1
             n_reach = n_rows - first_reach
             if n_reach > FEW_REACHING and n_reach >= k:
@@ -343,20 +475,21 @@ cdef class ContextMerge:
         cdef const double[::1] found
         cdef object wanted
         cdef list orders = None
+        cdef Pool pool = self.pool
         for i in range(n):
-            if rows[i].id <= self.end_id:
+            if rows[i].id <= pool.end_id:
                 n_in += 1
         if n_in:
             wanted = np.empty(n_in, dtype=np.int64)
             self._fill_ids(wanted, rows, n)
-            self.lock.acquire()
+            pool.lock.acquire()
             try:
-                found, orders = self.core.probabilities(self.ub, self.vb, wanted, True)
+                found, orders = pool.core.probabilities(self.ub, self.vb, wanted, True)
             finally:
-                self.lock.release()
+                pool.lock.release()
         n_in = 0
         for i in range(n):
-            if rows[i].id <= self.end_id:
+            if rows[i].id <= pool.end_id:
                 rows[i].pb = found[n_in]
                 rows[i].order = orders[n_in]
                 n_in += 1
@@ -369,7 +502,7 @@ cdef class ContextMerge:
     cdef void _fill_ids(self, int64_t[::1] out, const Cand* rows, int64_t n) noexcept:
         cdef int64_t i, j = 0
         for i in range(n):
-            if rows[i].id <= self.end_id:
+            if rows[i].id <= self.pool.end_id:
                 out[j] = rows[i].id
                 j += 1
 
@@ -379,8 +512,9 @@ cdef class ContextMerge:
         cdef list out = []
         cdef double mu = self.mu, m = self.m
         cdef PyTypeObject* base = <PyTypeObject*>tuple
-        cdef type made = self.made
-        cdef dict forms = self.forms
+        cdef Pool pool = self.pool
+        cdef type made = pool.made
+        cdef dict forms
         cdef dict user_orders = self.user_orders
         cdef bint own
         cdef object order, form
@@ -390,60 +524,54 @@ cdef class ContextMerge:
             own = mu * rows[i].pu > m * rows[i].pb
             if not own and rows[i].a_at >= 0:
                 order = a_orders[rows[i].a_at]
-            elif not own and w < self.base_size:
+            elif not own and w < pool.base_size:
                 order = rows[i].order
-            elif self.user_context is not None:
+            elif self.user is not None:
                 order = user_orders.get(w)
                 if order is None:
-                    order = user_orders[w] = int(self.order_of(w, self.user_context))
+                    order = user_orders[w] = int(self.order_of(w, self.user))
             else:
                 order = 1
+            forms = pool.base_forms if w < pool.first_new else pool.forms
             form = forms.get(w)
             if form is None:
-                form = forms[w] = self.display(w)
-            fields = ((form, rows[i].score, order, w, own, w >= self.first_new),)
+                form = forms[w] = pool.display(w)
+            fields = ((form, rows[i].score, order, w, own, w >= pool.first_new),)
             out.append(base.tp_new(made, <PyObject*>fields, NULL))
         return out
 
 
-def pool_user(const double[::1] share, double g2, double g3, double mu, const int64_t[::1] where,
-              const int64_t[::1] ids2, const double[::1] weights2, double total2,
-              const int64_t[::1] ids3, const double[::1] weights3, double total3,
-              const double[::1] w1, double total1):
-    """P_user and floors of the pool after a context, as ``top_k.prepare`` computes them (mu > 0, N > 0).
+def follower_probs(double g2, double g3, const int64_t[::1] ids2, const double[::1] weights2, double total2,
+                   const int64_t[::1] ids3, const double[::1] weights3, double total3, const double[::1] w1, double total1):
+    """The words seen after (u, v) or v and their P_user, as ``UserModel.followers`` computes them (N > 0).
 
-    Outside the words seen after (u, v) or v, P_user is ``g3 * (g2 * share)``;
-    a follower's is the Witten-Bell chain of ``UserModel.followers``, with
-    the same operations in the same order.
+    The Witten-Bell chain of each word seen after v, with the same operations
+    in the same order; a word also seen after (u, v) adds its trigram term.
 
     Returns:
-        ``(p_user, floors)``, float64 arrays shaped like ``share``; or None where
-        the general path must answer (a follower the pool lacks, or words seen
-        after (u, v) that are not among those seen after v).
+        float64 P_user of each id after v (``ids2``, sorted); or None where the
+        general path must answer (no word seen after v, words seen after (u, v)
+        that are not among those seen after v, or an id past the unigram table).
     """
-    cdef Py_ssize_t n = share.shape[0], n2 = ids2.shape[0], n3 = ids3.shape[0], i, j, t, at
-    cdef int64_t w, n_where = where.shape[0], n_w1 = w1.shape[0]
+    cdef Py_ssize_t n2 = ids2.shape[0], n3 = ids3.shape[0], i, j, t
+    cdef int64_t w, n_w1 = w1.shape[0]
     cdef double p2, p3
     if weights2.shape[0] != n2 or weights3.shape[0] != n3:
         raise ValueError("follower ids and weights differ in length")
-    if n2 == 0 and n3 > 0:
+    if n2 == 0:
         return None
-    # Every follower must have a place in the pool, and every word after (u, v) must follow v too.
     j = 0
     for i in range(n2):
         w = ids2[i]
-        if w < 0 or w >= n_where or w >= n_w1 or where[w] < 0 or where[w] >= n:
+        if w < 0 or w >= n_w1:
             return None
     for t in range(n3):
         while j < n2 and ids2[j] < ids3[t]:
             j += 1
         if j >= n2 or ids2[j] != ids3[t]:
             return None
-    p_user_array = np.empty(n, dtype=np.float64)
-    floors_array = np.empty(n, dtype=np.float64)
-    cdef double[::1] p_user = p_user_array, floors = floors_array
-    for i in range(n):
-        p_user[i] = g3 * (g2 * share[i])
+    out = np.empty(n2, dtype=np.float64)
+    cdef double[::1] p_user = out
     j = 0
     for i in range(n2):
         w = ids2[i]
@@ -453,7 +581,5 @@ def pool_user(const double[::1] share, double g2, double g3, double mu, const in
             j += 1
         if j < n3 and ids3[j] == w:
             p3 = (1.0 - g3) * (weights3[j] / total3) + p3
-        p_user[where[w]] = p3
-    for i in range(n):
-        floors[i] = mu * p_user[i]
-    return p_user_array, floors_array
+        p_user[i] = p3
+    return out

@@ -81,12 +81,12 @@ from ..query.model import LanguageModel, Suggestion
 from ..query.vocabulary import END, START, Vocabulary
 from ..text import capitalise, split_before_cursor
 from .combination import base_context, base_probabilities, combine, responsibility
-from .compiled_merge import context_merge, merge_available, prepare_compiled
+from .compiled_merge import merge_available, merge_for
 from .listings import LearnedWord, learned_words
 from .never_list import NeverList
 from .settings import AdaptSettings
 from .suggestable import Suggestable, derive
-from .top_k import GUARD, PreparedContext, Row, exact_top, prepare
+from .top_k import GUARD, ContextFacts, PreparedContext, Row, exact_top, prepare
 from .user_model import UserModel
 
 AdaptedSuggestion = Suggestion
@@ -213,19 +213,23 @@ class AdaptedModel:
             u = user.start_id
         return u, v
 
-    def _current(self, u: int, v: int) -> tuple[Suggestable, PreparedContext]:
+    def _current(self, u: int, v: int) -> tuple[Suggestable, ContextFacts]:
         """The snapshot for the current versions of the user model and the never-suggest list, and the
-        per-context data for (u, v) under it (the last context asked about is kept in the snapshot's memo)."""
+        per-context data for (u, v) under it (the last context asked about is kept in the snapshot's memo):
+        the compiled merge of the context where it answers, else a :class:`~foretype.adapt.top_k.PreparedContext`."""
         view = self._view
         user = self.user
         if view is None or view.user is not user or view.version != (user.version, self.never.version):
             view = self._view = derive(view, user, self.never, self.base.vocab)
         prepared = view.memo.get("context")
         if prepared is None or prepared.u != u or prepared.v != v:
-            prepared = view.memo["context"] = prepare_compiled(view, u, v) if self._merge_on and self.base.compiled_core() is not None else prepare(view, u, v)
+            prepared = merge_for(self.base, view, u, v) if self._merge_on else None
+            if prepared is None:
+                prepared = prepare(view, u, v)
+            view.memo["context"] = prepared
         return view, prepared
 
-    def _prepared(self, u: int, v: int) -> PreparedContext:
+    def _prepared(self, u: int, v: int) -> ContextFacts:
         """The per-context data for (u, v) (see :meth:`_current`)."""
         return self._current(u, v)[1]
 
@@ -312,11 +316,10 @@ class AdaptedModel:
         span, key_range = view.ranges_of(prefix, self.base.vocab)
         if key_range is None:
             return []
-        merge = context_merge(self.base, view, prepared) if self._merge_on else None
-        if merge is not None:
+        if not isinstance(prepared, PreparedContext):  # the compiled merge of the context
             if span is None:
-                return merge.suggest(False, 0, 0, -1, key_range[0], key_range[1], k, GUARD)  # type: ignore[no-any-return]
-            return merge.suggest(True, span.lo, span.hi, span.order_start, key_range[0], key_range[1], k, GUARD)  # type: ignore[no-any-return]
+                return prepared.suggest(False, 0, 0, -1, key_range[0], key_range[1], k, GUARD)  # type: ignore[attr-defined,no-any-return]
+            return prepared.suggest(True, span.lo, span.hi, span.order_start, key_range[0], key_range[1], k, GUARD)  # type: ignore[attr-defined,no-any-return]
         chosen, base_orders = exact_top(self.base, view, prepared, span, key_range, k)
         return self._results(prepared, chosen, base_orders)
 

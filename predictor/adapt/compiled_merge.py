@@ -7,96 +7,93 @@ where a C compiler exists) runs the threshold walk of
 only where the base model answers on its compiled core (so ``FORETYPE_PURE=1``
 makes both models answer on the numpy and Python paths); the Python walk is
 the fallback and the reference the exactness tests compare it against.
+
+Per snapshot it keeps one pool (sort keys, ids and the unigram share c(w) / N
+of every suggestable counted word); per context only the followers' user
+probabilities are computed, so a new context costs its followers, not the pool.
 """
 
 from __future__ import annotations
 
 from typing import Any
 
+import numpy as np
+
 from ..query.model import LanguageModel, Suggestion
 from .combination import base_context
 from .suggestable import Suggestable
-from .top_k import PreparedContext, prepare
+from .top_k import prepare
 
 try:
-    from ._merge import ContextMerge, pool_user
+    from ._merge import Pool, context_merge, follower_probs
 except ImportError:  # not built: no compiler at install time, or an unusual platform
-    ContextMerge = pool_user = None  # type: ignore[assignment,misc]
+    Pool = context_merge = follower_probs = None  # type: ignore[assignment,misc]
 
 
 def merge_available() -> bool:
     """Whether the compiled merge was built and imports."""
-    return ContextMerge is not None
+    return Pool is not None
 
 
-def prepare_compiled(view: Suggestable, u: int, v: int) -> PreparedContext:
-    """:func:`~foretype.adapt.top_k.prepare` with the pool's user probabilities computed in one compiled pass.
-
-    Where the user model has no share or no counts yet, or a follower lies outside the pool, the Python
-    preparation answers.
-    """
-    user = view.user
-    uctx = user.context(u, v)
-    mu = user.share(uctx)
-    if pool_user is None or mu <= 0.0 or uctx.total1 <= 0:
-        return prepare(view, u, v)
-    found = pool_user(
-        view.unigram_share(uctx.total1),
-        uctx.gamma2,
-        uctx.gamma3,
-        mu,
-        view.pool_where,
-        uctx.ids2,
-        uctx.weights2,
-        uctx.total2,
-        uctx.ids3,
-        uctx.weights3,
-        uctx.total3,
-        user.unigram_weight_array(),
-        uctx.total1,
-    )
+def _pool_of(view: Suggestable, compiled: tuple[Any, Any], total1: float) -> Any:
+    """The snapshot's compiled pool (made once per snapshot and kept in its memo)."""
+    found = view.memo.get("pool")
     if found is None:
-        return prepare(view, u, v)
-    ub, vb = base_context(u, v, user.first_learned_id, user.unknown_id)
-    return PreparedContext(u, v, mu, uctx, ub, vb, view.pool_keys, view.pool_ids, found[0], found[1])
-
-
-def context_merge(base: LanguageModel, view: Suggestable, prepared: PreparedContext) -> Any:
-    """The compiled merge for one context under a snapshot, or None where the Python walk answers.
-
-    It is kept in the snapshot's memo beside the prepared context it was made from.
-    """
-    found = view.memo.get("merge")
-    if found is not None and found[0] is prepared:
-        return found[1]
-    merge = None
-    compiled = base.compiled_core() if ContextMerge is not None else None
-    if compiled is not None:
-        core, lock = compiled
         user = view.user
-        merge = ContextMerge(
+        core, lock = compiled
+        values = view.unigram_share(total1) if total1 > 0 else np.zeros(len(view.pool_keys), dtype=np.float64)
+        found = view.memo["pool"] = Pool(
             core,
             lock,
-            prepared.ub,
-            prepared.vb,
-            prepared.mu,
-            prepared.keys,
-            prepared.ids,
-            prepared.p_user,
-            prepared.floors,
-            view.pool_where if prepared.ids is view.pool_ids else None,
+            view.pool_keys,
+            view.pool_ids,
+            values,
+            view.learned_key_array,
             view.blocked,
+            bool(user.settings.learning),
             user.end_id,
             user.base_size,
             user.first_learned_id,
             user.display,
-            user.order_of,
-            prepared.user,
             Suggestion,
-            view.memo.setdefault("display", {}),
+            view.shared.setdefault("base_forms", {}),
+            {},
         )
-    view.memo["merge"] = (prepared, merge)
+    return found
+
+
+def merge_for(base: LanguageModel, view: Suggestable, u: int, v: int) -> Any:
+    """The compiled merge of a context under a snapshot, or None where the Python walk answers.
+
+    It stands where :func:`~foretype.adapt.top_k.prepare`'s ``PreparedContext`` stands (same ``u``,
+    ``v``, ``mu``, ``user``, ``ub``, ``vb``) and answers ``suggest`` for every prefix typed after the context.
+    """
+    compiled = base.compiled_core() if Pool is not None else None
+    if compiled is None:
+        return None
+    user = view.user
+    uctx = user.context(u, v)
+    mu = user.share(uctx)
+    ub, vb = base_context(u, v, user.first_learned_id, user.unknown_id)
+    pool = _pool_of(view, compiled, uctx.total1)
+    if mu <= 0.0:
+        return context_merge(pool, u, v, ub, vb, 0.0, 0.0, 0.0, None, None, None, user.order_of)
+    if uctx.total1 <= 0:
+        return context_merge(pool, u, v, ub, vb, mu, 0.0, 0.0, None, None, uctx, user.order_of)
+    g2, g3 = uctx.gamma2, uctx.gamma3
+    ids = uctx.ids2
+    probs = follower_probs(g2, g3, ids, uctx.weights2, uctx.total2, uctx.ids3, uctx.weights3, uctx.total3, user.unigram_weight_array(), uctx.total1)
+    if probs is None:
+        ids, probs = user.followers(uctx)
+    merge = context_merge(pool, u, v, ub, vb, mu, g2, g3, ids, probs, uctx, user.order_of)
+    if merge is None:
+        # A suggestable follower the pool lacks (a hand-edited file can hold one): the Python
+        # preparation merges it in, and the merge reads its P_user as they are (1.0 * (1.0 * p) is p).
+        prepared = prepare(view, u, v)
+        own = Pool(*compiled, prepared.keys, prepared.ids, prepared.p_user, view.learned_key_array, view.blocked, bool(user.settings.learning),
+                   user.end_id, user.base_size, user.first_learned_id, user.display, Suggestion, view.shared.setdefault("base_forms", {}), {})
+        merge = context_merge(own, u, v, ub, vb, mu, 1.0, 1.0, None, None, uctx, user.order_of)
     return merge
 
 
-__all__ = ["context_merge", "merge_available", "prepare_compiled"]
+__all__ = ["merge_available", "merge_for"]

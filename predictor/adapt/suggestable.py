@@ -90,6 +90,8 @@ class Suggestable:
     """Typed prefixes' ranges (shared while the suggestable new words stay the same)."""
     _spans: dict[str, tuple[str, PrefixRange | None]] = field(repr=False)
     """Typed prefixes' model forms and base id ranges (shared by every snapshot of one user model)."""
+    shared: dict[str, Any] = field(repr=False)
+    """Values that hold for every snapshot of one user model (such as base words' display forms)."""
     memo: dict[str, Any] = field(default_factory=dict, repr=False)
 
     # ------------------------------------------------------------ queries
@@ -189,6 +191,7 @@ def derive(previous: Suggestable | None, user: UserModel, never: NeverList, voca
         seen_ok = _unblocked(user.seen_base_ids(), blocked_base)
     insertion = old._insertion if old is not None else {}
     spans = old._spans if old is not None else {}
+    shared = old.shared if old is not None else {}
     ready_state = (user.ready_epoch, never_version)
     ready_forms: tuple[str, ...]
     ready_ids: tuple[int, ...]
@@ -232,6 +235,7 @@ def derive(previous: Suggestable | None, user: UserModel, never: NeverList, voca
         _insertion=insertion,
         _prefixes=prefixes,
         _spans=spans,
+        shared=shared,
     )
 
 

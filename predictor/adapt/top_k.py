@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import NamedTuple
+from typing import NamedTuple, Protocol
 
 import numpy as np
 
@@ -58,6 +58,30 @@ class Candidate(NamedTuple):
     id: int
     p_base: float
     p_user: float
+
+
+class ContextFacts(Protocol):
+    """What every query after a context reads first, whichever walk answers it (read-only).
+
+    Attributes:
+        u, v: the context ids.
+        mu: the user model's share after it.
+        user: the user model's data about it (None when mu is 0).
+        ub, vb: the context as the base model sees it.
+    """
+
+    @property
+    def u(self) -> int: ...
+    @property
+    def v(self) -> int: ...
+    @property
+    def mu(self) -> float: ...
+    @property
+    def user(self) -> UserContext | None: ...
+    @property
+    def ub(self) -> int: ...
+    @property
+    def vb(self) -> int: ...
 
 
 @dataclass(frozen=True)
@@ -279,4 +303,4 @@ class _Slice:
         return ids, self.p_user[at].tolist(), self.keys[at].tolist()
 
 
-__all__ = ["Candidate", "Row", "PreparedContext", "prepare", "exact_top", "GUARD"]
+__all__ = ["Candidate", "ContextFacts", "Row", "PreparedContext", "prepare", "exact_top", "GUARD"]
