@@ -31,6 +31,7 @@ import numpy as np
 cdef enum:
     KEY_SHIFT = 21
     FEW_REACHING = 32
+    BLOCK_SHIFT = 5  # the pool's values are bounded per block of 32 words
 
 cdef int64_t BASE_KEY_LOW = (1 << KEY_SHIFT) - 1
 
@@ -203,6 +204,20 @@ cdef int by_at(const void* x, const void* y) noexcept nogil:
     return -1 if a < b else (1 if a > b else 0)
 
 
+cdef inline int64_t _reach(Buffers buf, int64_t n_rows, int64_t first_reach, int64_t w, int64_t key, double pu, double floor) except -1:
+    """Add a pool word whose bound reaches the threshold to the rows (its floor beside it); returns the new row count."""
+    cdef Cand* c
+    if n_rows >= buf.cap or n_rows - first_reach >= buf.floors_cap:
+        buf.reserve(2 * n_rows + 16, 0, 2 * (n_rows - first_reach) + 16)
+    c = &buf.rows[n_rows]
+    c.id = w
+    c.key = key
+    c.pu = pu
+    c.a_at = -1
+    buf.floors[n_rows - first_reach] = floor
+    return n_rows + 1
+
+
 cdef class Pool:
     """One snapshot's pool (every suggestable counted word in sort-key order) and what its contexts share.
 
@@ -221,6 +236,7 @@ cdef class Pool:
         made: the suggestion type (a named tuple of word, prob, order, id, learned, new_word).
         base_forms: display forms of base words already asked for (shared by every snapshot).
         forms: display forms of learned words already asked for (this snapshot's).
+        where: the pool position of each id (int64, -1: not pooled), or None to find ids by sort key.
     """
 
     cdef object core, lock, blocked, display, made
@@ -229,13 +245,25 @@ cdef class Pool:
     cdef const int64_t[::1] ids
     cdef const double[::1] values
     cdef const int64_t[::1] key_array
+    cdef const int64_t[::1] where
+    cdef bint use_where
     cdef bint learning
     cdef int64_t end_id, base_size, first_new, n
+    cdef double* block_max  # the largest value of each block of 32 pool words
+
+    def __cinit__(self):
+        self.block_max = NULL
+
+    def __dealloc__(self):
+        free(self.block_max)
 
     def __init__(self, core, lock, const int64_t[::1] keys, const int64_t[::1] ids, const double[::1] values,
                  const int64_t[::1] key_array, blocked, bint learning, int64_t end_id, int64_t base_size,
-                 int64_t first_new, display, made, dict base_forms, dict forms):
+                 int64_t first_new, display, made, dict base_forms, dict forms, where=None):
         self.n = keys.shape[0]
+        self.use_where = where is not None
+        if where is not None:
+            self.where = where
         if ids.shape[0] != self.n or values.shape[0] != self.n:
             raise ValueError("the pool's arrays differ in length")
         self.core, self.lock = core, lock
@@ -245,12 +273,28 @@ cdef class Pool:
         self.end_id, self.base_size, self.first_new = end_id, base_size, first_new
         self.display, self.made = display, made
         self.base_forms, self.forms = base_forms, forms
+        cdef int64_t i, blocks = (self.n >> BLOCK_SHIFT) + 1
+        self.block_max = <double*>malloc(blocks * sizeof(double))
+        if self.block_max == NULL:
+            raise MemoryError()
+        for i in range(blocks):
+            self.block_max[i] = 0.0
+        for i in range(self.n):
+            if not values[i] >= 0.0:  # also refuses NaN
+                raise ValueError("the pool's values must be non-negative numbers")
+            if values[i] > self.block_max[i >> BLOCK_SHIFT]:
+                self.block_max[i >> BLOCK_SHIFT] = values[i]
 
     cdef int64_t position(self, int64_t w) noexcept:
         """The pool position of an id (-1: not in the pool)."""
         cdef int64_t key, at
         if w < 0:
             return -1
+        if self.use_where:
+            if w >= self.where.shape[0]:
+                return -1
+            at = self.where[w]
+            return at if 0 <= at < self.n and self.ids[at] == w else -1
         if w < self.base_size:
             key = (w << KEY_SHIFT) | BASE_KEY_LOW
         elif w >= self.first_new and w - self.first_new < self.key_array.shape[0]:
@@ -315,7 +359,10 @@ def context_merge(Pool pool, int64_t u, int64_t v, int64_t ub, int64_t vb, doubl
             merge.followers[n].at = at
             merge.followers[n].pu = fprobs[i]
             n += 1
-        qsort(merge.followers, n, sizeof(Follower), by_at)
+        for i in range(1, n):
+            if merge.followers[i].at < merge.followers[i - 1].at:
+                qsort(merge.followers, n, sizeof(Follower), by_at)
+                break
         merge.f_at = <int64_t*>malloc((n if n > 0 else 1) * sizeof(int64_t))
         if merge.f_at == NULL:
             raise MemoryError()
@@ -375,7 +422,7 @@ cdef class ContextMerge:
                 int64_t k, int64_t guard):
         """The k best suggestable words of a prefix (base id span, sort-key range), as suggestions, best first."""
         cdef double mu = self.mu, m = self.m, g2 = self.g2, g3 = self.g3, a_last, threshold, edge, pb, pu, floor, kth_score, z_bound
-        cdef int64_t lo, hi, a_depth, n_a, n_rows, n_reach, i, j, w, n_listed, first_reach, f
+        cdef int64_t lo, hi, a_depth, n_a, n_rows, n_reach, i, j, w, n_listed, first_reach, f, f_lo, f_hi, end
         cdef bint a_done
         cdef Buffers buf = Buffers()
         cdef Cand* c
@@ -399,7 +446,7 @@ cdef class ContextMerge:
             n_a = len(a_ids)
             a_done = n_a < a_depth
             a_last = <double>a_probs[n_a - 1] if n_a > 0 and not a_done else 0.0
-            buf.reserve(n_a + (hi - lo), n_a, hi - lo)
+            buf.reserve(n_a + 32, n_a, 32)  # grown as pool words reach (few do)
             # List A's unblocked words, each scored exactly.
             n_rows = 0
             for i in range(n_a):
@@ -426,22 +473,35 @@ cdef class ContextMerge:
             # The slice's words outside A whose bound m * a_last + mu * P_user reaches the threshold.
             edge = m * a_last
             first_reach = n_rows
-            f = lower_bound_ptr(self.f_at, 0, self.nf, lo)
-            for i in range(lo, hi):
-                if f < self.nf and self.f_at[f] == i:
-                    pu = self.followers[f].pu
-                    f += 1
-                else:
-                    pu = g3 * (g2 * values[i])
+            # The context's followers in the slice, each with its own P_user ...
+            f_lo = lower_bound_ptr(self.f_at, 0, self.nf, lo)
+            f_hi = lower_bound_ptr(self.f_at, f_lo, self.nf, hi)
+            for f in range(f_lo, f_hi):
+                pu = self.followers[f].pu
                 floor = mu * pu
+                i = self.f_at[f]
                 if floor + edge >= threshold and not sorted_has(buf.listed, n_listed, ids[i]):
-                    c = &buf.rows[n_rows]
-                    c.id = ids[i]
-                    c.key = keys[i]
-                    c.pu = pu
-                    c.a_at = -1
-                    buf.floors[n_rows - first_reach] = floor
-                    n_rows += 1
+                    n_rows = _reach(buf, n_rows, first_reach, ids[i], keys[i], pu, floor)
+            # ... and the others, g3 * (g2 * value): a block whose largest value cannot reach is skipped
+            # (each operation is monotone, so no word of it can).
+            f = f_lo
+            i = lo
+            while i < hi:
+                end = min(((i >> BLOCK_SHIFT) + 1) << BLOCK_SHIFT, hi)
+                if mu * (g3 * (g2 * pool.block_max[i >> BLOCK_SHIFT])) + edge < threshold:
+                    while f < f_hi and self.f_at[f] < end:
+                        f += 1
+                    i = end
+                    continue
+                while i < end:
+                    if f < f_hi and self.f_at[f] == i:
+                        f += 1
+                    else:
+                        pu = g3 * (g2 * values[i])
+                        floor = mu * pu
+                        if floor + edge >= threshold and not sorted_has(buf.listed, n_listed, ids[i]):
+                            n_rows = _reach(buf, n_rows, first_reach, ids[i], keys[i], pu, floor)
+                    i += 1
             n_reach = n_rows - first_reach
             if n_reach > FEW_REACHING and n_reach >= k:
                 # Raise the threshold to the k-th best floor mu * P_user: each bounds a different word's score from below.

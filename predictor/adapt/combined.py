@@ -81,7 +81,7 @@ from ..query.model import LanguageModel, Suggestion
 from ..query.vocabulary import END, START, Vocabulary
 from ..text import capitalise, split_before_cursor
 from .combination import base_context, base_probabilities, combine, responsibility
-from .compiled_merge import merge_available, merge_for
+from .compiled_merge import MERGE_GUARD, merge_available, merge_for
 from .listings import LearnedWord, learned_words
 from .never_list import NeverList
 from .settings import AdaptSettings
@@ -318,8 +318,8 @@ class AdaptedModel:
             return []
         if not isinstance(prepared, PreparedContext):  # the compiled merge of the context
             if span is None:
-                return prepared.suggest(False, 0, 0, -1, key_range[0], key_range[1], k, GUARD)  # type: ignore[attr-defined,no-any-return]
-            return prepared.suggest(True, span.lo, span.hi, span.order_start, key_range[0], key_range[1], k, GUARD)  # type: ignore[attr-defined,no-any-return]
+                return prepared.suggest(False, 0, 0, -1, key_range[0], key_range[1], k, MERGE_GUARD)  # type: ignore[attr-defined,no-any-return]
+            return prepared.suggest(True, span.lo, span.hi, span.order_start, key_range[0], key_range[1], k, MERGE_GUARD)  # type: ignore[attr-defined,no-any-return]
         chosen, base_orders = exact_top(self.base, view, prepared, span, key_range, k)
         return self._results(prepared, chosen, base_orders)
 

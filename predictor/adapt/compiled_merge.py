@@ -30,6 +30,14 @@ except ImportError:  # not built: no compiler at install time, or an unusual pla
     Pool = context_merge = follower_probs = None  # type: ignore[assignment,misc]
 
 
+MERGE_GUARD = 1
+"""The compiled merge first reads list A to k + this many words (the Python walk's ``GUARD`` is 4).
+
+Any depth gives the same answer (the walk reads deeper until the k-th score
+is final); one more word than k already makes the bound strict in the usual
+case, and reading fewer words costs the base core less."""
+
+
 def merge_available() -> bool:
     """Whether the compiled merge was built and imports."""
     return Pool is not None
@@ -58,6 +66,7 @@ def _pool_of(view: Suggestable, compiled: tuple[Any, Any], total1: float) -> Any
             Suggestion,
             view.shared.setdefault("base_forms", {}),
             {},
+            view.pool_where,
         )
     return found
 
@@ -73,7 +82,11 @@ def merge_for(base: LanguageModel, view: Suggestable, u: int, v: int) -> Any:
         return None
     user = view.user
     uctx = user.context(u, v)
-    mu = user.share(uctx)
+    # mu depends on the context only through its bucket and whether the base model knows it.
+    shares = view.memo.setdefault("shares", {})
+    mu = shares.get((uctx.bucket, uctx.base_knows))
+    if mu is None:
+        mu = shares[(uctx.bucket, uctx.base_knows)] = user.share(uctx)
     ub, vb = base_context(u, v, user.first_learned_id, user.unknown_id)
     pool = _pool_of(view, compiled, uctx.total1)
     if mu <= 0.0:
@@ -82,6 +95,8 @@ def merge_for(base: LanguageModel, view: Suggestable, u: int, v: int) -> Any:
         return context_merge(pool, u, v, ub, vb, mu, 0.0, 0.0, None, None, uctx, user.order_of)
     g2, g3 = uctx.gamma2, uctx.gamma3
     ids = uctx.ids2
+    if not len(ids) and not len(uctx.ids3):  # nothing seen after the context
+        return context_merge(pool, u, v, ub, vb, mu, g2, g3, None, None, uctx, user.order_of)
     probs = follower_probs(g2, g3, ids, uctx.weights2, uctx.total2, uctx.ids3, uctx.weights3, uctx.total3, user.unigram_weight_array(), uctx.total1)
     if probs is None:
         ids, probs = user.followers(uctx)
@@ -96,4 +111,4 @@ def merge_for(base: LanguageModel, view: Suggestable, u: int, v: int) -> Any:
     return merge
 
 
-__all__ = ["merge_available", "merge_for"]
+__all__ = ["MERGE_GUARD", "merge_available", "merge_for"]
