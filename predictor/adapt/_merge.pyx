@@ -393,11 +393,16 @@ cdef class ContextMerge:
     cdef Follower* followers
     cdef int64_t* f_at
     cdef int64_t nf
+    cdef object owner, ranges_of, vocab
+    cdef dict prefixes
+    cdef int64_t user_version, never_version, guard
 
     def __cinit__(self):
         self.followers = NULL
         self.f_at = NULL
         self.nf = 0
+        self.owner = None
+        self.prefixes = None
 
     def __dealloc__(self):
         free(self.followers)
@@ -418,9 +423,49 @@ cdef class ContextMerge:
             return self._pu(at)
         return 0.0
 
+    def stamp(self, owner, int64_t user_version, int64_t never_version, dict prefixes, ranges_of, vocab, int64_t guard):
+        """Let :meth:`answer` serve queries while the user model and the never-suggest list keep these versions.
+
+        Args:
+            owner: the user model the merge was made from.
+            user_version, never_version: the versions of the snapshot it was made under.
+            prefixes: the snapshot's memo of typed prefixes, ``prefix -> (span, key range)``.
+            ranges_of, vocab: the snapshot's ``ranges_of`` and the base vocabulary, for a prefix the memo lacks.
+            guard: how deep past k list A is first read.
+        """
+        self.owner = owner
+        self.user_version, self.never_version = user_version, never_version
+        self.prefixes = prefixes
+        self.ranges_of, self.vocab = ranges_of, vocab
+        self.guard = guard
+
+    def answer(self, owner, int64_t user_version, int64_t never_version, int64_t u, int64_t v, prefix, int64_t k):
+        """The suggestions for a query in one call, or None where the caller must take the general path.
+
+        It answers only when the user model is the same object at the same
+        version, the never-suggest list is at the same version, the context is
+        this one and k is positive.
+        """
+        if (owner is not self.owner or user_version != self.user_version or never_version != self.never_version
+                or u != self.u or v != self.v or k < 1 or self.prefixes is None):
+            return None
+        found = self.prefixes.get(prefix)
+        if found is None:
+            found = self.ranges_of(prefix, self.vocab)
+        span, key_range = found
+        if key_range is None:
+            return []
+        if span is None:
+            return self._suggest(False, 0, 0, -1, key_range[0], key_range[1], k, self.guard)
+        return self._suggest(True, span.lo, span.hi, span.order_start, key_range[0], key_range[1], k, self.guard)
+
     def suggest(self, bint has_span, int64_t span_lo, int64_t span_hi, int64_t order_start, int64_t key_lo, int64_t key_hi,
                 int64_t k, int64_t guard):
         """The k best suggestable words of a prefix (base id span, sort-key range), as suggestions, best first."""
+        return self._suggest(has_span, span_lo, span_hi, order_start, key_lo, key_hi, k, guard)
+
+    cdef list _suggest(self, bint has_span, int64_t span_lo, int64_t span_hi, int64_t order_start, int64_t key_lo, int64_t key_hi,
+                       int64_t k, int64_t guard):
         cdef double mu = self.mu, m = self.m, g2 = self.g2, g3 = self.g3, a_last, threshold, edge, pb, pu, floor, kth_score, z_bound
         cdef int64_t lo, hi, a_depth, n_a, n_rows, n_reach, i, j, w, n_listed, first_reach, f, f_lo, f_hi, end
         cdef bint a_done

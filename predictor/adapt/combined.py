@@ -73,6 +73,7 @@ every suggestion is the base model's own.
 from __future__ import annotations
 
 from collections.abc import Sequence
+from typing import Any
 
 import numpy as np
 
@@ -123,6 +124,8 @@ class AdaptedModel:
         self.never = never if never is not None else NeverList()
         self._view: Suggestable | None = None
         """What may be suggested, as of the versions of the user model and the list it was derived at."""
+        self._fast: Any = None
+        """The compiled merge of the last context asked about, which answers a repeated query in one call."""
 
     def reset(self, user: UserModel, never_entries: Sequence[str]) -> None:
         """Replace the learned counts and the never-suggest entries (everything derived is rebuilt).
@@ -135,6 +138,7 @@ class AdaptedModel:
         self.never.replace(never_entries)
         self.user = user
         self._view = None
+        self._fast = None
 
     # ----------------------------------------------------------------- facts
     @property
@@ -308,6 +312,12 @@ class AdaptedModel:
 
     def suggest_ids(self, u: int, v: int, prefix: str, k: int) -> list[Suggestion]:
         """:meth:`suggest` with a context already mapped by :meth:`context_ids` (see the module docstring)."""
+        fast = self._fast
+        if fast is not None:
+            user = self.user
+            found = fast.answer(user, user.version, self.never.version, u, v, prefix, k)
+            if found is not None:
+                return found  # type: ignore[no-any-return]
         if k < 1:
             raise OptionError(f"k must be at least 1, not {k}")
         view, prepared = self._current(u, v)
@@ -317,6 +327,9 @@ class AdaptedModel:
         if key_range is None:
             return []
         if not isinstance(prepared, PreparedContext):  # the compiled merge of the context
+            if prepared is not self._fast:
+                prepared.stamp(self.user, view.version[0], view.version[1], view.prefix_memo, view.ranges_of, self.base.vocab, MERGE_GUARD)  # type: ignore[attr-defined]
+                self._fast = prepared
             if span is None:
                 return prepared.suggest(False, 0, 0, -1, key_range[0], key_range[1], k, MERGE_GUARD)  # type: ignore[attr-defined,no-any-return]
             return prepared.suggest(True, span.lo, span.hi, span.order_start, key_range[0], key_range[1], k, MERGE_GUARD)  # type: ignore[attr-defined,no-any-return]

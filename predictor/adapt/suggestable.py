@@ -95,6 +95,11 @@ class Suggestable:
     memo: dict[str, Any] = field(default_factory=dict, repr=False)
 
     # ------------------------------------------------------------ queries
+    @property
+    def prefix_memo(self) -> dict[str, tuple[PrefixRange | None, tuple[int, int] | None]]:
+        """Typed prefixes already asked about and their ranges (:meth:`ranges_of`); read-only to callers."""
+        return self._prefixes
+
     def unigram_share(self, total1: float) -> np.ndarray:
         """c(w) / N of the pool's words, float64 of the pool's shape (computed once per snapshot)."""
         found = self.memo.get("unigram_share")
