@@ -320,7 +320,7 @@ cdef class Pool:
 
 
 def context_merge(Pool pool, int64_t u, int64_t v, int64_t ub, int64_t vb, double mu, double g2, double g3,
-                  follower_ids, follower_probs, user_context, order_of):
+                  follower_ids, follower_probs, user_context, order_of, const double[::1] w1=None):
     """The merge of one context over a pool, or None where a suggestable follower lies outside the pool.
 
     Args:
@@ -331,6 +331,8 @@ def context_merge(Pool pool, int64_t u, int64_t v, int64_t ub, int64_t vb, doubl
         follower_ids, follower_probs: the words seen after (u, v) or v and their P_user
             (``UserModel.followers``), or None for none.
         user_context: the user model's data about the context (None when mu is 0); order_of: ``UserModel.order_of``.
+        w1: the user model's inflated unigram counts by id (``UserModel.unigram_weight_array``): with
+            them the orders of learned suggestions are computed here, as ``order_of`` computes them.
     """
     cdef const int64_t[::1] fids
     cdef const double[::1] fprobs
@@ -341,6 +343,13 @@ def context_merge(Pool pool, int64_t u, int64_t v, int64_t ub, int64_t vb, doubl
     merge.mu, merge.m, merge.g2, merge.g3 = mu, 1.0 - mu, g2, g3
     merge.user, merge.order_of = user_context, order_of
     merge.user_orders = {}
+    if user_context is not None:
+        merge.ids2, merge.weights2, merge.total2 = user_context.ids2, user_context.weights2, user_context.total2
+        merge.ids3, merge.weights3, merge.total3 = user_context.ids3, user_context.weights3, user_context.total3
+        merge.w1, merge.total1 = w1, user_context.total1
+        merge.c_g2, merge.c_g3 = user_context.gamma2, user_context.gamma3
+        if merge.weights2.shape[0] != merge.ids2.shape[0] or merge.weights3.shape[0] != merge.ids3.shape[0]:
+            raise ValueError("follower ids and weights differ in length")
     if follower_ids is not None and len(follower_ids):
         fids = follower_ids
         fprobs = follower_probs
@@ -389,6 +398,12 @@ cdef class ContextMerge:
     cdef readonly object user
     cdef object order_of
     cdef dict user_orders
+    cdef const int64_t[::1] ids2
+    cdef const int64_t[::1] ids3
+    cdef const double[::1] weights2
+    cdef const double[::1] weights3
+    cdef const double[::1] w1
+    cdef double total1, total2, total3, c_g2, c_g3
     cdef double m, g2, g3
     cdef Follower* followers
     cdef int64_t* f_at
@@ -401,6 +416,7 @@ cdef class ContextMerge:
         self.followers = NULL
         self.f_at = NULL
         self.nf = 0
+        self.w1 = None
         self.owner = None
         self.prefixes = None
 
@@ -414,6 +430,23 @@ cdef class ContextMerge:
         if j < self.nf and self.f_at[j] == at:
             return self.followers[j].pu
         return self.g3 * (self.g2 * self.pool.values[at])
+
+    cdef int _order(self, int64_t w) noexcept:
+        """Which order of the user model supplied most of a word's P_user (as ``UserModel.order_of``)."""
+        cdef double f3 = 0.0, f2 = 0.0, p1 = 0.0, share3, share2, share1
+        cdef int64_t at
+        at = lower_bound(self.ids3, 0, self.ids3.shape[0], w)
+        if at < self.ids3.shape[0] and self.ids3[at] == w:
+            f3 = self.weights3[at] / self.total3
+        at = lower_bound(self.ids2, 0, self.ids2.shape[0], w)
+        if at < self.ids2.shape[0] and self.ids2[at] == w:
+            f2 = self.weights2[at] / self.total2
+        if self.total1 > 0 and 0 <= w < self.w1.shape[0]:
+            p1 = self.w1[w] / self.total1
+        share3 = (1.0 - self.c_g3) * f3
+        share2 = self.c_g3 * (1.0 - self.c_g2) * f2
+        share1 = self.c_g3 * self.c_g2 * p1
+        return 3 if share3 >= share2 and share3 >= share1 else 2 if share2 >= share1 else 1
 
     cdef double _a_user(self, int64_t w, int64_t lo, int64_t hi) noexcept:
         """P_user of a base word of list A (0 for a word the pool lacks)."""
@@ -632,9 +665,12 @@ cdef class ContextMerge:
             elif not own and w < pool.base_size:
                 order = rows[i].order
             elif self.user is not None:
-                order = user_orders.get(w)
-                if order is None:
-                    order = user_orders[w] = int(self.order_of(w, self.user))
+                if self.w1 is not None:
+                    order = self._order(w)
+                else:
+                    order = user_orders.get(w)
+                    if order is None:
+                        order = user_orders[w] = int(self.order_of(w, self.user))
             else:
                 order = 1
             forms = pool.base_forms if w < pool.first_new else pool.forms

@@ -92,22 +92,22 @@ def merge_for(base: LanguageModel, view: Suggestable, u: int, v: int) -> Any:
     if mu <= 0.0:
         return context_merge(pool, u, v, ub, vb, 0.0, 0.0, 0.0, None, None, None, user.order_of)
     if uctx.total1 <= 0:
-        return context_merge(pool, u, v, ub, vb, mu, 0.0, 0.0, None, None, uctx, user.order_of)
+        return context_merge(pool, u, v, ub, vb, mu, 0.0, 0.0, None, None, uctx, user.order_of, user.unigram_weight_array())
     g2, g3 = uctx.gamma2, uctx.gamma3
     ids = uctx.ids2
     if not len(ids) and not len(uctx.ids3):  # nothing seen after the context
-        return context_merge(pool, u, v, ub, vb, mu, g2, g3, None, None, uctx, user.order_of)
+        return context_merge(pool, u, v, ub, vb, mu, g2, g3, None, None, uctx, user.order_of, user.unigram_weight_array())
     probs = follower_probs(g2, g3, ids, uctx.weights2, uctx.total2, uctx.ids3, uctx.weights3, uctx.total3, user.unigram_weight_array(), uctx.total1)
     if probs is None:
         ids, probs = user.followers(uctx)
-    merge = context_merge(pool, u, v, ub, vb, mu, g2, g3, ids, probs, uctx, user.order_of)
+    merge = context_merge(pool, u, v, ub, vb, mu, g2, g3, ids, probs, uctx, user.order_of, user.unigram_weight_array())
     if merge is None:
         # A suggestable follower the pool lacks (a hand-edited file can hold one): the Python
         # preparation merges it in, and the merge reads its P_user as they are (1.0 * (1.0 * p) is p).
         prepared = prepare(view, u, v)
         own = Pool(*compiled, prepared.keys, prepared.ids, prepared.p_user, view.learned_key_array, view.blocked, bool(user.settings.learning),
                    user.end_id, user.base_size, user.first_learned_id, user.display, Suggestion, view.shared.setdefault("base_forms", {}), {})
-        merge = context_merge(own, u, v, ub, vb, mu, 1.0, 1.0, None, None, uctx, user.order_of)
+        merge = context_merge(own, u, v, ub, vb, mu, 1.0, 1.0, None, None, uctx, user.order_of, user.unigram_weight_array())
     return merge
 
 

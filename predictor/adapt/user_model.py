@@ -114,6 +114,8 @@ class UserModel:
         self._forms: list[str] = []
         self._learned: dict[str, int] = {}
         self._votes: dict[int, dict[str, int]] = {}
+        self._shown: dict[int, str] = {}
+        """Display forms of learned words already worked out from their votes (dropped when the votes change)."""
         capacity = size + 3 + 64
         self._w1 = np.zeros(capacity, dtype=np.float64)
         self._n1 = np.zeros(capacity, dtype=np.int64)
@@ -200,10 +202,14 @@ class UserModel:
         """How an id is shown: the base display form, or the learned word's most used written form."""
         if word_id < self.first_learned_id:
             return self.vocab.display(word_id) if self.vocab is not None and word_id < self.base_size else self.form(word_id)
+        shown = self._shown.get(word_id)
+        if shown is not None:
+            return shown
         votes = self._votes.get(word_id)
         if not votes:
             return self.form(word_id)
-        return max(votes.items(), key=lambda item: item[1])[0]
+        shown = self._shown[word_id] = max(votes.items(), key=lambda item: item[1])[0]
+        return shown
 
     # ------------------------------------------------------------- learning
     def learn(
@@ -246,6 +252,7 @@ class UserModel:
             word_id = self._id_for(form)
             if word_id >= self.first_learned_id:
                 votes = self._votes.setdefault(word_id, {})
+                self._shown.pop(word_id, None)
                 # A capital at a sentence start says little about how the word is written elsewhere.
                 votes[word] = votes.get(word, 0) + (1 if sentence_start else 2)
             self._count(u, v, word_id, stamp, credit_for(u, v, word_id))
@@ -598,6 +605,7 @@ class UserModel:
             self._n1[word_id] = 0
             self._seen1[word_id] = 0
         self._votes.pop(word_id, None)
+        self._shown.pop(word_id, None)
         self._total = max(self._total, 0.0)
         self._rebuild_ready()
         self.version += 1
@@ -634,6 +642,7 @@ class UserModel:
         self._seen1[gone] = 0
         for word_id in np.flatnonzero(gone):
             self._votes.pop(int(word_id), None)
+            self._shown.pop(int(word_id), None)
         self._total = math.fsum(self._w1)
         if dropped:
             self._rebuild_ready()
