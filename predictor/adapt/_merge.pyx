@@ -28,6 +28,8 @@ from libc.stdlib cimport free, malloc, qsort, realloc
 
 import numpy as np
 
+_MISSING = object()
+
 cdef enum:
     KEY_SHIFT = 21
     FEW_REACHING = 32
@@ -409,7 +411,7 @@ cdef class ContextMerge:
     cdef int64_t* f_at
     cdef int64_t nf
     cdef object owner, ranges_of, vocab
-    cdef dict prefixes
+    cdef dict spans, prefixes
     cdef int64_t user_version, never_version, guard
 
     def __cinit__(self):
@@ -456,19 +458,20 @@ cdef class ContextMerge:
             return self._pu(at)
         return 0.0
 
-    def stamp(self, owner, int64_t user_version, int64_t never_version, dict prefixes, ranges_of, vocab, int64_t guard):
+    def stamp(self, owner, int64_t user_version, int64_t never_version, dict spans, dict prefixes, ranges_of, vocab, int64_t guard):
         """Let :meth:`answer` serve queries while the user model and the never-suggest list keep these versions.
 
         Args:
             owner: the user model the merge was made from.
             user_version, never_version: the versions of the snapshot it was made under.
-            prefixes: the snapshot's memo of typed prefixes, ``prefix -> (span, key range)``.
+            spans, prefixes: the snapshot's memos of typed prefixes, ``prefix -> (model form, base id range)``
+                and ``model form -> sort-key range`` (``Suggestable.prefix_memo``).
             ranges_of, vocab: the snapshot's ``ranges_of`` and the base vocabulary, for a prefix the memo lacks.
             guard: how deep past k list A is first read.
         """
         self.owner = owner
         self.user_version, self.never_version = user_version, never_version
-        self.prefixes = prefixes
+        self.spans, self.prefixes = spans, prefixes
         self.ranges_of, self.vocab = ranges_of, vocab
         self.guard = guard
 
@@ -482,10 +485,12 @@ cdef class ContextMerge:
         if (owner is not self.owner or user_version != self.user_version or never_version != self.never_version
                 or u != self.u or v != self.v or k < 1 or self.prefixes is None):
             return None
-        found = self.prefixes.get(prefix)
-        if found is None:
-            found = self.ranges_of(prefix, self.vocab)
-        span, key_range = found
+        known = self.spans.get(prefix)
+        if known is not None:
+            form, span = <tuple>known
+            key_range = self.prefixes.get(form, _MISSING)
+        if known is None or key_range is _MISSING:
+            span, key_range = self.ranges_of(prefix, self.vocab)
         if key_range is None:
             return []
         if span is None:

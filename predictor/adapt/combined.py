@@ -328,7 +328,7 @@ class AdaptedModel:
             return []
         if not isinstance(prepared, PreparedContext):  # the compiled merge of the context
             if prepared is not self._fast:
-                prepared.stamp(self.user, view.version[0], view.version[1], view.prefix_memo, view.ranges_of, self.base.vocab, MERGE_GUARD)  # type: ignore[attr-defined]
+                prepared.stamp(self.user, view.version[0], view.version[1], *view.prefix_memo, view.ranges_of, self.base.vocab, MERGE_GUARD)  # type: ignore[attr-defined]
                 self._fast = prepared
             if span is None:
                 return prepared.suggest(False, 0, 0, -1, key_range[0], key_range[1], k, MERGE_GUARD)  # type: ignore[attr-defined,no-any-return]

@@ -86,8 +86,9 @@ class Suggestable:
     """(never version, seen state, ready state, ready words taken from the log, learning) it was derived at."""
     _insertion: dict[int, int] = field(repr=False)
     """How many base words sort before each new word (shared by every snapshot of one user model)."""
-    _prefixes: dict[str, tuple[PrefixRange | None, tuple[int, int] | None]] = field(repr=False)
-    """Typed prefixes' ranges (shared while the suggestable new words stay the same)."""
+    _prefixes: dict[str, tuple[int, int] | None] = field(repr=False)
+    """Sort-key ranges by prefix model form (shared while the suggestable new words stay the same; when
+    some are added, copied without the forms whose range they change)."""
     _spans: dict[str, tuple[str, PrefixRange | None]] = field(repr=False)
     """Typed prefixes' model forms and base id ranges (shared by every snapshot of one user model)."""
     shared: dict[str, Any] = field(repr=False)
@@ -96,9 +97,10 @@ class Suggestable:
 
     # ------------------------------------------------------------ queries
     @property
-    def prefix_memo(self) -> dict[str, tuple[PrefixRange | None, tuple[int, int] | None]]:
-        """Typed prefixes already asked about and their ranges (:meth:`ranges_of`); read-only to callers."""
-        return self._prefixes
+    def prefix_memo(self) -> tuple[dict[str, tuple[str, PrefixRange | None]], dict[str, tuple[int, int] | None]]:
+        """What :meth:`ranges_of` keeps: typed prefix -> (model form, base id range), and model form ->
+        sort-key range; read-only to callers (a form missing from the second is not yet worked out)."""
+        return self._spans, self._prefixes
 
     def unigram_share(self, total1: float) -> np.ndarray:
         """c(w) / N of the pool's words, float64 of the pool's shape (computed once per snapshot)."""
@@ -109,20 +111,20 @@ class Suggestable:
 
     def ranges_of(self, prefix: str, vocab: Vocabulary) -> tuple[PrefixRange | None, tuple[int, int] | None]:
         """The base id range and the sort-key range of a typed prefix (None where it has none)."""
-        found = self._prefixes.get(prefix)
-        if found is None:
-            known = self._spans.get(prefix)
-            if known is None:
-                if len(self._spans) >= _PREFIX_MEMO:
-                    self._spans.clear()
-                form = model_form(prefix)
-                known = self._spans[prefix] = (form, vocab.prefix_range(form))
-            form, span = known
-            found = (span, self._key_range(form, span))
-            if len(self._prefixes) >= _PREFIX_MEMO:
-                self._prefixes.clear()
-            self._prefixes[prefix] = found
-        return found
+        known = self._spans.get(prefix)
+        if known is None:
+            if len(self._spans) >= _PREFIX_MEMO:
+                self._spans.clear()
+            form = model_form(prefix)
+            known = self._spans[prefix] = (form, vocab.prefix_range(form))
+        form, span = known
+        memo = self._prefixes
+        if form in memo:
+            return span, memo[form]
+        if len(memo) >= _PREFIX_MEMO:
+            memo.clear()
+        key_range = memo[form] = self._key_range(form, span)
+        return span, key_range
 
     def _key_range(self, form: str, span: PrefixRange | None) -> tuple[int, int] | None:
         """The sort keys of the first and last suggestable word starting with ``form`` (None if none)."""
@@ -213,11 +215,16 @@ def derive(previous: Suggestable | None, user: UserModel, never: NeverList, voca
             for word_id in fresh:
                 ready.add(word_id, user, never, vocab, insertion)
             taken += len(fresh)
+            # Only the prefixes of a word whose key was given or changed have a new key range.
+            prefixes = dict(old._prefixes)
+            for form in ready.changed:
+                for end in range(len(form) + 1):
+                    prefixes.pop(form[:end], None)
         else:
             ready = _Ready.build(user, never, vocab, insertion)
             taken = len(user.ready_since(0))
+            prefixes = {}
         ready_forms, ready_ids, learned_keys, learned_key_array = tuple(ready.forms), tuple(ready.ids), ready.keys, ready.key_array
-        prefixes = {}
     states = (never_version, seen_state, ready_state, taken, user.settings.learning)
     if old is not None and old._states[1:] == states[1:]:
         pool_keys, pool_ids, pool_where = old.pool_keys, old.pool_ids, old.pool_where
@@ -252,6 +259,8 @@ class _Ready:
     ids: list[int]
     keys: dict[int, int]
     key_array: np.ndarray
+    changed: list[str] = field(default_factory=list)
+    """Forms of the words whose sort key was given or changed since it was made."""
 
     @staticmethod
     def build(user: UserModel, never: NeverList, vocab: Vocabulary, insertion: dict[int, int]) -> _Ready:
@@ -306,6 +315,8 @@ class _Ready:
             slot = slot + 1 if at == group else 0
             group = at
             key = (at << KEY_SHIFT) | slot
+            if self.keys.get(ids[i]) != key:
+                self.changed.append(forms[i])
             self.keys[ids[i]] = key
             self.key_array[ids[i] - first] = key
 
