@@ -410,6 +410,8 @@ cdef class ContextMerge:
     cdef Follower* followers
     cdef int64_t* f_at
     cdef int64_t nf
+    cdef Buffers scratch
+    cdef bint scratch_busy
     cdef object owner, ranges_of, vocab
     cdef dict spans, prefixes
     cdef int64_t user_version, never_version, guard
@@ -419,6 +421,8 @@ cdef class ContextMerge:
         self.f_at = NULL
         self.nf = 0
         self.w1 = None
+        self.scratch = Buffers()
+        self.scratch_busy = False
         self.owner = None
         self.prefixes = None
 
@@ -504,18 +508,34 @@ cdef class ContextMerge:
 
     cdef list _suggest(self, bint has_span, int64_t span_lo, int64_t span_hi, int64_t order_start, int64_t key_lo, int64_t key_hi,
                        int64_t k, int64_t guard):
+        cdef Buffers buf
+        if k < 1:
+            raise ValueError("k must be positive")
+        # The merge's own scratch space, unless another thread's query holds it (the core's lock can
+        # let one in while this one waits).
+        if self.scratch is not None and not self.scratch_busy:
+            buf = self.scratch
+            self.scratch_busy = True
+        else:
+            buf = Buffers()
+        try:
+            return self._walk(buf, has_span, span_lo, span_hi, order_start, key_lo, key_hi, k, guard)
+        finally:
+            if buf is self.scratch:
+                self.scratch_busy = False
+
+    cdef list _walk(self, Buffers buf, bint has_span, int64_t span_lo, int64_t span_hi, int64_t order_start, int64_t key_lo,
+                    int64_t key_hi, int64_t k, int64_t guard):
+        """The threshold walk of :meth:`suggest` with the given scratch space."""
         cdef double mu = self.mu, m = self.m, g2 = self.g2, g3 = self.g3, a_last, threshold, edge, pb, pu, floor, kth_score, z_bound
         cdef int64_t lo, hi, a_depth, n_a, n_rows, n_reach, i, j, w, n_listed, first_reach, f, f_lo, f_hi, end
         cdef bint a_done
-        cdef Buffers buf = Buffers()
         cdef Cand* c
         cdef Pool pool = self.pool
         cdef const int64_t[::1] keys = pool.keys
         cdef const int64_t[::1] ids = pool.ids
         cdef const double[::1] values = pool.values
         cdef list a_ids = [], a_probs = [], a_orders = []
-        if k < 1:
-            raise ValueError("k must be positive")
         lo = lower_bound(keys, 0, pool.n, key_lo)
         hi = lower_bound(keys, lo, pool.n, key_hi + 1)
         a_depth = k + guard
