@@ -137,3 +137,108 @@ def test_python_walk_answers_without_the_extension(tmp_path: Path) -> None:
     model = AdaptedModel(base)
     model.learn("the ferry left Vessock at dawn".split(), end=True)
     assert done.stdout.strip() == str([tuple(s) for s in model.suggest(["the"], "", 5)])
+
+
+def brute_top(model: AdaptedModel, context: list[str], prefix: str, k: int) -> list[tuple[int, float]]:
+    """The definition of the top k: every suggestable word's combined probability, sorted by probability then word."""
+    user = model.user
+    probs = model.distribution(context)
+    blocked = set(model.never.blocked_ids(model.base.vocab).tolist())
+    rows = sorted(
+        (-p, user.form(i), i)
+        for i, p in enumerate(probs.tolist())
+        if (
+            (i < user.base_size and i not in blocked)
+            or (i >= user.first_learned_id and user.settings.learning and user.is_ready(i) and not model.never.blocks(user.form(i)))
+        )
+        and user.form(i).startswith(model_form(prefix))
+    )
+    return [(i, -p) for p, _, i in rows[:k]]
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_merge_equals_python_walk_over_random_sessions(base: foretype.LanguageModel, sentences: list[list[str]], seed: int) -> None:
+    # Random sessions: single words learned between queries, typed prefixes of random length and case,
+    # never-suggest entries added and removed, min_uses changed (new words become suggestable mid-session).
+    rng = random.Random(seed)
+    user = UserModel(base.vocab, AdaptSettings(learning=True, min_uses=rng.choice([1, 2, 3]), prior_tokens=10.0))
+    never = NeverList()
+    fast, slow = pair(base, user, never)
+    invented = ["quillmere", "quillmast", "vessock", "vessocks", "gorbalt", "zzarn", "zzarb", "tidewick"]
+    words = sorted({w for s in sentences for w in s})
+    asked = 0
+    for _ in range(120):
+        context = rng.sample(words + invented, rng.randint(0, 2))
+        word = rng.choice(words + invented * 4)
+        fast.learn([word], after=context, end=rng.random() < 0.2)
+        event = rng.random()
+        if event < 0.08:
+            never.add(rng.choice(invented + words)[: rng.randint(2, 4)] + "*")
+        elif event < 0.12 and never.entries:
+            never.remove(rng.choice(never.entries))
+        elif event < 0.15:
+            user.set_settings(user.settings.changed(min_uses=rng.choice([1, 2, 3])))
+        u, v = fast.context_ids(context)
+        for _ in range(4):
+            target = rng.choice(words + invented)
+            prefix = target[: rng.randint(0, 3)]
+            prefix = prefix.upper() if rng.random() < 0.2 else prefix
+            k = rng.choice([1, 3, 5, rng.randint(1, 40)])
+            mine, theirs = fast.suggest_ids(u, v, prefix, k), slow.suggest_ids(u, v, prefix, k)
+            assert [tuple(s) for s in mine] == [tuple(s) for s in theirs], (context, prefix, k)
+            asked += 1
+        if rng.random() < 0.1:
+            # The definition itself, over the whole distribution.
+            prefix = rng.choice(invented)[:2]
+            assert [(s.id, s.prob) for s in fast.suggest(context, prefix, 8)] == brute_top(fast, context, prefix, 8)
+    assert asked == 480
+
+
+def test_prefix_ranges_follow_new_suggestable_words(base: foretype.LanguageModel) -> None:
+    # New words sorting between the same two base words share a group; each one that becomes suggestable
+    # renumbers the group, and every prefix asked before must see the new keys.
+    user = UserModel(base.vocab, AdaptSettings(learning=True, min_uses=2))
+    fast, slow = pair(base, user, NeverList())
+    prefixes = ["", "z", "zz", "zza", "zzarb", "zzarn", "zzarc", "q", "qu", "QU"]
+    for word in ["zzarn", "zzarb", "zzarc", "zzarb", "zzarn", "zzara", "zzarc", "zzara", "quillmere", "quillmere"]:
+        fast.learn(["the", word], end=True)
+        for prefix in prefixes:
+            for context in ([], ["the"]):
+                u, v = fast.context_ids(context)
+                mine, theirs = fast.suggest_ids(u, v, prefix, 6), slow.suggest_ids(u, v, prefix, 6)
+                assert [tuple(s) for s in mine] == [tuple(s) for s in theirs], (word, prefix, context)
+                assert [(s.id, s.prob) for s in mine] == brute_top(fast, context, prefix, 6)
+    assert {s.word for s in fast.suggest(["the"], "zza", 6)} == {"zzara", "zzarb", "zzarc", "zzarn"}
+
+
+def test_learned_display_follows_the_votes(base: foretype.LanguageModel) -> None:
+    # The shown form of a new word is its most voted written form (a capital at a sentence start counts less).
+    user = UserModel(base.vocab, AdaptSettings(learning=True, min_uses=1))
+    fast, slow = pair(base, user, NeverList())
+    for written in ["Vessock", "Vessock", "VESSOCK", "VESSOCK", "VESSOCK", "Vessock", "Vessock"]:
+        fast.learn(["at", written], end=True)
+        votes = user.display_votes()["vessock"]
+        expected = max(votes.items(), key=lambda item: item[1])[0]
+        mine, theirs = fast.suggest(["at"], "ves", 3), slow.suggest(["at"], "ves", 3)
+        assert [tuple(s) for s in mine] == [tuple(s) for s in theirs]
+        assert [s.word for s in mine if s.new_word] == [expected]
+
+
+def test_follower_outside_the_pool(base: foretype.LanguageModel, sentences: list[list[str]]) -> None:
+    # A damaged or merged learned file can hold a bigram whose word has no unigram count: that word is
+    # suggestable but outside the pool, and the merge takes the general preparation for its context.
+    user = UserModel(base.vocab, AdaptSettings(learning=True, min_uses=1))
+    for sentence in sentences[:40]:
+        AdaptedModel(base, user).learn(sentence, end=True)
+    state = user.snapshot()
+    words = state["words"]
+    drop = words.index("the")
+    keep = state["unigrams"]["w"] != drop
+    state["unigrams"] = {name: column[keep] for name, column in state["unigrams"].items()}
+    damaged = UserModel(base.vocab, user.settings)
+    damaged.restore(state)
+    fast, slow = pair(base, damaged, NeverList())
+    asked = same_everywhere(fast, slow, sentences[:30], random.Random(5))
+    assert asked > 300
+    # "the" follows many contexts, so some answers must offer it although it is outside the pool.
+    assert any(s.word == "the" for s in fast.suggest(["of"], "th", 5))
