@@ -87,7 +87,7 @@ from .listings import LearnedWord, learned_words
 from .never_list import NeverList
 from .settings import AdaptSettings
 from .suggestable import Suggestable, derive
-from .top_k import GUARD, ContextFacts, PreparedContext, Row, exact_top, prepare
+from .top_k import ContextFacts, PreparedContext, Row, exact_top, prepare
 from .user_model import UserModel
 
 AdaptedSuggestion = Suggestion

@@ -105,8 +105,22 @@ def merge_for(base: LanguageModel, view: Suggestable, u: int, v: int) -> Any:
         # A suggestable follower the pool lacks (a hand-edited file can hold one): the Python
         # preparation merges it in, and the merge reads its P_user as they are (1.0 * (1.0 * p) is p).
         prepared = prepare(view, u, v)
-        own = Pool(*compiled, prepared.keys, prepared.ids, prepared.p_user, view.learned_key_array, view.blocked, bool(user.settings.learning),
-                   user.end_id, user.base_size, user.first_learned_id, user.display, Suggestion, view.shared.setdefault("base_forms", {}), {})
+        own = Pool(
+            *compiled,
+            prepared.keys,
+            prepared.ids,
+            prepared.p_user,
+            view.learned_key_array,
+            view.blocked,
+            bool(user.settings.learning),
+            user.end_id,
+            user.base_size,
+            user.first_learned_id,
+            user.display,
+            Suggestion,
+            view.shared.setdefault("base_forms", {}),
+            {},
+        )
         merge = context_merge(own, u, v, ub, vb, mu, 1.0, 1.0, None, None, uctx, user.order_of, user.unigram_weight_array())
     return merge
 

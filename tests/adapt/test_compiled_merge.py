@@ -147,10 +147,7 @@ def brute_top(model: AdaptedModel, context: list[str], prefix: str, k: int) -> l
     rows = sorted(
         (-p, user.form(i), i)
         for i, p in enumerate(probs.tolist())
-        if (
-            (i < user.base_size and i not in blocked)
-            or (i >= user.first_learned_id and user.settings.learning and user.is_ready(i) and not model.never.blocks(user.form(i)))
-        )
+        if ((i < user.base_size and i not in blocked) or (i >= user.first_learned_id and user.settings.learning and user.is_ready(i) and not model.never.blocks(user.form(i))))
         and user.form(i).startswith(model_form(prefix))
     )
     return [(i, -p) for p, _, i in rows[:k]]
