@@ -116,8 +116,14 @@ def learn_all(model: AdaptedModel, sentences: list[list[str]]) -> dict[str, floa
     return {"tokens": tokens, "us_per_token": elapsed / tokens / 1000.0}
 
 
-def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *, learning: bool, earlier: Any = None) -> dict[str, Any]:
+def type_and_time(
+    model: AdaptedModel, sentences: list[list[str]], words: int, *, learning: bool, earlier: Any = None, alternate: bool = False
+) -> dict[str, Any]:
     """Ask both sources what the typist would ask, back to back; time each query.
+
+    The combined model answers first and the base model right after it (so the
+    base model finds the context's part of its own arrays in cache); with
+    ``alternate`` the base model goes first on every other query.
 
     With ``earlier`` (the combined model of an earlier copy of the code, in the
     same state), every query is also put to it, alternating which of the two goes
@@ -152,15 +158,19 @@ def type_and_time(model: AdaptedModel, sentences: list[list[str]], words: int, *
                 old_first = earlier is not None and compared % 2 == 1
                 if old_first:
                     old_answer = timed(earlier, "earlier", u, v, prefix, letters)
-                c0, t0 = cpu(), clock()
-                answer = model.suggest_ids(u, v, prefix, K)
-                t1, c1 = clock(), cpu()
-                base.suggest_ids(ub, vb, prefix, K)
-                t2, c2 = clock(), cpu()
-                wall["adapted"][letters].append(t1 - t0)
-                cpus["adapted"][letters].append(c1 - c0)
-                wall["base"][letters].append(t2 - t1)
-                cpus["base"][letters].append(c2 - c1)
+                if alternate and typed % 2 == 1:
+                    timed(base, "base", ub, vb, prefix, letters)
+                    answer = timed(model, "adapted", u, v, prefix, letters)
+                else:
+                    c0, t0 = cpu(), clock()
+                    answer = model.suggest_ids(u, v, prefix, K)
+                    t1, c1 = clock(), cpu()
+                    base.suggest_ids(ub, vb, prefix, K)
+                    t2, c2 = clock(), cpu()
+                    wall["adapted"][letters].append(t1 - t0)
+                    cpus["adapted"][letters].append(c1 - c0)
+                    wall["base"][letters].append(t2 - t1)
+                    cpus["base"][letters].append(c2 - c1)
                 if earlier is not None:
                     if not old_first:
                         old_answer = timed(earlier, "earlier", u, v, prefix, letters)
@@ -291,6 +301,8 @@ def print_table(results: dict[str, Any]) -> None:
     machine = results["machine"]
     print(f"\nload average {machine['load_average_at_start']} -> {machine['load_average_at_end']} on {machine['cpus']} cores")
     print(f"{describe(machine['yardstick_at_start'])} at start; {describe(machine['yardstick_at_end'])} at end")
+    order = "the base model first on every other word" if results.get("base_first_on_every_other_word") else "the combined model first, the base model right after"
+    print(f"order of each query pair: {order}")
     for name, scenario in results["scenarios"].items():
         print(f"\n{name}: learned {scenario['learned']['tokens']:,} tokens at {scenario['learned']['us_per_token']:.0f} us/token; "
               f"user share {scenario['shares']}")
@@ -322,6 +334,7 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--words", type=int, default=None, help="words typed per run (default 3,000)")
     parser.add_argument("--tokens", type=int, default=5_000_000, help="synthetic base corpus tokens")
     parser.add_argument("--against", metavar="MODULE", help="an earlier copy of predictor/adapt (e.g. foretype._adapt_old) to compare with, side by side")
+    parser.add_argument("--alternate", action="store_true", help="the base model answers first on every other word (default: always second)")
     parser.add_argument("--python-walk", action="store_true", help="compare with the combined model on the Python walk (no compiled merge), side by side")
     args = parser.parse_args(argv)
     earlier_class = importlib.import_module(f"{args.against}.combined").AdaptedModel if args.against else None
@@ -334,6 +347,7 @@ def main(argv: list[str] | None = None) -> int:
         "machine": machine_facts(),
         "base": "synthetic: Zipf-distributed vocabulary of invented word forms with Markov structure, 5M tokens, 50,000 words (bench/corpus.py)",
         "scenarios": {},
+        "base_first_on_every_other_word": bool(args.alternate),
     }
     base = base_model(args.tokens)
     _, synthetic_heldout = bench_corpus.synthetic_corpus(args.tokens)
@@ -352,8 +366,8 @@ def main(argv: list[str] | None = None) -> int:
             if earlier_class is not None:
                 earlier = earlier_class(base)
                 learn_all(earlier, learn_part)
-            scenario["frozen"] = type_and_time(model, type_part, words, learning=False, earlier=earlier)
-            scenario["learning"] = type_and_time(model, type_part, words, learning=True, earlier=earlier)
+            scenario["frozen"] = type_and_time(model, type_part, words, learning=False, earlier=earlier, alternate=args.alternate)
+            scenario["learning"] = type_and_time(model, type_part, words, learning=True, earlier=earlier, alternate=args.alternate)
             scenario["learned_file"] = load_time(AdaptedModel(base), learn_part, Path(folder))
             results["scenarios"][name] = scenario
     if earlier_class is not None:
