@@ -23,8 +23,8 @@ keys only after a bounds check.
 
 from cpython.object cimport PyObject, PyTypeObject
 from libc.math cimport INFINITY, nextafter
-from libc.stdint cimport int64_t
-from libc.stdlib cimport free, malloc, qsort, realloc
+from libc.stdint cimport int64_t, uint64_t
+from libc.stdlib cimport calloc, free, malloc, qsort, realloc
 
 import numpy as np
 
@@ -183,29 +183,6 @@ cdef class Buffers:
         return 0
 
 
-cdef inline int64_t lower_bound_ptr(const int64_t* a, int64_t lo, int64_t hi, int64_t x) noexcept nogil:
-    """First position in [lo, hi) whose value is not below x (hi if none)."""
-    cdef int64_t mid
-    while lo < hi:
-        mid = lo + (hi - lo) // 2
-        if a[mid] < x:
-            lo = mid + 1
-        else:
-            hi = mid
-    return lo
-
-
-cdef struct Follower:
-    int64_t at  # its position in the pool
-    double pu  # its P_user after the context
-
-
-cdef int by_at(const void* x, const void* y) noexcept nogil:
-    cdef int64_t a = (<const Follower*>x).at
-    cdef int64_t b = (<const Follower*>y).at
-    return -1 if a < b else (1 if a > b else 0)
-
-
 cdef inline int64_t _reach(Buffers buf, int64_t n_rows, int64_t first_reach, int64_t w, int64_t key, double pu, double floor) except -1:
     """Add a pool word whose bound reaches the threshold to the rows (its floor beside it); returns the new row count."""
     cdef Cand* c
@@ -352,14 +329,17 @@ def context_merge(Pool pool, int64_t u, int64_t v, int64_t ub, int64_t vb, doubl
         merge.c_g2, merge.c_g3 = user_context.gamma2, user_context.gamma3
         if merge.weights2.shape[0] != merge.ids2.shape[0] or merge.weights3.shape[0] != merge.ids3.shape[0]:
             raise ValueError("follower ids and weights differ in length")
+    # Per pool position: whether the context has a follower there, its P_user, and per block of 32 the largest.
+    merge.f_bits = <uint64_t*>calloc((pool.n >> 6) + 1, sizeof(uint64_t))
+    merge.f_pu = <double*>malloc((pool.n + 1) * sizeof(double))
+    merge.f_max = <double*>calloc((pool.n >> BLOCK_SHIFT) + 1, sizeof(double))
+    if merge.f_bits == NULL or merge.f_pu == NULL or merge.f_max == NULL:
+        raise MemoryError()
     if follower_ids is not None and len(follower_ids):
         fids = follower_ids
         fprobs = follower_probs
         if fprobs.shape[0] != fids.shape[0]:
             raise ValueError("follower ids and probabilities differ in length")
-        merge.followers = <Follower*>malloc(fids.shape[0] * sizeof(Follower))
-        if merge.followers == NULL:
-            raise MemoryError()
         for i in range(fids.shape[0]):
             w = fids[i]
             at = pool.position(w)
@@ -367,18 +347,13 @@ def context_merge(Pool pool, int64_t u, int64_t v, int64_t ub, int64_t vb, doubl
                 if pool.could_suggest(w):
                     return None
                 continue
-            merge.followers[n].at = at
-            merge.followers[n].pu = fprobs[i]
+            if not fprobs[i] >= 0.0:  # also refuses NaN
+                raise ValueError("user probabilities must be non-negative numbers")
+            merge.f_bits[at >> 6] |= (<uint64_t>1) << (at & 63)
+            merge.f_pu[at] = fprobs[i]
+            if fprobs[i] > merge.f_max[at >> BLOCK_SHIFT]:
+                merge.f_max[at >> BLOCK_SHIFT] = fprobs[i]
             n += 1
-        for i in range(1, n):
-            if merge.followers[i].at < merge.followers[i - 1].at:
-                qsort(merge.followers, n, sizeof(Follower), by_at)
-                break
-        merge.f_at = <int64_t*>malloc((n if n > 0 else 1) * sizeof(int64_t))
-        if merge.f_at == NULL:
-            raise MemoryError()
-        for i in range(n):
-            merge.f_at[i] = merge.followers[i].at
     merge.nf = n
     return merge
 
@@ -407,8 +382,9 @@ cdef class ContextMerge:
     cdef const double[::1] w1
     cdef double total1, total2, total3, c_g2, c_g3
     cdef double m, g2, g3
-    cdef Follower* followers
-    cdef int64_t* f_at
+    cdef uint64_t* f_bits  # one bit per pool position: the context has a follower there
+    cdef double* f_pu  # the follower's P_user at those positions (unset elsewhere)
+    cdef double* f_max  # the largest follower P_user per block of 32 positions (0 if none)
     cdef int64_t nf
     cdef Buffers scratch
     cdef bint scratch_busy
@@ -417,8 +393,9 @@ cdef class ContextMerge:
     cdef int64_t user_version, never_version, guard
 
     def __cinit__(self):
-        self.followers = NULL
-        self.f_at = NULL
+        self.f_bits = NULL
+        self.f_pu = NULL
+        self.f_max = NULL
         self.nf = 0
         self.w1 = None
         self.scratch = Buffers()
@@ -427,14 +404,14 @@ cdef class ContextMerge:
         self.prefixes = None
 
     def __dealloc__(self):
-        free(self.followers)
-        free(self.f_at)
+        free(self.f_bits)
+        free(self.f_pu)
+        free(self.f_max)
 
     cdef inline double _pu(self, int64_t at) noexcept:
         """P_user of the pool word at a position."""
-        cdef int64_t j = lower_bound_ptr(self.f_at, 0, self.nf, at)
-        if j < self.nf and self.f_at[j] == at:
-            return self.followers[j].pu
+        if self.f_bits[at >> 6] & ((<uint64_t>1) << (at & 63)):
+            return self.f_pu[at]
         return self.g3 * (self.g2 * self.pool.values[at])
 
     cdef int _order(self, int64_t w) noexcept:
@@ -528,7 +505,7 @@ cdef class ContextMerge:
                     int64_t key_hi, int64_t k, int64_t guard):
         """The threshold walk of :meth:`suggest` with the given scratch space."""
         cdef double mu = self.mu, m = self.m, g2 = self.g2, g3 = self.g3, a_last, threshold, edge, pb, pu, floor, kth_score, z_bound
-        cdef int64_t lo, hi, a_depth, n_a, n_rows, n_reach, i, j, w, n_listed, first_reach, f, f_lo, f_hi, end
+        cdef int64_t lo, hi, a_depth, n_a, n_rows, n_reach, i, j, w, n_listed, first_reach, end
         cdef bint a_done
         cdef Cand* c
         cdef Pool pool = self.pool
@@ -576,34 +553,24 @@ cdef class ContextMerge:
             # The slice's words outside A whose bound m * a_last + mu * P_user reaches the threshold.
             edge = m * a_last
             first_reach = n_rows
-            # The context's followers in the slice, each with its own P_user ...
-            f_lo = lower_bound_ptr(self.f_at, 0, self.nf, lo)
-            f_hi = lower_bound_ptr(self.f_at, f_lo, self.nf, hi)
-            for f in range(f_lo, f_hi):
-                pu = self.followers[f].pu
-                floor = mu * pu
-                i = self.f_at[f]
-                if floor + edge >= threshold and not sorted_has(buf.listed, n_listed, ids[i]):
-                    n_rows = _reach(buf, n_rows, first_reach, ids[i], keys[i], pu, floor)
-            # ... and the others, g3 * (g2 * value): a block whose largest value cannot reach is skipped
-            # (each operation is monotone, so no word of it can).
-            f = f_lo
+            # A pool word's P_user is its follower value, else g3 * (g2 * value).  A block whose largest
+            # value and largest follower value cannot reach is skipped (each operation is monotone, so no
+            # word of it can).
             i = lo
             while i < hi:
                 end = min(((i >> BLOCK_SHIFT) + 1) << BLOCK_SHIFT, hi)
-                if mu * (g3 * (g2 * pool.block_max[i >> BLOCK_SHIFT])) + edge < threshold:
-                    while f < f_hi and self.f_at[f] < end:
-                        f += 1
+                if (mu * (g3 * (g2 * pool.block_max[i >> BLOCK_SHIFT])) + edge < threshold
+                        and mu * self.f_max[i >> BLOCK_SHIFT] + edge < threshold):
                     i = end
                     continue
                 while i < end:
-                    if f < f_hi and self.f_at[f] == i:
-                        f += 1
+                    if self.f_bits[i >> 6] & ((<uint64_t>1) << (i & 63)):
+                        pu = self.f_pu[i]
                     else:
                         pu = g3 * (g2 * values[i])
-                        floor = mu * pu
-                        if floor + edge >= threshold and not sorted_has(buf.listed, n_listed, ids[i]):
-                            n_rows = _reach(buf, n_rows, first_reach, ids[i], keys[i], pu, floor)
+                    floor = mu * pu
+                    if floor + edge >= threshold and not sorted_has(buf.listed, n_listed, ids[i]):
+                        n_rows = _reach(buf, n_rows, first_reach, ids[i], keys[i], pu, floor)
                     i += 1
             n_reach = n_rows - first_reach
             if n_reach > FEW_REACHING and n_reach >= k:
