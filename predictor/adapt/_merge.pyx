@@ -214,7 +214,7 @@ cdef class Pool:
         display: maps an id to its display form.
         made: the suggestion type (a named tuple of word, prob, order, id, learned, new_word).
         base_forms: display forms of base words already asked for (shared by every snapshot).
-        forms: display forms of learned words already asked for (this snapshot's).
+        forms: display forms of learned words the user model has worked out (``UserModel.shown_forms``; only read).
         where: the pool position of each id (int64, -1: not pooled), or None to find ids by sort key.
     """
 
@@ -665,10 +665,14 @@ cdef class ContextMerge:
                         order = user_orders[w] = int(self.order_of(w, self.user))
             else:
                 order = 1
-            forms = pool.base_forms if w < pool.first_new else pool.forms
-            form = forms.get(w)
-            if form is None:
-                form = forms[w] = pool.display(w)
+            if w < pool.first_new:
+                form = pool.base_forms.get(w)
+                if form is None:
+                    form = pool.base_forms[w] = pool.display(w)
+            else:
+                form = pool.forms.get(w)  # the user model's own memo: read here, filled by display
+                if form is None:
+                    form = pool.display(w)
             fields = ((form, rows[i].score, order, w, own, w >= pool.first_new),)
             out.append(base.tp_new(made, <PyObject*>fields, NULL))
         return out

@@ -65,7 +65,7 @@ def _pool_of(view: Suggestable, compiled: tuple[Any, Any], total1: float) -> Any
             user.display,
             Suggestion,
             view.shared.setdefault("base_forms", {}),
-            {},
+            user.shown_forms(),
             view.pool_where,
         )
     return found
@@ -119,7 +119,7 @@ def merge_for(base: LanguageModel, view: Suggestable, u: int, v: int) -> Any:
             user.display,
             Suggestion,
             view.shared.setdefault("base_forms", {}),
-            {},
+            user.shown_forms(),
         )
         merge = context_merge(own, u, v, ub, vb, mu, 1.0, 1.0, None, None, uctx, user.order_of, user.unigram_weight_array())
     return merge

@@ -211,6 +211,10 @@ class UserModel:
         shown = self._shown[word_id] = max(votes.items(), key=lambda item: item[1])[0]
         return shown
 
+    def shown_forms(self) -> dict[int, str]:
+        """The display forms of learned words :meth:`display` has worked out and that still hold, by id; do not modify."""
+        return self._shown
+
     # ------------------------------------------------------------- learning
     def learn(
         self,

@@ -159,7 +159,7 @@ def restore(user: UserModel, state: dict[str, Any]) -> None:
             raise ValueError(f"{name} columns differ in length")
         _restore_table(table, order, heads, tail, counts, uses, seen)
     user._votes = {}
-    user._shown = {}
+    user._shown.clear()
     for form, votes in dict(state.get("votes", {})).items():
         word_id = user._learned.get(model_form(str(form)))
         if word_id is not None and isinstance(votes, dict):
