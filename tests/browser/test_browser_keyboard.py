@@ -378,3 +378,17 @@ def test_the_page_works_on_a_service_that_requires_its_token(browser, tmp_path: 
         assert [json.loads(line)["kind"] for line in log_path.read_text(encoding="utf-8").splitlines()][-1] in ("key", "list")
     finally:
         stop(guarded)
+
+
+def test_a_space_right_after_a_taken_word_is_absorbed_as_in_the_pad(browser, server: Server) -> None:
+    # The typing pad and the simulated typist absorb it (tests/tui/test_pad_typing.py); the page must count alike.
+    context, page, errors = open_page(browser, server)
+    page.click("#start-study")
+    settle(page)
+    step(page, lambda: page.click("#rail .suggestion:has-text('See')"))
+    state = step(page, lambda: page.keyboard.press("Space"))
+    assert state["text"] == "See " and tally(page) == ("3", "1", "66.7%", "1")
+    state = step(page, lambda: page.click('.key[data-key=" "]'))  # a second space is typed as usual
+    assert state["text"] == "See  " and tally(page) == ("3", "2", "33.3%", "1")
+    context.close()
+    assert errors == []

@@ -130,6 +130,12 @@
   }
 
   function typeChar(char) {
+    if (char === " " && state.autoSpace && state.text.endsWith(" ")) {
+      // A space right after a taken word is absorbed, as in the typing pad and the simulated typist:
+      // the word already ends in its space, so nothing changes and no keystroke is counted.
+      state.autoSpace = false;
+      return;
+    }
     if (state.shift) { char = char.toUpperCase(); setShift(false); }
     if (state.autoSpace && ATTACHING.has(char) && state.text.endsWith(" ")) {
       state.text = state.text.slice(0, -1) + char;
