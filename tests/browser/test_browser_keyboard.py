@@ -392,3 +392,20 @@ def test_a_space_right_after_a_taken_word_is_absorbed_as_in_the_pad(browser, ser
     assert state["text"] == "See  " and tally(page) == ("3", "2", "33.3%", "1")
     context.close()
     assert errors == []
+
+
+def test_words_typed_past_are_left_out_within_the_word_and_come_back_after_backspace(browser, server: Server) -> None:
+    # The pad's and the simulated typist's default (tests/query/test_passed_over.py): a word shown and passed
+    # over by typing the next letter is not offered again within that word.
+    context, page, errors = open_page(browser, server)
+    page.click("#start-study")
+    start = settle(page)["suggestions"]
+    assert "See" in start
+    after_s = step(page, lambda: page.keyboard.press("s"))["suggestions"]
+    assert after_s and not set(start) & set(after_s)
+    after_se = step(page, lambda: page.keyboard.press("e"))["suggestions"]
+    assert not (set(start) | set(after_s)) & set(after_se)
+    again = step(page, lambda: page.keyboard.press("Backspace"))["suggestions"]
+    assert "See" in again  # a backspace starts the word afresh: the plain top k for "s"
+    context.close()
+    assert errors == []
