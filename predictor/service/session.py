@@ -216,7 +216,9 @@ class Session:
     async def suggest(self, request: dict[str, Any]) -> dict[str, Any]:
         """Answer one suggest message (see :meth:`ServiceState.answer` for where it runs)."""
         options = self.options
-        return await self.state.answer(answers.suggest, options.served, options.profile, text=request.get("text", ""), k=request.get("k", options.k), leave_out=request.get("leave_out"))
+        return await self.state.answer(
+            answers.suggest, options.served, options.profile, text=request.get("text", ""), k=request.get("k", options.k), leave_out=request.get("leave_out")
+        )
 
     def learn(self, request: dict[str, Any]) -> dict[str, Any]:
         """Apply one learn message (in a worker thread)."""
