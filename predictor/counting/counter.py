@@ -40,7 +40,12 @@ from .memory import MemoryBudget
 from .scratch import SpillFolder
 from .spill import KeyCounter, Run, sum_duplicates
 from .tables import MAX_RAW_TYPES, RAW_END, RAW_START, SpilledTrigrams, TrigramTable, pack_trigrams
-from .tokenisers import TokenisedPart
+from .tokenisers import TokenisedPart, pure_requested
+
+try:
+    from ._sentences import count_sentences as compiled_count_sentences
+except ImportError:  # not built: the numpy path of CorpusCounter._count_sentences answers
+    compiled_count_sentences = None
 
 HELDOUT_EVERY = 20
 """Every HELDOUT_EVERY-th sentence (the last of each run) also goes to the held-out table."""
@@ -322,6 +327,23 @@ class CorpusCounter:
 
     def _count_sentences(self, fids: np.ndarray, tids: np.ndarray) -> None:
         """Count complete sentences: the arrays end with a sentence-end token."""
+        if compiled_count_sentences is not None and not pure_requested():
+            keys, held_keys, words, ended = compiled_count_sentences(
+                np.ascontiguousarray(fids, dtype=np.int32),
+                np.ascontiguousarray(tids, dtype=np.int32),
+                self._initial,
+                self._noninitial,
+                self._type_counts,
+                self.sentences,
+                HELDOUT_EVERY,
+            )
+            self.corpus_tokens += words
+            self.sentences += ended
+            if len(held_keys):
+                self._heldout.add(*sum_duplicates(held_keys))
+            if len(keys):
+                self._table.add(*sum_duplicates(keys))
+            return
         is_end = tids == RAW_END
         after_end = np.empty_like(is_end)
         after_end[0] = True

@@ -121,9 +121,14 @@ def tokenise_part(text: str, wrapped: bool) -> TokenisedPart:
     return TokenisedPart(os.getpid(), first, new, positions)
 
 
+def pure_requested() -> bool:
+    """Whether ``FORETYPE_PURE`` asks for the Python and numpy path instead of the compiled steps of the build."""
+    return os.environ.get(PURE_ENV, "").strip() not in ("", "0")
+
+
 def compiled_tokeniser() -> bool:
     """Whether the compiled tokeniser is built and ``FORETYPE_PURE`` does not turn it off."""
-    return number_tokens is not None and os.environ.get(PURE_ENV, "").strip() in ("", "0")
+    return number_tokens is not None and not pure_requested()
 
 
 @contextmanager
