@@ -21,6 +21,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import OutputError
+from . import compiled
 from .scratch import SpillFolder
 
 ROW_BYTES = 16
@@ -103,6 +104,8 @@ def merge_tables(keys_a: np.ndarray, counts_a: np.ndarray, keys_b: np.ndarray, c
         return keys_b, counts_b
     if len(keys_b) == 0:
         return keys_a, counts_a
+    if compiled.compiled_trigrams():
+        return compiled.merge_counts(keys_a, counts_a, keys_b, counts_b)
     position = np.searchsorted(keys_a, keys_b)
     found = np.zeros(len(keys_b), dtype=bool)
     inside = position < len(keys_a)
@@ -260,6 +263,13 @@ def _next_block(reader: Iterator[tuple[np.ndarray, np.ndarray]], left: list[int]
     return block
 
 
+def _merge_in_pairs(tables: list[tuple[np.ndarray, np.ndarray]]) -> tuple[np.ndarray, np.ndarray]:
+    """Merge tables two at a time, in rounds (each row is copied about log2(len(tables)) times)."""
+    while len(tables) > 1:
+        tables = [merge_tables(*tables[i], *tables[i + 1]) if i + 1 < len(tables) else tables[i] for i in range(0, len(tables), 2)]
+    return tables[0]
+
+
 class KeyCounter:
     """Sums counts of int64 keys in bounded memory, spilling sorted runs to disk when full."""
 
@@ -301,6 +311,8 @@ class KeyCounter:
             return
         if len(self._pending) == 1:
             batch = self._pending[0]
+        elif compiled.compiled_trigrams():
+            batch = _merge_in_pairs(self._pending)
         else:
             batch = sum_duplicates(np.concatenate([k for k, _ in self._pending]), np.concatenate([c for _, c in self._pending]))
         self._pending = []

@@ -26,14 +26,14 @@ from typing import Any, NamedTuple
 import numpy as np
 
 from ..text import prepare, tokens
+from .compiled import PURE_ENV, pure_requested
 
 try:
     from ._tokenise import number_tokens
 except ImportError:  # not built: no compiler at install time; the regular expression and the dictionary answer
     number_tokens = None
 
-PURE_ENV = "FORETYPE_PURE"
-"""Set to 1 to tokenise with the regular expression and the dictionary, as without the compiled tokeniser."""
+__all__ = ["PURE_ENV", "TokenisedPart", "compiled_tokeniser", "number_tokens", "tokenise_part", "tokeniser_pool"]
 
 WORKER_FORM_BYTES = 64 << 20
 """A worker's dictionary of written forms starts afresh once it holds more than this (64 MiB)."""
@@ -119,11 +119,6 @@ def tokenise_part(text: str, wrapped: bool) -> TokenisedPart:
     new, numbers.fresh = numbers.fresh, []
     numbers.bytes += sum(map(sys.getsizeof, new)) + FORM_BYTES * len(new)
     return TokenisedPart(os.getpid(), first, new, positions)
-
-
-def pure_requested() -> bool:
-    """Whether ``FORETYPE_PURE`` asks for the Python and numpy path instead of the compiled steps of the build."""
-    return os.environ.get(PURE_ENV, "").strip() not in ("", "0")
 
 
 def compiled_tokeniser() -> bool:

@@ -1,5 +1,7 @@
 # cython: language_level=3, boundscheck=False, wraparound=False, cdivision=True, initializedcheck=False, nonecheck=False
-"""Counting complete sentences in one compiled pass: what ``CorpusCounter._count_sentences`` does with numpy.
+"""Compiled steps of trigram counting: the keys of complete sentences, and merging sorted tables.
+
+``count_sentences`` does what ``CorpusCounter._count_sentences`` does with numpy.
 
 The reference is the numpy path of
 :meth:`foretype.counting.counter.CorpusCounter._count_sentences`: empty
@@ -79,3 +81,45 @@ def count_sentences(
         if after_end:
             held = (sentence % held_every) == held_every - 1
     return keys_array[:count], held_array[:held_count].copy(), words, sentence - first_sentence
+
+
+def merge_counts(const int64_t[::1] keys_a, const int64_t[::1] counts_a, const int64_t[::1] keys_b, const int64_t[::1] counts_b):
+    """Merge two tables of sorted unique keys with counts in one linear pass, summing shared keys.
+
+    Returns:
+        (keys, counts): int64 arrays, sorted and unique.
+    """
+    cdef Py_ssize_t na = keys_a.shape[0], nb = keys_b.shape[0], i = 0, j = 0, k = 0
+    keys_array = np.empty(na + nb, dtype=np.int64)
+    counts_array = np.empty(na + nb, dtype=np.int64)
+    cdef int64_t[::1] keys = keys_array
+    cdef int64_t[::1] counts = counts_array
+    with nogil:
+        while i < na and j < nb:
+            if keys_a[i] < keys_b[j]:
+                keys[k] = keys_a[i]
+                counts[k] = counts_a[i]
+                i += 1
+            elif keys_b[j] < keys_a[i]:
+                keys[k] = keys_b[j]
+                counts[k] = counts_b[j]
+                j += 1
+            else:
+                keys[k] = keys_a[i]
+                counts[k] = counts_a[i] + counts_b[j]
+                i += 1
+                j += 1
+            k += 1
+        while i < na:
+            keys[k] = keys_a[i]
+            counts[k] = counts_a[i]
+            i += 1
+            k += 1
+        while j < nb:
+            keys[k] = keys_b[j]
+            counts[k] = counts_b[j]
+            j += 1
+            k += 1
+    if k == na + nb:
+        return keys_array, counts_array
+    return keys_array[:k].copy(), counts_array[:k].copy()
