@@ -62,7 +62,7 @@ def _discounted(counts: np.ndarray, offsets: np.ndarray, discounts: tuple[float,
     totals = context_totals(counts.astype(np.float64), offsets)
     group = np.repeat(np.arange(len(offsets) - 1), np.diff(offsets))
     values = (counts - subtract) / totals[group]
-    ones, twos, more = context_count_of_counts(counts, offsets)
+    ones, twos, more = context_count_of_counts(counts, offsets, group)
     with np.errstate(invalid="ignore", divide="ignore"):
         gamma = np.where(totals > 0, (d1 * ones + d2 * twos + d3 * more) / totals, 1.0)
     return values, gamma
