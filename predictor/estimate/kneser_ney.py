@@ -17,7 +17,7 @@ from .layout import ModelCounts, context_count_of_counts, context_totals
 from .result import Estimate
 
 try:
-    from ._discount import discounted as compiled_discounted
+    from ._estimate import discounted as compiled_discounted
 except ImportError:  # not built: the numpy path of _discounted answers
     compiled_discounted = None
 

@@ -15,6 +15,12 @@ import numpy as np
 
 from ..arrays import group_starts, stable_argsort
 from ..counting import RAW_END, RAW_START, CorpusCounts, TrigramTable
+from ..counting.compiled import pure_requested
+
+try:
+    from . import _estimate as compiled_layout
+except ImportError:  # not built: the numpy path of Layout.of answers
+    compiled_layout = None
 
 
 @dataclass
@@ -117,21 +123,28 @@ class Layout:
         order, sorted_tail = stable_argsort(tail, max(1, (base * base - 1).bit_length()))
         rows = len(tail)
         del tail
-        starts = group_starts(sorted_tail)
-        trigram_bigram = np.empty(rows, dtype=np.int64)
-        if rows:
-            group = np.zeros(rows, dtype=np.int64)
-            group[starts[1:]] = 1
-            trigram_bigram[order] = np.cumsum(group)
-        bn = np.add.reduceat(table.n[order], starts) if len(starts) else np.zeros(0, dtype=np.int64)
-        unique_tail = sorted_tail[starts]
+        fast = compiled_layout is not None and not pure_requested()
+        if fast:
+            trigram_bigram, bn, unique_tail = compiled_layout.tail_groups(order, sorted_tail, np.ascontiguousarray(table.n, dtype=np.int64))
+        else:
+            starts = group_starts(sorted_tail)
+            trigram_bigram = np.empty(rows, dtype=np.int64)
+            if rows:
+                group = np.zeros(rows, dtype=np.int64)
+                group[starts[1:]] = 1
+                trigram_bigram[order] = np.cumsum(group)
+            bn = np.add.reduceat(table.n[order], starts) if len(starts) else np.zeros(0, dtype=np.int64)
+            unique_tail = sorted_tail[starts]
         bv = (unique_tail // base).astype(np.int32)
         bw = (unique_tail % base).astype(np.int32)
         bigram_off = _offsets_of_sorted(bv, base)
         # Rows are sorted by (u, v): look each context pair up once.
         pair_key = table.u.astype(np.int64) * base + table.v
         pair_starts = group_starts(pair_key)
-        pair_ctx = np.searchsorted(unique_tail, pair_key[pair_starts]).astype(np.int64)
+        if fast:
+            pair_ctx = compiled_layout.sorted_positions(unique_tail, pair_key[pair_starts])
+        else:
+            pair_ctx = np.searchsorted(unique_tail, pair_key[pair_starts]).astype(np.int64)
         pair_ctx[pair_key[pair_starts] == start * base + start] = len(bw)
         ctx = np.zeros(len(pair_key), dtype=np.int64)
         if len(pair_ctx):

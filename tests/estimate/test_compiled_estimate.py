@@ -1,4 +1,4 @@
-"""The compiled discounting pass gives bit for bit what the numpy path gives, and what the formula gives.
+"""The compiled steps of estimation give bit for bit what the numpy path gives, and what the formulas give.
 
 Reference: interpolated modified Kneser-Ney (Chen & Goodman 1998, TR-10-98,
 REFERENCES): each count c loses D(c) (D1, D2 or D3+ by whether c is 1, 2 or
@@ -43,3 +43,37 @@ def test_compiled_discounting_equals_the_numpy_path_and_the_formula(groups, disc
         assert values[offsets[g] : offsets[g + 1]].tolist() == pytest.approx(expected, rel=1e-12)
         weight = (d1 * group.count(1) + d2 * group.count(2) + d3 * sum(c >= 3 for c in group)) / total if total else 1.0
         assert gamma[g] == pytest.approx(weight, rel=1e-12)
+
+
+ROWS = st.lists(st.tuples(st.integers(0, 6), st.integers(0, 6), st.integers(0, 6), st.integers(1, 50)), max_size=60)
+
+
+@settings(max_examples=150, deadline=None)
+@given(ROWS)
+def test_the_layout_is_the_same_on_both_paths_and_matches_a_direct_grouping(rows) -> None:
+    # Reference: the bigram entries are the distinct (v, w) tails with their summed counts (a dict in plain Python),
+    # and the numpy path of Layout.of, field by field.
+    from foretype.counting import TrigramTable
+    from foretype.estimate.layout import Layout
+
+    table_rows: dict[tuple[int, int, int], int] = {}
+    for u, v, w, n in rows:
+        table_rows[(u, v, w)] = table_rows.get((u, v, w), 0) + n
+    keys = sorted(table_rows)
+    columns = [np.array([k[i] for k in keys], dtype=np.int32) for i in range(3)]
+    table = TrigramTable(*columns, np.array([table_rows[k] for k in keys], dtype=np.int64))
+    layouts = {}
+    for pure in ("0", "1"):
+        with pytest.MonkeyPatch.context() as patch:
+            patch.setenv(PURE_ENV, pure)
+            layouts[pure] = Layout.of(table, 4)  # ids 0..6: V = 4 words, UNKNOWN, END, START
+    for name in ("bigram_v", "bigram_w", "bigram_n", "bigram_off", "trigram_ctx", "trigram_off", "trigram_bigram"):
+        assert np.array_equal(getattr(layouts["0"], name), getattr(layouts["1"], name)), name
+    tails: dict[tuple[int, int], int] = {}
+    for (u, v, w), n in table_rows.items():
+        tails[(v, w)] = tails.get((v, w), 0) + n
+    layout = layouts["0"]
+    assert list(zip(layout.bigram_v.tolist(), layout.bigram_w.tolist())) == sorted(tails)
+    assert layout.bigram_n.tolist() == [tails[t] for t in sorted(tails)]
+    entries = sorted(tails)
+    assert [entries[i] for i in layout.trigram_bigram.tolist()] == [(v, w) for _, v, w in keys]
