@@ -111,11 +111,16 @@ CHILD = """
 import sys
 sys.modules["foretype.counting._tokenise"] = None  # blocked: as if the install had found no compiler
 sys.modules["foretype.query._prefixes"] = None
+sys.modules["foretype.counting._trigrams"] = None
+sys.modules["foretype.estimate._estimate"] = None
 from foretype import counting
-from foretype.counting import tokenisers
+from foretype.counting import compiled, tokenisers
+from foretype.estimate import kneser_ney, layout
 from foretype.query import vocabulary
 assert tokenisers.number_tokens is None and not tokenisers.compiled_tokeniser()
 assert vocabulary._compiled_prefix_ranges is None
+assert compiled.count_sentences is None and not compiled.compiled_trigrams()
+assert kneser_ney.compiled_discounted is None and layout.compiled_layout is None
 counting.run.PARALLEL_MIN_BYTES = counting.run.PARALLEL_MIN_BUDGET = 0
 import foretype
 model = foretype.build_from_counts(counting.count_corpus([sys.argv[1]]))
@@ -124,7 +129,7 @@ print(repr((model.vocabulary, [tuple(s) for s in model.suggest(["the"], "", 5)],
 
 
 def test_build_without_the_compiled_steps_gives_the_same_model(tmp_path, monkeypatch) -> None:
-    # Reference: the same build in this process, with the compiled tokeniser and prefix walk.
+    # Reference: the same build in this process, with the compiled tokeniser, trigram steps, estimation steps and prefix walk.
 
     lines = [f"Crossing {i % 97} leaves at 7:{i % 60:02d}, don’t be late! Wörd{i % 313} and the café-{i % 7}." for i in range(2000)]
     corpus = tmp_path / "corpus.txt"
