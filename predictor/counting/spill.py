@@ -73,14 +73,15 @@ def _sum_packed(keys: np.ndarray, counts: np.ndarray, spare: int) -> tuple[np.nd
     below its key (a value sort is several times faster than an argsort); larger counts
     are summed apart and merged in."""
     small = (counts >= 0) & (counts < (1 << spare))
-    packed = keys[small] << spare
-    packed |= counts[small]
+    every = bool(small.all())
+    packed = (keys if every else keys[small]) << spare
+    packed |= counts if every else counts[small]
     packed.sort()
     sorted_keys = packed >> spare
     starts = _group_starts(sorted_keys) if len(packed) else _EMPTY
     summed = np.add.reduceat(packed & ((1 << spare) - 1), starts) if len(packed) else _EMPTY
     table = sorted_keys[starts], summed
-    if small.all():
+    if every:
         return table
     return merge_tables(*table, *sum_duplicates(keys[~small], counts[~small]))
 
