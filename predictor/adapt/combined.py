@@ -90,6 +90,9 @@ from .suggestable import Suggestable, derive
 from .top_k import ContextFacts, PreparedContext, Row, exact_top, prepare
 from .user_model import UserModel
 
+_RECENT_CONTEXTS = 16
+"""How many contexts' compiled merges a snapshot keeps (each holds a bit and a float per pool word)."""
+
 AdaptedSuggestion = Suggestion
 """The combined model's suggestions are the engine's one :class:`~foretype.query.model.Suggestion` type,
 with ``learned`` (the user model supplied more of the probability than the base model; its order is then
@@ -220,16 +223,26 @@ class AdaptedModel:
     def _current(self, u: int, v: int) -> tuple[Suggestable, ContextFacts]:
         """The snapshot for the current versions of the user model and the never-suggest list, and the
         per-context data for (u, v) under it (the last context asked about is kept in the snapshot's memo):
-        the compiled merge of the context where it answers, else a :class:`~foretype.adapt.top_k.PreparedContext`."""
+        the compiled merge of the context where it answers, else a :class:`~foretype.adapt.top_k.PreparedContext`.
+
+        The compiled merges of the last few contexts are kept too (a context such as a sentence start
+        comes back often, and its many followers cost the same each time)."""
         view = self._view
         user = self.user
         if view is None or view.user is not user or view.version != (user.version, self.never.version):
             view = self._view = derive(view, user, self.never, self.base.vocab)
         prepared = view.memo.get("context")
         if prepared is None or prepared.u != u or prepared.v != v:
-            prepared = merge_for(self.base, view, u, v) if self._merge_on else None
+            recent = view.memo.setdefault("recent", {})
+            prepared = recent.pop((u, v), None)
+            if prepared is None and self._merge_on:
+                prepared = merge_for(self.base, view, u, v)
             if prepared is None:
                 prepared = prepare(view, u, v)
+            elif not isinstance(prepared, PreparedContext):
+                recent[(u, v)] = prepared  # the most recent last
+                if len(recent) > _RECENT_CONTEXTS:
+                    del recent[next(iter(recent))]
             view.memo["context"] = prepared
         return view, prepared
 
