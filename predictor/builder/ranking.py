@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..arrays import offsets_dtype
+from ..arrays import offsets_dtype, word_id_dtype
 from ..query.model import LanguageModel
 from ..query.ranked import RANKED_MIN
 from ..query.scoring import ScoringCore, Slots
@@ -23,12 +23,11 @@ def rank_sections(model: LanguageModel, minimum: int = RANKED_MIN) -> dict[str, 
     """
     core = ScoringCore(model.arrays, model.meta, model.vocab_size)
     size = model.vocab_size
-    word_dtype = model.arrays.l2_word.dtype
+    word_dtype = word_id_dtype(size)
     off2 = model.arrays.l2_off.astype(np.int64)
-    w2 = model.arrays.l2_word
+    w2 = model.arrays.bigram_words()
     off3 = model.arrays.level3_offsets()
-    w3 = model.arrays.l3_word
-    g3 = model.arrays.l3_gamma
+    w3 = model.arrays.trigram_words()
     contexts = len(off2) - 1
     lists2: list[np.ndarray] = []
     lengths2 = np.zeros(contexts, dtype=np.int64)
@@ -50,7 +49,7 @@ def rank_sections(model: LanguageModel, minimum: int = RANKED_MIN) -> dict[str, 
         ids = w3[lo3:hi3].astype(np.int64)
         ids = ids[ids < size]
         slots = Slots(last, int(off2[last]), int(off2[last + 1]), int(slot), lo3, hi3, True)
-        p3, _, _ = core.scores(ids, slots, float(g3[slot]))
+        p3, _, _ = core.scores(ids, slots, core.gamma3(slots))
         lists3.append(ids[np.lexsort((ids, -p3))])
     rank3_off = np.zeros(len(slots3) + 1, dtype=np.int64)
     np.cumsum([len(x) for x in lists3], out=rank3_off[1:])

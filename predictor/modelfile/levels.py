@@ -14,6 +14,7 @@ from ..arrays import offsets_dtype, word_id_dtype
 from ..errors import OptionError
 from ..estimate import Estimate, Layout, ModelCounts, context_totals, estimate
 from .encoding import ENCODINGS, FLOAT32, LOG16, decode, encode
+from .weights import settle_weights
 
 __all__ = ["fit_levels", "lay_out_levels"]
 
@@ -64,6 +65,20 @@ def lay_out_levels(result: Estimate, counts: ModelCounts, method: str, encoding:
     slot_v = np.concatenate((layout.bigram_w, [counts.vocab_size + 2]))
     totals2 = _level2_totals(result.interpolated, decode(a2), g2, p1_stored, layout)
     g3 = _lower_weights(result, decode(a3), lower3, layout.trigram_off, result.g3, totals2[slot_v])
+    # Most pairs' weights are derived from the stored values when queried: the model holds those exactly.
+    g3 = settle_weights(
+        g3,
+        totals2[slot_v],
+        interpolated=result.interpolated,
+        p1=p1_stored,
+        off2=layout.bigram_off.astype(np.int64),
+        w2=layout.bigram_w,
+        a2=decode(a2),
+        g2=g2,
+        off3=layout.trigram_off.astype(np.int64),
+        w3=counts.table.w,
+        a3=decode(a3),
+    )
     sections = {
         "p1": p1,
         "l2.off": layout.bigram_off.astype(offsets_dtype(layout.n2)),
@@ -73,7 +88,7 @@ def lay_out_levels(result: Estimate, counts: ModelCounts, method: str, encoding:
         "l3.off": layout.trigram_off.astype(offsets_dtype(len(counts.table))),
         "l3.word": counts.table.w.astype(word_id_dtype(counts.vocab_size)),
         "l3.value": a3,
-        "l3.gamma": g3.astype(np.float32),
+        "l3.gamma": g3,
     }
     meta = {
         "method": method,

@@ -32,9 +32,12 @@ from numpy.typing import NDArray
 
 from ..errors import ModelFileError
 from .blocked import BlockedOffsets, blocks_for, from_blocks, to_blocks
+from .encoding import value_table
+from .packed import PACKED_LIMIT, id_count, pack_ids, unpack_ids
+from .weights import DERIVED_MAX, derived_weights
 
-WordIds = NDArray[np.uint16 | np.int32]
-"""Word ids: uint16 while the V + 3 ids fit, else int32."""
+WordIds = NDArray[np.uint16 | np.int32 | np.uint8]
+"""Word ids: uint16 while the V + 3 ids fit, else int32, or three bytes per id (uint8; :mod:`foretype.modelfile.packed`, format 4 on)."""
 Offsets = NDArray[np.uint32 | np.uint64]
 """Where each context's (or string's, or list's) entries start, with one end entry."""
 Floats = NDArray[np.float32 | np.float64]
@@ -57,6 +60,10 @@ PLAIN3 = "plain level-3 offsets"
 BLOCKED3 = "blocked level-3 offsets"
 """The two layouts of level 3's offsets (a model has exactly one): ``l3.off`` in full, or in blocks
 (:mod:`foretype.modelfile.blocked`, format version 3 on)."""
+STORED_WEIGHTS = "stored level-3 weights"
+DERIVED_WEIGHTS = "derived level-3 weights"
+"""The two layouts of level 3's weights (a model has exactly one): ``l3.gamma`` for every pair, or only where
+they are not derived from the stored values (:mod:`foretype.modelfile.weights`, format version 4 on)."""
 
 
 class Counts(NamedTuple):
@@ -70,6 +77,7 @@ class Counts(NamedTuple):
         ranked3: context pairs with a ranked list (length of ``rank3.slot``).
         listed: keys of the compact prefix index whose range has a stored list (span 0).
         displayed: words with a stored display form (V unless ``vocab.display_ids`` says fewer).
+        weights: pairs with a stored level-3 weight (length of ``l3.weight_slot``).
     """
 
     words: int
@@ -79,6 +87,7 @@ class Counts(NamedTuple):
     ranked3: int
     listed: int = 0
     displayed: int = 0
+    weights: int = 0
 
 
 Length = Callable[[Counts], int]
@@ -115,8 +124,6 @@ class ModelArrays:
     """The word of each trigram entry, sorted within a context pair."""
     l3_value: Values = _section("l3.value", lambda n: n.n3)
     """The stored value of each trigram entry."""
-    l3_gamma: Floats = _section("l3.gamma", lambda n: n.n2 + 1)
-    """The lower-order weight of each context pair."""
     vocab_trie: Bytes = _section("vocab.trie")
     """The marisa-trie image holding every prefix of every word."""
     vocab_order: WordIds = _section("vocab.order")
@@ -152,6 +159,12 @@ class ModelArrays:
     """Level-3 offsets in blocks: each entry's step from its block's base."""
     l3_off_wide: NDArray[np.uint32] | None = _optional("l3.off_wide", BLOCKED3)
     """Level-3 offsets in blocks: the full offsets of the blocks that span more than 8 bits."""
+    l3_gamma: Floats | None = _optional("l3.gamma", STORED_WEIGHTS, lambda n: n.n2 + 1)
+    """The lower-order weight of each context pair (or the next two fields; :meth:`level3_weights` reads either)."""
+    l3_weight_slot: NDArray[np.uint32] | None = _optional("l3.weight_slot", DERIVED_WEIGHTS)
+    """The pairs (bigram entries, n2 for ``START START``) whose weight is stored, increasing; the others are derived."""
+    l3_weight_value: Floats | None = _optional("l3.weight_value", DERIVED_WEIGHTS, lambda n: n.weights)
+    """The stored weights of those pairs."""
     l2_codebook: NDArray[np.float64] | None = _optional("l2.codebook", CODEBOOKS, lambda n: 256)
     """The 256 levels of 8-bit bigram values."""
     l3_codebook: NDArray[np.float64] | None = _optional("l3.codebook", CODEBOOKS, lambda n: 256)
@@ -167,8 +180,9 @@ class ModelArrays:
     @property
     def key_count(self) -> int:
         """How many keys the prefix index has."""
-        keys = self.vocab_key_lo if self.vocab_key_lo is not None else self.vocab_key_first
-        return len(keys) if keys is not None else 0
+        if self.vocab_key_lo is not None:
+            return len(self.vocab_key_lo)
+        return id_count(self.vocab_key_first) if self.vocab_key_first is not None else 0
 
     def prefix_index(self) -> PrefixIndex:
         """The prefix index in full, per trie key, whichever layout stores it (for checks and tools)."""
@@ -180,7 +194,7 @@ class ModelArrays:
             return PrefixIndex(np.where(lo >= 0, lo, -lo - 1), self.vocab_key_hi.astype(np.int64), np.where(listed, order, 0).astype(np.int64), listed, lo >= 0)
         assert self.vocab_key_first is not None and self.vocab_key_span is not None
         assert self.vocab_listed_span is not None and self.vocab_listed_order is not None
-        first = self.vocab_key_first.astype(np.int64)
+        first = unpack_ids(self.vocab_key_first).astype(np.int64)
         span = self.vocab_key_span.astype(np.int64)
         listed = span == 0
         starts = np.zeros(len(span), dtype=np.int64)
@@ -202,15 +216,98 @@ class ModelArrays:
         assert self.l3_off_base is not None and self.l3_off_delta is not None and self.l3_off_wide is not None
         return BlockedOffsets(self.l3_off_base, self.l3_off_delta, self.l3_off_wide)
 
-    def compact(self) -> ModelArrays:
-        """The same model in the current file layout: level-3 offsets in blocks where they fit."""
-        if self.l3_off is None:
+    @property
+    def n2(self) -> int:
+        """How many bigram entries the model stores."""
+        return id_count(self.l2_word)
+
+    @property
+    def n3(self) -> int:
+        """How many trigram entries the model stores."""
+        return id_count(self.l3_word)
+
+    def bigram_words(self) -> np.ndarray:
+        """``l2_word`` as an integer array, whatever its width (packed ids decoded)."""
+        return unpack_ids(self.l2_word)
+
+    def trigram_words(self) -> np.ndarray:
+        """``l3_word`` as an integer array, whatever its width (packed ids decoded)."""
+        return unpack_ids(self.l3_word)
+
+    def weight_levels(self) -> dict[str, np.ndarray]:
+        """The arrays a level-3 weight is derived from, decoded (keyword arguments of
+        :func:`~foretype.modelfile.weights.derived_weights`)."""
+        table2 = value_table(self.l2_value, self.l2_codebook)
+        table3 = value_table(self.l3_value, self.l3_codebook)
+        return {
+            "p1": self.p1.astype(np.float64),
+            "off2": self.l2_off.astype(np.int64),
+            "w2": self.bigram_words(),
+            "a2": table2[self.l2_value] if table2 is not None else self.l2_value.astype(np.float64),
+            "g2": self.l2_gamma.astype(np.float64),
+            "off3": self.level3_offsets(),
+            "w3": self.trigram_words(),
+            "a3": table3[self.l3_value] if table3 is not None else self.l3_value.astype(np.float64),
+        }
+
+    def level3_weights(self, interpolated: bool) -> NDArray[np.float64]:
+        """Every pair's level-3 weight as the query reads it (stored, or derived), float64 of shape (n2 + 1,)."""
+        if self.l3_gamma is not None:
+            return self.l3_gamma.astype(np.float64)
+        assert self.l3_weight_slot is not None and self.l3_weight_value is not None
+        levels = self.weight_levels()
+        off3 = levels["off3"]
+        weights = np.ones(len(off3) - 1)
+        listed = self.l3_weight_slot.astype(np.int64)
+        derived = np.diff(off3) > 0
+        derived[listed] = False
+        slots = np.flatnonzero(derived)
+        weights[slots] = derived_weights(slots, interpolated=interpolated, **levels)[0]
+        weights[listed] = self.l3_weight_value.astype(np.float64)
+        return weights
+
+    def compact(self, interpolated: bool | None = None) -> ModelArrays:
+        """The same model in the current file layout, every probability unchanged.
+
+        Level-3 offsets in blocks where they fit; word ids of more than 16 bits
+        in three bytes; with ``interpolated`` (the model's form), level-3 weights
+        stored only where deriving them would not give the same float64 value
+        (or would be slow), when that is smaller.
+        """
+        out = self
+        if self.l3_off is not None:
+            blocks = to_blocks(self.l3_off)
+            if blocks is not None:
+                base, delta, wide = blocks
+                out = dataclasses.replace(out, l3_off=None, l3_off_base=base, l3_off_delta=delta, l3_off_wide=wide)
+        if interpolated is not None and out.l3_gamma is not None:
+            out = out._sparse_weights(interpolated)
+        packed = {}
+        size = len(self.vocab_words_off) - 1
+        if size + 3 <= PACKED_LIMIT:
+            for spec in SPECS:
+                array = getattr(out, spec.field)
+                if spec.word_ids and array is not None and array.dtype == np.int32:
+                    packed[spec.field] = pack_ids(array)
+        return dataclasses.replace(out, **packed) if packed else out
+
+    def _sparse_weights(self, interpolated: bool) -> ModelArrays:
+        """Level-3 weights stored only where the derived weight differs or is slow to derive (when that is smaller)."""
+        assert self.l3_gamma is not None
+        weights = self.l3_gamma.astype(np.float64)
+        levels = self.weight_levels()
+        lengths = np.diff(levels["off3"])
+        candidates = np.flatnonzero((lengths > 0) & (lengths <= DERIVED_MAX))
+        derived = derived_weights(candidates, interpolated=interpolated, **levels)[0]
+        listed_mask = lengths > 0
+        listed_mask[candidates[derived == weights[candidates]]] = False
+        listed = np.flatnonzero(listed_mask)
+        values = weights[listed]
+        narrow = values.astype(np.float32)
+        stored: np.ndarray = narrow if np.array_equal(narrow.astype(np.float64), values) else values
+        if len(listed) * (4 + stored.itemsize) >= self.l3_gamma.nbytes:
             return self
-        blocks = to_blocks(self.l3_off)
-        if blocks is None:
-            return self
-        base, delta, wide = blocks
-        return dataclasses.replace(self, l3_off=None, l3_off_base=base, l3_off_delta=delta, l3_off_wide=wide)
+        return dataclasses.replace(self, l3_gamma=None, l3_weight_slot=listed.astype(np.uint32), l3_weight_value=stored)
 
     @property
     def ranked(self) -> bool:

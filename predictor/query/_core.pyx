@@ -45,6 +45,7 @@ cdef enum:
     K_F32 = 5
     K_F64 = 6
     K_U8 = 7
+    K_U24 = 8  # word ids in three bytes, least significant first (modelfile/packed.py)
 
 SCORE_ALL_WORDS = SCORE_ALL
 
@@ -63,8 +64,12 @@ cdef struct Arr:
 
 cdef inline int64_t iget(const Arr* a, int64_t i) noexcept nogil:
     """An integer element of an id or offset array."""
+    cdef const uint8_t* b
     if a.kind == K_U16:
         return (<const uint16_t*>a.p)[i]
+    if a.kind == K_U24:
+        b = (<const uint8_t*>a.p) + 3 * i
+        return b[0] | (<int64_t>b[1] << 8) | (<int64_t>b[2] << 16)
     if a.kind == K_U8:
         return (<const uint8_t*>a.p)[i]
     if a.kind == K_I32:
@@ -141,8 +146,8 @@ cdef class QueryCore:
     """
 
     cdef Arr p1, off2, w2, a2, g2, off3, w3, a3, g3, r2off, r2ids, r3slot, r3off, r3ids, order, table2, table3
-    cdef Arr o3base, o3delta, o3wide
-    cdef bint interpolated, ranked, blocked3
+    cdef Arr o3base, o3delta, o3wide, wslot, wvalue
+    cdef bint interpolated, ranked, blocked3, derived3
     cdef int64_t size, n2, start
     cdef Ctx ctx
     cdef Best best
@@ -165,14 +170,14 @@ cdef class QueryCore:
         self.interpolated = interpolated
         self.size = len(arrays.vocab_words_off) - 1
         self.start = self.size + 2
-        self.n2 = len(arrays.l2_word)
+        self.n2 = arrays.n2
         p1 = np.ascontiguousarray(arrays.p1, dtype=np.float64)
         off2 = np.ascontiguousarray(arrays.l2_off, dtype=np.int64)
         g2 = np.ascontiguousarray(arrays.l2_gamma, dtype=np.float64)
         self._set(&self.p1, p1, keep)
         self._set(&self.off2, off2, keep)
         self._set(&self.g2, g2, keep)
-        self._set(&self.w2, arrays.l2_word, keep)
+        self._set(&self.w2, arrays.l2_word, keep, True)
         self._set(&self.a2, arrays.l2_value, keep)
         self.blocked3 = arrays.l3_off is None
         if self.blocked3:
@@ -181,10 +186,15 @@ cdef class QueryCore:
             self._set(&self.o3wide, arrays.l3_off_wide, keep)
         else:
             self._set(&self.off3, arrays.l3_off, keep)
-        self._set(&self.w3, arrays.l3_word, keep)
+        self._set(&self.w3, arrays.l3_word, keep, True)
         self._set(&self.a3, arrays.l3_value, keep)
-        self._set(&self.g3, arrays.l3_gamma, keep)
-        self._set(&self.order, arrays.vocab_order, keep)
+        self.derived3 = arrays.l3_gamma is None
+        if self.derived3:
+            self._set(&self.wslot, np.ascontiguousarray(arrays.l3_weight_slot, dtype=np.int64), keep)
+            self._set(&self.wvalue, arrays.l3_weight_value, keep)
+        else:
+            self._set(&self.g3, arrays.l3_gamma, keep)
+        self._set(&self.order, arrays.vocab_order, keep, True)
         for level, values, table in (("l2", arrays.l2_value, table2), ("l3", arrays.l3_value, table3)):
             codes = {"uint8": 256, "uint16": 65536}.get(values.dtype.name)
             if codes is None and values.dtype.name != "float32":
@@ -196,15 +206,16 @@ cdef class QueryCore:
         self.ranked = arrays.rank2_off is not None
         if self.ranked:
             self._set(&self.r2off, np.ascontiguousarray(arrays.rank2_off, dtype=np.int64), keep)
-            self._set(&self.r2ids, arrays.rank2_ids, keep)
+            self._set(&self.r2ids, arrays.rank2_ids, keep, True)
             self._set(&self.r3slot, np.ascontiguousarray(arrays.rank3_slot, dtype=np.int64), keep)
             self._set(&self.r3off, np.ascontiguousarray(arrays.rank3_off, dtype=np.int64), keep)
-            self._set(&self.r3ids, arrays.rank3_ids, keep)
+            self._set(&self.r3ids, arrays.rank3_ids, keep, True)
         self._keep = keep
         self.ctx.u = -1
         self.ctx.v = -1
 
-    cdef _set(self, Arr* target, array, list keep):
+    cdef _set(self, Arr* target, array, list keep, bint ids=False):
+        """Point ``target`` at an array (``ids``: a word-id section, whose uint8 form holds three bytes per id)."""
         array = np.ascontiguousarray(array)
         if array.ndim != 1:
             raise ValueError("model arrays are one-dimensional")
@@ -214,6 +225,9 @@ cdef class QueryCore:
         target.p = <const char*><size_t>array.ctypes.data
         target.kind = _kind(array)
         target.n = array.shape[0]
+        if ids and target.kind == K_U8:
+            target.kind = K_U24
+            target.n = array.shape[0] // 3
 
     def __dealloc__(self):
         free(self.best.score)
@@ -255,7 +269,7 @@ cdef class QueryCore:
         if not c.has3:
             c.slot = -1
             c.lo3 = c.hi3 = 0
-        c.gamma3 = fget(&self.g3, c.slot) if c.has3 else 1.0
+        c.gamma3 = self._gamma3() if c.has3 else 1.0
         c.r2lo = c.r2hi = c.r3lo = c.r3hi = 0
         if self.ranked:
             c.r2lo = iget(&self.r2off, v)
@@ -274,6 +288,42 @@ cdef class QueryCore:
                     c.r3hi = iget(&self.r3off, lo + 1)
         c.u = u
         return 0
+
+    cdef double _gamma3(self) noexcept nogil:
+        """The level-3 weight of the current pair (which stores words): stored, or derived (modelfile/weights.py).
+
+        Derived: S, the pair's stored values, and for a back-off model L, their P2,
+        each summed one float64 addition at a time in stored order from 0.0, as the
+        numpy path sums them; ``max(1 - S, 0)``, over ``1 - L`` for back-off.
+        """
+        cdef const Ctx* c = &self.ctx
+        cdef int64_t lo, hi, mid, pos
+        cdef double stored = 0.0
+        cdef double lower = 0.0
+        cdef double left, free, unused
+        if not self.derived3:
+            return fget(&self.g3, c.slot)
+        lo = 0
+        hi = self.wslot.n
+        while lo < hi:
+            mid = lo + ((hi - lo) >> 1)
+            if iget(&self.wslot, mid) < c.slot:
+                lo = mid + 1
+            else:
+                hi = mid
+        if lo < self.wslot.n and iget(&self.wslot, lo) == c.slot:
+            return fget(&self.wvalue, lo)
+        for pos in range(c.lo3, c.hi3):
+            stored = stored + self._value(&self.a3, &self.table3, pos)
+            if not self.interpolated:
+                lower = lower + self._p2(iget(&self.w3, pos), c.lo2, c.hi2, &unused)
+        left = 1.0 - stored
+        if left < 0.0:
+            left = 0.0
+        if self.interpolated:
+            return left
+        free = 1.0 - lower
+        return left / free if free > 1e-12 else 0.0
 
     cdef inline int64_t _off3(self, int64_t i) noexcept nogil:
         """Level 3's offset i, stored in full or in blocks (see modelfile/blocked.py)."""

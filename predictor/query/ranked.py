@@ -14,6 +14,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..modelfile.model_arrays import ModelArrays
+from ..modelfile.packed import unpack_ids
 
 RANKED_MIN = 96
 """Contexts with more continuations than this get a ranked list."""
@@ -35,7 +36,7 @@ class RankLists:
         if self._off2 is None or self._ids2 is None:
             return None
         start, stop = int(self._off2[v]), int(self._off2[v + 1])
-        return self._ids2[start:stop] if stop > start else None
+        return unpack_ids(self._ids2[3 * start : 3 * stop] if self._ids2.dtype == np.uint8 else self._ids2[start:stop]) if stop > start else None
 
     def trigram_list(self, slot: int) -> np.ndarray | None:
         """Words stored after the context pair in ``slot``, best first, or None."""
@@ -44,4 +45,5 @@ class RankLists:
         index = int(np.searchsorted(self._slots3, slot))
         if index >= len(self._slots3) or int(self._slots3[index]) != slot:
             return None
-        return self._ids3[int(self._off3[index]) : int(self._off3[index + 1])]
+        start, stop = int(self._off3[index]), int(self._off3[index + 1])
+        return unpack_ids(self._ids3[3 * start : 3 * stop] if self._ids3.dtype == np.uint8 else self._ids3[start:stop])

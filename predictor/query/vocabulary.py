@@ -21,6 +21,7 @@ import numpy as np
 
 from ..arrays import offsets_dtype, pack_strings, unpack_string, word_id_dtype
 from ..modelfile.model_arrays import ModelArrays
+from ..modelfile.packed import id_at, unpack_ids
 from ..text import model_form
 from .compiled import forced_pure
 
@@ -85,19 +86,26 @@ class Vocabulary:
         self._listed_keys = np.flatnonzero(arrays.vocab_key_span == 0) if arrays.vocab_key_span is not None else None
         self._listed_span = arrays.vocab_listed_span
         self._listed_order = arrays.vocab_listed_order
-        self.order = arrays.vocab_order
-        """Per prefix, the range's word ids by unigram probability (root first)."""
+        self._order = arrays.vocab_order
+        self._order_full: np.ndarray | None = None
         self._words_blob = arrays.vocab_words_blob
         self._words_off = arrays.vocab_words_off
         self._display_blob = arrays.vocab_display_blob
         self._display_off = arrays.vocab_display_off
-        self._display_ids = arrays.vocab_display_ids
+        self._display_ids = unpack_ids(arrays.vocab_display_ids) if arrays.vocab_display_ids is not None else None
         self.size = len(self._words_off) - 1
         """How many suggestable words there are (V)."""
         self._word_cache: dict[int, str] = {}
         self._display_cache: dict[int, str] = {}
         self._unigram = arrays.p1
         self._root = PrefixRange(0, self.size, 0)
+
+    @property
+    def order(self) -> np.ndarray:
+        """Per prefix, the range's word ids by unigram probability (root first; decoded on first use)."""
+        if self._order_full is None:
+            self._order_full = unpack_ids(self._order)
+        return self._order_full
 
     @property
     def unknown_id(self) -> int:
@@ -153,7 +161,7 @@ class Vocabulary:
             lo = int(self._key_lo[key])
             return lo if lo >= 0 else None
         assert self._key_first is not None
-        first = int(self._key_first[key])
+        first = id_at(self._key_first, key)
         return first if self.word(first) == word else None
 
     def id_or_unknown(self, word: str) -> int:
@@ -188,7 +196,7 @@ class Vocabulary:
             return PrefixRange(lo if lo >= 0 else -lo - 1, self._key_hi.item(key), NO_ORDER_LIST if start == self._unlisted else start)
         assert self._key_first is not None and self._key_span is not None and self._listed_keys is not None
         assert self._listed_span is not None and self._listed_order is not None
-        first = self._key_first.item(key)
+        first = id_at(self._key_first, key)
         span = self._key_span.item(key)
         if span:
             return PrefixRange(first, first + span, NO_ORDER_LIST)

@@ -19,6 +19,7 @@ from ...arrays import offsets_dtype, word_id_dtype
 from ...errors import OptionError
 from ...estimate.layout import context_totals
 from ...modelfile.encoding import ENCODINGS, decode, encode
+from ...modelfile.weights import settle_weights
 from ...query.model import LanguageModel
 from ...query.ranked import RANKED_MIN
 from ..ranking import rank_sections
@@ -81,7 +82,11 @@ def backoff_sections(tables: BackoffTables, encoding: str) -> dict[str, np.ndarr
     has3 = np.diff(tables.off3) > 0
     stored3 = context_totals(d3, tables.off3)
     free3 = totals2[slot_v] - context_totals(d2[tables.tail3], tables.off3)
-    g3 = _weights(stored3, free3, has3).astype(np.float32)
+    g3 = _weights(stored3, free3, has3)
+    # Most pairs' weights are derived from the stored values when queried: the model holds those exactly.
+    g3 = settle_weights(
+        g3, totals2[slot_v], interpolated=False, p1=p1_stored, off2=tables.off2, w2=tables.w2, a2=d2, g2=g2.astype(np.float64), off3=tables.off3, w3=tables.w3, a3=d3
+    )
     word = word_id_dtype(size)
     sections = {
         "p1": p1,
