@@ -35,7 +35,7 @@ from ..errors import ModelFileError
 from .blocked import wide_indices_fit
 from .format import ModelFile
 from .limits import MAX_VOCABULARY
-from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, DERIVED_WEIGHTS, PLAIN3, RANKED, SPECS, STORED_WEIGHTS, Counts, ModelArrays
+from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, DERIVED_WEIGHTS, PLAIN3, RANKED, SPECS, STORED_WEIGHTS, WORD_KEYS, WORD_STRINGS, Counts, ModelArrays
 from .packed import PACKED_LIMIT, id_range, is_packed, unpack_ids
 
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
@@ -81,7 +81,7 @@ def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
     """Ranked lists all or none; values as the header's encoding says, with codebooks exactly where it needs them."""
     if _group_state(arrays, RANKED) == "part":
         raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
-    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off"), (STORED_WEIGHTS, DERIVED_WEIGHTS, "l3.gamma")):
+    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off"), (STORED_WEIGHTS, DERIVED_WEIGHTS, "l3.gamma"), (WORD_STRINGS, WORD_KEYS, "vocab.words_blob")):
         _check_one_layout(name, arrays, older, newer, first)
     for section, values in (("l2.value", arrays.l2_value), ("l3.value", arrays.l3_value)):
         if values.dtype.name not in _VALUE_TYPES[encoding]:
@@ -234,7 +234,8 @@ def _probabilities(name: object, section: str, values: np.ndarray, upper: float 
 
 def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
     """The prefix index and string tables: ranges, listed words, UTF-8, the trie image."""
-    _strings(name, "vocab.words", s.vocab_words_blob, s.vocab_words_off)
+    if s.vocab_words_blob is not None and s.vocab_words_off is not None:
+        _strings(name, "vocab.words", s.vocab_words_blob, s.vocab_words_off)
     _strings(name, "vocab.display", s.vocab_display_blob, s.vocab_display_off)
     order = s.vocab_order
     if id_count_of(order) < size:
@@ -262,6 +263,8 @@ def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
         raise ModelFileError(f"{name}: corrupt (section vocab.trie cannot be read)") from None
     if len(trie) != len(first):
         raise ModelFileError(f"{name}: corrupt (the trie holds {len(trie):,} keys but the prefix index {len(first):,})")
+    if s.vocab_word_keys is not None and len(s.vocab_word_keys) and int(s.vocab_word_keys.max()) >= len(trie):
+        raise ModelFileError(f"{name}: corrupt (section vocab.word_keys names keys the trie does not hold)")
 
 
 def _strings(name: object, section: str, blob: np.ndarray, offsets: np.ndarray) -> None:
@@ -296,7 +299,7 @@ def check_thoroughly(model: ModelFile, arrays: ModelArrays) -> None:
     size = int(model.meta["vocab_size"])
     _sorted_within(name, "l2.word", s.bigram_words(), s.l2_off)
     _sorted_within(name, "l3.word", s.trigram_words(), s.level3_offsets())
-    words = _unpack_all(s.vocab_words_blob, s.vocab_words_off)
+    words = _model_forms(s)
     if any(words[i] >= words[i + 1] for i in range(len(words) - 1)):
         raise ModelFileError(f"{name}: corrupt (the vocabulary is not sorted and unique)")
     _check_prefix_index(name, s, words)
@@ -314,6 +317,16 @@ def _sorted_within(name: object, section: str, words: np.ndarray, offsets: np.nd
     rises[starts - 1] = True  # a new context may start lower
     if not bool(rises.all()):
         raise ModelFileError(f"{name}: corrupt (section {section} is not sorted within a context)")
+
+
+def _model_forms(s: ModelArrays) -> list[str]:
+    """Every word's model form, in id order, from whichever layout stores them."""
+    if s.vocab_word_keys is None:
+        assert s.vocab_words_blob is not None and s.vocab_words_off is not None
+        return _unpack_all(s.vocab_words_blob, s.vocab_words_off)
+    trie = marisa_trie.Trie()
+    trie.map(s.vocab_trie.data)
+    return [trie.restore_key(int(key)) for key in s.vocab_word_keys]
 
 
 def _unpack_all(blob: np.ndarray, offsets: np.ndarray) -> list[str]:

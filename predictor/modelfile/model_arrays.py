@@ -60,6 +60,10 @@ PLAIN3 = "plain level-3 offsets"
 BLOCKED3 = "blocked level-3 offsets"
 """The two layouts of level 3's offsets (a model has exactly one): ``l3.off`` in full, or in blocks
 (:mod:`foretype.modelfile.blocked`, format version 3 on)."""
+WORD_STRINGS = "model forms as strings"
+WORD_KEYS = "model forms as trie keys"
+"""The two layouts of the model forms (a model has exactly one): a UTF-8 blob with offsets, or each word's
+trie key id (format version 4 on)."""
 STORED_WEIGHTS = "stored level-3 weights"
 DERIVED_WEIGHTS = "derived level-3 weights"
 """The two layouts of level 3's weights (a model has exactly one): ``l3.gamma`` for every pair, or only where
@@ -128,12 +132,14 @@ class ModelArrays:
     """The marisa-trie image holding every prefix of every word."""
     vocab_order: WordIds = _section("vocab.order")
     """The whole vocabulary by unigram probability, then the lists of the longer prefix ranges."""
-    vocab_words_blob: Bytes = _section("vocab.words_blob")
-    """The words' model forms, UTF-8, concatenated."""
-    vocab_words_off: Offsets = _section("vocab.words_off", lambda n: n.words + 1)
     vocab_display_blob: Bytes = _section("vocab.display_blob")
     """The words' display forms, UTF-8, concatenated."""
     vocab_display_off: Offsets = _section("vocab.display_off", lambda n: n.displayed + 1)
+    vocab_words_blob: Bytes | None = _optional("vocab.words_blob", WORD_STRINGS)
+    """The words' model forms, UTF-8, concatenated (or, from format 4, each word's trie key in ``vocab.word_keys``)."""
+    vocab_words_off: Offsets | None = _optional("vocab.words_off", WORD_STRINGS, lambda n: n.words + 1)
+    vocab_word_keys: NDArray[np.uint32] | None = _optional("vocab.word_keys", WORD_KEYS, lambda n: n.words)
+    """Per word id, the id of its trie key: the model form is restored from the trie (the trie holds every word)."""
     vocab_key_lo: Bounds | None = _optional("vocab.key_lo", DENSE_INDEX)
     """Per trie key: the first id with the prefix, or ``-(first id) - 1`` when the key is not itself a word."""
     vocab_key_hi: Bounds | None = _optional("vocab.key_hi", DENSE_INDEX, lambda n: n.keys)
@@ -217,6 +223,14 @@ class ModelArrays:
         return BlockedOffsets(self.l3_off_base, self.l3_off_delta, self.l3_off_wide)
 
     @property
+    def vocab_size(self) -> int:
+        """V, the number of suggestable words."""
+        if self.vocab_word_keys is not None:
+            return len(self.vocab_word_keys)
+        assert self.vocab_words_off is not None
+        return len(self.vocab_words_off) - 1
+
+    @property
     def n2(self) -> int:
         """How many bigram entries the model stores."""
         return id_count(self.l2_word)
@@ -283,8 +297,7 @@ class ModelArrays:
         if interpolated is not None and out.l3_gamma is not None:
             out = out._sparse_weights(interpolated)
         packed = {}
-        size = len(self.vocab_words_off) - 1
-        if size + 3 <= PACKED_LIMIT:
+        if self.vocab_size + 3 <= PACKED_LIMIT:
             for spec in SPECS:
                 array = getattr(out, spec.field)
                 if spec.word_ids and array is not None and array.dtype == np.int32:

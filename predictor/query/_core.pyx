@@ -168,7 +168,7 @@ cdef class QueryCore:
     def __init__(self, arrays, bint interpolated, table2, table3):
         keep = []
         self.interpolated = interpolated
-        self.size = len(arrays.vocab_words_off) - 1
+        self.size = arrays.vocab_size
         self.start = self.size + 2
         self.n2 = arrays.n2
         p1 = np.ascontiguousarray(arrays.p1, dtype=np.float64)

@@ -90,10 +90,11 @@ class Vocabulary:
         self._order_full: np.ndarray | None = None
         self._words_blob = arrays.vocab_words_blob
         self._words_off = arrays.vocab_words_off
+        self._word_keys = arrays.vocab_word_keys
         self._display_blob = arrays.vocab_display_blob
         self._display_off = arrays.vocab_display_off
         self._display_ids = unpack_ids(arrays.vocab_display_ids) if arrays.vocab_display_ids is not None else None
-        self.size = len(self._words_off) - 1
+        self.size = arrays.vocab_size
         """How many suggestable words there are (V)."""
         self._word_cache: dict[int, str] = {}
         self._display_cache: dict[int, str] = {}
@@ -129,9 +130,16 @@ class Vocabulary:
             if word_id >= self.size:
                 cached = (UNKNOWN, END, START)[word_id - self.size]
             else:
-                cached = unpack_string(self._words_blob, self._words_off, word_id)
+                cached = self._model_form(word_id)
             self._word_cache[word_id] = cached
         return cached
+
+    def _model_form(self, word_id: int) -> str:
+        """A word's model form: restored from the trie (format 4) or read from the string table."""
+        if self._word_keys is not None:
+            return str(self._trie.restore_key(int(self._word_keys.item(word_id))))
+        assert self._words_blob is not None and self._words_off is not None
+        return unpack_string(self._words_blob, self._words_off, word_id)
 
     def display(self, word_id: int) -> str:
         """Return the display form (most frequent written form) of a word id."""
@@ -274,12 +282,13 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
         many words share it, 0 for a range longer than :data:`SHORT_RANGE`,
         whose span and start in ``order`` are in ``listed_span`` and
         ``listed_order``, in key order), ``order`` (the root list, then the
-        longer ranges' lists), the model forms, and the display forms of the
-        ids in ``display_ids`` (those whose display form differs).
+        longer ranges' lists), ``word_keys`` (each word's trie key: the trie
+        restores its model form), and the display forms of the ids in
+        ``display_ids`` (those whose display form differs).
     """
     size = len(words)
     walk = _compiled_prefix_ranges if _compiled_prefix_ranges is not None and not forced_pure() else _prefix_ranges
-    prefixes, lo, hi, _ = walk(words)
+    prefixes, lo, hi, is_word = walk(words)
     trie = marisa_trie.Trie(prefixes)
     keys = len(prefixes)
     # Rank of each word in the global unigram order (probability descending, id ascending).
@@ -302,7 +311,8 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
     key_first[trie_ids] = lo
     key_span[trie_ids] = np.where(listed, 0, sizes)
     by_key = np.argsort(trie_ids[listed])
-    words_blob, words_off = pack_strings(words)
+    word_keys = np.empty(size, dtype=np.uint32)
+    word_keys[lo[is_word]] = trie_ids[is_word]
     differs = [i for i, (shown, word) in enumerate(zip(display, words)) if shown != word]
     display_blob, display_off = pack_strings([display[i] for i in differs])
     return {
@@ -312,8 +322,7 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
         "vocab.listed_span": sizes[listed][by_key].astype(np.uint32),
         "vocab.listed_order": starts[listed][by_key].astype(offsets_dtype(len(order))),
         "vocab.order": order,
-        "vocab.words_blob": words_blob,
-        "vocab.words_off": words_off,
+        "vocab.word_keys": word_keys,
         "vocab.display_ids": np.array(differs, dtype=id_dtype),
         "vocab.display_blob": display_blob,
         "vocab.display_off": display_off,
