@@ -35,7 +35,7 @@ from ..errors import ModelFileError
 from .blocked import wide_indices_fit
 from .format import ModelFile
 from .limits import MAX_VOCABULARY
-from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, DERIVED_WEIGHTS, PLAIN3, RANKED, SPECS, STORED_WEIGHTS, WORD_KEYS, WORD_STRINGS, Counts, ModelArrays
+from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, DERIVED_WEIGHTS, PLAIN3, RANKED, SPECS, STORED_WEIGHTS, TAIL_POSITIONS3, WORD_IDS3, WORD_KEYS, WORD_STRINGS, Counts, ModelArrays
 from .packed import PACKED_LIMIT, id_range, is_packed, unpack_ids
 
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
@@ -81,7 +81,7 @@ def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
     """Ranked lists all or none; values as the header's encoding says, with codebooks exactly where it needs them."""
     if _group_state(arrays, RANKED) == "part":
         raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
-    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off"), (STORED_WEIGHTS, DERIVED_WEIGHTS, "l3.gamma"), (WORD_STRINGS, WORD_KEYS, "vocab.words_blob")):
+    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off"), (STORED_WEIGHTS, DERIVED_WEIGHTS, "l3.gamma"), (WORD_STRINGS, WORD_KEYS, "vocab.words_blob"), (WORD_IDS3, TAIL_POSITIONS3, "l3.word")):
         _check_one_layout(name, arrays, older, newer, first)
     for section, values in (("l2.value", arrays.l2_value), ("l3.value", arrays.l3_value)):
         if values.dtype.name not in _VALUE_TYPES[encoding]:
@@ -144,7 +144,10 @@ def _check_levels(name: object, s: ModelArrays, size: int) -> None:
     _offsets(name, "l3.off", s.level3_offsets(), s.n3)
     # Predicted words are 0 .. V + 1 (words, UNKNOWN, END); START is context only.
     _ids(name, "l2.word", s.l2_word, size + 1)
-    _ids(name, "l3.word", s.l3_word, size + 1)
+    if s.l3_word is not None:
+        _ids(name, "l3.word", s.l3_word, size + 1)
+    else:
+        _check_tail_positions(name, s, size)
     _probabilities(name, "p1", s.p1, upper=1.0)
     _probabilities(name, "l2.gamma", s.l2_gamma)
     if s.l3_gamma is not None:
@@ -159,6 +162,25 @@ def _check_levels(name: object, s: ModelArrays, size: int) -> None:
     for section, book in (("l2.codebook", s.l2_codebook), ("l3.codebook", s.l3_codebook)):
         if book is not None:
             _probabilities(name, section, book, upper=1.0)
+
+
+def _check_tail_positions(name: object, s: ModelArrays, size: int) -> None:
+    """Level 3's words as positions: each inside its pair's last word's bigram list; ``START START``'s words in range."""
+    assert s.l3_tail is not None and s.l3_start_word is not None
+    n2 = s.n2
+    off3 = s.level3_offsets()
+    if int(off3[n2]) != len(s.l3_tail):
+        raise ModelFileError(f"{name}: corrupt (section l3.tail does not cover the pairs before the sentence start)")
+    _ids(name, "l3.start_word", s.l3_start_word, size + 1)
+    lengths = np.diff(off3[: n2 + 1])
+    filled = np.flatnonzero(lengths > 0)
+    if not len(filled):
+        return
+    largest = np.maximum.reduceat(s.l3_tail, off3[filled])
+    last = unpack_ids(s.l2_word)[filled].astype(np.int64)
+    off2 = s.l2_off.astype(np.int64)
+    if bool(np.any(largest.astype(np.int64) >= off2[last + 1] - off2[last])):
+        raise ModelFileError(f"{name}: corrupt (section l3.tail points past a bigram list)")
 
 
 def _check_ranked_ranges(name: object, s: ModelArrays, size: int) -> None:

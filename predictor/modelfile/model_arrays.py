@@ -64,6 +64,11 @@ WORD_STRINGS = "model forms as strings"
 WORD_KEYS = "model forms as trie keys"
 """The two layouts of the model forms (a model has exactly one): a UTF-8 blob with offsets, or each word's
 trie key id (format version 4 on)."""
+WORD_IDS3 = "level-3 word ids"
+TAIL_POSITIONS3 = "level-3 words as positions in level 2"
+"""The two layouts of level 3's words (a model has exactly one): word ids, or (format version 4 on, for
+vocabularies whose ids pass 16 bits) each word's position among the words stored after the pair's last word,
+16 bits wherever that list is no longer than 65,536 words; the ``START START`` pair keeps word ids."""
 STORED_WEIGHTS = "stored level-3 weights"
 DERIVED_WEIGHTS = "derived level-3 weights"
 """The two layouts of level 3's weights (a model has exactly one): ``l3.gamma`` for every pair, or only where
@@ -124,8 +129,6 @@ class ModelArrays:
     """The stored value of each bigram entry."""
     l2_gamma: Floats = _section("l2.gamma", lambda n: n.words + 3)
     """The lower-order weight of each context word."""
-    l3_word: WordIds = _section("l3.word", lambda n: n.n3)
-    """The word of each trigram entry, sorted within a context pair."""
     l3_value: Values = _section("l3.value", lambda n: n.n3)
     """The stored value of each trigram entry."""
     vocab_trie: Bytes = _section("vocab.trie")
@@ -165,6 +168,12 @@ class ModelArrays:
     """Level-3 offsets in blocks: each entry's step from its block's base."""
     l3_off_wide: NDArray[np.uint32] | None = _optional("l3.off_wide", BLOCKED3)
     """Level-3 offsets in blocks: the full offsets of the blocks that span more than 8 bits."""
+    l3_word: WordIds | None = _optional("l3.word", WORD_IDS3, lambda n: n.n3)
+    """The word of each trigram entry, sorted within a context pair (or the next two fields; :meth:`trigram_words` reads either)."""
+    l3_tail: NDArray[np.uint16] | None = _optional("l3.tail", TAIL_POSITIONS3)
+    """Per trigram entry of the pairs before ``START START``: where its word stands in the pair's last word's bigram list."""
+    l3_start_word: WordIds | None = _optional("l3.start_word", TAIL_POSITIONS3)
+    """The words of the ``START START`` pair's trigram entries (the last pair; its last word's list may pass 16 bits)."""
     l3_gamma: Floats | None = _optional("l3.gamma", STORED_WEIGHTS, lambda n: n.n2 + 1)
     """The lower-order weight of each context pair (or the next two fields; :meth:`level3_weights` reads either)."""
     l3_weight_slot: NDArray[np.uint32] | None = _optional("l3.weight_slot", DERIVED_WEIGHTS)
@@ -238,15 +247,26 @@ class ModelArrays:
     @property
     def n3(self) -> int:
         """How many trigram entries the model stores."""
-        return id_count(self.l3_word)
+        if self.l3_word is not None:
+            return id_count(self.l3_word)
+        assert self.l3_tail is not None and self.l3_start_word is not None
+        return len(self.l3_tail) + id_count(self.l3_start_word)
 
     def bigram_words(self) -> np.ndarray:
         """``l2_word`` as an integer array, whatever its width (packed ids decoded)."""
         return unpack_ids(self.l2_word)
 
     def trigram_words(self) -> np.ndarray:
-        """``l3_word`` as an integer array, whatever its width (packed ids decoded)."""
-        return unpack_ids(self.l3_word)
+        """Level 3's word ids as an integer array, whatever the layout (packed ids decoded, positions looked up)."""
+        if self.l3_word is not None:
+            return unpack_ids(self.l3_word)
+        assert self.l3_tail is not None and self.l3_start_word is not None
+        off3 = self.level3_offsets()
+        n2 = self.n2
+        w2 = self.bigram_words().astype(np.int64)
+        last = np.repeat(w2, np.diff(off3[: n2 + 1]))
+        found = self.l2_off.astype(np.int64)[last] + self.l3_tail
+        return np.concatenate((w2[found], unpack_ids(self.l3_start_word).astype(np.int64)))
 
     def weight_levels(self) -> dict[str, np.ndarray]:
         """The arrays a level-3 weight is derived from, decoded (keyword arguments of
@@ -296,6 +316,8 @@ class ModelArrays:
                 out = dataclasses.replace(out, l3_off=None, l3_off_base=base, l3_off_delta=delta, l3_off_wide=wide)
         if interpolated is not None and out.l3_gamma is not None:
             out = out._sparse_weights(interpolated)
+        if out.l3_word is not None and self.vocab_size + 3 > 2**16:
+            out = out._tail_positions()
         packed = {}
         if self.vocab_size + 3 <= PACKED_LIMIT:
             for spec in SPECS:
@@ -303,6 +325,27 @@ class ModelArrays:
                 if spec.word_ids and array is not None and array.dtype == np.int32:
                     packed[spec.field] = pack_ids(array)
         return dataclasses.replace(out, **packed) if packed else out
+
+    def _tail_positions(self) -> ModelArrays:
+        """Level 3's words as positions in their last word's bigram list, where every such position fits 16 bits."""
+        assert self.l3_word is not None
+        off3 = self.level3_offsets()
+        off2 = self.l2_off.astype(np.int64)
+        n2 = self.n2
+        w2 = self.bigram_words().astype(np.int64)
+        w3 = unpack_ids(self.l3_word).astype(np.int64)
+        cut = int(off3[n2])
+        last = np.repeat(w2, np.diff(off3[: n2 + 1]))
+        base = len(off2) - 1
+        key2 = np.repeat(np.arange(base, dtype=np.int64), np.diff(off2)) * base + w2
+        wanted = last * base + w3[:cut]
+        at = np.minimum(np.searchsorted(key2, wanted), max(len(key2) - 1, 0))
+        if cut and (not len(key2) or not bool(np.all(key2[at] == wanted))):
+            return self  # a trigram whose tail is not a stored bigram (a foreign file): keep the ids
+        tail = at - off2[last]
+        if cut and int(tail.max()) > 0xFFFF:
+            return self
+        return dataclasses.replace(self, l3_word=None, l3_tail=tail.astype(np.uint16), l3_start_word=self.l3_word[cut:] if self.l3_word.dtype != np.uint8 else self.l3_word[3 * cut :])
 
     def _sparse_weights(self, interpolated: bool) -> ModelArrays:
         """Level-3 weights stored only where the derived weight differs or is slow to derive (when that is smaller)."""

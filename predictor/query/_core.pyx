@@ -146,9 +146,9 @@ cdef class QueryCore:
     """
 
     cdef Arr p1, off2, w2, a2, g2, off3, w3, a3, g3, r2off, r2ids, r3slot, r3off, r3ids, order, table2, table3
-    cdef Arr o3base, o3delta, o3wide, wslot, wvalue
-    cdef bint interpolated, ranked, blocked3, derived3
-    cdef int64_t size, n2, start
+    cdef Arr o3base, o3delta, o3wide, wslot, wvalue, w3start
+    cdef bint interpolated, ranked, blocked3, derived3, tail3
+    cdef int64_t size, n2, start, start3
     cdef Ctx ctx
     cdef Best best
     cdef int64_t capacity
@@ -186,7 +186,13 @@ cdef class QueryCore:
             self._set(&self.o3wide, arrays.l3_off_wide, keep)
         else:
             self._set(&self.off3, arrays.l3_off, keep)
-        self._set(&self.w3, arrays.l3_word, keep, True)
+        self.tail3 = arrays.l3_word is None
+        if self.tail3:
+            self._set(&self.w3, arrays.l3_tail, keep)
+            self._set(&self.w3start, arrays.l3_start_word, keep, True)
+            self.start3 = self._off3(self.n2)
+        else:
+            self._set(&self.w3, arrays.l3_word, keep, True)
         self._set(&self.a3, arrays.l3_value, keep)
         self.derived3 = arrays.l3_gamma is None
         if self.derived3:
@@ -289,6 +295,25 @@ cdef class QueryCore:
         c.u = u
         return 0
 
+    cdef inline int64_t _w3(self, int64_t pos) noexcept nogil:
+        """The word of trigram entry ``pos`` of the current pair: an id, or a position in the pair's last word's list."""
+        if not self.tail3:
+            return iget(&self.w3, pos)
+        if pos >= self.start3:
+            return iget(&self.w3start, pos - self.start3)
+        return iget(&self.w2, self.ctx.lo2 + iget(&self.w3, pos))
+
+    cdef inline int64_t _lb3(self, int64_t lo, int64_t hi, int64_t x) noexcept nogil:
+        """The first trigram position of the current pair in [lo, hi) whose word is not below x (hi if none)."""
+        cdef int64_t mid
+        while lo < hi:
+            mid = lo + ((hi - lo) >> 1)
+            if self._w3(mid) < x:
+                lo = mid + 1
+            else:
+                hi = mid
+        return lo
+
     cdef double _gamma3(self) noexcept nogil:
         """The level-3 weight of the current pair (which stores words): stored, or derived (modelfile/weights.py).
 
@@ -316,7 +341,7 @@ cdef class QueryCore:
         for pos in range(c.lo3, c.hi3):
             stored = stored + self._value(&self.a3, &self.table3, pos)
             if not self.interpolated:
-                lower = lower + self._p2(iget(&self.w3, pos), c.lo2, c.hi2, &unused)
+                lower = lower + self._p2(self._w3(pos), c.lo2, c.hi2, &unused)
         left = 1.0 - stored
         if left < 0.0:
             left = 0.0
@@ -370,9 +395,9 @@ cdef class QueryCore:
         if not c.has3:
             a3[0] = 0.0
             return p2
-        pos = lower_bound(&self.w3, lo, hi, w)
+        pos = self._lb3(lo, hi, w)
         lower = c.gamma3 * p2
-        if pos < hi and iget(&self.w3, pos) == w:
+        if pos < hi and self._w3(pos) == w:
             value = self._value(&self.a3, &self.table3, pos)
             a3[0] = value
             return value + lower if self.interpolated else value
@@ -485,7 +510,7 @@ cdef class QueryCore:
         cdef int64_t pos, w
         cdef double p2, p3, a2, a3
         for pos in range(a_start, a_stop):
-            w = iget(&self.w3, pos)
+            w = self._w3(pos)
             p2 = self._p2(w, b_start, b_stop, &a2)
             p3 = self._p3(w, p2, a_start, a_stop, &a3)
             self._insert(p3, w, a2, a3, dedupe)
@@ -523,8 +548,8 @@ cdef class QueryCore:
         for pos in range(b_start, b_stop):
             w = iget(&self.w2, pos)
             if a_stop > a_start:
-                at = lower_bound(&self.w3, a_start, a_stop, w)
-                if at < a_stop and iget(&self.w3, at) == w:
+                at = self._lb3(a_start, a_stop, w)
+                if at < a_stop and self._w3(at) == w:
                     continue
             value = self._value(&self.a2, &self.table2, pos)
             lower = c.g2v * fget(&self.p1, w)
@@ -584,8 +609,8 @@ cdef class QueryCore:
                 j = low
                 continue
             if a_stop > a_start:
-                at = lower_bound(&self.w3, a_start, a_stop, w)
-                if at < a_stop and iget(&self.w3, at) == w:
+                at = self._lb3(a_start, a_stop, w)
+                if at < a_stop and self._w3(at) == w:
                     continue
             self._insert(s, w, a2, 0.0, False)
 
@@ -663,8 +688,8 @@ cdef class QueryCore:
             b_start = lower_bound(&self.w2, c.lo2, c.hi2, lo)
             b_stop = lower_bound(&self.w2, b_start, c.hi2, hi)
         if c.has3:
-            a_start = lower_bound(&self.w3, c.lo3, c.hi3, lo)
-            a_stop = lower_bound(&self.w3, a_start, c.hi3, hi)
+            a_start = self._lb3(c.lo3, c.hi3, lo)
+            a_stop = self._lb3(a_start, c.hi3, hi)
         nb = b_stop - b_start
         if nb <= SCORE_ALL:
             self._score_words(b_start, b_stop, a_start, a_stop, False)
