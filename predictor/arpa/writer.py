@@ -94,7 +94,7 @@ def model_tables(model: LanguageModel) -> _Tables:
     p1 = s.p1.astype(np.float64)
     off2 = s.l2_off.astype(np.int64)
     w2 = s.bigram_words().astype(np.int64)
-    g2 = s.l2_gamma.astype(np.float64)
+    g2 = s.level2_weights(bool(model.meta["interpolated"]))
     off3 = s.level3_offsets()
     w3 = s.trigram_words().astype(np.int64)
     g3 = s.level3_weights(bool(model.meta["interpolated"]))

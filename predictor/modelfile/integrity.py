@@ -35,7 +35,7 @@ from ..errors import ModelFileError
 from .blocked import wide_indices_fit
 from .format import ModelFile
 from .limits import MAX_VOCABULARY
-from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, DERIVED_WEIGHTS, PLAIN3, RANKED, SPECS, STORED_WEIGHTS, TAIL_POSITIONS3, WORD_IDS3, WORD_KEYS, WORD_STRINGS, Counts, ModelArrays
+from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, DENSE_RANKED2, DERIVED_WEIGHTS, DERIVED_WEIGHTS2, PLAIN3, RANKED, SPARSE_RANKED2, SPECS, STORED_WEIGHTS, STORED_WEIGHTS2, TAIL_POSITIONS3, WORD_IDS3, WORD_KEYS, WORD_STRINGS, Counts, ModelArrays
 from .packed import PACKED_LIMIT, id_range, is_packed, unpack_ids
 
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
@@ -81,7 +81,11 @@ def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
     """Ranked lists all or none; values as the header's encoding says, with codebooks exactly where it needs them."""
     if _group_state(arrays, RANKED) == "part":
         raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
-    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off"), (STORED_WEIGHTS, DERIVED_WEIGHTS, "l3.gamma"), (WORD_STRINGS, WORD_KEYS, "vocab.words_blob"), (WORD_IDS3, TAIL_POSITIONS3, "l3.word")):
+    if arrays.ranked:
+        _check_one_layout(name, arrays, DENSE_RANKED2, SPARSE_RANKED2, "rank2.off")
+    elif _group_state(arrays, DENSE_RANKED2) != "none" or _group_state(arrays, SPARSE_RANKED2) != "none":
+        raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
+    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off"), (STORED_WEIGHTS, DERIVED_WEIGHTS, "l3.gamma"), (STORED_WEIGHTS2, DERIVED_WEIGHTS2, "l2.gamma"), (WORD_STRINGS, WORD_KEYS, "vocab.words_blob"), (WORD_IDS3, TAIL_POSITIONS3, "l3.word")):
         _check_one_layout(name, arrays, older, newer, first)
     for section, values in (("l2.value", arrays.l2_value), ("l3.value", arrays.l3_value)):
         if values.dtype.name not in _VALUE_TYPES[encoding]:
@@ -122,10 +126,12 @@ def _check_widths(name: object, arrays: ModelArrays, size: int) -> None:
 def _check_lengths(name: object, arrays: ModelArrays, size: int) -> None:
     """Each section's length follows from the vocabulary size and the number of stored entries (as its field declares)."""
     ranked3 = len(arrays.rank3_slot) if arrays.rank3_slot is not None else 0
+    ranked2 = id_count_of(arrays.rank2_word) if arrays.rank2_word is not None else 0
     listed = int(np.count_nonzero(arrays.vocab_key_span == 0)) if arrays.vocab_key_span is not None else 0
     displayed = id_count_of(arrays.vocab_display_ids) if arrays.vocab_display_ids is not None else size
     weights = len(arrays.l3_weight_slot) if arrays.l3_weight_slot is not None else 0
-    counts = Counts(size, arrays.n2, arrays.n3, arrays.key_count, ranked3, listed, displayed, weights)
+    weights2 = len(arrays.l2_weight_slot) if arrays.l2_weight_slot is not None else 0
+    counts = Counts(size, arrays.n2, arrays.n3, arrays.key_count, ranked3, listed, displayed, weights, weights2, ranked2)
     for spec in SPECS:
         array = getattr(arrays, spec.field)
         if array is None or spec.length is None:
@@ -149,7 +155,12 @@ def _check_levels(name: object, s: ModelArrays, size: int) -> None:
     else:
         _check_tail_positions(name, s, size)
     _probabilities(name, "p1", s.p1, upper=1.0)
-    _probabilities(name, "l2.gamma", s.l2_gamma)
+    if s.l2_gamma is not None:
+        _probabilities(name, "l2.gamma", s.l2_gamma)
+    if s.l2_weight_slot is not None and s.l2_weight_value is not None:
+        _ids(name, "l2.weight_slot", s.l2_weight_slot, size + 2)
+        _increasing(name, "l2.weight_slot", s.l2_weight_slot)
+        _probabilities(name, "l2.weight_value", s.l2_weight_value)
     if s.l3_gamma is not None:
         _probabilities(name, "l3.gamma", s.l3_gamma)
     if s.l3_weight_slot is not None and s.l3_weight_value is not None:
@@ -185,8 +196,14 @@ def _check_tail_positions(name: object, s: ModelArrays, size: int) -> None:
 
 def _check_ranked_ranges(name: object, s: ModelArrays, size: int) -> None:
     """The ranked lists: offsets span their ids, ids are words, slots name level-2 entries in increasing order."""
-    assert s.rank2_off is not None and s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
-    _offsets(name, "rank2.off", s.rank2_off, id_count_of(s.rank2_ids))
+    assert s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
+    if s.rank2_off is not None:
+        _offsets(name, "rank2.off", s.rank2_off, id_count_of(s.rank2_ids))
+    else:
+        assert s.rank2_word is not None and s.rank2_list_off is not None
+        _ids(name, "rank2.word", s.rank2_word, size + 2)
+        _increasing(name, "rank2.word", unpack_ids(s.rank2_word))
+        _offsets(name, "rank2.list_off", s.rank2_list_off, id_count_of(s.rank2_ids))
     _offsets(name, "rank3.off", s.rank3_off, id_count_of(s.rank3_ids))
     _ids(name, "rank2.ids", s.rank2_ids, size - 1)
     _ids(name, "rank3.ids", s.rank3_ids, size - 1)
@@ -409,9 +426,10 @@ def _check_unigram_lists(name: object, s: ModelArrays, size: int) -> None:
 
 def _check_ranked_lists(name: object, s: ModelArrays, size: int) -> None:
     """Each ranked list holds its context's stored words (below V) exactly once."""
-    assert s.rank2_off is not None and s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
+    assert s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
     off2 = s.l2_off.astype(np.int64)
-    rank2 = s.rank2_off.astype(np.int64)
+    rank2 = s.ranked2_offsets()
+    assert rank2 is not None
     w2, ids2 = s.bigram_words(), unpack_ids(s.rank2_ids)
     for v in np.flatnonzero(np.diff(rank2) > 0):
         stored = w2[off2[v] : off2[v + 1]]

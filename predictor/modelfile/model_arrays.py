@@ -34,7 +34,7 @@ from ..errors import ModelFileError
 from .blocked import BlockedOffsets, blocks_for, from_blocks, to_blocks
 from .encoding import value_table
 from .packed import PACKED_LIMIT, id_count, pack_ids, unpack_ids
-from .weights import DERIVED_MAX, derived_weights
+from .weights import DERIVED_MAX, derived_weights, derived_weights2
 
 WordIds = NDArray[np.uint16 | np.int32 | np.uint8]
 """Word ids: uint16 while the V + 3 ids fit, else int32, or three bytes per id (uint8; :mod:`foretype.modelfile.packed`, format 4 on)."""
@@ -49,6 +49,9 @@ Bounds = NDArray[np.int32]
 REQUIRED = "required"
 RANKED = "ranked"
 """The group of the ranked-list sections: a model has all of them or none."""
+DENSE_RANKED2 = "level-2 ranked-list offsets per context word"
+SPARSE_RANKED2 = "level-2 ranked-list offsets per listed context word"
+"""The two layouts of where level 2's ranked lists start (a ranked model has exactly one, from format 4 on the sparse one)."""
 CODEBOOKS = "codebooks"
 """The group of the codebooks: present exactly where the values are 8-bit codes."""
 DENSE_INDEX = "prefix index with three integers per key"
@@ -69,6 +72,9 @@ TAIL_POSITIONS3 = "level-3 words as positions in level 2"
 """The two layouts of level 3's words (a model has exactly one): word ids, or (format version 4 on, for
 vocabularies whose ids pass 16 bits) each word's position among the words stored after the pair's last word,
 16 bits wherever that list is no longer than 65,536 words; the ``START START`` pair keeps word ids."""
+STORED_WEIGHTS2 = "stored level-2 weights"
+DERIVED_WEIGHTS2 = "derived level-2 weights"
+"""The two layouts of level 2's weights, as those of level 3 (derived on load, format version 4 on)."""
 STORED_WEIGHTS = "stored level-3 weights"
 DERIVED_WEIGHTS = "derived level-3 weights"
 """The two layouts of level 3's weights (a model has exactly one): ``l3.gamma`` for every pair, or only where
@@ -87,6 +93,8 @@ class Counts(NamedTuple):
         listed: keys of the compact prefix index whose range has a stored list (span 0).
         displayed: words with a stored display form (V unless ``vocab.display_ids`` says fewer).
         weights: pairs with a stored level-3 weight (length of ``l3.weight_slot``).
+        weights2: context words with a stored level-2 weight (length of ``l2.weight_slot``).
+        ranked2: context words with a ranked list (length of ``rank2.word``).
     """
 
     words: int
@@ -97,6 +105,8 @@ class Counts(NamedTuple):
     listed: int = 0
     displayed: int = 0
     weights: int = 0
+    weights2: int = 0
+    ranked2: int = 0
 
 
 Length = Callable[[Counts], int]
@@ -127,8 +137,6 @@ class ModelArrays:
     """The word of each bigram entry, sorted within a context."""
     l2_value: Values = _section("l2.value", lambda n: n.n2)
     """The stored value of each bigram entry."""
-    l2_gamma: Floats = _section("l2.gamma", lambda n: n.words + 3)
-    """The lower-order weight of each context word."""
     l3_value: Values = _section("l3.value", lambda n: n.n3)
     """The stored value of each trigram entry."""
     vocab_trie: Bytes = _section("vocab.trie")
@@ -152,7 +160,7 @@ class ModelArrays:
     vocab_key_first: WordIds | None = _optional("vocab.key_first", COMPACT_INDEX)
     """Per trie key: the first id with the prefix (the key is a word when that word is the key itself)."""
     vocab_key_span: NDArray[np.uint8] | None = _optional("vocab.key_span", COMPACT_INDEX, lambda n: n.keys)
-    """Per trie key: how many words have the prefix, or 0 for a range with a stored list (more than 12 words)."""
+    """Per trie key: how many words have the prefix, or 0 for a range with a stored list (more than 12 words before format 4, more than 255 from it)."""
     vocab_listed_span: Offsets | None = _optional("vocab.listed_span", COMPACT_INDEX, lambda n: n.listed)
     """Per key of span 0, in key order: how many words have the prefix."""
     vocab_listed_order: Offsets | None = _optional("vocab.listed_order", COMPACT_INDEX, lambda n: n.listed)
@@ -168,6 +176,11 @@ class ModelArrays:
     """Level-3 offsets in blocks: each entry's step from its block's base."""
     l3_off_wide: NDArray[np.uint32] | None = _optional("l3.off_wide", BLOCKED3)
     """Level-3 offsets in blocks: the full offsets of the blocks that span more than 8 bits."""
+    l2_gamma: Floats | None = _optional("l2.gamma", STORED_WEIGHTS2, lambda n: n.words + 3)
+    """The lower-order weight of each context word (or the next two fields; :meth:`level2_weights` reads either)."""
+    l2_weight_slot: NDArray[np.uint32] | None = _optional("l2.weight_slot", DERIVED_WEIGHTS2)
+    """The context words whose level-2 weight is stored, increasing; the others are derived on load."""
+    l2_weight_value: Floats | None = _optional("l2.weight_value", DERIVED_WEIGHTS2, lambda n: n.weights2)
     l3_word: WordIds | None = _optional("l3.word", WORD_IDS3, lambda n: n.n3)
     """The word of each trigram entry, sorted within a context pair (or the next two fields; :meth:`trigram_words` reads either)."""
     l3_tail: NDArray[np.uint16] | None = _optional("l3.tail", TAIL_POSITIONS3)
@@ -184,8 +197,12 @@ class ModelArrays:
     """The 256 levels of 8-bit bigram values."""
     l3_codebook: NDArray[np.float64] | None = _optional("l3.codebook", CODEBOOKS, lambda n: 256)
     """The 256 levels of 8-bit trigram values."""
-    rank2_off: Offsets | None = _optional("rank2.off", RANKED, lambda n: n.words + 4)
-    """Per context word, where its ranked list starts in ``rank2_ids``."""
+    rank2_off: Offsets | None = _optional("rank2.off", DENSE_RANKED2, lambda n: n.words + 4)
+    """Per context word, where its ranked list starts in ``rank2_ids`` (formats 1 to 3; or the next two fields)."""
+    rank2_word: WordIds | None = _optional("rank2.word", SPARSE_RANKED2)
+    """The context words that have a ranked list, increasing (format 4 on)."""
+    rank2_list_off: Offsets | None = _optional("rank2.list_off", SPARSE_RANKED2, lambda n: n.ranked2 + 1)
+    """Per context word of ``rank2_word``, where its ranked list starts in ``rank2_ids``; one end entry."""
     rank2_ids: WordIds | None = _optional("rank2.ids", RANKED)
     rank3_slot: Offsets | None = _optional("rank3.slot", RANKED)
     """The bigram entries (context pairs) that have a ranked list, increasing."""
@@ -223,6 +240,20 @@ class ModelArrays:
             return self.l3_off.astype(np.int64)
         assert self.l3_off_base is not None and self.l3_off_delta is not None and self.l3_off_wide is not None
         return from_blocks(self.l3_off_base, self.l3_off_delta, self.l3_off_wide)
+
+    def ranked2_offsets(self) -> NDArray[np.int64] | None:
+        """Where each context word's ranked list starts, per context word (V + 4, int64), whichever layout stores it."""
+        if self.rank2_off is not None:
+            return self.rank2_off.astype(np.int64)
+        if self.rank2_word is None or self.rank2_list_off is None:
+            return None
+        words = unpack_ids(self.rank2_word).astype(np.int64)
+        starts = self.rank2_list_off.astype(np.int64)
+        lengths = np.zeros(len(self.l2_off) - 1, dtype=np.int64)
+        lengths[words] = np.diff(starts)
+        out = np.zeros(len(lengths) + 1, dtype=np.int64)
+        np.cumsum(lengths, out=out[1:])
+        return out
 
     def level3_offset_reader(self) -> np.ndarray | BlockedOffsets:
         """Level 3's offsets for reading one entry at a time (``.item(i)``), without expanding them."""
@@ -268,7 +299,25 @@ class ModelArrays:
         found = self.l2_off.astype(np.int64)[last] + self.l3_tail
         return np.concatenate((w2[found], unpack_ids(self.l3_start_word).astype(np.int64)))
 
-    def weight_levels(self) -> dict[str, np.ndarray]:
+    def level2_weights(self, interpolated: bool) -> NDArray[np.float64]:
+        """Every context word's level-2 weight (stored, or derived), float64 of shape (V + 3,)."""
+        if self.l2_gamma is not None:
+            return self.l2_gamma.astype(np.float64)
+        assert self.l2_weight_slot is not None and self.l2_weight_value is not None
+        off2 = self.l2_off.astype(np.int64)
+        weights = np.ones(len(off2) - 1)
+        listed = self.l2_weight_slot.astype(np.int64)
+        derived = np.diff(off2) > 0
+        derived[listed] = False
+        contexts = np.flatnonzero(derived)
+        table2 = value_table(self.l2_value, self.l2_codebook)
+        a2 = table2[self.l2_value] if table2 is not None else self.l2_value.astype(np.float64)
+        found = derived_weights2(contexts, interpolated=interpolated, p1=self.p1.astype(np.float64), off2=off2, w2=self.bigram_words(), a2=a2)
+        weights[contexts] = found[0]
+        weights[listed] = self.l2_weight_value.astype(np.float64)
+        return weights
+
+    def weight_levels(self, interpolated: bool) -> dict[str, np.ndarray]:
         """The arrays a level-3 weight is derived from, decoded (keyword arguments of
         :func:`~foretype.modelfile.weights.derived_weights`)."""
         table2 = value_table(self.l2_value, self.l2_codebook)
@@ -278,7 +327,7 @@ class ModelArrays:
             "off2": self.l2_off.astype(np.int64),
             "w2": self.bigram_words(),
             "a2": table2[self.l2_value] if table2 is not None else self.l2_value.astype(np.float64),
-            "g2": self.l2_gamma.astype(np.float64),
+            "g2": self.level2_weights(interpolated),
             "off3": self.level3_offsets(),
             "w3": self.trigram_words(),
             "a3": table3[self.l3_value] if table3 is not None else self.l3_value.astype(np.float64),
@@ -289,7 +338,7 @@ class ModelArrays:
         if self.l3_gamma is not None:
             return self.l3_gamma.astype(np.float64)
         assert self.l3_weight_slot is not None and self.l3_weight_value is not None
-        levels = self.weight_levels()
+        levels = self.weight_levels(interpolated)
         off3 = levels["off3"]
         weights = np.ones(len(off3) - 1)
         listed = self.l3_weight_slot.astype(np.int64)
@@ -316,6 +365,8 @@ class ModelArrays:
                 out = dataclasses.replace(out, l3_off=None, l3_off_base=base, l3_off_delta=delta, l3_off_wide=wide)
         if interpolated is not None and out.l3_gamma is not None:
             out = out._sparse_weights(interpolated)
+        if interpolated is not None and out.l2_gamma is not None:
+            out = out._sparse_weights2(interpolated)
         if out.l3_word is not None and self.vocab_size + 3 > 2**16:
             out = out._tail_positions()
         packed = {}
@@ -347,11 +398,31 @@ class ModelArrays:
             return self
         return dataclasses.replace(self, l3_word=None, l3_tail=tail.astype(np.uint16), l3_start_word=self.l3_word[cut:] if self.l3_word.dtype != np.uint8 else self.l3_word[3 * cut :])
 
+    def _sparse_weights2(self, interpolated: bool) -> ModelArrays:
+        """Level-2 weights stored only where the derived weight differs or is slow to derive (when that is smaller)."""
+        assert self.l2_gamma is not None
+        weights = self.l2_gamma.astype(np.float64)
+        off2 = self.l2_off.astype(np.int64)
+        lengths = np.diff(off2)
+        candidates = np.flatnonzero((lengths > 0) & (lengths <= DERIVED_MAX))
+        table2 = value_table(self.l2_value, self.l2_codebook)
+        a2 = table2[self.l2_value] if table2 is not None else self.l2_value.astype(np.float64)
+        derived = derived_weights2(candidates, interpolated=interpolated, p1=self.p1.astype(np.float64), off2=off2, w2=self.bigram_words(), a2=a2)[0]
+        listed_mask = lengths > 0
+        listed_mask[candidates[derived == weights[candidates]]] = False
+        listed = np.flatnonzero(listed_mask)
+        values = weights[listed]
+        narrow = values.astype(np.float32)
+        stored: np.ndarray = narrow if np.array_equal(narrow.astype(np.float64), values) else values
+        if len(listed) * (4 + stored.itemsize) >= self.l2_gamma.nbytes:
+            return self
+        return dataclasses.replace(self, l2_gamma=None, l2_weight_slot=listed.astype(np.uint32), l2_weight_value=stored)
+
     def _sparse_weights(self, interpolated: bool) -> ModelArrays:
         """Level-3 weights stored only where the derived weight differs or is slow to derive (when that is smaller)."""
         assert self.l3_gamma is not None
         weights = self.l3_gamma.astype(np.float64)
-        levels = self.weight_levels()
+        levels = self.weight_levels(interpolated)
         lengths = np.diff(levels["off3"])
         candidates = np.flatnonzero((lengths > 0) & (lengths <= DERIVED_MAX))
         derived = derived_weights(candidates, interpolated=interpolated, **levels)[0]
@@ -368,7 +439,7 @@ class ModelArrays:
     @property
     def ranked(self) -> bool:
         """Whether the model carries ranked lists."""
-        return self.rank2_off is not None
+        return self.rank2_ids is not None
 
     @classmethod
     def from_sections(cls, sections: Mapping[str, np.ndarray], name: object = "model") -> ModelArrays:

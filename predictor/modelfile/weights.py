@@ -84,14 +84,69 @@ def derived_weights(
             p = p1[w]
             p2 = np.where(hit, a2[pos] if len(a2) else 0.0, g2v[active] * p)
             lower[active] += np.where(has2[active], p2, p)
+    return _finish(stored, lower, interpolated), stored, lower
+
+
+def derived_weights2(
+    contexts: np.ndarray, *, interpolated: bool, p1: np.ndarray, off2: np.ndarray, w2: np.ndarray, a2: np.ndarray
+) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
+    """The derived level-2 weights of some context words (each with at least one bigram entry).
+
+    As :func:`derived_weights` one level down: S sums the context's stored
+    values, L the unigram probabilities of its stored words, one float64
+    addition at a time in stored order.  Computed once per model on load
+    (vectorised), so both query paths read the same array.
+
+    Returns:
+        ``(weights, stored, lower)`` as :func:`derived_weights` returns them.
+    """
+    contexts = np.asarray(contexts, dtype=np.int64)
+    starts = off2[contexts]
+    lengths = off2[contexts + 1] - starts
+    stored = np.zeros(len(contexts))
+    lower = np.zeros(len(contexts))
+    for j in range(int(lengths.max()) if len(lengths) else 0):
+        active = np.flatnonzero(lengths > j)
+        at = starts[active] + j
+        stored[active] += a2[at]
+        if not interpolated:
+            lower[active] += p1[np.asarray(w2[at], dtype=np.int64)]
+    return _finish(stored, lower, interpolated), stored, lower
+
+
+def _finish(stored: np.ndarray, lower: np.ndarray, interpolated: bool) -> NDArray[np.float64]:
+    """``max(1 - S, 0)``, over ``1 - L`` for a back-off model (0 where ``1 - L`` is at most :data:`FREE_FLOOR`)."""
     left = 1.0 - stored
     left[left < 0] = 0.0
     if interpolated:
-        return left, stored, lower
+        return left
     free = 1.0 - lower
     with np.errstate(divide="ignore", invalid="ignore"):
-        weights = np.where(free > FREE_FLOOR, left / np.where(free > FREE_FLOOR, free, 1.0), 0.0)
-    return weights, stored, lower
+        return np.where(free > FREE_FLOOR, left / np.where(free > FREE_FLOOR, free, 1.0), 0.0)
+
+
+def settle_weights2(intended: np.ndarray, total1: float, *, interpolated: bool, p1: np.ndarray, off2: np.ndarray, w2: np.ndarray, a2: np.ndarray) -> NDArray[np.float64]:
+    """The level-2 weights a model is built with (as :func:`settle_weights`, one level down).
+
+    Args:
+        intended: float64 weight per context word (V + 3).
+        total1: the sum of every unigram probability as stored.
+
+    Returns:
+        float64 weights: derived where that keeps the distribution within :data:`SUM_SLACK` of 1, else the
+        intended ones rounded to float32; 1.0 for a context word with no entries (never read).
+    """
+    lengths = np.diff(off2)
+    weights = intended.astype(np.float32).astype(np.float64)
+    weights[lengths == 0] = 1.0
+    candidates = np.flatnonzero((lengths > 0) & (lengths <= DERIVED_MAX))
+    if not len(candidates):
+        return weights
+    derived, stored, lower = derived_weights2(candidates, interpolated=interpolated, p1=p1, off2=off2, w2=w2, a2=a2)
+    sums = stored + derived * (total1 if interpolated else total1 - lower)
+    good = (np.abs(sums - 1.0) <= SUM_SLACK) & ((derived == 0) == (intended[candidates] == 0))
+    weights[candidates[good]] = derived[good]
+    return weights
 
 
 def settle_weights(intended: np.ndarray, lower_total: np.ndarray, *, interpolated: bool, **levels: np.ndarray) -> NDArray[np.float64]:
@@ -107,11 +162,12 @@ def settle_weights(intended: np.ndarray, lower_total: np.ndarray, *, interpolate
         float64 weights of shape (n2 + 1,): a pair with at most :data:`DERIVED_MAX` entries takes its
         derived weight where its distribution then sums to 1 within :data:`SUM_SLACK` and the weight is
         0 exactly where the intended one is; every other weight is the intended one rounded to float32
-        (stored in the file).
+        (stored in the file); 1.0 for a pair with no entries (never read).
     """
     off3 = levels["off3"]
     lengths = np.diff(off3)
     weights = intended.astype(np.float32).astype(np.float64)
+    weights[lengths == 0] = 1.0
     candidates = np.flatnonzero((lengths > 0) & (lengths <= DERIVED_MAX))
     if not len(candidates):
         return weights

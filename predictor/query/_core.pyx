@@ -209,9 +209,9 @@ cdef class QueryCore:
                 raise ValueError(f"{level} values need a table of {codes} entries")
         self._set(&self.table2, np.ascontiguousarray(table2 if table2 is not None else np.zeros(1), dtype=np.float64), keep)
         self._set(&self.table3, np.ascontiguousarray(table3 if table3 is not None else np.zeros(1), dtype=np.float64), keep)
-        self.ranked = arrays.rank2_off is not None
+        self.ranked = arrays.ranked
         if self.ranked:
-            self._set(&self.r2off, np.ascontiguousarray(arrays.rank2_off, dtype=np.int64), keep)
+            self._set(&self.r2off, np.ascontiguousarray(arrays.ranked2_offsets(), dtype=np.int64), keep)
             self._set(&self.r2ids, arrays.rank2_ids, keep, True)
             self._set(&self.r3slot, np.ascontiguousarray(arrays.rank3_slot, dtype=np.int64), keep)
             self._set(&self.r3off, np.ascontiguousarray(arrays.rank3_off, dtype=np.int64), keep)

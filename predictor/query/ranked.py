@@ -25,7 +25,7 @@ class RankLists:
 
     def __init__(self, arrays: ModelArrays) -> None:
         """Wrap a model's ``rank2_*`` and ``rank3_*`` arrays, if it has them."""
-        self._off2 = arrays.rank2_off
+        self._off2 = arrays.ranked2_offsets()
         self._ids2 = arrays.rank2_ids
         self._slots3 = arrays.rank3_slot
         self._off3 = arrays.rank3_off

@@ -55,7 +55,7 @@ class ScoringCore:
         self._w2_full: np.ndarray | None = None
         self._w3_full: np.ndarray | None = None
         self._a2: np.ndarray = arrays.l2_value
-        self._g2 = arrays.l2_gamma.astype(np.float64)
+        self._g2 = arrays.level2_weights(bool(meta["interpolated"]))
         self._off3 = arrays.level3_offset_reader()
         self._arrays = arrays
         self._off3_full: np.ndarray | None = None

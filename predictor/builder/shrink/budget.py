@@ -54,12 +54,13 @@ def level_bytes(tables: BackoffTables, encoding: str, ranked_min: int) -> dict[s
         "l2.off": offsets_dtype(n2).itemsize * (size + 4),
         "l2.word": word * n2,
         "l2.value": value * n2,
-        "l2.gamma": 4 * (size + 3),
+        **_level2_weight_bytes(counts2, size),
         **_level3_offset_bytes(tables.off3),
         "l3.word": word * n3,
         "l3.value": value * n3,
         **_level3_weight_bytes(counts3, n2),
-        "rank2.off": offsets_dtype(listed2).itemsize * (size + 4),
+        "rank2.word": word * len(big2),
+        "rank2.list_off": offsets_dtype(listed2).itemsize * (len(big2) + 1),
         "rank2.ids": word * listed2,
         "rank3.slot": offsets_dtype(n2 + 1).itemsize * len(big3),
         "rank3.off": offsets_dtype(listed3).itemsize * (len(big3) + 1),
@@ -68,6 +69,14 @@ def level_bytes(tables: BackoffTables, encoding: str, ranked_min: int) -> dict[s
     if encoding == CODEBOOK8:
         out["l2.codebook"] = out["l3.codebook"] = 8 * LEVELS
     return out
+
+
+def _level2_weight_bytes(counts2: np.ndarray, size: int) -> dict[str, int]:
+    """Bytes of level 2's weights as a saved file stores them (as :func:`_level3_weight_bytes`)."""
+    listed = int(np.count_nonzero(counts2 > DERIVED_MAX))
+    if 8 * listed >= 4 * (size + 3):
+        return {"l2.gamma": 4 * (size + 3)}
+    return {"l2.weight_slot": 4 * listed, "l2.weight_value": 4 * listed}
 
 
 def _level3_weight_bytes(counts3: np.ndarray, n2: int) -> dict[str, int]:

@@ -167,7 +167,7 @@ def backoff_tables(model: LanguageModel) -> BackoffTables:
     off2 = s.l2_off.astype(np.int64)
     w2 = s.bigram_words().astype(np.int64)
     a2 = _decode_values(model, "l2")
-    g2 = s.l2_gamma.astype(np.float64)
+    g2 = s.level2_weights(bool(model.meta["interpolated"]))
     off3 = s.level3_offsets()
     w3 = s.trigram_words().astype(np.int64)
     a3 = _decode_values(model, "l3")
