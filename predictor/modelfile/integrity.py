@@ -115,9 +115,9 @@ def _check_widths(name: object, arrays: ModelArrays, size: int) -> None:
     """Sections of word ids stored as uint16 (or in three bytes) must fit every id the vocabulary needs (V + 3 symbols)."""
     for spec in SPECS:
         array = getattr(arrays, spec.field)
-        if not spec.word_ids or array is None:
+        if not spec.packable or array is None:
             continue
-        if (array.dtype == np.uint16 and size + 3 > 2**16) or (is_packed(array) and size + 3 > PACKED_LIMIT):
+        if spec.word_ids and ((array.dtype == np.uint16 and size + 3 > 2**16) or (is_packed(array) and size + 3 > PACKED_LIMIT)):
             raise ModelFileError(f"{name}: corrupt (section {spec.section} is too narrow for {size:,} words)")
         if is_packed(array) and len(array) % 3:
             raise ModelFileError(f"{name}: corrupt (section {spec.section} does not hold whole three-byte ids)")
@@ -137,7 +137,7 @@ def _check_lengths(name: object, arrays: ModelArrays, size: int) -> None:
         if array is None or spec.length is None:
             continue
         length = spec.length(counts)
-        entries = id_count_of(array) if spec.word_ids else len(array)
+        entries = id_count_of(array) if spec.packable else len(array)
         if entries != length:
             raise ModelFileError(f"{name}: corrupt (section {spec.section} has {entries:,} entries, expected {length:,})")
 
@@ -302,7 +302,7 @@ def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
         raise ModelFileError(f"{name}: corrupt (section vocab.trie cannot be read)") from None
     if len(trie) != len(first):
         raise ModelFileError(f"{name}: corrupt (the trie holds {len(trie):,} keys but the prefix index {len(first):,})")
-    if s.vocab_word_keys is not None and len(s.vocab_word_keys) and int(s.vocab_word_keys.max()) >= len(trie):
+    if s.vocab_word_keys is not None and len(s.vocab_word_keys) and id_range(s.vocab_word_keys)[1] >= len(trie):
         raise ModelFileError(f"{name}: corrupt (section vocab.word_keys names keys the trie does not hold)")
 
 
@@ -365,7 +365,7 @@ def _model_forms(s: ModelArrays) -> list[str]:
         return _unpack_all(s.vocab_words_blob, s.vocab_words_off)
     trie = marisa_trie.Trie()
     trie.map(s.vocab_trie.data)
-    return [trie.restore_key(int(key)) for key in s.vocab_word_keys]
+    return [trie.restore_key(int(key)) for key in unpack_ids(s.vocab_word_keys)]
 
 
 def _unpack_all(blob: np.ndarray, offsets: np.ndarray) -> list[str]:

@@ -117,8 +117,9 @@ def _section(name: str, length: Length | None = None, group: str = REQUIRED) -> 
     return dataclasses.field(metadata={"section": name, "length": length, "group": group})
 
 
-def _optional(name: str, group: str, length: Length | None = None) -> Any:
-    return dataclasses.field(default=None, metadata={"section": name, "length": length, "group": group})
+def _optional(name: str, group: str, length: Length | None = None, *, packable: bool = False) -> Any:
+    """Declare an optional field (``packable``: a section other than word ids whose uint8 form holds three bytes per entry)."""
+    return dataclasses.field(default=None, metadata={"section": name, "length": length, "group": group, "packable": packable})
 
 
 @dataclass(frozen=True, eq=False)
@@ -149,8 +150,9 @@ class ModelArrays:
     vocab_words_blob: Bytes | None = _optional("vocab.words_blob", WORD_STRINGS)
     """The words' model forms, UTF-8, concatenated (or, from format 4, each word's trie key in ``vocab.word_keys``)."""
     vocab_words_off: Offsets | None = _optional("vocab.words_off", WORD_STRINGS, lambda n: n.words + 1)
-    vocab_word_keys: NDArray[np.uint32] | None = _optional("vocab.word_keys", WORD_KEYS, lambda n: n.words)
-    """Per word id, the id of its trie key: the model form is restored from the trie (the trie holds every word)."""
+    vocab_word_keys: NDArray[np.uint32 | np.uint8] | None = _optional("vocab.word_keys", WORD_KEYS, lambda n: n.words, packable=True)
+    """Per word id, the id of its trie key: the model form is restored from the trie (the trie holds every word);
+    uint8: three bytes per key id, as packed word ids."""
     vocab_key_lo: Bounds | None = _optional("vocab.key_lo", DENSE_INDEX)
     """Per trie key: the first id with the prefix, or ``-(first id) - 1`` when the key is not itself a word."""
     vocab_key_hi: Bounds | None = _optional("vocab.key_hi", DENSE_INDEX, lambda n: n.keys)
@@ -266,7 +268,7 @@ class ModelArrays:
     def vocab_size(self) -> int:
         """V, the number of suggestable words."""
         if self.vocab_word_keys is not None:
-            return len(self.vocab_word_keys)
+            return id_count(self.vocab_word_keys)
         assert self.vocab_words_off is not None
         return len(self.vocab_words_off) - 1
 
@@ -375,6 +377,9 @@ class ModelArrays:
                 array = getattr(out, spec.field)
                 if spec.word_ids and array is not None and array.dtype == np.int32:
                     packed[spec.field] = pack_ids(array)
+        keys = out.vocab_word_keys
+        if keys is not None and keys.dtype == np.uint32 and (not len(keys) or int(keys.max()) < PACKED_LIMIT):
+            packed["vocab_word_keys"] = pack_ids(keys)
         return dataclasses.replace(out, **packed) if packed else out
 
     def _tail_positions(self) -> ModelArrays:
@@ -504,6 +509,7 @@ class SectionSpec(NamedTuple):
         group: :data:`REQUIRED`, :data:`RANKED` or :data:`CODEBOOKS`.
         length: its length given the counts, or None where no count fixes it.
         word_ids: it holds word ids (so its width must fit the vocabulary).
+        packable: its uint8 form holds three bytes per entry (:mod:`foretype.modelfile.packed`).
     """
 
     field: str
@@ -512,6 +518,7 @@ class SectionSpec(NamedTuple):
     group: str
     length: Length | None
     word_ids: bool
+    packable: bool
 
 
 def _dtype_names(hint: Any) -> tuple[frozenset[str], bool]:
@@ -535,7 +542,7 @@ def _specs() -> tuple[SectionSpec, ...]:
         group = item.metadata["group"]
         if optional == (group == REQUIRED):
             raise TypeError(f"field {item.name}: optional fields need a group, required ones none")
-        specs.append(SectionSpec(item.name, item.metadata["section"], dtypes, group, item.metadata["length"], dtypes == word_ids))
+        specs.append(SectionSpec(item.name, item.metadata["section"], dtypes, group, item.metadata["length"], dtypes == word_ids, dtypes == word_ids or item.metadata.get("packable", False)))
     return tuple(specs)
 
 

@@ -139,7 +139,7 @@ class Vocabulary:
     def _model_form(self, word_id: int) -> str:
         """A word's model form: restored from the trie (format 4) or read from the string table."""
         if self._word_keys is not None:
-            return str(self._trie.restore_key(int(self._word_keys.item(word_id))))
+            return str(self._trie.restore_key(id_at(self._word_keys, word_id)))
         assert self._words_blob is not None and self._words_off is not None
         return unpack_string(self._words_blob, self._words_off, word_id)
 
