@@ -282,7 +282,7 @@ def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
     _ids(name, "vocab.order", order, size - 1)
     if s.vocab_display_ids is not None:
         _ids(name, "vocab.display_ids", s.vocab_display_ids, size - 1)
-        _increasing(name, "vocab.display_ids", s.vocab_display_ids)
+        _increasing(name, "vocab.display_ids", unpack_ids(s.vocab_display_ids))
     index = s.prefix_index()
     first, hi = index.first, index.hi
     if len(first) and (int(first.min()) < 0 or int(hi.max()) > size or bool(np.any(hi <= first))):
