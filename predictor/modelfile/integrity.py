@@ -36,7 +36,7 @@ from .blocked import wide_indices_fit
 from .format import ModelFile
 from .limits import MAX_VOCABULARY
 from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, DENSE_RANKED2, DERIVED_WEIGHTS, DERIVED_WEIGHTS2, PLAIN3, RANKED, SPARSE_RANKED2, SPECS, STORED_WEIGHTS, STORED_WEIGHTS2, TAIL_POSITIONS3, WORD_IDS3, WORD_KEYS, WORD_STRINGS, Counts, ModelArrays
-from .packed import PACKED_LIMIT, id_range, is_packed, unpack_ids
+from .packed import PACKED_LIMIT, id_range, is_packed, largest_id, unpack_ids
 
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
 _TRIE_MAGIC = b"We love Marisa."
@@ -147,13 +147,14 @@ def _check_levels(name: object, s: ModelArrays, size: int) -> None:
     _offsets(name, "l2.off", s.l2_off, s.n2)
     if s.l3_off_base is not None and s.l3_off_wide is not None and not wide_indices_fit(s.l3_off_base, s.n2 + 2, len(s.l3_off_wide)):
         raise ModelFileError(f"{name}: corrupt (section l3.off_base points past section l3.off_wide)")
-    _offsets(name, "l3.off", s.level3_offsets(), s.n3)
+    off3 = s.level3_offsets()
+    _offsets(name, "l3.off", off3, s.n3)
     # Predicted words are 0 .. V + 1 (words, UNKNOWN, END); START is context only.
     _ids(name, "l2.word", s.l2_word, size + 1)
     if s.l3_word is not None:
         _ids(name, "l3.word", s.l3_word, size + 1)
     else:
-        _check_tail_positions(name, s, size)
+        _check_tail_positions(name, s, size, off3)
     _probabilities(name, "p1", s.p1, upper=1.0)
     if s.l2_gamma is not None:
         _probabilities(name, "l2.gamma", s.l2_gamma)
@@ -175,22 +176,16 @@ def _check_levels(name: object, s: ModelArrays, size: int) -> None:
             _probabilities(name, section, book, upper=1.0)
 
 
-def _check_tail_positions(name: object, s: ModelArrays, size: int) -> None:
+def _check_tail_positions(name: object, s: ModelArrays, size: int, off3: np.ndarray) -> None:
     """Level 3's words as positions: each inside its pair's last word's bigram list; ``START START``'s words in range."""
     assert s.l3_tail is not None and s.l3_start_word is not None
     n2 = s.n2
-    off3 = s.level3_offsets()
     if int(off3[n2]) != len(s.l3_tail):
         raise ModelFileError(f"{name}: corrupt (section l3.tail does not cover the pairs before the sentence start)")
     _ids(name, "l3.start_word", s.l3_start_word, size + 1)
-    lengths = np.diff(off3[: n2 + 1])
-    filled = np.flatnonzero(lengths > 0)
-    if not len(filled):
-        return
-    largest = np.maximum.reduceat(s.l3_tail, off3[filled])
-    last = unpack_ids(s.l2_word)[filled].astype(np.int64)
-    off2 = s.l2_off.astype(np.int64)
-    if bool(np.any(largest.astype(np.int64) >= off2[last + 1] - off2[last])):
+    # Each entry against the length of its pair's last word's list (one pass; no decoding per slot).
+    limit = np.diff(s.l2_off).astype(np.int32)[unpack_ids(s.l2_word)]
+    if bool(np.any(s.l3_tail >= np.repeat(limit, np.diff(off3[: n2 + 1])))):
         raise ModelFileError(f"{name}: corrupt (section l3.tail points past a bigram list)")
 
 
@@ -257,7 +252,7 @@ def id_count_of(array: np.ndarray) -> int:
 def _ids(name: object, section: str, ids: np.ndarray, highest: int) -> None:
     if not len(ids):
         return
-    low, high = id_range(ids) if is_packed(ids) else (int(ids.min()), int(ids.max()))
+    low, high = (0, largest_id(ids)) if is_packed(ids) else (int(ids.min()), int(ids.max()))  # packed ids are unsigned
     if low < 0 or high > highest:
         raise ModelFileError(f"{name}: corrupt (section {section} holds ids out of range)")
 

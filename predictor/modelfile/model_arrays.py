@@ -313,8 +313,7 @@ class ModelArrays:
         derived[listed] = False
         contexts = np.flatnonzero(derived)
         table2 = value_table(self.l2_value, self.l2_codebook)
-        a2 = table2[self.l2_value] if table2 is not None else self.l2_value.astype(np.float64)
-        found = derived_weights2(contexts, interpolated=interpolated, p1=self.p1.astype(np.float64), off2=off2, w2=self.bigram_words(), a2=a2)
+        found = derived_weights2(contexts, interpolated=interpolated, p1=self.p1.astype(np.float64), off2=off2, w2=self.l2_word, a2=self.l2_value, table2=table2)
         weights[contexts] = found[0]
         weights[listed] = self.l2_weight_value.astype(np.float64)
         return weights

@@ -53,13 +53,43 @@ def id_at(ids: np.ndarray, index: int) -> int:
     return int(ids.item(at)) | int(ids.item(at + 1)) << 8 | int(ids.item(at + 2)) << 16
 
 
+def ids_at(ids: np.ndarray, positions: np.ndarray) -> np.ndarray:
+    """Ids at some positions of a word-id section (int64; a packed section decoded only there)."""
+    positions = np.asarray(positions, dtype=np.int64)
+    if not is_packed(ids):
+        return ids[positions].astype(np.int64)
+    at = 3 * positions
+    return ids[at].astype(np.int64) | (ids[at + 1].astype(np.int64) << 8) | (ids[at + 2].astype(np.int64) << 16)
+
+
+def largest_id(ids: np.ndarray) -> int:
+    """The largest id of a non-empty packed section, reading the high bytes first (most of it is never decoded)."""
+    count = len(ids) // 3
+    candidates = np.arange(count, dtype=np.int64)
+    value = 0
+    for shift, byte in ((16, 2), (8, 1), (0, 0)):
+        column = ids[3 * candidates + byte] if len(candidates) < count else ids[byte : 3 * count : 3]
+        top = int(column.max())
+        value |= top << shift
+        candidates = candidates[column == top]
+    return value
+
+
 def id_range(ids: np.ndarray) -> tuple[int, int]:
     """The smallest and largest id of a non-empty word-id section (a packed one without decoding it whole)."""
     if not is_packed(ids):
         return int(ids.min()), int(ids.max())
-    rows = ids[: len(ids) // 3 * 3].reshape(-1, 3)
-    high = rows[:, 2]
-    top, bottom = int(high.max()), int(high.min())
-    largest = int(unpack_ids(rows[high == top].reshape(-1)).max())
-    smallest = int(unpack_ids(rows[high == bottom].reshape(-1)).min())
-    return smallest, largest
+    return _smallest(ids), largest_id(ids)
+
+
+def _smallest(ids: np.ndarray) -> int:
+    """The smallest id of a non-empty packed section, reading the high bytes first."""
+    count = len(ids) // 3
+    candidates = np.arange(count, dtype=np.int64)
+    value = 0
+    for shift, byte in ((16, 2), (8, 1), (0, 0)):
+        column = ids[3 * candidates + byte] if len(candidates) < count else ids[byte : 3 * count : 3]
+        low = int(column.min())
+        value |= low << shift
+        candidates = candidates[column == low]
+    return value

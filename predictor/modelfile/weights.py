@@ -22,6 +22,8 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import NDArray
 
+from .packed import ids_at
+
 DERIVED_MAX = 8
 """Pairs with more trigram entries than this keep their weight stored (deriving it costs a pass over them)."""
 SUM_SLACK = 2e-7
@@ -49,7 +51,7 @@ def derived_weights(
         slots: int64 slots (bigram entries, or n2 for ``START START``) with at least one trigram entry.
         interpolated: the model's form.
         p1: float64 unigram probabilities (V + 2).
-        off2, w2: level-2 offsets (int64, V + 4) and word ids.
+        off2, w2: level-2 offsets (int64, V + 4) and word ids (of any width, packed included).
         a2: float64 decoded level-2 values.
         g2: float64 level-2 weights (V + 3).
         off3, w3: level-3 offsets (int64) and word ids.
@@ -88,7 +90,7 @@ def derived_weights(
 
 
 def derived_weights2(
-    contexts: np.ndarray, *, interpolated: bool, p1: np.ndarray, off2: np.ndarray, w2: np.ndarray, a2: np.ndarray
+    contexts: np.ndarray, *, interpolated: bool, p1: np.ndarray, off2: np.ndarray, w2: np.ndarray, a2: np.ndarray, table2: np.ndarray | None = None
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     """The derived level-2 weights of some context words (each with at least one bigram entry).
 
@@ -96,6 +98,9 @@ def derived_weights2(
     values, L the unigram probabilities of its stored words, one float64
     addition at a time in stored order.  Computed once per model on load
     (vectorised), so both query paths read the same array.
+
+    Args:
+        a2: float64 decoded level-2 values, or with ``table2`` the stored codes (decoded only where read).
 
     Returns:
         ``(weights, stored, lower)`` as :func:`derived_weights` returns them.
@@ -108,9 +113,9 @@ def derived_weights2(
     for j in range(int(lengths.max()) if len(lengths) else 0):
         active = np.flatnonzero(lengths > j)
         at = starts[active] + j
-        stored[active] += a2[at]
+        stored[active] += table2[a2[at]] if table2 is not None else a2[at].astype(np.float64)
         if not interpolated:
-            lower[active] += p1[np.asarray(w2[at], dtype=np.int64)]
+            lower[active] += p1[ids_at(w2, at)]
     return _finish(stored, lower, interpolated), stored, lower
 
 
