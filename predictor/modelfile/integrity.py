@@ -35,7 +35,27 @@ from ..errors import ModelFileError
 from .blocked import wide_indices_fit
 from .format import ModelFile
 from .limits import MAX_VOCABULARY
-from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, DENSE_RANKED2, DERIVED_WEIGHTS, DERIVED_WEIGHTS2, PLAIN3, RANKED, SPARSE_RANKED2, SPECS, STORED_WEIGHTS, STORED_WEIGHTS2, TAIL_POSITIONS3, WORD_IDS3, WORD_KEYS, WORD_STRINGS, Counts, ModelArrays
+from .model_arrays import (
+    BLOCKED3,
+    CODEBOOKS,
+    COMPACT_INDEX,
+    DENSE_INDEX,
+    DENSE_RANKED2,
+    DERIVED_WEIGHTS,
+    DERIVED_WEIGHTS2,
+    PLAIN3,
+    RANKED,
+    SPARSE_RANKED2,
+    SPECS,
+    STORED_WEIGHTS,
+    STORED_WEIGHTS2,
+    TAIL_POSITIONS3,
+    WORD_IDS3,
+    WORD_KEYS,
+    WORD_STRINGS,
+    Counts,
+    ModelArrays,
+)
 from .packed import PACKED_LIMIT, id_range, is_packed, largest_id, unpack_ids
 
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
@@ -85,7 +105,14 @@ def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
         _check_one_layout(name, arrays, DENSE_RANKED2, SPARSE_RANKED2, "rank2.off")
     elif _group_state(arrays, DENSE_RANKED2) != "none" or _group_state(arrays, SPARSE_RANKED2) != "none":
         raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
-    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off"), (STORED_WEIGHTS, DERIVED_WEIGHTS, "l3.gamma"), (STORED_WEIGHTS2, DERIVED_WEIGHTS2, "l2.gamma"), (WORD_STRINGS, WORD_KEYS, "vocab.words_blob"), (WORD_IDS3, TAIL_POSITIONS3, "l3.word")):
+    for older, newer, first in (
+        (DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"),
+        (PLAIN3, BLOCKED3, "l3.off"),
+        (STORED_WEIGHTS, DERIVED_WEIGHTS, "l3.gamma"),
+        (STORED_WEIGHTS2, DERIVED_WEIGHTS2, "l2.gamma"),
+        (WORD_STRINGS, WORD_KEYS, "vocab.words_blob"),
+        (WORD_IDS3, TAIL_POSITIONS3, "l3.word"),
+    ):
         _check_one_layout(name, arrays, older, newer, first)
     for section, values in (("l2.value", arrays.l2_value), ("l3.value", arrays.l3_value)):
         if values.dtype.name not in _VALUE_TYPES[encoding]:
@@ -156,24 +183,24 @@ def _check_levels(name: object, s: ModelArrays, size: int) -> None:
     else:
         _check_tail_positions(name, s, size, off3)
     _probabilities(name, "p1", s.p1, upper=1.0)
-    if s.l2_gamma is not None:
-        _probabilities(name, "l2.gamma", s.l2_gamma)
-    if s.l2_weight_slot is not None and s.l2_weight_value is not None:
-        _ids(name, "l2.weight_slot", s.l2_weight_slot, size + 2)
-        _increasing(name, "l2.weight_slot", s.l2_weight_slot)
-        _probabilities(name, "l2.weight_value", s.l2_weight_value)
-    if s.l3_gamma is not None:
-        _probabilities(name, "l3.gamma", s.l3_gamma)
-    if s.l3_weight_slot is not None and s.l3_weight_value is not None:
-        _ids(name, "l3.weight_slot", s.l3_weight_slot, s.n2)
-        _increasing(name, "l3.weight_slot", s.l3_weight_slot)
-        _probabilities(name, "l3.weight_value", s.l3_weight_value)
+    _weights(name, "l2", s.l2_gamma, s.l2_weight_slot, s.l2_weight_value, size + 2)
+    _weights(name, "l3", s.l3_gamma, s.l3_weight_slot, s.l3_weight_value, s.n2)
     for section, values in (("l2.value", s.l2_value), ("l3.value", s.l3_value)):
         if values.dtype.kind == "f":
             _probabilities(name, section, values, upper=1.0)
     for section, book in (("l2.codebook", s.l2_codebook), ("l3.codebook", s.l3_codebook)):
         if book is not None:
             _probabilities(name, section, book, upper=1.0)
+
+
+def _weights(name: object, level: str, plain: np.ndarray | None, slots: np.ndarray | None, values: np.ndarray | None, highest: int) -> None:
+    """A level's weights, stored for every context or only for some (slots increasing, up to ``highest``): finite, non-negative."""
+    if plain is not None:
+        _probabilities(name, f"{level}.gamma", plain)
+    if slots is not None and values is not None:
+        _ids(name, f"{level}.weight_slot", slots, highest)
+        _increasing(name, f"{level}.weight_slot", slots)
+        _probabilities(name, f"{level}.weight_value", values)
 
 
 def _check_tail_positions(name: object, s: ModelArrays, size: int, off3: np.ndarray) -> None:
@@ -268,9 +295,7 @@ def _probabilities(name: object, section: str, values: np.ndarray, upper: float 
 
 def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
     """The prefix index and string tables: ranges, listed words, UTF-8, the trie image."""
-    if s.vocab_words_blob is not None and s.vocab_words_off is not None:
-        _strings(name, "vocab.words", s.vocab_words_blob, s.vocab_words_off)
-    _strings(name, "vocab.display", s.vocab_display_blob, s.vocab_display_off)
+    _check_strings(name, s)
     order = s.vocab_order
     if id_count_of(order) < size:
         raise ModelFileError(f"{name}: corrupt (section vocab.order is shorter than the vocabulary)")
@@ -299,6 +324,13 @@ def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
         raise ModelFileError(f"{name}: corrupt (the trie holds {len(trie):,} keys but the prefix index {len(first):,})")
     if s.vocab_word_keys is not None and len(s.vocab_word_keys) and id_range(s.vocab_word_keys)[1] >= len(trie):
         raise ModelFileError(f"{name}: corrupt (section vocab.word_keys names keys the trie does not hold)")
+
+
+def _check_strings(name: object, s: ModelArrays) -> None:
+    """The string tables: model forms (formats 1 to 3) and display forms."""
+    if s.vocab_words_blob is not None and s.vocab_words_off is not None:
+        _strings(name, "vocab.words", s.vocab_words_blob, s.vocab_words_off)
+    _strings(name, "vocab.display", s.vocab_display_blob, s.vocab_display_off)
 
 
 def _strings(name: object, section: str, blob: np.ndarray, offsets: np.ndarray) -> None:

@@ -370,7 +370,7 @@ class ModelArrays:
             out = out._sparse_weights2(interpolated)
         if out.l3_word is not None and self.vocab_size + 3 > 2**16:
             out = out._tail_positions()
-        packed = {}
+        packed: dict[str, Any] = {}
         if self.vocab_size + 3 <= PACKED_LIMIT:
             for spec in SPECS:
                 array = getattr(out, spec.field)
@@ -400,7 +400,9 @@ class ModelArrays:
         tail = at - off2[last]
         if cut and int(tail.max()) > 0xFFFF:
             return self
-        return dataclasses.replace(self, l3_word=None, l3_tail=tail.astype(np.uint16), l3_start_word=self.l3_word[cut:] if self.l3_word.dtype != np.uint8 else self.l3_word[3 * cut :])
+        return dataclasses.replace(
+            self, l3_word=None, l3_tail=tail.astype(np.uint16), l3_start_word=self.l3_word[cut:] if self.l3_word.dtype != np.uint8 else self.l3_word[3 * cut :]
+        )
 
     def _sparse_weights2(self, interpolated: bool) -> ModelArrays:
         """Level-2 weights stored only where the derived weight differs or is slow to derive (when that is smaller)."""
@@ -541,7 +543,9 @@ def _specs() -> tuple[SectionSpec, ...]:
         group = item.metadata["group"]
         if optional == (group == REQUIRED):
             raise TypeError(f"field {item.name}: optional fields need a group, required ones none")
-        specs.append(SectionSpec(item.name, item.metadata["section"], dtypes, group, item.metadata["length"], dtypes == word_ids, dtypes == word_ids or item.metadata.get("packable", False)))
+        specs.append(
+            SectionSpec(item.name, item.metadata["section"], dtypes, group, item.metadata["length"], dtypes == word_ids, dtypes == word_ids or item.metadata.get("packable", False))
+        )
     return tuple(specs)
 
 

@@ -44,7 +44,7 @@ def derived_weights(
     off3: np.ndarray,
     w3: np.ndarray,
     a3: np.ndarray,
-) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     """The derived weights of some slots, summed in the order both query paths use.
 
     Args:

@@ -126,10 +126,11 @@ class ScoringCore:
             return 1.0
         if self._weight_slots is None:
             return float(self._g3[slots.slot])
-        listed = self._weight_slots
+        listed, values = self._weight_slots, self._weight_values
+        assert values is not None
         at = int(listed.searchsorted(slots.slot))
         if at < len(listed) and int(listed[at]) == slots.slot:
-            return float(self._weight_values[at])
+            return float(values[at])
         table3, codes, words = self._table3, self._a3, self._w3
         stored = 0.0
         lower = 0.0

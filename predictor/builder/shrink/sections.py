@@ -84,9 +84,7 @@ def backoff_sections(tables: BackoffTables, encoding: str) -> dict[str, np.ndarr
     free3 = totals2[slot_v] - context_totals(d2[tables.tail3], tables.off3)
     g3 = _weights(stored3, free3, has3)
     # Most pairs' weights are derived from the stored values when queried: the model holds those exactly.
-    g3 = settle_weights(
-        g3, totals2[slot_v], interpolated=False, p1=p1_stored, off2=tables.off2, w2=tables.w2, a2=d2, g2=g2, off3=tables.off3, w3=tables.w3, a3=d3
-    )
+    g3 = settle_weights(g3, totals2[slot_v], interpolated=False, p1=p1_stored, off2=tables.off2, w2=tables.w2, a2=d2, g2=g2, off3=tables.off3, w3=tables.w3, a3=d3)
     word = word_id_dtype(size)
     sections = {
         "p1": p1,
