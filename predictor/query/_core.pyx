@@ -24,7 +24,11 @@ the load checks (``integrity.check_structure``) passed: offsets start at 0,
 never decrease and end at their array's length; stored and listed word ids
 are below the vocabulary's outcome count; ranked-list slots are increasing and
 below the bigram count; level-3 offsets stored in blocks decode (wide blocks
-inside their array) to offsets with those properties.  Sortedness is not assumed for safety: a binary search
+inside their array) to offsets with those properties; word ids in three bytes
+hold a whole number of ids; a level-3 position is below the length of its
+pair's last word's bigram list (and the ``START START`` pair's words are ids in
+range); stored weights name increasing slots below their level's count, with
+finite non-negative values (a derived weight reads only the pair's own entries).  Sortedness is not assumed for safety: a binary search
 over an unsorted slice stays inside the slice.  What callers pass (context
 ids, id ranges, outcome ids) is checked on entry.
 """
