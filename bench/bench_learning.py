@@ -51,6 +51,7 @@ from typing import Any
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent / "tests"))
+sys.path.insert(0, str(HERE.parent / "tests" / "adapt"))
 
 from cache_reference import CacheSource  # noqa: E402
 from machine import finish_facts, machine_facts  # noqa: E402

@@ -23,6 +23,7 @@ LAYERS: dict[str, int] = {
     "arrays": 0,
     "text": 0,
     "outputs": 0,
+    "key_neighbours": 0,
     "counting": 1,
     "estimate": 2,
     "modelfile": 3,

@@ -65,6 +65,7 @@ class PadApp(App[None]):
         cursor_blink: bool = True,
         folder: Path | None = None,
         format_when: Callable[[int], str] | None = None,
+        skip_passed: bool = True,
     ) -> None:
         """Set up the pad.
 
@@ -78,11 +79,13 @@ class PadApp(App[None]):
             folder: where file dialogs start and the message is saved (default: the working folder).
             format_when: writes a Unix time for the learned-words screen (default: local date and time;
                 tests make it constant).
+            skip_passed: within a word, leave out the words offered and passed over, as the
+                simulated typist does by default (so the tallies agree).
         """
         super().__init__()
         self.model = model
         self.make_source = make_source
-        self.session = PadSession(make_source(model), k=k, clock=clock)
+        self.session = PadSession(make_source(model), k=k, clock=clock, skip_passed=skip_passed)
         self.format_latency = format_latency
         self.cursor_blink = cursor_blink
         self.folder = folder if folder is not None else Path.cwd()

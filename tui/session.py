@@ -156,7 +156,7 @@ def plan_acceptance(offer: Offer, index: int) -> Acceptance:
 class PadSession:
     """Suggestions, highlight and tally of one typing session."""
 
-    def __init__(self, source: SuggestionSource, *, k: int = 5, clock: Callable[[], int] = time.perf_counter_ns, skip_passed: bool = False) -> None:
+    def __init__(self, source: SuggestionSource, *, k: int = 5, clock: Callable[[], int] = time.perf_counter_ns, skip_passed: bool = True) -> None:
         """Start a session.
 
         Args:
@@ -165,7 +165,8 @@ class PadSession:
             clock: a nanosecond clock for timing queries (tests pass a fake one).
             skip_passed: while a word is being typed letter by letter, leave out
                 the words already offered for it and passed over (as the
-                simulated typist does with the same setting).
+                simulated typist does with the same setting; on by default, as in
+                the simulator).
         """
         self._source = source
         self.k = k

@@ -107,6 +107,7 @@ def model_from_arpa(
     sections.update(rank_sections(LanguageModel(sections, meta)))
     model = LanguageModel(sections, meta)
     unnormalised = normalisation_warning(model)
+    meta["estimator"]["normalised"] = unnormalised is None  # foretype check holds only normalised files to sums of 1
     listed = {"1": len(parsed.uni_prob), "2": len(parsed.bigrams[0]), "3": len(parsed.trigrams[0])}
     summary = ImportSummary(
         source=str(path),

@@ -98,12 +98,28 @@ def register(commands: argparse._SubParsersAction) -> None:
     p.add_argument("entries", nargs="+", metavar="ENTRY")
     p = action("unblock", "take words or patterns off the never-suggest list", run_unblock)
     p.add_argument("entries", nargs="+", metavar="ENTRY")
-    p = action("set", "change how learning works: uses before a new word is offered, decay", run_set)
+    p = action("set", "change how learning works: uses before a new word is offered, the typo check, the user model's share, decay", run_set)
     p.add_argument("--min-uses", type=positive_int, metavar="N", help="uses before a word new to the model is suggested")
+    p.add_argument(
+        "--hold-slips",
+        action=argparse.BooleanOptionalAction,
+        default=None,
+        help="hold back, for one more use, a new word that a slip of the finger on a word already used would give (default for new files: on)",
+    )
+    p.add_argument(
+        "--share-rule",
+        choices=SHARE_RULE_NAMES,
+        default=None,
+        help="how the user model's share follows its estimated worth (default for new files: sharpened; online: the rule of older files)",
+    )
     p.add_argument("--half-life", type=_half_life, default=argparse.SUPPRESS, metavar="TOKENS", help="let counts halve after TOKENS more learned tokens ('none': never)")
     action("on", "switch learning on (kept in the learned file)", run_switch).set_defaults(learning=True)
     action("off", "switch learning off (kept in the learned file; what was learned stays until wiped)", run_switch).set_defaults(learning=False)
     action("wipe", "delete the learned file: everything learned is gone", run_wipe)
+
+
+SHARE_RULE_NAMES = ("sharpened", "online")
+"""The user-model share rules (``foretype.adapt.share_rule.SHARE_RULES``, written out so the command line starts without the learning code)."""
 
 
 def _learned_path(args: argparse.Namespace) -> Path:
@@ -250,14 +266,18 @@ def run_unblock(args: argparse.Namespace) -> int:
 
 
 def run_set(args: argparse.Namespace) -> int:
-    """foretype learned set --min-uses N --half-life TOKENS."""
+    """foretype learned set --min-uses N --hold-slips --share-rule RULE --half-life TOKENS."""
     updates: dict[str, Any] = {}
     if args.min_uses is not None:
         updates["min_uses"] = args.min_uses
+    if args.hold_slips is not None:
+        updates["hold_slips"] = args.hold_slips
+    if args.share_rule is not None:
+        updates["share_rule"] = args.share_rule
     if hasattr(args, "half_life"):
         updates["half_life"] = args.half_life
     if not updates:
-        raise OptionError("set needs --min-uses N, --half-life TOKENS or both")
+        raise OptionError("set needs at least one of --min-uses N, --hold-slips/--no-hold-slips, --share-rule RULE, --half-life TOKENS")
     return _change(args, lambda learned, changes: _apply_settings(learned, updates, changes))
 
 
@@ -297,7 +317,7 @@ def _print_summary(summary: dict[str, Any], changes: list[str], note: str, strea
 
 
 def _setting_text(key: str, value: Any) -> str:
-    if key == "learning":
+    if key in ("learning", "hold_slips"):
         return "on" if value else "off"
     if key == "half_life":
         return "none" if value is None else f"{value:g} tokens"
@@ -339,7 +359,8 @@ def _format_summary(summary: dict[str, Any]) -> str:
     lines = [
         head,
         f"  base model   {summary['base_model'] or 'the demo model'} ({plural(summary['base_vocab_size'], 'word')})",
-        f"  learning     {'on' if settings['learning'] else 'off'}; new words suggested after {plural(settings['min_uses'], 'use')}; "
+        f"  learning     {'on' if settings['learning'] else 'off'}; new words suggested after {plural(settings['min_uses'], 'use')}"
+        f"{' (a possible typo after one more)' if settings.get('hold_slips') else ''}; share rule {settings.get('share_rule', 'online')}; "
         f"decay {'none' if half is None else f'half-life {half:g} tokens'}",
         f"  held         {plural(summary['tokens'], 'token')}; {plural(summary['distinct_words'], 'distinct word')}, {summary['new_words']:,} new to the model "
         f"({summary['suggestable_new_words']:,} suggestable); {plural(ngrams['2'], 'bigram')}, {plural(ngrams['3'], 'trigram')}",

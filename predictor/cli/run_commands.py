@@ -7,6 +7,7 @@ import sys
 
 from ..errors import OptionError
 from .output import add_model_option, open_model, positive_int
+from .typist_options import add_skip_passed_option
 
 
 def register(commands: argparse._SubParsersAction) -> None:
@@ -25,6 +26,7 @@ def register(commands: argparse._SubParsersAction) -> None:
     learn = p.add_mutually_exclusive_group()
     learn.add_argument("--learn", dest="learning", action="store_const", const=True, help="switch learning on before the pad opens (kept in MODEL.learned, like F6)")
     learn.add_argument("--no-learn", dest="learning", action="store_const", const=False, help="switch learning off before the pad opens (kept in MODEL.learned, like F6)")
+    add_skip_passed_option(p)
     p.set_defaults(handler=run_pad, learning=None)
 
 
@@ -38,7 +40,7 @@ def run_pad(args: argparse.Namespace) -> int:
     # The interface is imported only here, so every other command runs without Textual.
     from ..tui.launch import run_pad as launch  # type: ignore[import-not-found]  # installed as foretype.tui
 
-    return launch(model, k=args.k, learning=getattr(args, "learning", None))
+    return launch(model, k=args.k, learning=getattr(args, "learning", None), skip_passed=args.skip_passed)
 
 
 def stdout_is_terminal() -> bool:

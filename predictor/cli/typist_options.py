@@ -49,13 +49,18 @@ def add_typist_options(p: argparse.ArgumentParser, *, several: bool = False) -> 
         "--autospace", action=argparse.BooleanOptionalAction, default=True, help="a pick writes the space after the word (default: on; --no-autospace: the typist types it)"
     )
     p.add_argument("--min-prefix", type=whole_number, default=0, metavar="N", help="letters typed before the typist looks at suggestions (default 0)")
+    add_skip_passed_option(p)
+    add_text_options(p)
+
+
+def add_skip_passed_option(p: argparse.ArgumentParser) -> None:
+    """Add ``--skip-passed/--no-skip-passed`` (default on), shared by the typist's commands and the pad."""
     p.add_argument(
         "--skip-passed",
         action=argparse.BooleanOptionalAction,
         default=True,
         help="within a word, leave out words already shown and passed over (default: on; --no-skip-passed shows them again)",
     )
-    add_text_options(p)
 
 
 def typist_settings(args: argparse.Namespace) -> TypistSettings:

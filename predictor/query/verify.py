@@ -28,8 +28,15 @@ def verify_model(path: str | os.PathLike[str]) -> ModelFile:
     loaded = read_model_file(path, checksums=True)
     arrays = check_structure(loaded)
     check_thoroughly(loaded, arrays)
-    check_sums(LanguageModel(arrays, loaded.meta, path=loaded.path, file_bytes=loaded.file_bytes))
+    if held_to_sums(loaded.meta):
+        check_sums(LanguageModel(arrays, loaded.meta, path=loaded.path, file_bytes=loaded.file_bytes))
     return loaded
+
+
+def held_to_sums(meta: dict[str, object]) -> bool:
+    """Whether the model's distributions must sum to 1: all but an ARPA file imported as it was, unnormalised."""
+    estimator = meta.get("estimator")
+    return not (isinstance(estimator, dict) and estimator.get("normalised") is False)
 
 
 def check_sums(lm: LanguageModel, samples: int = 48) -> None:

@@ -17,8 +17,9 @@ import numpy as np
 from ..adapt import AdaptedModel
 from ..errors import OptionError
 from ..query.model import LanguageModel
+from ..query.passed_over import suggest_without
 from ..query.vocabulary import END
-from ..text import iter_sentences
+from ..text import capitalise, iter_sentences, model_form
 from .catalogue import ServedModel
 from .problems import ApiError
 from .settings import Limits
@@ -51,6 +52,21 @@ def check_context(context: Sequence[str], limits: Limits) -> list[str]:
     return list(context)
 
 
+MAX_LEAVE_OUT = 1000
+"""Most words one suggest request may leave out."""
+
+
+def check_leave_out(words: Sequence[str] | None, limits: Limits) -> set[str]:
+    """The model forms of the words to leave out; refuses more than :data:`MAX_LEAVE_OUT` or an over-long word (422)."""
+    if not words:
+        return set()
+    if not isinstance(words, list) or not all(isinstance(word, str) for word in words):
+        raise ApiError(422, "bad_leave_out", "leave_out must be a list of words")
+    if len(words) > MAX_LEAVE_OUT:
+        raise ApiError(422, "bad_leave_out", f"leave_out may hold at most {MAX_LEAVE_OUT:,} words, not {len(words):,}")
+    return {model_form(check_text("a word left out", word, limits)) for word in words}
+
+
 # -------------------------------------------------------------- suggestions
 def suggest(
     served: ServedModel,
@@ -62,6 +78,7 @@ def suggest(
     prefix: str | None = None,
     k: int = 5,
     profile: str | None = None,
+    leave_out: Sequence[str] | None = None,
 ) -> dict[str, Any]:
     """The suggestions object for the text before the cursor, or for context words and a prefix.
 
@@ -73,21 +90,29 @@ def suggest(
         context, prefix: the preceding words and the partial word.
         k: how many suggestions.
         profile: the profile's name, when ``source`` is its combined model.
+        leave_out: words left out before the top k is taken, as the typing pad leaves
+            out the words passed over within a word (``query.passed_over``).
 
     Raises:
-        ApiError: k, a text or the context outside the limits, or text given with context or prefix.
+        ApiError: k, a text, the context or the words left out outside the limits, or text given with context or prefix.
     """
     check_k(k, limits)
+    passed = check_leave_out(leave_out, limits)
     if text is not None and (context is not None or prefix is not None):
         raise ApiError(422, "bad_request", "give text, or context and prefix, not both")
     if context is not None or prefix is not None:
         words = check_context(context or [], limits)[-2:]
         typed = check_text("prefix", prefix or "", limits)
-        found = source.suggest(words, typed, k)
+        found = source.suggest(words, typed, k) if not passed else suggest_without(source, *source.context_ids(words), typed, k, passed)
     else:
         before = check_text("text", text or "", limits)
         words, typed = source.parse_cursor_text(before)
-        found = source.suggest_text(before, k)
+        if not passed:
+            found = source.suggest_text(before, k)
+        else:
+            found = suggest_without(source, *source.context_ids(words), typed, k, passed)
+            if not words:
+                found = [s._replace(word=capitalise(s.word)) for s in found]  # as suggest_text writes a sentence's first word
     adapted = source if isinstance(source, AdaptedModel) else None
     rows = [{"word": s.word, "prob": s.prob, "order": s.order, "learned": bool(s.learned), "new_word": bool(s.new_word)} for s in found]
     return {

@@ -76,7 +76,7 @@ async def model_facts(name: str, request: Request) -> JSONResponse:
 async def suggest(body: SuggestRequest, request: Request) -> JSONResponse:
     state = service_state(request)
     served = state.catalogue.get(body.model)
-    return _json(await state.answer(answers.suggest, served, body.profile, text=body.text, context=body.context, prefix=body.prefix, k=body.k))
+    return _json(await state.answer(answers.suggest, served, body.profile, text=body.text, context=body.context, prefix=body.prefix, k=body.k, leave_out=body.leave_out))
 
 
 @router.post("/probability", response_model=WordProbability | SentenceProbability, summary="probability of a word after a context, or of one sentence")

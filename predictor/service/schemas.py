@@ -25,6 +25,7 @@ class SuggestRequest(_Request):
     prefix: str | None = Field(None, description="the partial word typed so far")
     k: int = Field(5, description="how many suggestions (1 to the service's limit)")
     profile: str | None = Field(None, description="combine the model with what this profile learned")
+    leave_out: list[str] | None = Field(None, description="words to leave out before the top k is taken (the words shown and passed over while typing this word)")
 
 
 class SuggestionOut(BaseModel):

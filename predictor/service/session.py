@@ -36,7 +36,7 @@ log = logging.getLogger(__name__)
 
 SESSION_PARAMETERS = ("model", "k", "profile", "learn", "token")
 """The query parameters a session is opened with."""
-MESSAGE_FIELDS = {"suggest": {"type", "seq", "text", "k"}, "learn": {"type", "seq", "event", "word", "context"}}
+MESSAGE_FIELDS = {"suggest": {"type", "seq", "text", "k", "leave_out"}, "learn": {"type", "seq", "event", "word", "context"}}
 """The fields each kind of client message may carry."""
 TRUE, FALSE = ("true", "1", "yes", "on"), ("false", "0", "no", "off", "")
 
@@ -216,7 +216,9 @@ class Session:
     async def suggest(self, request: dict[str, Any]) -> dict[str, Any]:
         """Answer one suggest message (see :meth:`ServiceState.answer` for where it runs)."""
         options = self.options
-        return await self.state.answer(answers.suggest, options.served, options.profile, text=request.get("text", ""), k=request.get("k", options.k))
+        return await self.state.answer(
+            answers.suggest, options.served, options.profile, text=request.get("text", ""), k=request.get("k", options.k), leave_out=request.get("leave_out")
+        )
 
     def learn(self, request: dict[str, Any]) -> dict[str, Any]:
         """Apply one learn message (in a worker thread)."""

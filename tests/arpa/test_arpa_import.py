@@ -324,3 +324,20 @@ def test_a_back_off_weight_above_one_is_kept(tmp_path):
     model, _ = model_from_arpa(path)
     assert math.log10(model.prob("b", ["a"])) == pytest.approx(-0.3, abs=1e-6)
     assert arpa.loadf(path)[0].log_p(("<s>", "a", "b")) == pytest.approx(-0.3, abs=1e-9)
+
+
+def test_check_holds_an_unnormalised_import_to_its_structure_not_to_sums_of_one(hand_file, tmp_path, run_cli, write_file):
+    # The hand file sums to 0.95 after <s> by construction; it is used as it is, so check must not call it corrupt.
+    target = tmp_path / "hand.model"
+    assert run_cli("import", hand_file, "-o", target).code == 0
+    result = run_cli("check", "-m", target)
+    assert result.code == 0 and "not checked for sums of 1 (imported from an ARPA file" in result.out
+    assert json.loads(run_cli("check", "-m", target, "--json").out)["sums_checked"] is False
+    # A normalised file (a built Kneser-Ney model, exported and imported again) is held to sums of 1.
+    corpus = write_file("the ferry leaves at noon .\nthe tide turns at noon .\nthe ferry waits for the tide .\n")
+    built, exported, again = tmp_path / "built.model", tmp_path / "built.arpa", tmp_path / "again.model"
+    assert run_cli("build", corpus, "-o", built).code == 0
+    assert run_cli("export", "-m", built, "-o", exported).code == 0
+    assert run_cli("import", exported, "-o", again).code == 0
+    result = run_cli("check", "-m", again)
+    assert result.code == 0 and result.out.rstrip().endswith("and sampled distributions sum to 1")

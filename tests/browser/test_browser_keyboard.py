@@ -378,3 +378,34 @@ def test_the_page_works_on_a_service_that_requires_its_token(browser, tmp_path: 
         assert [json.loads(line)["kind"] for line in log_path.read_text(encoding="utf-8").splitlines()][-1] in ("key", "list")
     finally:
         stop(guarded)
+
+
+def test_a_space_right_after_a_taken_word_is_absorbed_as_in_the_pad(browser, server: Server) -> None:
+    # The typing pad and the simulated typist absorb it (tests/tui/test_pad_typing.py); the page must count alike.
+    context, page, errors = open_page(browser, server)
+    page.click("#start-study")
+    settle(page)
+    step(page, lambda: page.click("#rail .suggestion:has-text('See')"))
+    state = step(page, lambda: page.keyboard.press("Space"))
+    assert state["text"] == "See " and tally(page) == ("3", "1", "66.7%", "1")
+    state = step(page, lambda: page.click('.key[data-key=" "]'))  # a second space is typed as usual
+    assert state["text"] == "See  " and tally(page) == ("3", "2", "33.3%", "1")
+    context.close()
+    assert errors == []
+
+
+def test_words_typed_past_are_left_out_within_the_word_and_come_back_after_backspace(browser, server: Server) -> None:
+    # The pad's and the simulated typist's default (tests/query/test_passed_over.py): a word shown and passed
+    # over by typing the next letter is not offered again within that word.
+    context, page, errors = open_page(browser, server)
+    page.click("#start-study")
+    start = settle(page)["suggestions"]
+    assert "See" in start
+    after_s = step(page, lambda: page.keyboard.press("s"))["suggestions"]
+    assert after_s and not set(start) & set(after_s)
+    after_se = step(page, lambda: page.keyboard.press("e"))["suggestions"]
+    assert not (set(start) | set(after_s)) & set(after_se)
+    again = step(page, lambda: page.keyboard.press("Backspace"))["suggestions"]
+    assert "See" in again  # a backspace starts the word afresh: the plain top k for "s"
+    context.close()
+    assert errors == []

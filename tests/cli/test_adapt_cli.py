@@ -57,11 +57,15 @@ def test_learning_off_is_kept_in_the_file_and_wipe_removes_it(run_cli, model_pat
     assert "settings: learning off" in run_cli("learned", "off", "-m", model_path).out
     result = run_cli("learned", "set", "-m", model_path, "--min-uses", "3", "--half-life", "2000")
     assert "settings: min uses 3, half life 2000 tokens" in result.out
-    assert "learning     off; new words suggested after 3 uses; decay half-life 2000 tokens" in result.out
+    assert "learning     off; new words suggested after 3 uses (a possible typo after one more); share rule sharpened; decay half-life 2000 tokens" in result.out
+    result = run_cli("learned", "set", "-m", model_path, "--no-hold-slips", "--share-rule", "online")
+    assert "settings: hold slips off, share rule online" in result.out
+    assert "new words suggested after 3 uses; share rule online;" in result.out
+    settings = load_learned(learned_file := Path(f"{model_path}.learned"), foretype.load(model_path)).settings
+    assert (settings.hold_slips, settings.share_rule) == (False, "online")
     refused = run_cli("learned", "feed", "-m", model_path, notes)
     assert refused.code == 2 and refused.err.strip() == "foretype: learning is off for this model; switch it on with 'foretype learned on' to learn from a file"
     assert "settings: learning on" in run_cli("learned", "on", "-m", model_path).out
-    learned_file = Path(f"{model_path}.learned")
     result = run_cli("learned", "wipe", "-m", model_path)
     assert result.code == 0 and f"removed {learned_file}" in result.out and not learned_file.exists()
 
@@ -73,7 +77,7 @@ def test_learning_off_is_kept_in_the_file_and_wipe_removes_it(run_cli, model_pat
         (["block", "two words"], 2, "foretype: a never-suggest entry is one word or pattern, without spaces: 'two words'"),
         (["prune", "--below", "0"], 2, "foretype: argument --below: expected a positive number, got '0' (see 'foretype learned prune --help')"),
         (["prune"], 2, "foretype: prune needs --below C, --older-than DAYS or both"),
-        (["set"], 2, "foretype: set needs --min-uses N, --half-life TOKENS or both"),
+        (["set"], 2, "foretype: set needs at least one of --min-uses N, --hold-slips/--no-hold-slips, --share-rule RULE, --half-life TOKENS"),
     ],
 )
 def test_bad_requests_fail_with_one_line_and_a_distinct_code(run_cli, model_path, args, code, message):
@@ -188,3 +192,10 @@ def test_a_named_learned_file_that_does_not_exist_is_an_error_not_an_empty_model
         assert not missing.exists()
     refused = run_cli("suggest", "-m", model_path, "the ", "--user", missing)
     assert refused.code == 2 and refused.err.strip() == "foretype: --user goes with --adapt"
+
+
+def test_the_share_rules_the_command_line_offers_are_the_engines():
+    from foretype.adapt.share_rule import SHARE_RULES
+    from foretype.cli.learn_commands import SHARE_RULE_NAMES
+
+    assert SHARE_RULE_NAMES == SHARE_RULES

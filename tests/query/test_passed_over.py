@@ -81,3 +81,11 @@ def test_no_word_is_offered_twice_within_a_word_when_passed_over_words_are_left_
 
 def test_the_simulated_typist_leaves_passed_over_words_out_by_default():
     assert TypistSettings().skip_passed
+
+
+def test_the_pad_and_the_simulator_have_the_same_default(base):
+    # Their tallies agree only when both leave out (or both keep) the words passed over.
+    from foretype.tui.app import PadApp
+
+    assert PadSession(base).skip_passed == TypistSettings().skip_passed is True
+    assert PadApp(base).session.skip_passed is True

@@ -87,6 +87,29 @@ def test_context_and_prefix_give_the_same_list_as_the_text(client):
     assert by_words["suggestions"] == by_text["suggestions"]
 
 
+@pytest.mark.parametrize(("text", "leave_out"), [("see you at the sta", ["station", "Start", "nobody"]), ("", ["The", "I"]), ("the tide is hi", ["high"])])
+def test_words_left_out_are_removed_before_the_top_k_is_taken(client, models, text, leave_out):
+    # Brute force: the full ranking, minus the left-out words (as model forms), first k; a sentence's first word capitalised.
+    answer = client.post("/api/suggest", json={"model": "ferry", "text": text, "k": 5, "leave_out": leave_out})
+    assert answer.status_code == 200, answer.text
+    got = answer.json()
+    model = foretype.load(models["ferry"])
+    gone = {model_form(w) for w in leave_out}
+    reference = [(w, p) for w, p in brute_force(model, got["context"], got["prefix"], 10_000) if w not in gone][:5]
+    assert [model_form(s["word"]) for s in got["suggestions"]] == [w for w, _ in reference]
+    assert [s["prob"] for s in got["suggestions"]] == [p for _, p in reference]
+    if not got["context"]:
+        assert all(s["word"][:1].isupper() for s in got["suggestions"])
+    plain = client.post("/api/suggest", json={"model": "ferry", "text": text, "k": 5}).json()["suggestions"]
+    assert any(model_form(s["word"]) in gone for s in plain)  # the words left out were on the plain list
+
+
+@pytest.mark.parametrize("leave_out", ["station", ["ok", 3], ["w"] * 1001])
+def test_a_bad_leave_out_is_refused(client, leave_out):
+    answer = client.post("/api/suggest", json={"model": "ferry", "text": "the ", "k": 5, "leave_out": leave_out})
+    assert answer.status_code == 422, answer.text
+
+
 def test_the_default_model_is_the_first(client):
     assert client.post("/api/suggest", json={"text": "the "}).json()["model"] == "ferry"
 

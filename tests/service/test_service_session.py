@@ -117,6 +117,7 @@ def test_a_seq_that_does_not_increase_is_an_error_and_the_session_goes_on(servic
         (json.dumps({"seq": 1, "text": "a", "k": 0}), "bad_k"),
         (json.dumps({"seq": 1, "text": "a", "k": 51}), "bad_k"),
         (json.dumps({"seq": 1, "text": "a" * 10_001}), "text_too_long"),
+        (json.dumps({"seq": 1, "text": "a", "leave_out": "ab"}), "bad_leave_out"),
         (json.dumps({"seq": 1, "text": "a" * 70_000}), "message_too_large"),
         (b"\xff\xfe{}", "bad_utf8"),
         (json.dumps({"seq": 1, "type": "learn", "event": "typed", "word": "ferry"}), "learning_not_enabled"),

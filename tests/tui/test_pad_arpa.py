@@ -10,7 +10,7 @@ from pilot_steps import paste
 
 from foretype.arpa import model_from_arpa
 
-sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
+sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "arpa"))
 from test_arpa_import import HAND  # noqa: E402
 
 

@@ -10,12 +10,14 @@ def launched(monkeypatch: pytest.MonkeyPatch) -> list[tuple[object, int]]:
     """Replace the interface's entry point; record the model and k it was given (and the learning choice)."""
     calls: list[tuple[object, int]] = []
 
-    def fake_run_pad(model: object, *, k: int = 5, learning: bool | None = None) -> int:
+    def fake_run_pad(model: object, *, k: int = 5, learning: bool | None = None, skip_passed: bool = True) -> int:
         calls.append((model, k))
         learning_choices.append(learning)
+        skip_choices.append(skip_passed)
         return 0
 
     learning_choices.clear()
+    skip_choices.clear()
 
     monkeypatch.setattr("foretype.tui.launch.run_pad", fake_run_pad)
     monkeypatch.setattr("foretype.cli.run_commands.stdout_is_terminal", lambda: True)
@@ -38,6 +40,16 @@ def test_pad_opens_the_named_model_with_the_chosen_number_of_suggestions(run_cli
 
 learning_choices: list[bool | None] = []
 """The learning choice of each launch recorded by ``launched``."""
+
+skip_choices: list[bool] = []
+"""The passed-over choice of each launch recorded by ``launched``."""
+
+
+@pytest.mark.parametrize(("options", "choice"), [((), True), (("--skip-passed",), True), (("--no-skip-passed",), False)])
+def test_the_pad_leaves_out_passed_over_words_unless_told_not_to_like_the_simulator(run_cli, launched, tiny_model_file, options, choice) -> None:
+    # The same default as savings' --skip-passed, so the pad's tally and the simulator's agree.
+    assert run_cli("pad", "-m", tiny_model_file, *options).code == 0
+    assert skip_choices == [choice]
 
 
 @pytest.mark.parametrize(("options", "choice"), [((), None), (("--learn",), True), (("--no-learn",), False)])

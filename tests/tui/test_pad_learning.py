@@ -32,7 +32,7 @@ from foretype.tui.widgets.word_table import WordTable
 @pytest.fixture
 def learning_app(make_app, model_copy):  # noqa: ANN001, ANN201
     """Return ``make()``: a pad that learns into the learned file beside the model copy (it opens the file)."""
-    return lambda: make_app(model=model_copy, make_source=learning_sources(), format_when=lambda when: "(when)")
+    return lambda **options: make_app(model=model_copy, make_source=learning_sources(), format_when=lambda when: "(when)", **options)
 
 
 def on_disk(model: LanguageModel):  # noqa: ANN201 - an AdaptedModel
@@ -113,7 +113,7 @@ def test_pad_no_learn_switches_learning_off_in_the_file_before_the_pad_opens(mod
 
 # ------------------------------------------------------------------ what is learned
 async def test_each_finished_word_is_learned_once_with_its_sentence(learning_app, model_copy) -> None:
-    app = learning_app()
+    app = learning_app(skip_passed=False)  # words passed over stay on offer: the list is the exact top k
     async with app.run_test(size=(80, 24)) as pilot:
         # "ferry" finished by a space, the space erased and typed again: one use.
         await type_words(pilot, "the ferry ")
@@ -135,7 +135,7 @@ async def test_each_finished_word_is_learned_once_with_its_sentence(learning_app
 
 
 async def test_a_new_word_typed_min_uses_times_becomes_suggestable_and_is_marked_new(learning_app, model_copy) -> None:
-    app = learning_app()
+    app = learning_app(skip_passed=False)  # words passed over stay on offer: the list is the exact top k
     async with app.run_test(size=(80, 24)) as pilot:
         needed = app.learning.min_uses
         for _ in range(needed - 1):

@@ -63,7 +63,7 @@ async def test_f2_saves_the_message_to_a_new_file_and_never_overwrites_one(make_
 
 
 async def test_quitting_with_unsaved_text_asks_first_and_escape_keeps_typing(make_app) -> None:
-    app = make_app()
+    app = make_app(skip_passed=False)  # words passed over stay on offer: the list is the exact top k
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("t", "tab")
         await pilot.press("ctrl+q")
@@ -107,7 +107,7 @@ def damaged_copies(source: Path, folder: Path) -> dict[str, Path]:
 async def test_models_that_cannot_be_used_are_reported_and_the_loaded_one_stays(make_app, tiny_model, tiny_model_file, tmp_path) -> None:
     paths = damaged_copies(tiny_model_file, tmp_path)
     reasons = {"missing": "no such model file", "corrupt": "checksum mismatch", "version": "format version 9"}
-    app = make_app()
+    app = make_app(skip_passed=False)  # words passed over stay on offer: the list is the exact top k
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("f5")
         screen = app.screen

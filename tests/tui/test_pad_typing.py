@@ -42,7 +42,7 @@ async def test_a_new_sentence_offers_capitalised_words_ranked_by_their_start_pro
 
 
 async def test_tab_after_two_letters_writes_the_capitalised_word_and_a_space_for_three_keystrokes(make_app) -> None:
-    app = make_app()
+    app = make_app(skip_passed=False)  # words passed over stay on offer: the list is the exact top k
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("t", "h", "tab")
         assert app.composed_text == "The "
@@ -53,7 +53,7 @@ async def test_tab_after_two_letters_writes_the_capitalised_word_and_a_space_for
 
 
 async def test_the_list_after_two_context_words_has_the_hand_counted_probabilities(make_app) -> None:
-    app = make_app()
+    app = make_app(skip_passed=False)  # words passed over stay on offer: the list is the exact top k
     async with app.run_test(size=(80, 24)) as pilot:
         await paste(pilot, "the ferry ")
         # c(the ferry leaves) = 2, c(the ferry is) = 1, c(the ferry .) = 3.
@@ -65,7 +65,7 @@ async def test_the_list_after_two_context_words_has_the_hand_counted_probabiliti
 
 
 async def test_tab_takes_the_top_word_and_counts_every_keystroke(make_app) -> None:
-    app = make_app()
+    app = make_app(skip_passed=False)  # words passed over stay on offer: the list is the exact top k
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("t", "h", "tab", "f", "e", "tab")
         assert app.composed_text == "The ferry "
@@ -141,7 +141,7 @@ async def test_a_full_stop_right_after_an_accepted_word_replaces_its_space(make_
 
 
 async def test_a_space_typed_right_after_a_taken_word_is_absorbed_and_a_second_one_is_typed(make_app) -> None:
-    app = make_app()
+    app = make_app(skip_passed=False)  # words passed over stay on offer: the list is the exact top k
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("t", "tab", "space")
         # The taken word wrote its space: the typed space changes nothing and costs nothing.
@@ -216,7 +216,7 @@ async def test_backspace_costs_a_keystroke_and_characters_follow_the_text(make_a
 
 
 async def test_enter_writes_a_new_line_that_starts_a_new_sentence(make_app) -> None:
-    app = make_app()
+    app = make_app(skip_passed=False)  # words passed over stay on offer: the list is the exact top k
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.press("t", "tab", "enter")
         assert app.composed_text == "The\n"  # Enter replaced the automatic space
@@ -284,3 +284,26 @@ async def test_a_notification_leaves_the_key_hints_the_model_line_and_the_panels
             covered.append(screen.query_one("#board").region)  # the panels sit on the right
         for toast in toasts:
             assert all(not toast.overlaps(region) for region in covered), (toast, covered)
+
+
+async def test_by_default_words_passed_over_are_left_out_within_the_word_and_come_back_after_backspace(make_app, tiny_model) -> None:
+    # The simulated typist's default (savings --skip-passed): a word offered before a letter and
+    # passed over by typing that letter is not offered again within the same word.
+    app = make_app()
+    async with app.run_test(size=(80, 24)) as pilot:
+        before = [s.word for s in app.session.offer.suggestions]
+        assert before[:2] == ["The", "Tide"]
+        await pilot.press("t")
+        # Brute force: every word starting with "t" after <s> <s>, ranked, minus the ones shown before.
+        u, v = tiny_model.context_ids([])
+        ranking = [s.word.capitalize() for s in tiny_model.suggest_ids(u, v, "t", 10_000)]
+        left = [w for w in ranking if w not in before]
+        assert "The" not in left and [s.word for s in app.session.offer.suggestions] == left[:5]
+        await pilot.press("h")
+        assert "The" not in [s.word for s in app.session.offer.suggestions]
+        # Backspace starts the word afresh: the exact top k for "t" again, "The" first.
+        await pilot.press("backspace")
+        assert [s.word for s in app.session.offer.suggestions] == ranking[:5]
+        assert ranking[0] == "The"
+        await pilot.press("tab")
+        assert app.composed_text == "The "

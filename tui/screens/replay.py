@@ -227,7 +227,7 @@ class ReplayScreen(Screen[None]):
         source = self.session.source
         if isinstance(source, LearningSource):
             source = source.for_other_thread()  # the learned file's objects stay with the interface's thread
-        settings = TypistSettings(k=self.session.k)
+        settings = TypistSettings(k=self.session.k, skip_passed=self.session.skip_passed)
 
         def progress(done: int, total: int) -> None:
             if worker.is_cancelled:

@@ -26,6 +26,8 @@
     shift: false,
     autoSpace: false,
     suggestions: [],
+    passed: new Set(),
+    lastAsked: null,
     seq: 0,
     shownSeq: 0,
     config: null,
@@ -66,7 +68,7 @@
   function protocol(config) {
     return {
       websocket: config.websocket + "?model=" + encodeURIComponent(config.model) + "&k=" + state.settings.k,
-      request: (seq, text, k) => ({ type: "suggest", seq: seq, text: text, k: k }),
+      request: (seq, text, k, leaveOut) => Object.assign({ type: "suggest", seq: seq, text: text, k: k }, leaveOut.length ? { leave_out: leaveOut } : {}),
       reply: (m) => (m && m.type === "suggestions" ? { seq: m.seq, words: m.suggestions.map((s) => ({ word: s.word, probability: s.prob })) } : null),
     };
   }
@@ -93,8 +95,21 @@
   };
 
   function ask() {
+    notePassed();
     state.seq += 1;
-    channel.send(state.config.suggest.request(state.seq, state.text, state.settings.k));
+    channel.send(state.config.suggest.request(state.seq, state.text, state.settings.k, Array.from(state.passed)));
+  }
+
+  // Within one word, the words shown and passed over (the next letter typed instead) are left out of the
+  // next lists, as in the typing pad and the simulated typist; a new word, or a backspace, starts afresh.
+  function notePassed() {
+    const prefix = partialWord(state.text);
+    const before = state.text.slice(0, state.text.length - prefix.length);
+    const last = state.lastAsked;
+    const sameWord = last && prefix.length > last.prefix.length && prefix.startsWith(last.prefix) && before === last.before;
+    if (!sameWord) state.passed = new Set();
+    else if (state.shownSeq === state.seq) state.suggestions.forEach((s) => state.passed.add(s.word.toLowerCase()));
+    state.lastAsked = { prefix: prefix, before: before };
   }
 
   function receive(message) {
@@ -130,6 +145,12 @@
   }
 
   function typeChar(char) {
+    if (char === " " && state.autoSpace && state.text.endsWith(" ")) {
+      // A space right after a taken word is absorbed, as in the typing pad and the simulated typist:
+      // the word already ends in its space, so nothing changes and no keystroke is counted.
+      state.autoSpace = false;
+      return;
+    }
     if (state.shift) { char = char.toUpperCase(); setShift(false); }
     if (state.autoSpace && ATTACHING.has(char) && state.text.endsWith(" ")) {
       state.text = state.text.slice(0, -1) + char;
