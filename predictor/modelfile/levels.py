@@ -14,7 +14,6 @@ from ..arrays import offsets_dtype, word_id_dtype
 from ..errors import OptionError
 from ..estimate import Estimate, Layout, ModelCounts, context_totals, estimate
 from .encoding import ENCODINGS, FLOAT32, LOG16, decode, encode
-from .weights import settle_weights, settle_weights2
 
 __all__ = ["fit_levels", "lay_out_levels"]
 
@@ -59,37 +58,22 @@ def lay_out_levels(result: Estimate, counts: ModelCounts, method: str, encoding:
     a3 = encode(result.a3, encoding)
     p1_stored = p1.astype(np.float64)
     g2 = _lower_weights(result, decode(a2), p1_stored[layout.bigram_w], layout.bigram_off, result.g2, p1_stored.sum())
-    # Level 3 is fitted to the level-2 weights as the file gives them: derived where that keeps
-    # each distribution, else float32.
-    g2 = settle_weights2(g2, float(p1_stored.sum()), interpolated=result.interpolated, p1=p1_stored, off2=layout.bigram_off.astype(np.int64), w2=layout.bigram_w, a2=decode(a2))
+    # Level 3 is fitted to the level-2 weights as the file stores them (float32).
+    g2 = g2.astype(np.float32).astype(np.float64)
     lower3 = _level2_of_rows(result.interpolated, decode(a2), g2, p1, layout, counts)
     slot_v = np.concatenate((layout.bigram_w, [counts.vocab_size + 2]))
     totals2 = _level2_totals(result.interpolated, decode(a2), g2, p1_stored, layout)
     g3 = _lower_weights(result, decode(a3), lower3, layout.trigram_off, result.g3, totals2[slot_v])
-    # Most pairs' weights are derived from the stored values when queried: the model holds those exactly.
-    g3 = settle_weights(
-        g3,
-        totals2[slot_v],
-        interpolated=result.interpolated,
-        p1=p1_stored,
-        off2=layout.bigram_off.astype(np.int64),
-        w2=layout.bigram_w,
-        a2=decode(a2),
-        g2=g2,
-        off3=layout.trigram_off.astype(np.int64),
-        w3=counts.table.w,
-        a3=decode(a3),
-    )
     sections = {
         "p1": p1,
         "l2.off": layout.bigram_off.astype(offsets_dtype(layout.n2)),
         "l2.word": layout.bigram_w.astype(word_id_dtype(counts.vocab_size)),
         "l2.value": a2,
-        "l2.gamma": g2,
+        "l2.gamma": g2.astype(np.float32),
         "l3.off": layout.trigram_off.astype(offsets_dtype(len(counts.table))),
         "l3.word": counts.table.w.astype(word_id_dtype(counts.vocab_size)),
         "l3.value": a3,
-        "l3.gamma": g3,
+        "l3.gamma": g3.astype(np.float32),
     }
     meta = {
         "method": method,

@@ -34,7 +34,7 @@ from ..errors import ModelFileError
 from .blocked import BlockedOffsets, blocks_for, from_blocks, to_blocks
 from .encoding import value_table
 from .packed import PACKED_LIMIT, id_count, pack_ids, unpack_ids
-from .weights import DERIVED_MAX, derived_weights, derived_weights2
+from .weights import DERIVED_MAX, derived_weights, derived_weights2, level2_totals
 
 WordIds = NDArray[np.uint16 | np.int32 | np.uint8]
 """Word ids: uint16 while the V + 3 ids fit, else int32, or three bytes per id (uint8; :mod:`foretype.modelfile.packed`, format 4 on)."""
@@ -323,7 +323,7 @@ class ModelArrays:
         :func:`~foretype.modelfile.weights.derived_weights`)."""
         table2 = value_table(self.l2_value, self.l2_codebook)
         table3 = value_table(self.l3_value, self.l3_codebook)
-        return {
+        levels = {
             "p1": self.p1.astype(np.float64),
             "off2": self.l2_off.astype(np.int64),
             "w2": self.bigram_words(),
@@ -333,6 +333,9 @@ class ModelArrays:
             "w3": self.trigram_words(),
             "a3": table3[self.l3_value] if table3 is not None else self.l3_value.astype(np.float64),
         }
+        if not interpolated:
+            levels["totals2"] = level2_totals(levels["p1"], levels["off2"], levels["w2"], levels["a2"], levels["g2"])
+        return levels
 
     def level3_weights(self, interpolated: bool) -> NDArray[np.float64]:
         """Every pair's level-3 weight as the query reads it (stored, or derived), float64 of shape (n2 + 1,)."""

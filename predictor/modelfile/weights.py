@@ -2,15 +2,17 @@
 
 A context pair's lower-order weight follows from its stored values: for an
 interpolated model ``gamma = max(1 - S, 0)``, for a back-off model
-``alpha = max(1 - S, 0) / (1 - L)`` (0 when ``1 - L`` is at most 1e-12), where S
-is the sum of the pair's stored values and L the sum of P2(w | v) over its
-stored words w, as the query computes P2.  Both sums run over the pair's
-entries in stored order, one float64 addition at a time from 0.0, so the
-compiled core, the numpy path and the vectorised writer below get the same
-bits.  The file stores a weight (``l3.weight_slot``, ``l3.weight_value``) only
-for the pairs where deriving it would be slow (more than :data:`DERIVED_MAX`
-entries) or would not give the weight the model was built with, within
-:data:`SUM_SLACK` of a distribution summing to 1.
+``alpha = max(1 - S, 0) / (T - L)`` (0 when ``T - L`` is at most 1e-12), where S
+is the sum of the pair's stored values, L the sum of P2(w | v) over its stored
+words w, as the query computes P2, and T the sum of P2(. | v) over every outcome
+(computed once per model, :func:`level2_totals`), rounded to float32 as a stored weight
+is.  Both sums run over the pair's entries in stored order, one float64
+addition at a time from 0.0, so the compiled core, the numpy path and the
+vectorised code below get the same bits.  A saved file stores a weight
+(``l3.weight_slot``, ``l3.weight_value``) only for the pairs where deriving it
+would be slow (more than :data:`DERIVED_MAX` entries) or would not give exactly
+the float32 weight the model was built with: every probability is the one the
+stored weights gave (format 3's), so every distribution sums to 1 as before.
 
 Most bigram entries have one to three trigrams, so most weights cost nothing:
 on the 4-million-token benchmark corpus this takes level 3's weights from 1.42
@@ -22,12 +24,10 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import NDArray
 
-from .packed import ids_at
+from .packed import ids_at, unpack_ids
 
 DERIVED_MAX = 8
 """Pairs with more trigram entries than this keep their weight stored (deriving it costs a pass over them)."""
-SUM_SLACK = 2e-7
-"""A derived weight is used where the pair's distribution then sums to 1 within this (else the weight is stored)."""
 FREE_FLOOR = 1e-12
 """A back-off pair whose stored words leave at most this much level-2 mass gets weight 0."""
 
@@ -44,6 +44,7 @@ def derived_weights(
     off3: np.ndarray,
     w3: np.ndarray,
     a3: np.ndarray,
+    totals2: np.ndarray | None = None,
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     """The derived weights of some slots, summed in the order both query paths use.
 
@@ -56,6 +57,7 @@ def derived_weights(
         g2: float64 level-2 weights (V + 3).
         off3, w3: level-3 offsets (int64) and word ids.
         a3: float64 decoded level-3 values.
+        totals2: for a back-off model, per context word the sum of P2 over every outcome (:func:`level2_totals`).
 
     Returns:
         ``(weights, stored, lower)``: float64 weights, S (each pair's stored mass), and L (the level-2 mass of
@@ -86,7 +88,37 @@ def derived_weights(
             p = p1[w]
             p2 = np.where(hit, a2[pos] if len(a2) else 0.0, g2v[active] * p)
             lower[active] += np.where(has2[active], p2, p)
+    if not interpolated:
+        assert totals2 is not None
+        return _finish(stored, lower, interpolated, totals2[v]), stored, lower
     return _finish(stored, lower, interpolated), stored, lower
+
+
+def level2_totals(p1: np.ndarray, off2: np.ndarray, w2: np.ndarray, a2: np.ndarray, g2: np.ndarray) -> NDArray[np.float64]:
+    """Per context word of a back-off model, the sum over every outcome of P2(w | v) as the query computes it.
+
+    Nearly 1; a level-3 weight divides by what of it its pair's stored words
+    leave, as the back-off recomputation that built it did (cumulative sums, the
+    same on load and on save).
+
+    Args:
+        p1: float64 unigram probabilities; off2: int64 level-2 offsets; w2: word ids (any width);
+        a2: float64 decoded level-2 values; g2: float64 level-2 weights.
+    """
+    total1 = unigram_total(p1)
+    stored = _group_sums(a2, off2)
+    free = total1 - _group_sums(p1[unpack_ids(w2).astype(np.int64)], off2)
+    return np.where(np.diff(off2) > 0, stored + g2 * free, total1)
+
+
+def unigram_total(p1: np.ndarray) -> float:
+    """The sum of the unigram probabilities (one cumulative pass, so save and load agree to the bit)."""
+    return float(np.cumsum(p1, dtype=np.float64)[-1]) if len(p1) else 0.0
+
+
+def _group_sums(values: np.ndarray, offsets: np.ndarray) -> NDArray[np.float64]:
+    cumulative = np.concatenate(([0.0], np.cumsum(values, dtype=np.float64)))
+    return cumulative[offsets[1:]] - cumulative[offsets[:-1]]
 
 
 def derived_weights2(
@@ -116,69 +148,17 @@ def derived_weights2(
         stored[active] += table2[a2[at]] if table2 is not None else a2[at].astype(np.float64)
         if not interpolated:
             lower[active] += p1[ids_at(w2, at)]
-    return _finish(stored, lower, interpolated), stored, lower
+    return _finish(stored, lower, interpolated, unigram_total(p1)), stored, lower
 
 
-def _finish(stored: np.ndarray, lower: np.ndarray, interpolated: bool) -> NDArray[np.float64]:
-    """``max(1 - S, 0)``, over ``1 - L`` for a back-off model (0 where ``1 - L`` is at most :data:`FREE_FLOOR`)."""
+def _finish(stored: np.ndarray, lower: np.ndarray, interpolated: bool, total: float | np.ndarray = 1.0) -> NDArray[np.float64]:
+    """``max(1 - S, 0)``, over ``total - L`` for a back-off model (0 where that is at most :data:`FREE_FLOOR`),
+    rounded to float32 as a stored weight is."""
     left = 1.0 - stored
     left[left < 0] = 0.0
     if interpolated:
-        return left
-    free = 1.0 - lower
+        return left.astype(np.float32).astype(np.float64)
+    free = total - lower
     with np.errstate(divide="ignore", invalid="ignore"):
-        return np.where(free > FREE_FLOOR, left / np.where(free > FREE_FLOOR, free, 1.0), 0.0)
-
-
-def settle_weights2(intended: np.ndarray, total1: float, *, interpolated: bool, p1: np.ndarray, off2: np.ndarray, w2: np.ndarray, a2: np.ndarray) -> NDArray[np.float64]:
-    """The level-2 weights a model is built with (as :func:`settle_weights`, one level down).
-
-    Args:
-        intended: float64 weight per context word (V + 3).
-        total1: the sum of every unigram probability as stored.
-
-    Returns:
-        float64 weights: derived where that keeps the distribution within :data:`SUM_SLACK` of 1, else the
-        intended ones rounded to float32; 1.0 for a context word with no entries (never read).
-    """
-    lengths = np.diff(off2)
-    weights = intended.astype(np.float32).astype(np.float64)
-    weights[lengths == 0] = 1.0
-    candidates = np.flatnonzero((lengths > 0) & (lengths <= DERIVED_MAX))
-    if not len(candidates):
-        return weights
-    derived, stored, lower = derived_weights2(candidates, interpolated=interpolated, p1=p1, off2=off2, w2=w2, a2=a2)
-    sums = stored + derived * (total1 if interpolated else total1 - lower)
-    good = (np.abs(sums - 1.0) <= SUM_SLACK) & ((derived == 0) == (intended[candidates] == 0))
-    weights[candidates[good]] = derived[good]
-    return weights
-
-
-def settle_weights(intended: np.ndarray, lower_total: np.ndarray, *, interpolated: bool, **levels: np.ndarray) -> NDArray[np.float64]:
-    """The level-3 weights a model is built with: derived where that keeps its distribution, else the intended ones in float32.
-
-    Args:
-        intended: float64 weight per slot, as the estimator or the back-off recomputation made it.
-        lower_total: per slot, the sum over every outcome of P2(w | v) as the query computes it.
-        interpolated: the model's form.
-        levels: the arrays of :func:`derived_weights` (``p1``, ``off2``, ``w2``, ``a2``, ``g2``, ``off3``, ``w3``, ``a3``).
-
-    Returns:
-        float64 weights of shape (n2 + 1,): a pair with at most :data:`DERIVED_MAX` entries takes its
-        derived weight where its distribution then sums to 1 within :data:`SUM_SLACK` and the weight is
-        0 exactly where the intended one is; every other weight is the intended one rounded to float32
-        (stored in the file); 1.0 for a pair with no entries (never read).
-    """
-    off3 = levels["off3"]
-    lengths = np.diff(off3)
-    weights = intended.astype(np.float32).astype(np.float64)
-    weights[lengths == 0] = 1.0
-    candidates = np.flatnonzero((lengths > 0) & (lengths <= DERIVED_MAX))
-    if not len(candidates):
-        return weights
-    derived, stored, lower = derived_weights(candidates, interpolated=interpolated, **levels)
-    total = lower_total[candidates]
-    sums = stored + derived * (total if interpolated else total - lower)
-    good = (np.abs(sums - 1.0) <= SUM_SLACK) & ((derived == 0) == (intended[candidates] == 0))
-    weights[candidates[good]] = derived[good]
-    return weights
+        weights = np.where(free > FREE_FLOOR, left / np.where(free > FREE_FLOOR, free, 1.0), 0.0)
+    return weights.astype(np.float32).astype(np.float64)

@@ -144,13 +144,14 @@ cdef class QueryCore:
         interpolated: whether stored values add to the lower order (else they replace it).
         table2, table3: float64 value of every code of the level's stored
             values (8- or 16-bit codes), or None where the level stores float32.
+        totals2: for a back-off model with derived level-3 weights, P2 summed over every outcome per context word.
 
     Raises:
         ValueError: a layout this core does not read (a value type without its table).
     """
 
     cdef Arr p1, off2, w2, a2, g2, off3, w3, a3, g3, r2off, r2ids, r3slot, r3off, r3ids, order, table2, table3
-    cdef Arr o3base, o3delta, o3wide, wslot, wvalue, w3start
+    cdef Arr o3base, o3delta, o3wide, wslot, wvalue, w3start, totals2
     cdef bint interpolated, ranked, blocked3, derived3, tail3
     cdef int64_t size, n2, start, start3
     cdef Ctx ctx
@@ -169,7 +170,7 @@ cdef class QueryCore:
         self.best.a3 = NULL
         self.capacity = 0
 
-    def __init__(self, arrays, bint interpolated, table2, table3):
+    def __init__(self, arrays, bint interpolated, table2, table3, totals2=None):
         keep = []
         self.interpolated = interpolated
         self.size = arrays.vocab_size
@@ -202,6 +203,10 @@ cdef class QueryCore:
         if self.derived3:
             self._set(&self.wslot, np.ascontiguousarray(arrays.l3_weight_slot, dtype=np.int64), keep)
             self._set(&self.wvalue, arrays.l3_weight_value, keep)
+            if not interpolated:
+                if totals2 is None or len(totals2) != len(arrays.l2_off) - 1:
+                    raise ValueError("derived back-off weights need the level-2 totals of every context word")
+                self._set(&self.totals2, np.ascontiguousarray(totals2, dtype=np.float64), keep)
         else:
             self._set(&self.g3, arrays.l3_gamma, keep)
         self._set(&self.order, arrays.vocab_order, keep, True)
@@ -323,7 +328,8 @@ cdef class QueryCore:
 
         Derived: S, the pair's stored values, and for a back-off model L, their P2,
         each summed one float64 addition at a time in stored order from 0.0, as the
-        numpy path sums them; ``max(1 - S, 0)``, over ``1 - L`` for back-off.
+        numpy path sums them; ``max(1 - S, 0)``, over ``T - L`` for back-off (T: P2 summed over every
+        outcome after v), rounded to float32.
         """
         cdef const Ctx* c = &self.ctx
         cdef int64_t lo, hi, mid, pos
@@ -350,9 +356,9 @@ cdef class QueryCore:
         if left < 0.0:
             left = 0.0
         if self.interpolated:
-            return left
-        free = 1.0 - lower
-        return left / free if free > 1e-12 else 0.0
+            return <double>(<float>left)  # rounded to nearest, as numpy's float32 conversion
+        free = fget(&self.totals2, c.v) - lower
+        return <double>(<float>(left / free)) if free > 1e-12 else 0.0
 
     cdef inline int64_t _off3(self, int64_t i) noexcept nogil:
         """Level 3's offset i, stored in full or in blocks (see modelfile/blocked.py)."""

@@ -165,7 +165,7 @@ class LanguageModel:
             # (int64 offsets are no file dtype, hence the cast: this structure never reaches a file.)
             widened = dataclasses.replace(arrays, p1=self._p1, l2_off=cast(Any, self._off2), l2_gamma=self._g2)
             try:
-                self._compiled = make_core(widened, self._interpolated)
+                self._compiled = make_core(widened, self._interpolated, core.totals2)
             except ValueError:
                 if compiled:
                     raise

@@ -20,7 +20,7 @@ import numpy as np
 
 from ..modelfile.encoding import value_table
 from ..modelfile.model_arrays import ModelArrays
-from ..modelfile.weights import FREE_FLOOR
+from ..modelfile.weights import FREE_FLOOR, level2_totals
 
 
 class Slots(NamedTuple):
@@ -67,6 +67,11 @@ class ScoringCore:
         self._n2 = arrays.n2
         self._table = value_table(arrays.l2_value, arrays.l2_codebook)
         self._table3 = value_table(arrays.l3_value, arrays.l3_codebook)
+        self.totals2: np.ndarray | None = None
+        """For a back-off model whose level-3 weights are derived: per context word, P2 summed over every outcome."""
+        if arrays.l3_gamma is None and not self._interpolated:
+            decoded2 = self._table[arrays.l2_value] if self._table is not None else arrays.l2_value.astype(np.float64)
+            self.totals2 = level2_totals(self._p1, self._off2, arrays.l2_word, decoded2, self._g2)
 
     @property
     def _w2(self) -> np.ndarray:
@@ -119,8 +124,9 @@ class ScoringCore:
         """The level-3 weight of a context (1.0 where the pair stores nothing): stored, or derived.
 
         A derived weight sums the pair's stored values (and, for a back-off
-        model, their P2) one float64 addition at a time in stored order, as
-        :func:`foretype.modelfile.weights.derived_weights` and the compiled core do.
+        model, their P2) one float64 addition at a time in stored order, then
+        rounds to float32, as :func:`foretype.modelfile.weights.derived_weights`
+        and the compiled core do.
         """
         if not slots.has3:
             return 1.0
@@ -143,9 +149,10 @@ class ScoringCore:
         if left < 0.0:
             left = 0.0
         if self._interpolated:
-            return left
-        free = 1.0 - lower
-        return left / free if free > FREE_FLOOR else 0.0
+            return float(np.float32(left))  # rounded as a stored weight is
+        assert self.totals2 is not None
+        free = self.totals2.item(slots.v) - lower
+        return float(np.float32(left / free)) if free > FREE_FLOOR else 0.0
 
     def _p2_of(self, word: int, slots: Slots) -> float:
         """P2(word | v) of a back-off model, with the float64 operations of :meth:`scores`."""

@@ -134,7 +134,24 @@ def test_the_checksum_is_the_standard_crc_32():
         (lambda d: d[: len(d) // 2], "runs past the end of the file"),
         (lambda d: d[: section(d, "p1")["offset"] + 4], "runs past the end of the file"),
     ],
-    ids=["empty", "short", "text", "zip", "gzip", "npy", "binary", "cut-in-header", "cut-header", "zero-header", "huge-header", "header-past-end", "header-crc", "header-byte", "half", "cut-in-section"],
+    ids=[
+        "empty",
+        "short",
+        "text",
+        "zip",
+        "gzip",
+        "npy",
+        "binary",
+        "cut-in-header",
+        "cut-header",
+        "zero-header",
+        "huge-header",
+        "header-past-end",
+        "header-crc",
+        "header-byte",
+        "half",
+        "cut-in-section",
+    ],
 )
 def test_damaged_or_foreign_files_are_refused_with_a_message_naming_the_file(original, tmp_path, make, phrase):
     assert_refused(tmp_path, make(original[0]), phrase)
@@ -155,9 +172,7 @@ def test_a_folder_a_missing_file_and_a_pipe_are_refused_without_waiting(tmp_path
     pipe = tmp_path / "pipe.model"
     os.mkfifo(pipe)
     # In a child with a timeout: opening a pipe without a writer would block forever.
-    child = subprocess.run(
-        [sys.executable, "-m", "foretype", "info", "-m", str(pipe)], capture_output=True, text=True, timeout=60
-    )
+    child = subprocess.run([sys.executable, "-m", "foretype", "info", "-m", str(pipe)], capture_output=True, text=True, timeout=60)
     assert child.returncode == ModelFileError.exit_code
     assert "not a regular file" in child.stderr and str(pipe) in child.stderr
 
@@ -338,8 +353,23 @@ def wide_original(tmp_path_factory) -> Original:
     return Original((path.read_bytes(), None))
 
 
-FORMAT4_SECTIONS = ("l2.word", "l3.tail", "l3.start_word", "l3.weight_slot", "l3.weight_value", "l2.weight_slot", "l2.weight_value",
-                    "vocab.word_keys", "vocab.order", "vocab.key_first", "rank2.word", "rank2.list_off", "rank2.ids", "l2.off", "l3.off_delta")
+FORMAT4_SECTIONS = (
+    "l2.word",
+    "l3.tail",
+    "l3.start_word",
+    "l3.weight_slot",
+    "l3.weight_value",
+    "l2.weight_slot",
+    "l2.weight_value",
+    "vocab.word_keys",
+    "vocab.order",
+    "vocab.key_first",
+    "rank2.word",
+    "rank2.list_off",
+    "rank2.ids",
+    "l2.off",
+    "l3.off_delta",
+)
 
 
 @settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow, HealthCheck.function_scoped_fixture])

@@ -19,7 +19,6 @@ from ...arrays import offsets_dtype, word_id_dtype
 from ...errors import OptionError
 from ...estimate.layout import context_totals
 from ...modelfile.encoding import ENCODINGS, decode, encode
-from ...modelfile.weights import settle_weights, settle_weights2
 from ...query.model import LanguageModel
 from ...query.ranked import RANKED_MIN
 from ..ranking import rank_sections
@@ -76,15 +75,13 @@ def backoff_sections(tables: BackoffTables, encoding: str) -> dict[str, np.ndarr
     has2 = np.diff(tables.off2) > 0
     stored2 = context_totals(d2, tables.off2)
     free2 = total1 - context_totals(p1_stored[tables.w2], tables.off2)
-    g2 = settle_weights2(_weights(stored2, free2, has2), total1, interpolated=False, p1=p1_stored, off2=tables.off2, w2=tables.w2, a2=d2)
-    totals2 = np.where(has2, stored2 + g2 * free2, total1)
+    g2 = _weights(stored2, free2, has2).astype(np.float32)
+    totals2 = np.where(has2, stored2 + g2.astype(np.float64) * free2, total1)
     _, slot_v = tables.slot_context()
     has3 = np.diff(tables.off3) > 0
     stored3 = context_totals(d3, tables.off3)
     free3 = totals2[slot_v] - context_totals(d2[tables.tail3], tables.off3)
-    g3 = _weights(stored3, free3, has3)
-    # Most pairs' weights are derived from the stored values when queried: the model holds those exactly.
-    g3 = settle_weights(g3, totals2[slot_v], interpolated=False, p1=p1_stored, off2=tables.off2, w2=tables.w2, a2=d2, g2=g2, off3=tables.off3, w3=tables.w3, a3=d3)
+    g3 = _weights(stored3, free3, has3).astype(np.float32)
     word = word_id_dtype(size)
     sections = {
         "p1": p1,
