@@ -19,8 +19,10 @@ def extensions():
     core = Extension("foretype.query._core", ["predictor/query/_core.pyx"], extra_compile_args=flags, optional=True)
     merge = Extension("foretype.adapt._merge", ["predictor/adapt/_merge.pyx"], extra_compile_args=flags, optional=True)
     tokenise = Extension("foretype.counting._tokenise", ["predictor/counting/_tokenise.pyx"], extra_compile_args=flags, optional=True)
+    trigrams = Extension("foretype.counting._trigrams", ["predictor/counting/_trigrams.pyx"], extra_compile_args=flags, optional=True)
+    estimate = Extension("foretype.estimate._estimate", ["predictor/estimate/_estimate.pyx"], extra_compile_args=flags, optional=True)
     prefixes = Extension("foretype.query._prefixes", ["predictor/query/_prefixes.pyx"], extra_compile_args=flags, optional=True)
-    return cythonize([core, merge, tokenise, prefixes], quiet=True, compiler_directives={"language_level": "3"})
+    return cythonize([core, merge, tokenise, trigrams, estimate, prefixes], quiet=True, compiler_directives={"language_level": "3"})
 
 
 setup(ext_modules=extensions())

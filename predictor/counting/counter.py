@@ -35,6 +35,7 @@ import numpy as np
 
 from ..errors import CapacityError, CorpusError, OutputError
 from ..text import are_words, is_sentence_end, model_form, tokens
+from . import compiled
 from .counts import UNLISTED, CorpusCounts
 from .memory import MemoryBudget
 from .scratch import SpillFolder
@@ -185,7 +186,7 @@ class CorpusCounter:
         them; unlisted tokens are not counted (the caller counts occurrences).
         """
         unlisted_before = self.unlisted_tokens
-        fids, tids = self._ids_of(forms)
+        fids, tids = self._ids_of(forms, distinct=True)
         self.unlisted_tokens = unlisted_before
         return fids, tids
 
@@ -209,9 +210,11 @@ class CorpusCounter:
             self._carry_forms = self._carry_types = np.zeros(0, dtype=np.int32)
             self._count_sentences(fids, tids)
 
-    def _ids_of(self, found: list[str]) -> tuple[np.ndarray, np.ndarray]:
-        """Form ids (-1 outside the dictionary) and raw type ids of tokens."""
+    def _ids_of(self, found: list[str], distinct: bool = False) -> tuple[np.ndarray, np.ndarray]:
+        """Form ids (-1 outside the dictionary) and raw type ids of tokens (``distinct``: no token repeats)."""
         lookup = self._form_ids
+        if distinct:
+            return self._ids_of_distinct(found)
         if not self._full:
             # New forms in order of first appearance; dict.fromkeys dedupes in C.
             self._new_forms([t for t in dict.fromkeys(found) if t not in lookup])
@@ -225,6 +228,25 @@ class CorpusCounter:
             for token in dict.fromkeys([found[i] for i in missing.tolist()]):
                 self._new_form(token)
             fids[missing] = list(map(lookup.get, [found[i] for i in missing.tolist()], repeat(-1)))
+            missing = missing[fids[missing] < 0]
+        tids = self._form_type[np.maximum(fids, 0)]
+        if len(missing):
+            tids[missing] = [self._type_outside(found[i]) for i in missing.tolist()]
+        return fids, tids
+
+    def _ids_of_distinct(self, found: list[str]) -> tuple[np.ndarray, np.ndarray]:
+        """:meth:`_ids_of` of tokens none of which repeats, with one dictionary lookup per token."""
+        lookup = self._form_ids
+        fids = np.array(list(map(lookup.get, found, repeat(-1))), dtype=np.int32)
+        missing = np.flatnonzero(fids < 0)
+        if len(missing) and not self._full:
+            first = len(self._forms)
+            self._new_forms(list(map(found.__getitem__, missing.tolist())))
+            if not self._full:
+                # Added in order, as the next form ids.
+                fids[missing] = np.arange(first, first + len(missing), dtype=np.int32)
+                return fids, self._form_type[fids]
+            fids[missing] = list(map(lookup.get, map(found.__getitem__, missing.tolist()), repeat(-1)))
             missing = missing[fids[missing] < 0]
         tids = self._form_type[np.maximum(fids, 0)]
         if len(missing):
@@ -249,11 +271,11 @@ class CorpusCounter:
         """
         if not tokens:
             return
-        forms = list(map(model_form, tokens))
+        forms = _model_forms(tokens)
         types = self._type_ids
         new_types = [f for f in dict.fromkeys(compress(forms, are_words(tokens))) if f not in types]
-        cost = sum(map(sys.getsizeof, tokens)) + FORM_ENTRY_BYTES * len(tokens)
-        cost += sum(map(sys.getsizeof, new_types)) + TYPE_ENTRY_BYTES * len(new_types)
+        cost = _string_bytes(tokens) + FORM_ENTRY_BYTES * len(tokens)
+        cost += _string_bytes(new_types) + TYPE_ENTRY_BYTES * len(new_types)
         if self.dictionary_bytes + cost > self._dictionary_limit or len(self._types) + len(new_types) + 1 >= self._max_types:
             for token in tokens:
                 self._new_form(token)
@@ -322,6 +344,23 @@ class CorpusCounter:
 
     def _count_sentences(self, fids: np.ndarray, tids: np.ndarray) -> None:
         """Count complete sentences: the arrays end with a sentence-end token."""
+        if compiled.compiled_trigrams():
+            keys, held_keys, words, ended = compiled.count_sentences(
+                np.ascontiguousarray(fids, dtype=np.int32),
+                np.ascontiguousarray(tids, dtype=np.int32),
+                self._initial,
+                self._noninitial,
+                self._type_counts,
+                self.sentences,
+                HELDOUT_EVERY,
+            )
+            self.corpus_tokens += words
+            self.sentences += ended
+            if len(held_keys):
+                self._heldout.add(*sum_duplicates(held_keys))
+            if len(keys):
+                self._table.add(*sum_duplicates(keys))
+            return
         is_end = tids == RAW_END
         after_end = np.empty_like(is_end)
         after_end[0] = True
@@ -443,6 +482,25 @@ class CorpusCounter:
         for type_id, form in zip(type_ids, written):
             display[type_id] = form
         return display
+
+
+def _model_forms(tokens: list[str]) -> list[str]:
+    """:func:`foretype.text.model_form` of each token, in bulk (lower case, then ’ written as ')."""
+    lowered = list(map(str.lower, tokens))
+    if "’" not in "".join(lowered):
+        return lowered
+    return [form.replace("’", "'") for form in lowered]
+
+
+_EMPTY_STRING_BYTES = sys.getsizeof("")
+
+
+def _string_bytes(strings: list[str]) -> int:
+    """``sum(map(sys.getsizeof, strings))``, without a call per string when all are ASCII (one byte a character)."""
+    joined = "".join(strings)
+    if joined.isascii():
+        return _EMPTY_STRING_BYTES * len(strings) + len(joined)
+    return sum(map(sys.getsizeof, strings))
 
 
 def _grown(array: np.ndarray) -> np.ndarray:

@@ -21,6 +21,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import OutputError
+from . import compiled
 from .scratch import SpillFolder
 
 ROW_BYTES = 16
@@ -72,14 +73,15 @@ def _sum_packed(keys: np.ndarray, counts: np.ndarray, spare: int) -> tuple[np.nd
     below its key (a value sort is several times faster than an argsort); larger counts
     are summed apart and merged in."""
     small = (counts >= 0) & (counts < (1 << spare))
-    packed = keys[small] << spare
-    packed |= counts[small]
+    every = bool(small.all())
+    packed = (keys if every else keys[small]) << spare
+    packed |= counts if every else counts[small]
     packed.sort()
     sorted_keys = packed >> spare
     starts = _group_starts(sorted_keys) if len(packed) else _EMPTY
     summed = np.add.reduceat(packed & ((1 << spare) - 1), starts) if len(packed) else _EMPTY
     table = sorted_keys[starts], summed
-    if small.all():
+    if every:
         return table
     return merge_tables(*table, *sum_duplicates(keys[~small], counts[~small]))
 
@@ -103,6 +105,8 @@ def merge_tables(keys_a: np.ndarray, counts_a: np.ndarray, keys_b: np.ndarray, c
         return keys_b, counts_b
     if len(keys_b) == 0:
         return keys_a, counts_a
+    if compiled.compiled_trigrams():
+        return compiled.merge_counts(keys_a, counts_a, keys_b, counts_b)
     position = np.searchsorted(keys_a, keys_b)
     found = np.zeros(len(keys_b), dtype=bool)
     inside = position < len(keys_a)
@@ -260,6 +264,13 @@ def _next_block(reader: Iterator[tuple[np.ndarray, np.ndarray]], left: list[int]
     return block
 
 
+def _merge_in_pairs(tables: list[tuple[np.ndarray, np.ndarray]]) -> tuple[np.ndarray, np.ndarray]:
+    """Merge tables two at a time, in rounds (each row is copied about log2(len(tables)) times)."""
+    while len(tables) > 1:
+        tables = [merge_tables(*tables[i], *tables[i + 1]) if i + 1 < len(tables) else tables[i] for i in range(0, len(tables), 2)]
+    return tables[0]
+
+
 class KeyCounter:
     """Sums counts of int64 keys in bounded memory, spilling sorted runs to disk when full."""
 
@@ -301,6 +312,8 @@ class KeyCounter:
             return
         if len(self._pending) == 1:
             batch = self._pending[0]
+        elif compiled.compiled_trigrams():
+            batch = _merge_in_pairs(self._pending)
         else:
             batch = sum_duplicates(np.concatenate([k for k, _ in self._pending]), np.concatenate([c for _, c in self._pending]))
         self._pending = []

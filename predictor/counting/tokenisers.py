@@ -26,14 +26,15 @@ from typing import Any, NamedTuple
 import numpy as np
 
 from ..text import prepare, tokens
+from .compiled import PURE_ENV, pure_requested
 
 try:
-    from ._tokenise import number_tokens
+    from ._tokenise import FormTable, number_tokens
 except ImportError:  # not built: no compiler at install time; the regular expression and the dictionary answer
+    FormTable = None
     number_tokens = None
 
-PURE_ENV = "FORETYPE_PURE"
-"""Set to 1 to tokenise with the regular expression and the dictionary, as without the compiled tokeniser."""
+__all__ = ["FormTable", "PURE_ENV", "TokenisedPart", "compiled_tokeniser", "number_tokens", "tokenise_part", "tokeniser_pool"]
 
 WORKER_FORM_BYTES = 64 << 20
 """A worker's dictionary of written forms starts afresh once it holds more than this (64 MiB)."""
@@ -79,7 +80,8 @@ class _FormNumbers(dict[str, int]):
         return number
 
 
-_numbers = _FormNumbers()
+_numbers: Any = _FormNumbers()
+"""The worker's forms: a compiled :class:`FormTable` or, on the Python path, a :class:`_FormNumbers`."""
 
 
 def _start_worker() -> None:
@@ -105,13 +107,14 @@ def tokenise_part(text: str, wrapped: bool) -> TokenisedPart:
         The forms new to this worker and every token's number.
     """
     global _numbers
-    if _numbers.bytes > WORKER_FORM_BYTES:
-        _numbers = _FormNumbers()
+    compiled = compiled_tokeniser()
+    if _numbers.bytes > WORKER_FORM_BYTES or compiled != (FormTable is not None and isinstance(_numbers, FormTable)):
+        _numbers = FormTable() if compiled else _FormNumbers()
     numbers = _numbers
     first = len(numbers)
-    if compiled_tokeniser():
-        # One compiled pass finds the tokens and numbers them (new forms go to numbers.fresh).
-        positions = number_tokens(prepare(text, wrapped=wrapped), numbers, numbers.fresh)
+    if compiled:
+        # One compiled pass finds the tokens and numbers them in the worker's hash table (new forms go to numbers.fresh).
+        positions = number_tokens(prepare(text, wrapped=wrapped), numbers)
     else:
         found = tokens(text, wrapped=wrapped)
         # One pass numbers every token, new forms included (__missing__ numbers them).
@@ -123,7 +126,7 @@ def tokenise_part(text: str, wrapped: bool) -> TokenisedPart:
 
 def compiled_tokeniser() -> bool:
     """Whether the compiled tokeniser is built and ``FORETYPE_PURE`` does not turn it off."""
-    return number_tokens is not None and os.environ.get(PURE_ENV, "").strip() in ("", "0")
+    return number_tokens is not None and not pure_requested()
 
 
 @contextmanager

@@ -15,6 +15,12 @@ import numpy as np
 
 from ..arrays import group_starts, stable_argsort
 from ..counting import RAW_END, RAW_START, CorpusCounts, TrigramTable
+from ..counting.compiled import pure_requested
+
+try:
+    from . import _estimate as compiled_layout
+except ImportError:  # not built: the numpy path of Layout.of answers
+    compiled_layout = None
 
 
 @dataclass
@@ -117,27 +123,34 @@ class Layout:
         order, sorted_tail = stable_argsort(tail, max(1, (base * base - 1).bit_length()))
         rows = len(tail)
         del tail
-        starts = group_starts(sorted_tail)
-        trigram_bigram = np.empty(rows, dtype=np.int64)
-        if rows:
-            group = np.zeros(rows, dtype=np.int64)
-            group[starts[1:]] = 1
-            trigram_bigram[order] = np.cumsum(group)
-        bn = np.add.reduceat(table.n[order], starts) if len(starts) else np.zeros(0, dtype=np.int64)
-        unique_tail = sorted_tail[starts]
+        fast = compiled_layout is not None and not pure_requested()
+        if fast:
+            trigram_bigram, bn, unique_tail = compiled_layout.tail_groups(order, sorted_tail, np.ascontiguousarray(table.n, dtype=np.int64))
+        else:
+            starts = group_starts(sorted_tail)
+            trigram_bigram = np.empty(rows, dtype=np.int64)
+            if rows:
+                group = np.zeros(rows, dtype=np.int64)
+                group[starts[1:]] = 1
+                trigram_bigram[order] = np.cumsum(group)
+            bn = np.add.reduceat(table.n[order], starts) if len(starts) else np.zeros(0, dtype=np.int64)
+            unique_tail = sorted_tail[starts]
         bv = (unique_tail // base).astype(np.int32)
         bw = (unique_tail % base).astype(np.int32)
-        bigram_off = np.searchsorted(bv, np.arange(base + 1)).astype(np.int64)
+        bigram_off = _offsets_of_sorted(bv, base)
         # Rows are sorted by (u, v): look each context pair up once.
         pair_key = table.u.astype(np.int64) * base + table.v
         pair_starts = group_starts(pair_key)
-        pair_ctx = np.searchsorted(unique_tail, pair_key[pair_starts]).astype(np.int64)
+        if fast:
+            pair_ctx = compiled_layout.sorted_positions(unique_tail, pair_key[pair_starts])
+        else:
+            pair_ctx = np.searchsorted(unique_tail, pair_key[pair_starts]).astype(np.int64)
         pair_ctx[pair_key[pair_starts] == start * base + start] = len(bw)
         ctx = np.zeros(len(pair_key), dtype=np.int64)
         if len(pair_ctx):
             ctx[pair_starts] = np.diff(pair_ctx, prepend=0)
             np.cumsum(ctx, out=ctx)
-        trigram_off = np.searchsorted(ctx, np.arange(len(bw) + 2)).astype(np.int64)
+        trigram_off = _offsets_of_sorted(ctx, len(bw) + 1)
         return Layout(base, bv, bw, bn, bigram_off, ctx, trigram_off, trigram_bigram)
 
     def bigram_index(self, v: np.ndarray, w: np.ndarray) -> np.ndarray:
@@ -146,15 +159,30 @@ class Layout:
         return np.searchsorted(key, v.astype(np.int64) * self.base + w)
 
 
+def _offsets_of_sorted(ids: np.ndarray, groups: int) -> np.ndarray:
+    """``np.searchsorted(ids, np.arange(groups + 1))`` for sorted ids in ``[0, groups)``, by counting (no search)."""
+    offsets = np.zeros(groups + 1, dtype=np.int64)
+    np.cumsum(np.bincount(ids, minlength=groups)[:groups], out=offsets[1:])
+    return offsets
+
+
 def context_totals(values: np.ndarray, offsets: np.ndarray) -> np.ndarray:
     """Sum ``values`` over each group ``offsets[i]:offsets[i + 1]`` (empty groups give 0)."""
     cumulative = np.concatenate(([0.0], np.cumsum(values, dtype=np.float64)))
     return cumulative[offsets[1:]] - cumulative[offsets[:-1]]
 
 
-def context_count_of_counts(counts: np.ndarray, offsets: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """Per group, how many entries have count 1, count 2 and count 3 or more."""
-    ones = context_totals((counts == 1).astype(np.float64), offsets)
-    twos = context_totals((counts == 2).astype(np.float64), offsets)
-    more = context_totals((counts >= 3).astype(np.float64), offsets)
-    return ones, twos, more
+def context_count_of_counts(counts: np.ndarray, offsets: np.ndarray, group: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Per group, how many entries have count 1, count 2 and count 3 or more (float64 arrays).
+
+    Args:
+        counts: integer counts, grouped.
+        offsets: group i is ``offsets[i]:offsets[i + 1]``.
+        group: each entry's group (``np.repeat(np.arange(groups), np.diff(offsets))``), if the caller has it.
+    """
+    groups = len(offsets) - 1
+    if group is None:
+        group = np.repeat(np.arange(groups), np.diff(offsets))
+    # One counting pass over (group, min(count, 3)); the numbers are exact integers, as sums of ones are.
+    cells = np.bincount(group * 4 + np.minimum(counts, 3), minlength=4 * groups)[: 4 * groups].reshape(groups, 4).astype(np.float64)
+    return cells[:, 1].copy(), cells[:, 2].copy(), cells[:, 3].copy()

@@ -160,7 +160,7 @@ def test_openapi_description_lists_every_endpoint(client):
     for path in ("/api/health", "/api/models", "/api/models/{name}", "/api/suggest", "/api/probability", "/api/profiles", "/api/learn"):
         assert path in spec["paths"], path
     request = spec["components"]["schemas"]["SuggestRequest"]
-    assert set(request["properties"]) == {"model", "text", "context", "prefix", "k", "profile"}
+    assert set(request["properties"]) == {"model", "text", "context", "prefix", "k", "profile", "leave_out"}
 
 
 def test_learning_events_then_suggestions_equal_suggest_adapt(client, service, models, run_cli):
