@@ -93,11 +93,11 @@ def model_tables(model: LanguageModel) -> _Tables:
     start = size + 2
     p1 = s.p1.astype(np.float64)
     off2 = s.l2_off.astype(np.int64)
-    w2 = s.l2_word.astype(np.int64)
-    g2 = s.l2_gamma.astype(np.float64)
+    w2 = s.bigram_words().astype(np.int64)
+    g2 = s.level2_weights(bool(model.meta["interpolated"]))
     off3 = s.level3_offsets()
-    w3 = s.l3_word.astype(np.int64)
-    g3 = s.l3_gamma.astype(np.float64)
+    w3 = s.trigram_words().astype(np.int64)
+    g3 = s.level3_weights(bool(model.meta["interpolated"]))
     n2 = len(w2)
     ctx2 = np.repeat(np.arange(size + 3, dtype=np.int64), np.diff(off2))
     # P2(w | v) with the arithmetic of the query core (query/scoring.py).

@@ -54,15 +54,19 @@ from ..errors import ModelFileError, ModelVersionError, OutputError
 from ..outputs import check_output, is_stdout, resolved_target, write_output
 
 MAGIC = b"FTMODEL\x00"
-FORMAT_VERSION = 3
+FORMAT_VERSION = 4
 """The model-file format version this engine writes.  Version 2 adds 8-bit values
 (``value_encoding`` ``codebook8``: uint8 ``l2.value``/``l3.value`` and float64
 ``l2.codebook``/``l3.codebook``) and the header's ``shrink`` record.  Version 3
 stores level 3's offsets in blocks (``l3.off_base``, ``l3.off_delta``,
-``l3.off_wide``; :mod:`foretype.modelfile.blocked`) instead of ``l3.off``."""
-READABLE_VERSIONS = (1, 2, 3)
+``l3.off_wide``; :mod:`foretype.modelfile.blocked`) instead of ``l3.off``.  Version 4
+stores word ids of vocabularies above 65,533 words in three bytes (uint8 sections,
+:mod:`foretype.modelfile.packed`) and level-3 weights only where they are not derived
+from the stored values (``l3.weight_slot``, ``l3.weight_value``; :mod:`foretype.modelfile.weights`)."""
+READABLE_VERSIONS = (1, 2, 3, 4)
 """Versions this engine reads: a version-1 file is a version-2 file without codebooks, a version-2
-file a version-3 file with plain level-3 offsets."""
+file a version-3 file with plain level-3 offsets, a version-3 file a version-4 file with int32 ids
+and every level-3 weight stored."""
 
 MAX_HEADER_BYTES = 1 << 24
 """A header longer than this (16 MiB) is taken as corrupt; real ones hold a few KiB."""

@@ -35,7 +35,28 @@ from ..errors import ModelFileError
 from .blocked import wide_indices_fit
 from .format import ModelFile
 from .limits import MAX_VOCABULARY
-from .model_arrays import BLOCKED3, CODEBOOKS, COMPACT_INDEX, DENSE_INDEX, PLAIN3, RANKED, SPECS, Counts, ModelArrays
+from .model_arrays import (
+    BLOCKED3,
+    CODEBOOKS,
+    COMPACT_INDEX,
+    DENSE_INDEX,
+    DENSE_RANKED2,
+    DERIVED_WEIGHTS,
+    DERIVED_WEIGHTS2,
+    PLAIN3,
+    RANKED,
+    SPARSE_RANKED2,
+    SPECS,
+    STORED_WEIGHTS,
+    STORED_WEIGHTS2,
+    TAIL_POSITIONS3,
+    WORD_IDS3,
+    WORD_KEYS,
+    WORD_STRINGS,
+    Counts,
+    ModelArrays,
+)
+from .packed import PACKED_LIMIT, id_range, is_packed, largest_id, unpack_ids
 
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
 _TRIE_MAGIC = b"We love Marisa."
@@ -80,7 +101,18 @@ def _check_groups(name: object, arrays: ModelArrays, encoding: str) -> None:
     """Ranked lists all or none; values as the header's encoding says, with codebooks exactly where it needs them."""
     if _group_state(arrays, RANKED) == "part":
         raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
-    for older, newer, first in ((DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"), (PLAIN3, BLOCKED3, "l3.off")):
+    if arrays.ranked:
+        _check_one_layout(name, arrays, DENSE_RANKED2, SPARSE_RANKED2, "rank2.off")
+    elif _group_state(arrays, DENSE_RANKED2) != "none" or _group_state(arrays, SPARSE_RANKED2) != "none":
+        raise ModelFileError(f"{name}: corrupt (ranked lists are incomplete)")
+    for older, newer, first in (
+        (DENSE_INDEX, COMPACT_INDEX, "vocab.key_lo"),
+        (PLAIN3, BLOCKED3, "l3.off"),
+        (STORED_WEIGHTS, DERIVED_WEIGHTS, "l3.gamma"),
+        (STORED_WEIGHTS2, DERIVED_WEIGHTS2, "l2.gamma"),
+        (WORD_STRINGS, WORD_KEYS, "vocab.words_blob"),
+        (WORD_IDS3, TAIL_POSITIONS3, "l3.word"),
+    ):
         _check_one_layout(name, arrays, older, newer, first)
     for section, values in (("l2.value", arrays.l2_value), ("l3.value", arrays.l3_value)):
         if values.dtype.name not in _VALUE_TYPES[encoding]:
@@ -107,40 +139,52 @@ def _group_state(arrays: ModelArrays, group: str) -> str:
 
 
 def _check_widths(name: object, arrays: ModelArrays, size: int) -> None:
-    """Sections of word ids stored as uint16 must fit every id the vocabulary needs (V + 3 symbols)."""
+    """Sections of word ids stored as uint16 (or in three bytes) must fit every id the vocabulary needs (V + 3 symbols)."""
     for spec in SPECS:
         array = getattr(arrays, spec.field)
-        if spec.word_ids and array is not None and array.dtype == np.uint16 and size + 3 > 2**16:
+        if not spec.packable or array is None:
+            continue
+        if spec.word_ids and ((array.dtype == np.uint16 and size + 3 > 2**16) or (is_packed(array) and size + 3 > PACKED_LIMIT)):
             raise ModelFileError(f"{name}: corrupt (section {spec.section} is too narrow for {size:,} words)")
+        if is_packed(array) and len(array) % 3:
+            raise ModelFileError(f"{name}: corrupt (section {spec.section} does not hold whole three-byte ids)")
 
 
 def _check_lengths(name: object, arrays: ModelArrays, size: int) -> None:
     """Each section's length follows from the vocabulary size and the number of stored entries (as its field declares)."""
     ranked3 = len(arrays.rank3_slot) if arrays.rank3_slot is not None else 0
+    ranked2 = id_count_of(arrays.rank2_word) if arrays.rank2_word is not None else 0
     listed = int(np.count_nonzero(arrays.vocab_key_span == 0)) if arrays.vocab_key_span is not None else 0
-    displayed = len(arrays.vocab_display_ids) if arrays.vocab_display_ids is not None else size
-    counts = Counts(size, len(arrays.l2_word), len(arrays.l3_word), arrays.key_count, ranked3, listed, displayed)
+    displayed = id_count_of(arrays.vocab_display_ids) if arrays.vocab_display_ids is not None else size
+    weights = len(arrays.l3_weight_slot) if arrays.l3_weight_slot is not None else 0
+    weights2 = len(arrays.l2_weight_slot) if arrays.l2_weight_slot is not None else 0
+    counts = Counts(size, arrays.n2, arrays.n3, arrays.key_count, ranked3, listed, displayed, weights, weights2, ranked2)
     for spec in SPECS:
         array = getattr(arrays, spec.field)
         if array is None or spec.length is None:
             continue
         length = spec.length(counts)
-        if len(array) != length:
-            raise ModelFileError(f"{name}: corrupt (section {spec.section} has {len(array):,} entries, expected {length:,})")
+        entries = id_count_of(array) if spec.packable else len(array)
+        if entries != length:
+            raise ModelFileError(f"{name}: corrupt (section {spec.section} has {entries:,} entries, expected {length:,})")
 
 
 def _check_levels(name: object, s: ModelArrays, size: int) -> None:
     """Levels 1 to 3: offsets span their entries, word ids are in range, probabilities and weights are finite."""
-    _offsets(name, "l2.off", s.l2_off, len(s.l2_word))
-    if s.l3_off_base is not None and s.l3_off_wide is not None and not wide_indices_fit(s.l3_off_base, len(s.l2_word) + 2, len(s.l3_off_wide)):
+    _offsets(name, "l2.off", s.l2_off, s.n2)
+    if s.l3_off_base is not None and s.l3_off_wide is not None and not wide_indices_fit(s.l3_off_base, s.n2 + 2, len(s.l3_off_wide)):
         raise ModelFileError(f"{name}: corrupt (section l3.off_base points past section l3.off_wide)")
-    _offsets(name, "l3.off", s.level3_offsets(), len(s.l3_word))
+    off3 = s.level3_offsets()
+    _offsets(name, "l3.off", off3, s.n3)
     # Predicted words are 0 .. V + 1 (words, UNKNOWN, END); START is context only.
     _ids(name, "l2.word", s.l2_word, size + 1)
-    _ids(name, "l3.word", s.l3_word, size + 1)
+    if s.l3_word is not None:
+        _ids(name, "l3.word", s.l3_word, size + 1)
+    else:
+        _check_tail_positions(name, s, size, off3)
     _probabilities(name, "p1", s.p1, upper=1.0)
-    _probabilities(name, "l2.gamma", s.l2_gamma)
-    _probabilities(name, "l3.gamma", s.l3_gamma)
+    _weights(name, "l2", s.l2_gamma, s.l2_weight_slot, s.l2_weight_value, size + 2)
+    _weights(name, "l3", s.l3_gamma, s.l3_weight_slot, s.l3_weight_value, s.n2)
     for section, values in (("l2.value", s.l2_value), ("l3.value", s.l3_value)):
         if values.dtype.kind == "f":
             _probabilities(name, section, values, upper=1.0)
@@ -149,14 +193,43 @@ def _check_levels(name: object, s: ModelArrays, size: int) -> None:
             _probabilities(name, section, book, upper=1.0)
 
 
+def _weights(name: object, level: str, plain: np.ndarray | None, slots: np.ndarray | None, values: np.ndarray | None, highest: int) -> None:
+    """A level's weights, stored for every context or only for some (slots increasing, up to ``highest``): finite, non-negative."""
+    if plain is not None:
+        _probabilities(name, f"{level}.gamma", plain)
+    if slots is not None and values is not None:
+        _ids(name, f"{level}.weight_slot", slots, highest)
+        _increasing(name, f"{level}.weight_slot", slots)
+        _probabilities(name, f"{level}.weight_value", values)
+
+
+def _check_tail_positions(name: object, s: ModelArrays, size: int, off3: np.ndarray) -> None:
+    """Level 3's words as positions: each inside its pair's last word's bigram list; ``START START``'s words in range."""
+    assert s.l3_tail is not None and s.l3_start_word is not None
+    n2 = s.n2
+    if int(off3[n2]) != len(s.l3_tail):
+        raise ModelFileError(f"{name}: corrupt (section l3.tail does not cover the pairs before the sentence start)")
+    _ids(name, "l3.start_word", s.l3_start_word, size + 1)
+    # Each entry against the length of its pair's last word's list (one pass; no decoding per slot).
+    limit = np.diff(s.l2_off).astype(np.int32)[unpack_ids(s.l2_word)]
+    if bool(np.any(s.l3_tail >= np.repeat(limit, np.diff(off3[: n2 + 1])))):
+        raise ModelFileError(f"{name}: corrupt (section l3.tail points past a bigram list)")
+
+
 def _check_ranked_ranges(name: object, s: ModelArrays, size: int) -> None:
     """The ranked lists: offsets span their ids, ids are words, slots name level-2 entries in increasing order."""
-    assert s.rank2_off is not None and s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
-    _offsets(name, "rank2.off", s.rank2_off, len(s.rank2_ids))
-    _offsets(name, "rank3.off", s.rank3_off, len(s.rank3_ids))
+    assert s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
+    if s.rank2_off is not None:
+        _offsets(name, "rank2.off", s.rank2_off, id_count_of(s.rank2_ids))
+    else:
+        assert s.rank2_word is not None and s.rank2_list_off is not None
+        _ids(name, "rank2.word", s.rank2_word, size + 2)
+        _increasing(name, "rank2.word", unpack_ids(s.rank2_word))
+        _offsets(name, "rank2.list_off", s.rank2_list_off, id_count_of(s.rank2_ids))
+    _offsets(name, "rank3.off", s.rank3_off, id_count_of(s.rank3_ids))
     _ids(name, "rank2.ids", s.rank2_ids, size - 1)
     _ids(name, "rank3.ids", s.rank3_ids, size - 1)
-    _ids(name, "rank3.slot", s.rank3_slot, len(s.l2_word))
+    _ids(name, "rank3.slot", s.rank3_slot, s.n2)
     _increasing(name, "rank3.slot", s.rank3_slot)
 
 
@@ -198,8 +271,16 @@ def _increasing(name: object, section: str, values: np.ndarray) -> None:
         raise ModelFileError(f"{name}: corrupt (section {section} is not strictly increasing)")
 
 
+def id_count_of(array: np.ndarray) -> int:
+    """Entries of a word-id section (three bytes each when packed)."""
+    return len(array) // 3 if is_packed(array) else len(array)
+
+
 def _ids(name: object, section: str, ids: np.ndarray, highest: int) -> None:
-    if len(ids) and (int(ids.min()) < 0 or int(ids.max()) > highest):
+    if not len(ids):
+        return
+    low, high = (0, largest_id(ids)) if is_packed(ids) else (int(ids.min()), int(ids.max()))  # packed ids are unsigned
+    if low < 0 or high > highest:
         raise ModelFileError(f"{name}: corrupt (section {section} holds ids out of range)")
 
 
@@ -214,15 +295,14 @@ def _probabilities(name: object, section: str, values: np.ndarray, upper: float 
 
 def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
     """The prefix index and string tables: ranges, listed words, UTF-8, the trie image."""
-    _strings(name, "vocab.words", s.vocab_words_blob, s.vocab_words_off)
-    _strings(name, "vocab.display", s.vocab_display_blob, s.vocab_display_off)
+    _check_strings(name, s)
     order = s.vocab_order
-    if len(order) < size:
+    if id_count_of(order) < size:
         raise ModelFileError(f"{name}: corrupt (section vocab.order is shorter than the vocabulary)")
     _ids(name, "vocab.order", order, size - 1)
     if s.vocab_display_ids is not None:
         _ids(name, "vocab.display_ids", s.vocab_display_ids, size - 1)
-        _increasing(name, "vocab.display_ids", s.vocab_display_ids)
+        _increasing(name, "vocab.display_ids", unpack_ids(s.vocab_display_ids))
     index = s.prefix_index()
     first, hi = index.first, index.hi
     if len(first) and (int(first.min()) < 0 or int(hi.max()) > size or bool(np.any(hi <= first))):
@@ -230,7 +310,7 @@ def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
     starts = index.order_start[index.listed]
     if len(starts):
         ends = starts + (hi - first)[index.listed]
-        if int(starts.min()) < 0 or int(ends.max()) > len(order):
+        if int(starts.min()) < 0 or int(ends.max()) > id_count_of(order):
             raise ModelFileError(f"{name}: corrupt (the prefix index points past the order list)")
     image = s.vocab_trie
     if len(image) < 64 or bytes(image[: len(_TRIE_MAGIC)]) != _TRIE_MAGIC:
@@ -242,6 +322,15 @@ def _check_vocabulary(name: object, s: ModelArrays, size: int) -> None:
         raise ModelFileError(f"{name}: corrupt (section vocab.trie cannot be read)") from None
     if len(trie) != len(first):
         raise ModelFileError(f"{name}: corrupt (the trie holds {len(trie):,} keys but the prefix index {len(first):,})")
+    if s.vocab_word_keys is not None and len(s.vocab_word_keys) and id_range(s.vocab_word_keys)[1] >= len(trie):
+        raise ModelFileError(f"{name}: corrupt (section vocab.word_keys names keys the trie does not hold)")
+
+
+def _check_strings(name: object, s: ModelArrays) -> None:
+    """The string tables: model forms (formats 1 to 3) and display forms."""
+    if s.vocab_words_blob is not None and s.vocab_words_off is not None:
+        _strings(name, "vocab.words", s.vocab_words_blob, s.vocab_words_off)
+    _strings(name, "vocab.display", s.vocab_display_blob, s.vocab_display_off)
 
 
 def _strings(name: object, section: str, blob: np.ndarray, offsets: np.ndarray) -> None:
@@ -274,9 +363,9 @@ def check_thoroughly(model: ModelFile, arrays: ModelArrays) -> None:
     name = model.path
     s = arrays
     size = int(model.meta["vocab_size"])
-    _sorted_within(name, "l2.word", s.l2_word, s.l2_off)
-    _sorted_within(name, "l3.word", s.l3_word, s.level3_offsets())
-    words = _unpack_all(s.vocab_words_blob, s.vocab_words_off)
+    _sorted_within(name, "l2.word", s.bigram_words(), s.l2_off)
+    _sorted_within(name, "l3.word", s.trigram_words(), s.level3_offsets())
+    words = _model_forms(s)
     if any(words[i] >= words[i + 1] for i in range(len(words) - 1)):
         raise ModelFileError(f"{name}: corrupt (the vocabulary is not sorted and unique)")
     _check_prefix_index(name, s, words)
@@ -294,6 +383,16 @@ def _sorted_within(name: object, section: str, words: np.ndarray, offsets: np.nd
     rises[starts - 1] = True  # a new context may start lower
     if not bool(rises.all()):
         raise ModelFileError(f"{name}: corrupt (section {section} is not sorted within a context)")
+
+
+def _model_forms(s: ModelArrays) -> list[str]:
+    """Every word's model form, in id order, from whichever layout stores them."""
+    if s.vocab_word_keys is None:
+        assert s.vocab_words_blob is not None and s.vocab_words_off is not None
+        return _unpack_all(s.vocab_words_blob, s.vocab_words_off)
+    trie = marisa_trie.Trie()
+    trie.map(s.vocab_trie.data)
+    return [trie.restore_key(int(key)) for key in unpack_ids(s.vocab_word_keys)]
 
 
 def _unpack_all(blob: np.ndarray, offsets: np.ndarray) -> list[str]:
@@ -330,7 +429,7 @@ def _check_prefix_index(name: object, s: ModelArrays, words: list[str]) -> None:
 
 def _check_unigram_lists(name: object, s: ModelArrays, size: int) -> None:
     """The root list and every listed prefix range: its ids, by unigram probability, ties by id."""
-    order = s.vocab_order.astype(np.int64)
+    order = unpack_ids(s.vocab_order).astype(np.int64)
     p1 = s.p1[:size].astype(np.float64)
     index = s.prefix_index()
     first = index.first[index.listed]
@@ -354,18 +453,21 @@ def _check_unigram_lists(name: object, s: ModelArrays, size: int) -> None:
 
 def _check_ranked_lists(name: object, s: ModelArrays, size: int) -> None:
     """Each ranked list holds its context's stored words (below V) exactly once."""
-    assert s.rank2_off is not None and s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
+    assert s.rank2_ids is not None and s.rank3_off is not None and s.rank3_ids is not None and s.rank3_slot is not None
     off2 = s.l2_off.astype(np.int64)
-    rank2 = s.rank2_off.astype(np.int64)
+    rank2 = s.ranked2_offsets()
+    assert rank2 is not None
+    w2, ids2 = s.bigram_words(), unpack_ids(s.rank2_ids)
     for v in np.flatnonzero(np.diff(rank2) > 0):
-        stored = s.l2_word[off2[v] : off2[v + 1]]
-        listed = s.rank2_ids[rank2[v] : rank2[v + 1]]
+        stored = w2[off2[v] : off2[v + 1]]
+        listed = ids2[rank2[v] : rank2[v + 1]]
         if not np.array_equal(np.sort(listed), stored[stored < size]):
             raise ModelFileError(f"{name}: corrupt (the ranked list of context word {v} is not its words)")
     off3 = s.level3_offsets()
     rank3 = s.rank3_off.astype(np.int64)
+    w3, ids3 = s.trigram_words(), unpack_ids(s.rank3_ids)
     for index, slot in enumerate(s.rank3_slot.astype(np.int64)):
-        stored = s.l3_word[off3[slot] : off3[slot + 1]]
-        listed = s.rank3_ids[rank3[index] : rank3[index + 1]]
+        stored = w3[off3[slot] : off3[slot + 1]]
+        listed = ids3[rank3[index] : rank3[index + 1]]
         if not np.array_equal(np.sort(listed), stored[stored < size]):
             raise ModelFileError(f"{name}: corrupt (the ranked list of context slot {slot} is not its words)")

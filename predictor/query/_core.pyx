@@ -24,7 +24,11 @@ the load checks (``integrity.check_structure``) passed: offsets start at 0,
 never decrease and end at their array's length; stored and listed word ids
 are below the vocabulary's outcome count; ranked-list slots are increasing and
 below the bigram count; level-3 offsets stored in blocks decode (wide blocks
-inside their array) to offsets with those properties.  Sortedness is not assumed for safety: a binary search
+inside their array) to offsets with those properties; word ids in three bytes
+hold a whole number of ids; a level-3 position is below the length of its
+pair's last word's bigram list (and the ``START START`` pair's words are ids in
+range); stored weights name increasing slots below their level's count, with
+finite non-negative values (a derived weight reads only the pair's own entries).  Sortedness is not assumed for safety: a binary search
 over an unsorted slice stays inside the slice.  What callers pass (context
 ids, id ranges, outcome ids) is checked on entry.
 """
@@ -45,6 +49,7 @@ cdef enum:
     K_F32 = 5
     K_F64 = 6
     K_U8 = 7
+    K_U24 = 8  # word ids in three bytes, least significant first (modelfile/packed.py)
 
 SCORE_ALL_WORDS = SCORE_ALL
 
@@ -63,8 +68,12 @@ cdef struct Arr:
 
 cdef inline int64_t iget(const Arr* a, int64_t i) noexcept nogil:
     """An integer element of an id or offset array."""
+    cdef const uint8_t* b
     if a.kind == K_U16:
         return (<const uint16_t*>a.p)[i]
+    if a.kind == K_U24:
+        b = (<const uint8_t*>a.p) + 3 * i
+        return b[0] | (<int64_t>b[1] << 8) | (<int64_t>b[2] << 16)
     if a.kind == K_U8:
         return (<const uint8_t*>a.p)[i]
     if a.kind == K_I32:
@@ -135,15 +144,16 @@ cdef class QueryCore:
         interpolated: whether stored values add to the lower order (else they replace it).
         table2, table3: float64 value of every code of the level's stored
             values (8- or 16-bit codes), or None where the level stores float32.
+        totals2: for a back-off model with derived level-3 weights, P2 summed over every outcome per context word.
 
     Raises:
         ValueError: a layout this core does not read (a value type without its table).
     """
 
     cdef Arr p1, off2, w2, a2, g2, off3, w3, a3, g3, r2off, r2ids, r3slot, r3off, r3ids, order, table2, table3
-    cdef Arr o3base, o3delta, o3wide
-    cdef bint interpolated, ranked, blocked3
-    cdef int64_t size, n2, start
+    cdef Arr o3base, o3delta, o3wide, wslot, wvalue, w3start, totals2
+    cdef bint interpolated, ranked, blocked3, derived3, tail3
+    cdef int64_t size, n2, start, start3
     cdef Ctx ctx
     cdef Best best
     cdef int64_t capacity
@@ -160,19 +170,19 @@ cdef class QueryCore:
         self.best.a3 = NULL
         self.capacity = 0
 
-    def __init__(self, arrays, bint interpolated, table2, table3):
+    def __init__(self, arrays, bint interpolated, table2, table3, totals2=None):
         keep = []
         self.interpolated = interpolated
-        self.size = len(arrays.vocab_words_off) - 1
+        self.size = arrays.vocab_size
         self.start = self.size + 2
-        self.n2 = len(arrays.l2_word)
+        self.n2 = arrays.n2
         p1 = np.ascontiguousarray(arrays.p1, dtype=np.float64)
         off2 = np.ascontiguousarray(arrays.l2_off, dtype=np.int64)
         g2 = np.ascontiguousarray(arrays.l2_gamma, dtype=np.float64)
         self._set(&self.p1, p1, keep)
         self._set(&self.off2, off2, keep)
         self._set(&self.g2, g2, keep)
-        self._set(&self.w2, arrays.l2_word, keep)
+        self._set(&self.w2, arrays.l2_word, keep, True)
         self._set(&self.a2, arrays.l2_value, keep)
         self.blocked3 = arrays.l3_off is None
         if self.blocked3:
@@ -181,10 +191,25 @@ cdef class QueryCore:
             self._set(&self.o3wide, arrays.l3_off_wide, keep)
         else:
             self._set(&self.off3, arrays.l3_off, keep)
-        self._set(&self.w3, arrays.l3_word, keep)
+        self.tail3 = arrays.l3_word is None
+        if self.tail3:
+            self._set(&self.w3, arrays.l3_tail, keep)
+            self._set(&self.w3start, arrays.l3_start_word, keep, True)
+            self.start3 = self._off3(self.n2)
+        else:
+            self._set(&self.w3, arrays.l3_word, keep, True)
         self._set(&self.a3, arrays.l3_value, keep)
-        self._set(&self.g3, arrays.l3_gamma, keep)
-        self._set(&self.order, arrays.vocab_order, keep)
+        self.derived3 = arrays.l3_gamma is None
+        if self.derived3:
+            self._set(&self.wslot, np.ascontiguousarray(arrays.l3_weight_slot, dtype=np.int64), keep)
+            self._set(&self.wvalue, arrays.l3_weight_value, keep)
+            if not interpolated:
+                if totals2 is None or len(totals2) != len(arrays.l2_off) - 1:
+                    raise ValueError("derived back-off weights need the level-2 totals of every context word")
+                self._set(&self.totals2, np.ascontiguousarray(totals2, dtype=np.float64), keep)
+        else:
+            self._set(&self.g3, arrays.l3_gamma, keep)
+        self._set(&self.order, arrays.vocab_order, keep, True)
         for level, values, table in (("l2", arrays.l2_value, table2), ("l3", arrays.l3_value, table3)):
             codes = {"uint8": 256, "uint16": 65536}.get(values.dtype.name)
             if codes is None and values.dtype.name != "float32":
@@ -193,18 +218,19 @@ cdef class QueryCore:
                 raise ValueError(f"{level} values need a table of {codes} entries")
         self._set(&self.table2, np.ascontiguousarray(table2 if table2 is not None else np.zeros(1), dtype=np.float64), keep)
         self._set(&self.table3, np.ascontiguousarray(table3 if table3 is not None else np.zeros(1), dtype=np.float64), keep)
-        self.ranked = arrays.rank2_off is not None
+        self.ranked = arrays.ranked
         if self.ranked:
-            self._set(&self.r2off, np.ascontiguousarray(arrays.rank2_off, dtype=np.int64), keep)
-            self._set(&self.r2ids, arrays.rank2_ids, keep)
+            self._set(&self.r2off, np.ascontiguousarray(arrays.ranked2_offsets(), dtype=np.int64), keep)
+            self._set(&self.r2ids, arrays.rank2_ids, keep, True)
             self._set(&self.r3slot, np.ascontiguousarray(arrays.rank3_slot, dtype=np.int64), keep)
             self._set(&self.r3off, np.ascontiguousarray(arrays.rank3_off, dtype=np.int64), keep)
-            self._set(&self.r3ids, arrays.rank3_ids, keep)
+            self._set(&self.r3ids, arrays.rank3_ids, keep, True)
         self._keep = keep
         self.ctx.u = -1
         self.ctx.v = -1
 
-    cdef _set(self, Arr* target, array, list keep):
+    cdef _set(self, Arr* target, array, list keep, bint ids=False):
+        """Point ``target`` at an array (``ids``: a word-id section, whose uint8 form holds three bytes per id)."""
         array = np.ascontiguousarray(array)
         if array.ndim != 1:
             raise ValueError("model arrays are one-dimensional")
@@ -214,6 +240,9 @@ cdef class QueryCore:
         target.p = <const char*><size_t>array.ctypes.data
         target.kind = _kind(array)
         target.n = array.shape[0]
+        if ids and target.kind == K_U8:
+            target.kind = K_U24
+            target.n = array.shape[0] // 3
 
     def __dealloc__(self):
         free(self.best.score)
@@ -255,7 +284,7 @@ cdef class QueryCore:
         if not c.has3:
             c.slot = -1
             c.lo3 = c.hi3 = 0
-        c.gamma3 = fget(&self.g3, c.slot) if c.has3 else 1.0
+        c.gamma3 = self._gamma3() if c.has3 else 1.0
         c.r2lo = c.r2hi = c.r3lo = c.r3hi = 0
         if self.ranked:
             c.r2lo = iget(&self.r2off, v)
@@ -274,6 +303,62 @@ cdef class QueryCore:
                     c.r3hi = iget(&self.r3off, lo + 1)
         c.u = u
         return 0
+
+    cdef inline int64_t _w3(self, int64_t pos) noexcept nogil:
+        """The word of trigram entry ``pos`` of the current pair: an id, or a position in the pair's last word's list."""
+        if not self.tail3:
+            return iget(&self.w3, pos)
+        if pos >= self.start3:
+            return iget(&self.w3start, pos - self.start3)
+        return iget(&self.w2, self.ctx.lo2 + iget(&self.w3, pos))
+
+    cdef inline int64_t _lb3(self, int64_t lo, int64_t hi, int64_t x) noexcept nogil:
+        """The first trigram position of the current pair in [lo, hi) whose word is not below x (hi if none)."""
+        cdef int64_t mid
+        while lo < hi:
+            mid = lo + ((hi - lo) >> 1)
+            if self._w3(mid) < x:
+                lo = mid + 1
+            else:
+                hi = mid
+        return lo
+
+    cdef double _gamma3(self) noexcept nogil:
+        """The level-3 weight of the current pair (which stores words): stored, or derived (modelfile/weights.py).
+
+        Derived: S, the pair's stored values, and for a back-off model L, their P2,
+        each summed one float64 addition at a time in stored order from 0.0, as the
+        numpy path sums them; ``max(1 - S, 0)``, over ``T - L`` for back-off (T: P2 summed over every
+        outcome after v), rounded to float32.
+        """
+        cdef const Ctx* c = &self.ctx
+        cdef int64_t lo, hi, mid, pos
+        cdef double stored = 0.0
+        cdef double lower = 0.0
+        cdef double left, free, unused
+        if not self.derived3:
+            return fget(&self.g3, c.slot)
+        lo = 0
+        hi = self.wslot.n
+        while lo < hi:
+            mid = lo + ((hi - lo) >> 1)
+            if iget(&self.wslot, mid) < c.slot:
+                lo = mid + 1
+            else:
+                hi = mid
+        if lo < self.wslot.n and iget(&self.wslot, lo) == c.slot:
+            return fget(&self.wvalue, lo)
+        for pos in range(c.lo3, c.hi3):
+            stored = stored + self._value(&self.a3, &self.table3, pos)
+            if not self.interpolated:
+                lower = lower + self._p2(self._w3(pos), c.lo2, c.hi2, &unused)
+        left = 1.0 - stored
+        if left < 0.0:
+            left = 0.0
+        if self.interpolated:
+            return <double>(<float>left)  # rounded to nearest, as numpy's float32 conversion
+        free = fget(&self.totals2, c.v) - lower
+        return <double>(<float>(left / free)) if free > 1e-12 else 0.0
 
     cdef inline int64_t _off3(self, int64_t i) noexcept nogil:
         """Level 3's offset i, stored in full or in blocks (see modelfile/blocked.py)."""
@@ -320,9 +405,9 @@ cdef class QueryCore:
         if not c.has3:
             a3[0] = 0.0
             return p2
-        pos = lower_bound(&self.w3, lo, hi, w)
+        pos = self._lb3(lo, hi, w)
         lower = c.gamma3 * p2
-        if pos < hi and iget(&self.w3, pos) == w:
+        if pos < hi and self._w3(pos) == w:
             value = self._value(&self.a3, &self.table3, pos)
             a3[0] = value
             return value + lower if self.interpolated else value
@@ -435,7 +520,7 @@ cdef class QueryCore:
         cdef int64_t pos, w
         cdef double p2, p3, a2, a3
         for pos in range(a_start, a_stop):
-            w = iget(&self.w3, pos)
+            w = self._w3(pos)
             p2 = self._p2(w, b_start, b_stop, &a2)
             p3 = self._p3(w, p2, a_start, a_stop, &a3)
             self._insert(p3, w, a2, a3, dedupe)
@@ -473,8 +558,8 @@ cdef class QueryCore:
         for pos in range(b_start, b_stop):
             w = iget(&self.w2, pos)
             if a_stop > a_start:
-                at = lower_bound(&self.w3, a_start, a_stop, w)
-                if at < a_stop and iget(&self.w3, at) == w:
+                at = self._lb3(a_start, a_stop, w)
+                if at < a_stop and self._w3(at) == w:
                     continue
             value = self._value(&self.a2, &self.table2, pos)
             lower = c.g2v * fget(&self.p1, w)
@@ -534,8 +619,8 @@ cdef class QueryCore:
                 j = low
                 continue
             if a_stop > a_start:
-                at = lower_bound(&self.w3, a_start, a_stop, w)
-                if at < a_stop and iget(&self.w3, at) == w:
+                at = self._lb3(a_start, a_stop, w)
+                if at < a_stop and self._w3(at) == w:
                     continue
             self._insert(s, w, a2, 0.0, False)
 
@@ -613,8 +698,8 @@ cdef class QueryCore:
             b_start = lower_bound(&self.w2, c.lo2, c.hi2, lo)
             b_stop = lower_bound(&self.w2, b_start, c.hi2, hi)
         if c.has3:
-            a_start = lower_bound(&self.w3, c.lo3, c.hi3, lo)
-            a_stop = lower_bound(&self.w3, a_start, c.hi3, hi)
+            a_start = self._lb3(c.lo3, c.hi3, lo)
+            a_stop = self._lb3(a_start, c.hi3, hi)
         nb = b_stop - b_start
         if nb <= SCORE_ALL:
             self._score_words(b_start, b_stop, a_start, a_stop, False)

@@ -53,8 +53,11 @@ def describe_path(path: str) -> str:
     return "the numpy path"
 
 
-def make_core(arrays: ModelArrays, interpolated: bool) -> Any:
+def make_core(arrays: ModelArrays, interpolated: bool, totals2: Any = None) -> Any:
     """A compiled core over a model's arrays (which passed the load checks or were just built).
+
+    ``totals2``: for a back-off model with derived level-3 weights, P2 summed over every outcome per context word
+    (:attr:`foretype.query.scoring.ScoringCore.totals2`).
 
     Raises:
         RuntimeError: the compiled core is not built.
@@ -62,4 +65,4 @@ def make_core(arrays: ModelArrays, interpolated: bool) -> Any:
     """
     if QueryCore is None:
         raise RuntimeError("the compiled query core is not built")
-    return QueryCore(arrays, interpolated, value_table(arrays.l2_value, arrays.l2_codebook), value_table(arrays.l3_value, arrays.l3_codebook))
+    return QueryCore(arrays, interpolated, value_table(arrays.l2_value, arrays.l2_codebook), value_table(arrays.l3_value, arrays.l3_codebook), totals2)

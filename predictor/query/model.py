@@ -143,8 +143,8 @@ class LanguageModel:
         core = ScoringCore(arrays, meta, self._size)
         self._core = core
         # The core's arrays and arithmetic, bound once: queries call them many times each.
-        self._p1, self._off2, self._w2, self._a2, self._g2 = core._p1, core._off2, core._w2, core._a2, core._g2
-        self._w3, self._a3, self._g3 = core._w3, core._a3, core._g3
+        self._p1, self._off2, self._a2, self._g2 = core._p1, core._off2, core._a2, core._g2
+        self._a3 = core._a3
         self._interpolated, self._n2, self._table = core._interpolated, core._n2, core._table
         self._slots, self._gamma3, self._scores = core.slots, core.gamma3, core.scores
         self._unstored_scores, self._stored, self._orders = core.unstored_scores, core.stored, core.orders
@@ -165,7 +165,7 @@ class LanguageModel:
             # (int64 offsets are no file dtype, hence the cast: this structure never reaches a file.)
             widened = dataclasses.replace(arrays, p1=self._p1, l2_off=cast(Any, self._off2), l2_gamma=self._g2)
             try:
-                self._compiled = make_core(widened, self._interpolated)
+                self._compiled = make_core(widened, self._interpolated, core.totals2)
             except ValueError:
                 if compiled:
                     raise
@@ -173,6 +173,18 @@ class LanguageModel:
             if self._compiled is not None:
                 tail = tuple(Suggestion._field_defaults[name] for name in Suggestion._fields[4:])
                 self._compiled.bind_suggestions(Suggestion, self.vocab.display, tail)
+
+    @property
+    def _w2(self) -> np.ndarray:
+        return self._core._w2
+
+    @property
+    def _w3(self) -> np.ndarray:
+        return self._core._w3
+
+    @property
+    def _g3(self) -> np.ndarray:
+        return self._core._g3
 
     @property
     def sections(self) -> dict[str, np.ndarray]:
@@ -206,7 +218,7 @@ class LanguageModel:
 
     def ngram_counts(self) -> dict[str, int]:
         """How many n-grams of each order the model stores."""
-        return {"1": self._size + 2, "2": self._n2, "3": len(self._w3)}
+        return {"1": self._size + 2, "2": self._n2, "3": self.arrays.n3}
 
     def info(self) -> dict[str, Any]:
         """The facts ``foretype info`` reports (see README for each key)."""
@@ -741,7 +753,7 @@ class LanguageModel:
 
         ``force`` replaces an existing file that is not a model file.
         """
-        size = write_model_file(path, self.meta, self.arrays.compact().sections(), force=force)
+        size = write_model_file(path, self.meta, self.arrays.compact(bool(self.meta["interpolated"])).sections(), force=force)
         return size
 
 

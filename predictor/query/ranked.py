@@ -14,6 +14,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..modelfile.model_arrays import ModelArrays
+from ..modelfile.packed import unpack_ids
 
 RANKED_MIN = 96
 """Contexts with more continuations than this get a ranked list."""
@@ -24,7 +25,7 @@ class RankLists:
 
     def __init__(self, arrays: ModelArrays) -> None:
         """Wrap a model's ``rank2_*`` and ``rank3_*`` arrays, if it has them."""
-        self._off2 = arrays.rank2_off
+        self._off2 = arrays.ranked2_offsets()
         self._ids2 = arrays.rank2_ids
         self._slots3 = arrays.rank3_slot
         self._off3 = arrays.rank3_off
@@ -35,7 +36,7 @@ class RankLists:
         if self._off2 is None or self._ids2 is None:
             return None
         start, stop = int(self._off2[v]), int(self._off2[v + 1])
-        return self._ids2[start:stop] if stop > start else None
+        return unpack_ids(self._ids2[3 * start : 3 * stop] if self._ids2.dtype == np.uint8 else self._ids2[start:stop]) if stop > start else None
 
     def trigram_list(self, slot: int) -> np.ndarray | None:
         """Words stored after the context pair in ``slot``, best first, or None."""
@@ -44,4 +45,5 @@ class RankLists:
         index = int(np.searchsorted(self._slots3, slot))
         if index >= len(self._slots3) or int(self._slots3[index]) != slot:
             return None
-        return self._ids3[int(self._off3[index]) : int(self._off3[index + 1])]
+        start, stop = int(self._off3[index]), int(self._off3[index + 1])
+        return unpack_ids(self._ids3[3 * start : 3 * stop] if self._ids3.dtype == np.uint8 else self._ids3[start:stop])

@@ -20,6 +20,7 @@ import numpy as np
 
 from ..modelfile.encoding import value_table
 from ..modelfile.model_arrays import ModelArrays
+from ..modelfile.weights import FREE_FLOOR, level2_totals
 
 
 class Slots(NamedTuple):
@@ -50,19 +51,48 @@ class ScoringCore:
         self._p1 = arrays.p1.astype(np.float64)
         self._off2 = arrays.l2_off.astype(np.int64)
         # Plain arrays to the arithmetic below: ids of either width, values of any encoding.
-        self._w2: np.ndarray = arrays.l2_word
+        # Word ids in three bytes are decoded on first use (the compiled core reads them in place).
+        self._w2_full: np.ndarray | None = None
+        self._w3_full: np.ndarray | None = None
         self._a2: np.ndarray = arrays.l2_value
-        self._g2 = arrays.l2_gamma.astype(np.float64)
+        self._g2 = arrays.level2_weights(bool(meta["interpolated"]))
         self._off3 = arrays.level3_offset_reader()
         self._arrays = arrays
         self._off3_full: np.ndarray | None = None
-        self._w3: np.ndarray = arrays.l3_word
         self._a3: np.ndarray = arrays.l3_value
-        self._g3 = arrays.l3_gamma
+        self._g3_full: np.ndarray | None = None
+        self._weight_slots = arrays.l3_weight_slot
+        self._weight_values = arrays.l3_weight_value
         self._interpolated = bool(meta["interpolated"])
-        self._n2 = len(self._w2)
+        self._n2 = arrays.n2
         self._table = value_table(arrays.l2_value, arrays.l2_codebook)
         self._table3 = value_table(arrays.l3_value, arrays.l3_codebook)
+        self.totals2: np.ndarray | None = None
+        """For a back-off model whose level-3 weights are derived: per context word, P2 summed over every outcome."""
+        if arrays.l3_gamma is None and not self._interpolated:
+            decoded2 = self._table[arrays.l2_value] if self._table is not None else arrays.l2_value.astype(np.float64)
+            self.totals2 = level2_totals(self._p1, self._off2, arrays.l2_word, decoded2, self._g2)
+
+    @property
+    def _w2(self) -> np.ndarray:
+        """Level 2's word ids as integers."""
+        if self._w2_full is None:
+            self._w2_full = self._arrays.bigram_words()
+        return self._w2_full
+
+    @property
+    def _w3(self) -> np.ndarray:
+        """Level 3's word ids as integers."""
+        if self._w3_full is None:
+            self._w3_full = self._arrays.trigram_words()
+        return self._w3_full
+
+    @property
+    def _g3(self) -> np.ndarray:
+        """Every pair's level-3 weight (float64; derived ones computed once, for vectorised scoring)."""
+        if self._g3_full is None:
+            self._g3_full = self._arrays.level3_weights(self._interpolated)
+        return self._g3_full
 
     def level3_offsets(self) -> np.ndarray:
         """Level 3's offsets in full (int64; expanded once, for vectorised scoring)."""
@@ -91,8 +121,50 @@ class ScoringCore:
         return Slots(v, lo2, hi2, -1, 0, 0, False)
 
     def gamma3(self, slots: Slots) -> float:
-        """The level-3 weight of a context (1.0 where the pair stores nothing)."""
-        return float(self._g3[slots.slot]) if slots.has3 else 1.0
+        """The level-3 weight of a context (1.0 where the pair stores nothing): stored, or derived.
+
+        A derived weight sums the pair's stored values (and, for a back-off
+        model, their P2) one float64 addition at a time in stored order, then
+        rounds to float32, as :func:`foretype.modelfile.weights.derived_weights`
+        and the compiled core do.
+        """
+        if not slots.has3:
+            return 1.0
+        if self._weight_slots is None:
+            return float(self._g3[slots.slot])
+        listed, values = self._weight_slots, self._weight_values
+        assert values is not None
+        at = int(listed.searchsorted(slots.slot))
+        if at < len(listed) and int(listed[at]) == slots.slot:
+            return float(values[at])
+        table3, codes, words = self._table3, self._a3, self._w3
+        stored = 0.0
+        lower = 0.0
+        for position in range(slots.lo3, slots.hi3):
+            code = codes.item(position)
+            stored += table3.item(code) if table3 is not None else float(code)
+            if not self._interpolated:
+                lower += self._p2_of(words.item(position), slots)
+        left = 1.0 - stored
+        if left < 0.0:
+            left = 0.0
+        if self._interpolated:
+            return float(np.float32(left))  # rounded as a stored weight is
+        assert self.totals2 is not None
+        free = self.totals2.item(slots.v) - lower
+        return float(np.float32(left / free)) if free > FREE_FLOOR else 0.0
+
+    def _p2_of(self, word: int, slots: Slots) -> float:
+        """P2(word | v) of a back-off model, with the float64 operations of :meth:`scores`."""
+        p = self._p1.item(word)
+        if slots.hi2 <= slots.lo2:
+            return p
+        words = self._w2
+        at = slots.lo2 + int(words[slots.lo2 : slots.hi2].searchsorted(word))
+        if at < slots.hi2 and words.item(at) == word:
+            code = self._a2.item(at)
+            return self._table.item(code) if self._table is not None else float(code)
+        return self._g2.item(slots.v) * p
 
     def scores(self, ids: np.ndarray, slots: Slots, gamma3: float, bigram_run: int = -1) -> tuple[np.ndarray, np.ndarray | None, np.ndarray | None]:
         """Probabilities of outcome ids after one context (the arithmetic every query shares).

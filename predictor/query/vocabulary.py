@@ -21,6 +21,7 @@ import numpy as np
 
 from ..arrays import offsets_dtype, pack_strings, unpack_string, word_id_dtype
 from ..modelfile.model_arrays import ModelArrays
+from ..modelfile.packed import id_at, unpack_ids
 from ..text import model_form
 from .compiled import forced_pure
 
@@ -39,8 +40,10 @@ UNKNOWN = "<unk>"
 """The symbol every out-of-vocabulary word maps to: predicted and scored, never suggested."""
 
 
-SHORT_RANGE = 12
-"""Prefixes shared by at most this many words keep no stored list; it is sorted when asked."""
+SHORT_RANGE = 255
+"""Prefixes shared by at most this many words keep no stored list; it is sorted when asked (scored whole by
+the compiled core).  255, the largest span a key's byte holds: on the benchmark corpus's full vocabulary lists
+of 13 to 255 words took 0.17 bytes per stored n-gram (files of format 3 and before list ranges of more than 12)."""
 
 NO_ORDER_LIST = -1
 """``PrefixRange.order_start`` of a range without a stored list."""
@@ -85,19 +88,27 @@ class Vocabulary:
         self._listed_keys = np.flatnonzero(arrays.vocab_key_span == 0) if arrays.vocab_key_span is not None else None
         self._listed_span = arrays.vocab_listed_span
         self._listed_order = arrays.vocab_listed_order
-        self.order = arrays.vocab_order
-        """Per prefix, the range's word ids by unigram probability (root first)."""
+        self._order = arrays.vocab_order
+        self._order_full: np.ndarray | None = None
         self._words_blob = arrays.vocab_words_blob
         self._words_off = arrays.vocab_words_off
+        self._word_keys = arrays.vocab_word_keys
         self._display_blob = arrays.vocab_display_blob
         self._display_off = arrays.vocab_display_off
-        self._display_ids = arrays.vocab_display_ids
-        self.size = len(self._words_off) - 1
+        self._display_ids = unpack_ids(arrays.vocab_display_ids) if arrays.vocab_display_ids is not None else None
+        self.size = arrays.vocab_size
         """How many suggestable words there are (V)."""
         self._word_cache: dict[int, str] = {}
         self._display_cache: dict[int, str] = {}
         self._unigram = arrays.p1
         self._root = PrefixRange(0, self.size, 0)
+
+    @property
+    def order(self) -> np.ndarray:
+        """Per prefix, the range's word ids by unigram probability (root first; decoded on first use)."""
+        if self._order_full is None:
+            self._order_full = unpack_ids(self._order)
+        return self._order_full
 
     @property
     def unknown_id(self) -> int:
@@ -121,9 +132,16 @@ class Vocabulary:
             if word_id >= self.size:
                 cached = (UNKNOWN, END, START)[word_id - self.size]
             else:
-                cached = unpack_string(self._words_blob, self._words_off, word_id)
+                cached = self._model_form(word_id)
             self._word_cache[word_id] = cached
         return cached
+
+    def _model_form(self, word_id: int) -> str:
+        """A word's model form: restored from the trie (format 4) or read from the string table."""
+        if self._word_keys is not None:
+            return str(self._trie.restore_key(id_at(self._word_keys, word_id)))
+        assert self._words_blob is not None and self._words_off is not None
+        return unpack_string(self._words_blob, self._words_off, word_id)
 
     def display(self, word_id: int) -> str:
         """Return the display form (most frequent written form) of a word id."""
@@ -153,7 +171,7 @@ class Vocabulary:
             lo = int(self._key_lo[key])
             return lo if lo >= 0 else None
         assert self._key_first is not None
-        first = int(self._key_first[key])
+        first = id_at(self._key_first, key)
         return first if self.word(first) == word else None
 
     def id_or_unknown(self, word: str) -> int:
@@ -188,7 +206,7 @@ class Vocabulary:
             return PrefixRange(lo if lo >= 0 else -lo - 1, self._key_hi.item(key), NO_ORDER_LIST if start == self._unlisted else start)
         assert self._key_first is not None and self._key_span is not None and self._listed_keys is not None
         assert self._listed_span is not None and self._listed_order is not None
-        first = self._key_first.item(key)
+        first = id_at(self._key_first, key)
         span = self._key_span.item(key)
         if span:
             return PrefixRange(first, first + span, NO_ORDER_LIST)
@@ -266,12 +284,13 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
         many words share it, 0 for a range longer than :data:`SHORT_RANGE`,
         whose span and start in ``order`` are in ``listed_span`` and
         ``listed_order``, in key order), ``order`` (the root list, then the
-        longer ranges' lists), the model forms, and the display forms of the
-        ids in ``display_ids`` (those whose display form differs).
+        longer ranges' lists), ``word_keys`` (each word's trie key: the trie
+        restores its model form), and the display forms of the ids in
+        ``display_ids`` (those whose display form differs).
     """
     size = len(words)
     walk = _compiled_prefix_ranges if _compiled_prefix_ranges is not None and not forced_pure() else _prefix_ranges
-    prefixes, lo, hi, _ = walk(words)
+    prefixes, lo, hi, is_word = walk(words)
     trie = marisa_trie.Trie(prefixes)
     keys = len(prefixes)
     # Rank of each word in the global unigram order (probability descending, id ascending).
@@ -294,7 +313,8 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
     key_first[trie_ids] = lo
     key_span[trie_ids] = np.where(listed, 0, sizes)
     by_key = np.argsort(trie_ids[listed])
-    words_blob, words_off = pack_strings(words)
+    word_keys = np.empty(size, dtype=np.uint32)
+    word_keys[lo[is_word]] = trie_ids[is_word]
     differs = [i for i, (shown, word) in enumerate(zip(display, words)) if shown != word]
     display_blob, display_off = pack_strings([display[i] for i in differs])
     return {
@@ -304,8 +324,7 @@ def vocabulary_sections(words: Sequence[str], display: Sequence[str], unigram: n
         "vocab.listed_span": sizes[listed][by_key].astype(np.uint32),
         "vocab.listed_order": starts[listed][by_key].astype(offsets_dtype(len(order))),
         "vocab.order": order,
-        "vocab.words_blob": words_blob,
-        "vocab.words_off": words_off,
+        "vocab.word_keys": word_keys,
         "vocab.display_ids": np.array(differs, dtype=id_dtype),
         "vocab.display_blob": display_blob,
         "vocab.display_off": display_off,

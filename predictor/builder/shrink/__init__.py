@@ -24,13 +24,18 @@ import numpy as np
 
 from ...errors import CapacityError, OptionError
 from ...query.model import LanguageModel
-from ...query.ranked import RANKED_MIN
 from .budget import file_bytes_of, level_bytes, search_removals
 from .entropy import perplexity_costs
 from .predictive import prediction_costs
 from .quantise import CODEBOOK8
 from .sections import VALUE_ENCODINGS, shrunk_model
 from .tables import BackoffTables, backoff_tables
+
+SHRUNK_RANKED_MIN = 1000
+"""A shrunk model keeps ranked lists only for contexts with more stored words than this (a full
+model: more than :data:`~foretype.query.ranked.RANKED_MIN`).  Lists of 97 to 1,000 words cost
+0.3 bytes per stored n-gram at the benchmark corpus's full vocabulary; without them such a class
+is scored whole, a few microseconds per query."""
 
 _RECORD_BYTES = 600
 """Room the search leaves in the header for the shrink record (a few hundred bytes of JSON)."""
@@ -86,7 +91,7 @@ def shrink(
     encoding: str | None = None,
     k: int = 5,
     counts: tuple[np.ndarray, np.ndarray] | None = None,
-    ranked_min: int = RANKED_MIN,
+    ranked_min: int = SHRUNK_RANKED_MIN,
 ) -> LanguageModel:
     """Prune a model and re-encode its values.
 
@@ -156,9 +161,9 @@ def _check_options(model: LanguageModel, encoding: str, pruning: bool, threshold
         raise OptionError(f"--max-bytes must be positive, not {max_bytes}")
 
 
-def _estimated_bytes(model: LanguageModel, tables: BackoffTables, encoding: str, ranked_min: int, meta: dict[str, Any]) -> int:
-    fixed = {name: int(a.nbytes) for name, a in model.arrays.vocabulary_sections().items()}
-    return file_bytes_of(meta, {**fixed, **level_bytes(tables, encoding, ranked_min)})
+def _vocabulary_bytes(model: LanguageModel) -> dict[str, int]:
+    """Bytes of the vocabulary sections as a saved file stores them (pruning does not change them)."""
+    return {name: int(a.nbytes) for name, a in model.arrays.compact().vocabulary_sections().items()}
 
 
 def _fit_budget(
@@ -182,6 +187,7 @@ def _fit_budget(
     rank2, rank3 = rank[: len(candidates2)], rank[len(candidates2) :]
     # The header's shrink record is written after the search: leave room for it.
     meta = {**model.meta, "shrink": {"room": "x" * _RECORD_BYTES}}
+    fixed = _vocabulary_bytes(model)
 
     def masks(removed: int) -> tuple[np.ndarray, np.ndarray]:
         two, three = keep2.copy(), keep3.copy()
@@ -190,7 +196,7 @@ def _fit_budget(
         return two, three
 
     def size_after(removed: int) -> int:
-        return _estimated_bytes(model, tables.pruned(*masks(removed)), encoding, ranked_min, meta)
+        return file_bytes_of(meta, {**fixed, **level_bytes(tables.pruned(*masks(removed)), encoding, ranked_min)})
 
     removed = search_removals(len(order), size_after, budget)
     if removed < 0:

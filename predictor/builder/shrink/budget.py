@@ -10,6 +10,8 @@ import numpy as np
 
 from ...arrays import offsets_dtype, word_id_dtype
 from ...modelfile.blocked import to_blocks
+from ...modelfile.packed import PACKED_LIMIT
+from ...modelfile.weights import DERIVED_MAX
 from .quantise import CODEBOOK8, LEVELS
 from .tables import BackoffTables
 
@@ -37,7 +39,8 @@ def file_bytes_of(meta: Mapping[str, Any], section_bytes: Mapping[str, int]) -> 
 def level_bytes(tables: BackoffTables, encoding: str, ranked_min: int) -> dict[str, int]:
     """Bytes of the sections that depend on which n-grams are stored (levels, codebooks, ranked lists)."""
     size = tables.size
-    word = word_id_dtype(size).itemsize
+    # As a saved file stores them: ids of more than 16 bits in three bytes.
+    word = word_id_dtype(size).itemsize if size + 3 <= 2**16 or size + 3 > PACKED_LIMIT else 3
     value = {"float32": 4, "log16": 2, CODEBOOK8: 1}[encoding]
     n2, n3 = tables.n2, tables.n3
     counts2 = np.diff(tables.off2)
@@ -51,12 +54,13 @@ def level_bytes(tables: BackoffTables, encoding: str, ranked_min: int) -> dict[s
         "l2.off": offsets_dtype(n2).itemsize * (size + 4),
         "l2.word": word * n2,
         "l2.value": value * n2,
-        "l2.gamma": 4 * (size + 3),
+        **_level2_weight_bytes(counts2, size),
         **_level3_offset_bytes(tables.off3),
         "l3.word": word * n3,
         "l3.value": value * n3,
-        "l3.gamma": 4 * (n2 + 1),
-        "rank2.off": offsets_dtype(listed2).itemsize * (size + 4),
+        **_level3_weight_bytes(counts3, n2),
+        "rank2.word": word * len(big2),
+        "rank2.list_off": offsets_dtype(listed2).itemsize * (len(big2) + 1),
         "rank2.ids": word * listed2,
         "rank3.slot": offsets_dtype(n2 + 1).itemsize * len(big3),
         "rank3.off": offsets_dtype(listed3).itemsize * (len(big3) + 1),
@@ -65,6 +69,25 @@ def level_bytes(tables: BackoffTables, encoding: str, ranked_min: int) -> dict[s
     if encoding == CODEBOOK8:
         out["l2.codebook"] = out["l3.codebook"] = 8 * LEVELS
     return out
+
+
+def _level2_weight_bytes(counts2: np.ndarray, size: int) -> dict[str, int]:
+    """Bytes of level 2's weights as a saved file stores them (as :func:`_level3_weight_bytes`)."""
+    listed = int(np.count_nonzero(counts2 > DERIVED_MAX))
+    if 8 * listed >= 4 * (size + 3):
+        return {"l2.gamma": 4 * (size + 3)}
+    return {"l2.weight_slot": 4 * listed, "l2.weight_value": 4 * listed}
+
+
+def _level3_weight_bytes(counts3: np.ndarray, n2: int) -> dict[str, int]:
+    """Bytes of level 3's weights as a saved file stores them: a slot and a float32 for each pair
+    with more than :data:`~foretype.modelfile.weights.DERIVED_MAX` entries (the others are derived;
+    the few whose derived weight would not do are left out of the estimate), or every weight when
+    that is smaller."""
+    listed = int(np.count_nonzero(counts3 > DERIVED_MAX))
+    if 8 * listed >= 4 * (n2 + 1):
+        return {"l3.gamma": 4 * (n2 + 1)}
+    return {"l3.weight_slot": 4 * listed, "l3.weight_value": 4 * listed}
 
 
 def _level3_offset_bytes(offsets: np.ndarray) -> dict[str, int]:
