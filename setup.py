@@ -22,7 +22,8 @@ def extensions():
     trigrams = Extension("foretype.counting._trigrams", ["predictor/counting/_trigrams.pyx"], extra_compile_args=flags, optional=True)
     estimate = Extension("foretype.estimate._estimate", ["predictor/estimate/_estimate.pyx"], extra_compile_args=flags, optional=True)
     prefixes = Extension("foretype.query._prefixes", ["predictor/query/_prefixes.pyx"], extra_compile_args=flags, optional=True)
-    return cythonize([core, merge, tokenise, trigrams, estimate, prefixes], quiet=True, compiler_directives={"language_level": "3"})
+    checks = Extension("foretype.modelfile._checks", ["predictor/modelfile/_checks.pyx"], extra_compile_args=flags, optional=True)
+    return cythonize([core, merge, tokenise, trigrams, estimate, prefixes, checks], quiet=True, compiler_directives={"language_level": "3"})
 
 
 setup(ext_modules=extensions())

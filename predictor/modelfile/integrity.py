@@ -31,6 +31,7 @@ from typing import Any
 import marisa_trie
 import numpy as np
 
+from ..counting.compiled import pure_requested
 from ..errors import ModelFileError
 from .blocked import wide_indices_fit
 from .format import ModelFile
@@ -57,6 +58,11 @@ from .model_arrays import (
     ModelArrays,
 )
 from .packed import PACKED_LIMIT, id_range, is_packed, largest_id, unpack_ids
+
+try:
+    from ._checks import tails_fit
+except ImportError:  # not built: no compiler at install time
+    tails_fit = None
 
 _VALUE_TYPES = {"log16": {"uint16"}, "float32": {"float32"}, "codebook8": {"uint8"}}
 _TRIE_MAGIC = b"We love Marisa."
@@ -210,10 +216,24 @@ def _check_tail_positions(name: object, s: ModelArrays, size: int, off3: np.ndar
     if int(off3[n2]) != len(s.l3_tail):
         raise ModelFileError(f"{name}: corrupt (section l3.tail does not cover the pairs before the sentence start)")
     _ids(name, "l3.start_word", s.l3_start_word, size + 1)
-    # Each entry against the length of its pair's last word's list (one pass; no decoding per slot).
-    limit = np.diff(s.l2_off).astype(np.int32)[unpack_ids(s.l2_word)]
-    if bool(np.any(s.l3_tail >= np.repeat(limit, np.diff(off3[: n2 + 1])))):
+    if not tails_inside(s, off3):
         raise ModelFileError(f"{name}: corrupt (section l3.tail points past a bigram list)")
+
+
+def tails_inside(s: ModelArrays, off3: np.ndarray) -> bool:
+    """Whether each level-3 position lies inside its pair's last word's bigram list (``off3`` already checked).
+
+    One compiled pass where the extension is built (a third of a large model's load
+    time otherwise); the numpy check below is the fallback and the reference.
+    """
+    assert s.l3_tail is not None
+    n2 = s.n2
+    if tails_fit is not None and not pure_requested() and is_packed(s.l2_word) and s.l3_tail.dtype == np.uint16:
+        lengths = np.diff(s.l2_off).astype(np.int64)
+        return bool(tails_fit(s.l2_word, lengths, np.ascontiguousarray(off3, dtype=np.int64), s.l3_tail, n2))
+    # Each entry against the length of its pair's last word's list (l2.word's ids were checked in range).
+    limit = np.diff(s.l2_off).astype(np.int32)[unpack_ids(s.l2_word)]
+    return not bool(np.any(s.l3_tail >= np.repeat(limit, np.diff(off3[: n2 + 1]))))
 
 
 def _check_ranked_ranges(name: object, s: ModelArrays, size: int) -> None:

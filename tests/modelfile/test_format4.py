@@ -11,6 +11,7 @@ bound the project's property tests use (common practice for float64 sums).
 
 from __future__ import annotations
 
+import dataclasses
 import itertools
 import struct
 
@@ -170,3 +171,34 @@ def test_derived_weights_are_the_same_bits_vectorised_and_one_pair_at_a_time(tmp
     # Saved and loaded: the same probabilities as the model in memory.
     for context in PROBES:
         assert np.array_equal(loaded.distribution(context), model.distribution(context)), context
+
+
+def test_the_compiled_tail_check_accepts_and_refuses_what_the_numpy_check_does(wide, monkeypatch):
+    # The numpy check is the reference (integrity.tails_inside); damage is injected at random positions.
+    from foretype.modelfile import integrity
+    from foretype.modelfile.format import read_model_file
+
+    if integrity.tails_fit is None:
+        pytest.skip("the compiled checks are not built")
+    arrays = integrity.check_structure(read_model_file(wide[1]))
+    assert arrays.l3_tail is not None
+    off3 = arrays.level3_offsets()
+    rng = np.random.default_rng(0)
+    lengths = np.diff(arrays.l2_off).astype(np.int64)
+    cases = [arrays.l3_tail]
+    for position in rng.integers(0, int(off3[arrays.n2]), size=12):
+        pair = int(np.searchsorted(off3, position, side="right") - 1)
+        word = int(unpack_ids(arrays.l2_word)[pair])
+        for value in (int(lengths[word]) - 1, int(lengths[word])):  # the last place inside, the first outside
+            damaged = arrays.l3_tail.copy()
+            damaged[position] = value
+            cases.append(damaged)
+    verdicts = []
+    for tails in cases:
+        case = dataclasses.replace(arrays, l3_tail=tails)
+        monkeypatch.delenv("FORETYPE_PURE", raising=False)
+        compiled = integrity.tails_inside(case, off3)
+        monkeypatch.setenv("FORETYPE_PURE", "1")
+        verdicts.append((compiled, integrity.tails_inside(case, off3)))
+    assert all(compiled == reference for compiled, reference in verdicts)
+    assert verdicts[0] == (True, True) and sum(not ok for ok, _ in verdicts) == 12
