@@ -33,3 +33,14 @@ def tails_fit(const uint8_t[::1] packed_words, const int64_t[::1] lengths, const
             if tails[j] >= limit:
                 return False
     return True
+
+
+def packed_largest(const uint8_t[::1] packed_ids):
+    """The largest id of a section of three-byte ids, least significant byte first (0 when empty)."""
+    cdef Py_ssize_t i, count = packed_ids.shape[0] // 3
+    cdef int64_t best = 0, value
+    for i in range(count):
+        value = packed_ids[3 * i] | (packed_ids[3 * i + 1] << 8) | (packed_ids[3 * i + 2] << 16)
+        if value > best:
+            best = value
+    return best

@@ -67,12 +67,11 @@ def to_blocks(offsets: np.ndarray, limit: int = STEP_LIMIT) -> tuple[NDArray[np.
 
 def from_blocks(base: np.ndarray, delta: np.ndarray, wide: np.ndarray) -> NDArray[np.int64]:
     """The offsets a block layout holds, as int64 (the load checks guarantee every wide index is inside ``wide``)."""
-    entries = np.arange(len(delta), dtype=np.int64)
-    bases = base.astype(np.int64)[entries >> SHIFT]
-    flagged = bases >= WIDE
+    bases = np.repeat(base.astype(np.int64), BLOCK)[: len(delta)]
     out = bases + delta
-    if bool(flagged.any()):
-        out[flagged] = wide.astype(np.int64)[bases[flagged] - WIDE + (entries[flagged] & (BLOCK - 1))]
+    flagged = np.flatnonzero(bases >= WIDE)
+    if len(flagged):
+        out[flagged] = wide.astype(np.int64)[bases[flagged] - WIDE + (flagged & (BLOCK - 1))]
     return out
 
 

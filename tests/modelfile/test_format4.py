@@ -25,7 +25,7 @@ import foretype
 from foretype.arrays import pack_strings
 from foretype.builder.shrink import shrink
 from foretype.modelfile.format import write_model_file
-from foretype.modelfile.packed import id_at, id_range, pack_ids, unpack_ids
+from foretype.modelfile.packed import id_at, id_range, largest_by_high_bytes, pack_ids, unpack_ids
 from foretype.modelfile.weights import derived_weights
 from foretype.query.model import LanguageModel
 from foretype.query.scoring import ScoringCore, Slots
@@ -136,6 +136,7 @@ def test_three_byte_ids_are_little_endian_and_round_trip(ids):
     assert [id_at(packed, i) for i in range(len(ids))] == ids
     if ids:
         assert id_range(packed) == (min(ids), max(ids))
+        assert largest_by_high_bytes(packed) == max(ids)  # the numpy reference of the compiled pass
 
 
 @pytest.mark.parametrize("method, encoding", [("kneser-ney", None), ("katz", None), ("kneser-ney", "codebook8"), ("linear", "float32")])
