@@ -47,28 +47,31 @@ def _pool_of(view: Suggestable, compiled: tuple[Any, Any], total1: float) -> Any
     """The snapshot's compiled pool (made once per snapshot and kept in its memo)."""
     found = view.memo.get("pool")
     if found is None:
-        user = view.user
-        core, lock = compiled
         values = view.unigram_share(total1) if total1 > 0 else np.zeros(len(view.pool_keys), dtype=np.float64)
-        found = view.memo["pool"] = Pool(
-            core,
-            lock,
-            view.pool_keys,
-            view.pool_ids,
-            values,
-            view.learned_key_array,
-            view.blocked,
-            bool(user.settings.learning),
-            user.end_id,
-            user.base_size,
-            user.first_learned_id,
-            user.display,
-            Suggestion,
-            view.shared.setdefault("base_forms", {}),
-            user.shown_forms(),
-            view.pool_where,
-        )
+        found = view.memo["pool"] = _new_pool(view, compiled, view.pool_keys, view.pool_ids, values, view.pool_where)
     return found
+
+
+def _new_pool(view: Suggestable, compiled: tuple[Any, Any], keys: Any, ids: Any, values: Any, *where: Any) -> Any:
+    """A compiled pool of candidate words (sort keys, ids, user values) with the snapshot's shared parts."""
+    user = view.user
+    return Pool(
+        *compiled,
+        keys,
+        ids,
+        values,
+        view.learned_key_array,
+        view.blocked,
+        bool(user.settings.learning),
+        user.end_id,
+        user.base_size,
+        user.first_learned_id,
+        user.display,
+        Suggestion,
+        view.shared.setdefault("base_forms", {}),
+        user.shown_forms(),
+        *where,
+    )
 
 
 def merge_for(base: LanguageModel, view: Suggestable, u: int, v: int) -> Any:
@@ -105,22 +108,7 @@ def merge_for(base: LanguageModel, view: Suggestable, u: int, v: int) -> Any:
         # A suggestable follower the pool lacks (a hand-edited file can hold one): the Python
         # preparation merges it in, and the merge reads its P_user as they are (1.0 * (1.0 * p) is p).
         prepared = prepare(view, u, v)
-        own = Pool(
-            *compiled,
-            prepared.keys,
-            prepared.ids,
-            prepared.p_user,
-            view.learned_key_array,
-            view.blocked,
-            bool(user.settings.learning),
-            user.end_id,
-            user.base_size,
-            user.first_learned_id,
-            user.display,
-            Suggestion,
-            view.shared.setdefault("base_forms", {}),
-            user.shown_forms(),
-        )
+        own = _new_pool(view, compiled, prepared.keys, prepared.ids, prepared.p_user)
         merge = context_merge(own, u, v, ub, vb, mu, 1.0, 1.0, None, None, uctx, user.order_of, user.unigram_weight_array())
     return merge
 

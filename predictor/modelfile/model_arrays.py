@@ -417,15 +417,10 @@ class ModelArrays:
         table2 = value_table(self.l2_value, self.l2_codebook)
         a2 = table2[self.l2_value] if table2 is not None else self.l2_value.astype(np.float64)
         derived = derived_weights2(candidates, interpolated=interpolated, p1=self.p1.astype(np.float64), off2=off2, w2=self.bigram_words(), a2=a2)[0]
-        listed_mask = lengths > 0
-        listed_mask[candidates[derived == weights[candidates]]] = False
-        listed = np.flatnonzero(listed_mask)
-        values = weights[listed]
-        narrow = values.astype(np.float32)
-        stored: np.ndarray = narrow if np.array_equal(narrow.astype(np.float64), values) else values
-        if len(listed) * (4 + stored.itemsize) >= self.l2_gamma.nbytes:
+        kept = _weights_to_store(weights, lengths, candidates, derived, self.l2_gamma.nbytes)
+        if kept is None:
             return self
-        return dataclasses.replace(self, l2_gamma=None, l2_weight_slot=listed.astype(np.uint32), l2_weight_value=stored)
+        return dataclasses.replace(self, l2_gamma=None, l2_weight_slot=kept[0], l2_weight_value=kept[1])
 
     def _sparse_weights(self, interpolated: bool) -> ModelArrays:
         """Level-3 weights stored only where the derived weight differs or is slow to derive (when that is smaller)."""
@@ -435,15 +430,10 @@ class ModelArrays:
         lengths = np.diff(levels["off3"])
         candidates = np.flatnonzero((lengths > 0) & (lengths <= DERIVED_MAX))
         derived = derived_weights(candidates, interpolated=interpolated, **levels)[0]
-        listed_mask = lengths > 0
-        listed_mask[candidates[derived == weights[candidates]]] = False
-        listed = np.flatnonzero(listed_mask)
-        values = weights[listed]
-        narrow = values.astype(np.float32)
-        stored: np.ndarray = narrow if np.array_equal(narrow.astype(np.float64), values) else values
-        if len(listed) * (4 + stored.itemsize) >= self.l3_gamma.nbytes:
+        kept = _weights_to_store(weights, lengths, candidates, derived, self.l3_gamma.nbytes)
+        if kept is None:
             return self
-        return dataclasses.replace(self, l3_gamma=None, l3_weight_slot=listed.astype(np.uint32), l3_weight_value=stored)
+        return dataclasses.replace(self, l3_gamma=None, l3_weight_slot=kept[0], l3_weight_value=kept[1])
 
     @property
     def ranked(self) -> bool:
@@ -554,3 +544,17 @@ def _specs() -> tuple[SectionSpec, ...]:
 
 SPECS = _specs()
 """One entry per field of :class:`ModelArrays`, in declaration order."""
+
+
+def _weights_to_store(weights: np.ndarray, lengths: np.ndarray, candidates: np.ndarray, derived: np.ndarray, plain_bytes: int) -> tuple[np.ndarray, np.ndarray] | None:
+    """(slots, values) of the weights a file must store: every listed context whose weight is not derived
+    exactly (or not derived at all); None when storing them would not be smaller than ``plain_bytes``."""
+    listed_mask = lengths > 0
+    listed_mask[candidates[derived == weights[candidates]]] = False
+    listed = np.flatnonzero(listed_mask)
+    values = weights[listed]
+    narrow = values.astype(np.float32)
+    stored: np.ndarray = narrow if np.array_equal(narrow.astype(np.float64), values) else values
+    if len(listed) * (4 + stored.itemsize) >= plain_bytes:
+        return None
+    return listed.astype(np.uint32), stored

@@ -76,15 +76,7 @@ def largest_id(ids: np.ndarray) -> int:
 
 def largest_by_high_bytes(ids: np.ndarray) -> int:
     """:func:`largest_id` in numpy, the reference of the compiled pass: high bytes first, most ids never decoded."""
-    count = len(ids) // 3
-    candidates = np.arange(count, dtype=np.int64)
-    value = 0
-    for shift, byte in ((16, 2), (8, 1), (0, 0)):
-        column = ids[3 * candidates + byte] if len(candidates) < count else ids[byte : 3 * count : 3]
-        top = int(column.max())
-        value |= top << shift
-        candidates = candidates[column == top]
-    return value
+    return _extreme_by_high_bytes(ids, largest=True)
 
 
 def id_range(ids: np.ndarray) -> tuple[int, int]:
@@ -96,12 +88,17 @@ def id_range(ids: np.ndarray) -> tuple[int, int]:
 
 def _smallest(ids: np.ndarray) -> int:
     """The smallest id of a non-empty packed section, reading the high bytes first."""
+    return _extreme_by_high_bytes(ids, largest=False)
+
+
+def _extreme_by_high_bytes(ids: np.ndarray, *, largest: bool) -> int:
+    """The largest or smallest id of a non-empty packed section: the extreme high byte, then among those ids the next byte."""
     count = len(ids) // 3
     candidates = np.arange(count, dtype=np.int64)
     value = 0
     for shift, byte in ((16, 2), (8, 1), (0, 0)):
         column = ids[3 * candidates + byte] if len(candidates) < count else ids[byte : 3 * count : 3]
-        low = int(column.min())
-        value |= low << shift
-        candidates = candidates[column == low]
+        best = int(column.max() if largest else column.min())
+        value |= best << shift
+        candidates = candidates[column == best]
     return value

@@ -306,6 +306,17 @@ def test_fuzzed_model_files_either_load_identically_or_raise_the_engines_error(o
     assert answers(model) == expected
 
 
+def crafted_bytes(data: st.DataObject, source: bytes, names: list[str]) -> bytes:
+    """``source`` with one to four bytes of one drawn section changed and its checksum recomputed."""
+    name = data.draw(st.sampled_from(names))
+    entry = section(source, name)
+    crafted = source
+    for _ in range(data.draw(st.integers(1, 4))):
+        offset = data.draw(st.integers(0, entry["nbytes"] - 1))
+        crafted = with_section_bytes(crafted, name, offset, bytes([data.draw(st.integers(0, 255))]))
+    return crafted
+
+
 @settings(max_examples=250, deadline=None, suppress_health_check=[HealthCheck.too_slow, HealthCheck.function_scoped_fixture])
 @given(data=st.data())
 def test_crafted_sections_with_valid_checksums_never_crash_a_query(original, tmp_path, data):
@@ -314,12 +325,7 @@ def test_crafted_sections_with_valid_checksums_never_crash_a_query(original, tmp
     # is left out: the marisa library maps it as is (see docs/guarantees.md).
     source = original[0]
     names = [e["name"] for e in header_of(source)["sections"] if e["nbytes"] and e["name"] != "vocab.trie"]
-    name = data.draw(st.sampled_from(names))
-    entry = section(source, name)
-    crafted = source
-    for _ in range(data.draw(st.integers(1, 4))):
-        offset = data.draw(st.integers(0, entry["nbytes"] - 1))
-        crafted = with_section_bytes(crafted, name, offset, bytes([data.draw(st.integers(0, 255))]))
+    crafted = crafted_bytes(data, source, names)
     # The clock is read after every draw, so a replayed example draws the same data (hypothesis requires it).
     if time.monotonic() - FUZZ_START[0] > FUZZ_SECONDS:
         return
@@ -380,12 +386,7 @@ def test_crafted_sections_of_the_format_4_layout_never_crash_a_query(wide_origin
     source = wide_original[0]
     names = [e["name"] for e in header_of(source)["sections"] if e["nbytes"] and e["name"] in FORMAT4_SECTIONS]
     assert {"l3.tail", "l3.weight_slot", "vocab.word_keys"} <= set(names)
-    name = data.draw(st.sampled_from(names))
-    entry = section(source, name)
-    crafted = source
-    for _ in range(data.draw(st.integers(1, 4))):
-        offset = data.draw(st.integers(0, entry["nbytes"] - 1))
-        crafted = with_section_bytes(crafted, name, offset, bytes([data.draw(st.integers(0, 255))]))
+    crafted = crafted_bytes(data, source, names)
     if time.monotonic() - FUZZ_START[0] > FUZZ_SECONDS:
         return
     try:
